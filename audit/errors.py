@@ -1,0 +1,71 @@
+"""Input errors that name the file, line, column and key path.
+
+One base class that is also a ``ValueError``; readers collect every error of a file and
+raise them together so the reviewer fixes a file in one pass.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+
+@dataclass(frozen=True)
+class Location:
+    """Where a value came from: file, 1-based line and column, and the key path."""
+
+    file: str
+    line: int = 0
+    column: int = 0
+    key: str = ""
+
+    def __str__(self) -> str:
+        where = self.file
+        if self.line:
+            where += f":{self.line}:{self.column}"
+        return f"{where}: {self.key}" if self.key else where
+
+
+class InputError(ValueError):
+    """A problem with something the reviewer supplied; the CLI exits with status 2."""
+
+    def __init__(self, message: str, location: Location | None = None) -> None:
+        self.message = message
+        self.location = location
+        super().__init__(self.one_line())
+
+    def one_line(self) -> str:
+        text = " ".join(self.message.split())
+        if len(text) > 300:
+            text = text[:297] + "..."
+        return f"{self.location}: {text}" if self.location else text
+
+
+class InputErrors(InputError):
+    """Several input errors found in one pass."""
+
+    def __init__(self, errors: list[InputError]) -> None:
+        self.errors = list(errors)
+        super().__init__(self.errors[0].message, self.errors[0].location)
+
+    def lines(self) -> list[str]:
+        return [e.one_line() for e in self.errors]
+
+
+class ErrorCollector:
+    """Collects input errors so that all of a file's errors are reported in one run."""
+
+    def __init__(self) -> None:
+        self.errors: list[InputError] = []
+
+    def add(self, message: str, location: Location | None) -> None:
+        self.errors.append(InputError(message, location))
+
+    def extend(self, error: InputError) -> None:
+        if isinstance(error, InputErrors):
+            self.errors.extend(error.errors)
+        else:
+            self.errors.append(error)
+
+    def raise_if_any(self) -> None:
+        if self.errors:
+            raise InputErrors(self.errors)

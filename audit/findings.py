@@ -1,0 +1,85 @@
+"""The finding model: each kind of finding is one registered rule with a code, a severity
+and fixed documentation; a finding is a frozen record that points at a check, a bearing
+or a claim. Stages collect findings; writers render them; the exit status is derived.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+SEVERITIES = ("critical", "major", "minor", "info")
+
+
+@dataclass(frozen=True)
+class FindingKind:
+    code: str
+    name: str
+    severity: str
+    what: str  # what it checks
+    why: str  # why it matters
+
+
+KINDS: dict[str, FindingKind] = {
+    k.name: k
+    for k in (
+        FindingKind(
+            "BA-F1", "failing", "critical",
+            "the recomputed factored load exceeds the recomputed resistance",
+            "the contact may crush; worst where the calc calls it adequate",
+        ),
+        FindingKind(
+            "BA-M1", "missing", "major",
+            "a check the design requires is not in the calc",
+            "an unchecked contact may crush: the reverse-direction check and the near-support check are the "
+            "ones most often left out",
+        ),
+        FindingKind(
+            "BA-L1", "mis-loaded", "major",
+            "the claimed factored load differs from the recomputed one beyond tolerance",
+            "a check made with the wrong load proves nothing about the real one",
+        ),
+        FindingKind(
+            "BA-R1", "resistance-differs", "major",
+            "the claimed resistance differs from the recomputed one beyond tolerance",
+            "a resistance taken too high overstates the capacity of the contact",
+        ),
+        FindingKind(
+            "BA-U1", "unmatched-claim", "minor",
+            "a claim in the calc matches no required check",
+            "the claim may name a location the model lacks, or a check made at the wrong place",
+        ),
+        FindingKind(
+            "BA-C1", "confirmed", "info",
+            "the claim matches the recomputed check within tolerance",
+            "the check stands as claimed",
+        ),
+        FindingKind(
+            "BA-Z1", "uplift", "major",
+            "a factored combination gives an upward force through a bearing",
+            "a bearing cannot resist uplift: a tie-down is needed and the load path must be confirmed",
+        ),
+    )
+}
+
+
+@dataclass(frozen=True)
+class Finding:
+    kind: str  # a key of KINDS
+    severity: str
+    message: str
+    check_id: str = ""
+    bearing: str = ""
+    member: str = ""
+    claim_id: str = ""
+    page: str = ""  # where in the calc, when a claim is involved
+    clause: str = ""
+    hint: str = ""
+    numbers: dict[str, float] = field(default_factory=dict, compare=False)
+
+    @property
+    def code(self) -> str:
+        return KINDS[self.kind].code
+
+
+def severity_rank(severity: str) -> int:
+    return SEVERITIES.index(severity)

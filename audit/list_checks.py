@@ -1,0 +1,224 @@
+"""Stage 3: list every bearing check the design requires.
+
+At each bearing, every timber member loaded on its side grain gets a local check (both
+directions: the member below and the member above). At each support of a horizontal timber
+member, loads on the opposite (top) face whose centres lie within the member depth d of the
+support centre call for a near-support check loaded with only those loads. Members in a
+bearing that get no check here are listed with the reason.
+"""
+
+from __future__ import annotations
+
+import math
+from bisect import bisect_left, bisect_right
+from collections import defaultdict
+from dataclasses import dataclass, field
+
+from audit.errors import InputError
+from audit.model import Bearing, Member, Model
+from audit.rulepack import ResistancePack
+from audit.take_down import AppliedForce, Forces, TakeDown
+
+LOCAL = "local"
+NEAR = "near-support"
+
+
+@dataclass(frozen=True)
+class Contact:
+    """One face's bearing on a member: length along the grain, width across it."""
+
+    source: str  # bearing id or load id
+    length: float  # m
+    width: float  # m
+    end_distance: float  # m, from the member end to the near edge of the bearing
+    centre: float | None  # m along the member
+    length_note: str
+    width_note: str
+
+
+@dataclass(frozen=True)
+class RequiredCheck:
+    id: str
+    kind: str  # local | near-support
+    member: str
+    bearing: str
+    face: str  # which face of the member the checked contact is on: top | bottom
+    contact: Contact  # local: the contact; near-support: the support contact
+    opposite: tuple[Contact, ...]  # near-support: the loads within d on the opposite face
+    forces: Forces  # the force the check carries, per load case
+    angle: float | None  # rad between load and grain, None for perpendicular
+    other_member: str
+    why: str  # why the check is required
+
+
+@dataclass(frozen=True)
+class Exempt:
+    """A member in a bearing that gets no bearing check under this clause."""
+
+    bearing: str
+    member: str
+    reason: str
+
+
+@dataclass(frozen=True)
+class CheckList:
+    checks: tuple[RequiredCheck, ...]
+    exempt: tuple[Exempt, ...]
+    notes: tuple[str, ...] = field(default=())
+
+
+def contact_on(member: Member, other: Member, bearing: Bearing) -> Contact:
+    """The contact geometry on ``member`` at ``bearing`` (square-crossing defaults)."""
+    side = bearing.side_of(member.id)
+    if side.length is not None:
+        length, length_note = side.length, "stated in the model"
+    elif other.vertical:
+        length, length_note = other.d, f"depth d of post {other.id}"
+    else:
+        length, length_note = other.b, f"width of {other.id} (square crossing)"
+    if bearing.width is not None:
+        width, width_note = bearing.width, "stated contact width (plate or seat)"
+    elif not other.vertical:
+        width, width_note = member.b, f"full width of {member.id} (square crossing)"
+    else:
+        width = min(member.b, other.b)
+        width_note = "lesser of the two members' widths"
+    centre = side.at if side.at is not None else 0.0
+    start, end = centre - 0.5 * length, centre + 0.5 * length
+    if start < 0.0 or end > member.length:
+        start, end = max(start, 0.0), min(end, member.length)
+        length = end - start
+        length_note += ", cut at the member end"
+    end_distance = min(start, member.length - end)
+    return Contact(bearing.id, length, width, end_distance, side.at, length_note, width_note)
+
+
+def list_checks(model: Model, flow: TakeDown, pack: ResistancePack) -> CheckList:
+    checks: list[RequiredCheck] = []
+    exempt: list[Exempt] = []
+    for bearing in model.bearings:
+        upper = model.members[bearing.upper.member]
+        lower = model.members[bearing.lower.member]
+        forces = flow.bearing_forces.get(bearing.id, {})
+        for member, other, face in ((lower, upper, "top"), (upper, lower, "bottom")):
+            reason = _no_check_reason(model, member, pack)
+            if reason:
+                exempt.append(Exempt(bearing.id, member.id, reason))
+                continue
+            checks.append(
+                RequiredCheck(
+                    id=f"{bearing.id}:{member.id}",
+                    kind=LOCAL,
+                    member=member.id,
+                    bearing=bearing.id,
+                    face=face,
+                    contact=contact_on(member, other, bearing),
+                    opposite=(),
+                    forces=dict(forces),
+                    angle=bearing.side_of(member.id).angle,
+                    other_member=other.id,
+                    why=_local_why(member, other, face),
+                )
+            )
+    checks.extend(_near_support_checks(model, flow, pack))
+    return CheckList(tuple(checks), tuple(exempt))
+
+
+def _no_check_reason(model: Model, member: Member, pack: ResistancePack) -> str:
+    material = model.materials[member.material]
+    if not pack.is_timber(material.family):
+        return f"{material.family.replace('_', ' ')}: checked under its own standard"
+    if member.vertical:
+        return "loaded on end grain (compression parallel to grain is another clause)"
+    return ""
+
+
+def _local_why(member: Member, other: Member, face: str) -> str:
+    if face == "top":
+        return f"{other.id} bears on the side grain of {member.id}: the supporting member is crushed"
+    return (
+        f"{member.id} bears on {other.id}: the reverse-direction check, the member above crushed "
+        "on its own side grain"
+    )
+
+
+def _near_support_checks(model: Model, flow: TakeDown, pack: ResistancePack) -> list[RequiredCheck]:
+    supports_of: dict[str, list[Bearing]] = defaultdict(list)
+    for bearing in model.bearings:
+        supports_of[bearing.upper.member].append(bearing)
+    loads_by_id = {load.id: load for load in model.loads}
+    bearings_by_id = {b.id: b for b in model.bearings}
+    reach = pack.near_reach.value
+    out: list[RequiredCheck] = []
+    for member_id in sorted(supports_of):
+        member = model.members[member_id]
+        if member.vertical or _no_check_reason(model, member, pack):
+            continue
+        top = sorted(
+            (a for a in flow.on_top.get(member_id, ()) if a.kind == "point" and a.at is not None),
+            key=lambda a: a.at,
+        )
+        if not top:
+            continue
+        positions = [a.at for a in top]
+        limit = reach * member.d
+        for support in supports_of[member_id]:
+            x = support.upper.at
+            near = top[bisect_left(positions, x - limit - 1e-9) : bisect_right(positions, x + limit + 1e-9)]
+            if not near:
+                continue
+            lower = model.members[support.lower.member]
+            support_contact = contact_on(member, lower, support)
+            opposite = tuple(_top_contact(model, member, a, bearings_by_id, loads_by_id) for a in near)
+            forces: Forces = defaultdict(float)
+            for item in near:
+                for case, value in item.forces.items():
+                    forces[case] += value
+            names = ", ".join(a.source for a in near)
+            out.append(
+                RequiredCheck(
+                    id=f"{support.id}:{member_id}:near",
+                    kind=NEAR,
+                    member=member_id,
+                    bearing=support.id,
+                    face="bottom",
+                    contact=support_contact,
+                    opposite=opposite,
+                    forces=dict(forces),
+                    angle=None,
+                    other_member=lower.id,
+                    why=(
+                        f"{names} on the top of {member_id} within d = {member.d * 1000:.0f} mm of the "
+                        f"support on {lower.id}: the load squeezes through the depth"
+                    ),
+                )
+            )
+    return out
+
+
+def _top_contact(model: Model, member: Member, item: AppliedForce, bearings_by_id, loads_by_id) -> Contact:
+    if item.from_bearing:
+        bearing = bearings_by_id[item.source]
+        return contact_on(member, model.members[bearing.upper.member], bearing)
+    load = loads_by_id[item.source]
+    if load.length is None:
+        raise InputError(
+            f"point load '{load.id}' lies within d of a support of '{member.id}': give its bearing 'length' "
+            "so the near-support check can be made",
+            load.loc,
+        )
+    width = load.width if load.width is not None else member.b
+    start = max(load.at - 0.5 * load.length, 0.0)
+    end = min(load.at + 0.5 * load.length, member.length)
+    return Contact(
+        load.id, end - start, width, min(start, member.length - end), load.at,
+        "stated in the model", "stated in the model" if load.width is not None else f"full width of {member.id}",
+    )
+
+
+def near_support_geometry(check: RequiredCheck) -> tuple[float, float, float]:
+    """(L1, L2, b) for a near-support check: the shorter and longer face lengths, least width."""
+    support_length = check.contact.length
+    top_length = math.fsum(c.length for c in check.opposite)
+    width = min([check.contact.width, *(c.width for c in check.opposite)])
+    return min(support_length, top_length), max(support_length, top_length), width

@@ -1,0 +1,123 @@
+"""The review model: frozen records in plain SI floats (m, N, N/m, Pa, rad).
+
+Built by ``read_model`` from the reviewer's YAML; every later stage reads these and nothing
+else. Each record keeps the location it came from so later findings can point back at it.
+"""
+
+from __future__ import annotations
+
+import datetime as dt
+from dataclasses import dataclass, field
+
+from audit.errors import Location
+
+SPECIFIED_CASES = ("D", "L", "S", "W", "E")
+FACTORED_PREFIX = "factored:"
+
+
+@dataclass(frozen=True)
+class Material:
+    id: str
+    family: str
+    species: str = ""
+    grade: str = ""
+    fcp: float | None = None  # Pa; engineered products state their own
+    fc: float | None = None  # Pa; only for bearing at an angle to grain
+    applies: frozenset[str] = frozenset({"KD", "KScp", "KB", "KZcp", "KT"})
+    wet_factor: float | None = None  # KScp when wet, for engineered products
+    source: str = ""
+    loc: Location = field(default=Location(""), compare=False)
+
+
+@dataclass(frozen=True)
+class Member:
+    id: str
+    material: str
+    b: float  # width across the bearing face (m)
+    d: float  # depth through which bearing loads pass (m)
+    length: float  # m
+    vertical: bool
+    service: str  # dry | wet
+    kt: float = 1.0
+    continuous: bool = False  # continuously supported (a plate on a wall, a sill on a footing)
+    level: str = ""
+    label: str = ""
+    loc: Location = field(default=Location(""), compare=False)
+
+
+@dataclass(frozen=True)
+class Side:
+    """One member's side of a bearing."""
+
+    member: str
+    at: float | None  # bearing centre along a horizontal member (m)
+    length: float | None  # bearing length along this member's grain, when stated (m)
+    angle: float | None  # angle between load and grain (rad); None means perpendicular
+    loc: Location = field(default=Location(""), compare=False)
+
+
+@dataclass(frozen=True)
+class Bearing:
+    id: str
+    upper: Side
+    lower: Side
+    width: float | None  # contact width, when a plate or seat states it (m)
+    aliases: tuple[str, ...] = ()
+    loc: Location = field(default=Location(""), compare=False)
+
+    def side_of(self, member_id: str) -> Side:
+        return self.upper if self.upper.member == member_id else self.lower
+
+
+@dataclass(frozen=True)
+class Load:
+    """A load applied directly to a member, in one load case (or a factored group)."""
+
+    id: str
+    member: str
+    kind: str  # point | uniform
+    case: str  # D, L, S, W, E, or "factored:<label>"
+    magnitude: float  # N for point, N/m for uniform
+    at: float | None = None  # point loads on horizontal members (m)
+    start: float | None = None  # uniform loads (m)
+    end: float | None = None
+    length: float | None = None  # bearing length of a point load along the member (m)
+    width: float | None = None
+    loc: Location = field(default=Location(""), compare=False)
+
+
+@dataclass(frozen=True)
+class FactoredGroup:
+    """Already-factored loads that act together, with their load duration."""
+
+    label: str
+    duration: str
+
+
+@dataclass(frozen=True)
+class Project:
+    title: str
+    calc: str
+    reviewer: str
+    rule_pack: str
+    combinations: str
+    service: str
+    tolerance_relative: float
+    tolerance_absolute: float  # N
+    date: dt.date | None
+    area_reading: str | None = None  # overrides the pack's default near-support area reading
+    kb_reading: str | None = None
+
+
+@dataclass(frozen=True)
+class Model:
+    file: str
+    project: Project
+    materials: dict[str, Material]
+    members: dict[str, Member]
+    bearings: tuple[Bearing, ...]
+    loads: tuple[Load, ...]
+    factored_groups: dict[str, FactoredGroup]
+
+    def material_of(self, member_id: str) -> Material:
+        return self.materials[self.members[member_id].material]

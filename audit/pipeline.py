@@ -1,0 +1,70 @@
+"""Runs the stages in order. Each stage is a module; this file only wires them."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from pathlib import Path
+
+from audit.findings import KINDS, Finding
+from audit.list_checks import CheckList, list_checks
+from audit.model import Model
+from audit.read_model import read_model
+from audit.resist import CheckResult, resist
+from audit.rulepack import CombinationPack, ResistancePack
+from audit.take_down import TakeDown, take_down
+
+
+@dataclass(frozen=True)
+class Review:
+    model: Model
+    pack: ResistancePack
+    cpack: CombinationPack
+    flow: TakeDown
+    checklist: CheckList
+    results: tuple[CheckResult, ...]
+    engine_findings: tuple[Finding, ...]  # uplift
+
+    def result(self, check_id: str) -> CheckResult:
+        for r in self.results:
+            if r.check.id == check_id:
+                return r
+        raise KeyError(check_id)
+
+    @property
+    def area_reading(self) -> str:
+        return self.model.project.area_reading or self.pack.near_area_limit.value
+
+    @property
+    def kb_reading(self) -> str:
+        return self.model.project.kb_reading or self.pack.near_kb_reading.value
+
+
+def review_model(model_path: Path | str, rules_dirs: tuple[Path, ...] = (), rule_pack: str | None = None) -> Review:
+    model, pack, cpack = read_model(model_path, rules_dirs, rule_pack)
+    return review_built(model, pack, cpack)
+
+
+def review_built(model: Model, pack: ResistancePack, cpack: CombinationPack) -> Review:
+    flow = take_down(model)
+    checklist = list_checks(model, flow, pack)
+    results = resist(checklist, model, pack, cpack)
+    return Review(model, pack, cpack, flow, checklist, results, uplift_findings(results))
+
+
+def uplift_findings(results: tuple[CheckResult, ...]) -> tuple[Finding, ...]:
+    seen: set[str] = set()
+    out = []
+    for r in results:
+        if not r.uplift or r.check.bearing in seen or r.check.kind != "local":
+            continue
+        seen.add(r.check.bearing)
+        worst = min((c for c in r.combinations if c.qf < 0), key=lambda c: c.qf)
+        out.append(
+            Finding(
+                "uplift", KINDS["uplift"].severity,
+                f"Bearing {r.check.bearing}: {worst.combination} gives an upward force of "
+                f"{-worst.qf / 1000:.2f} kN; a bearing cannot resist uplift, confirm the tie-down.",
+                bearing=r.check.bearing, member=r.check.member, numbers={"qf": worst.qf},
+            )
+        )
+    return tuple(out)

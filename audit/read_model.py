@@ -1,0 +1,637 @@
+"""Stage 1: read the reviewer's YAML model into frozen records, validating as it goes.
+
+Every error names file:line:column and the key path; all errors of a file are reported in
+one run. The rule packs are selected here because species and grades are looked up in them.
+"""
+
+from __future__ import annotations
+
+import datetime as dt
+import itertools
+import math
+from collections.abc import Callable
+from pathlib import Path
+from typing import Any
+
+from audit.errors import ErrorCollector, InputError, Location
+from audit.located_yaml import Node, read_yaml_file
+from audit.model import (
+    FACTORED_PREFIX,
+    Bearing,
+    FactoredGroup,
+    Load,
+    Material,
+    Member,
+    Model,
+    Project,
+    Side,
+)
+from audit.rulepack import (
+    ALL_FAMILIES,
+    DURATIONS,
+    SERVICES,
+    CombinationPack,
+    ResistancePack,
+    select_packs,
+)
+from audit.units import parse_quantity
+
+TOP_KEYS = {"project", "materials", "members", "bearings", "loads"}
+PROJECT_KEYS = {
+    "title", "calc", "reviewer", "rule_pack", "combinations", "service", "tolerance", "date",
+    "near_support_area", "near_support_kb",
+}
+MATERIAL_KEYS = {"family", "species", "grade", "fcp", "fc", "factors", "wet_factor", "source"}
+MEMBER_KEYS = {
+    "id", "material", "b", "d", "length", "orientation", "service", "KT", "support", "level", "label",
+}
+BEARING_KEYS = {"id", "upper", "lower", "width", "aliases"}
+SIDE_KEYS = {"member", "at", "length", "angle"}
+LOAD_KEYS = {
+    "id", "member", "type", "at", "from", "to", "length", "width", "specified", "factored",
+    "duration", "label",
+}
+ENGINEERED_FACTORS = ("KD", "KScp", "KB", "KZcp", "KT")
+
+
+class _Fields:
+    """Reads the fields of one mapping node, collecting errors instead of stopping."""
+
+    def __init__(self, node: Node, allowed: set[str], errors: ErrorCollector, what: str) -> None:
+        self.node = node
+        self.errors = errors
+        self.ok = True
+        if not isinstance(node.value, dict):
+            errors.add(f"expected a mapping for {what}, got {_kind(node.value)}", node.loc)
+            self.ok = False
+            self.map: dict[str, Node] = {}
+            return
+        self.map = node.value
+        for key in node.value:
+            if key not in allowed:
+                errors.add(
+                    f"unknown key '{key}' in {what} (allowed: {', '.join(sorted(allowed))})",
+                    node.key_locs.get(key, node.child_loc(key)),
+                )
+
+    def has(self, key: str) -> bool:
+        return key in self.map
+
+    def loc(self, key: str) -> Location:
+        return self.map[key].loc if key in self.map else self.node.child_loc(key)
+
+    def _get(self, key: str, required: bool) -> Node | None:
+        node = self.map.get(key)
+        if node is None and required and self.ok:
+            self.errors.add(f"missing field '{key}'", self.node.child_loc(key))
+            self.ok = False
+        return node
+
+    def text(self, key: str, required: bool = True, default: str = "", limit: int = 500) -> str:
+        node = self._get(key, required)
+        if node is None:
+            return default
+        if isinstance(node.value, (dict, list)) or node.value is None:
+            self.errors.add(f"expected text, got {_kind(node.value)}", node.loc)
+            self.ok = False
+            return default
+        text = str(node.value)
+        if len(text) > limit:
+            self.errors.add(f"text is {len(text)} characters long (limit {limit})", node.loc)
+            self.ok = False
+            return default
+        return text
+
+    def choice(self, key: str, options: tuple[str, ...], required: bool = True, default: str = "") -> str:
+        value = self.text(key, required, default)
+        if value and value not in options:
+            self.errors.add(f"'{value}' is not one of: {', '.join(options)}", self.loc(key))
+            self.ok = False
+            return default
+        return value
+
+    def quantity(
+        self, key: str, dimension: str, required: bool = True, positive: bool = False
+    ) -> float | None:
+        node = self._get(key, required)
+        if node is None:
+            return None
+        try:
+            value = parse_quantity(node.value, dimension, node.loc)
+        except InputError as exc:
+            self.errors.extend(exc)
+            self.ok = False
+            return None
+        if positive and value <= 0:
+            self.errors.add(f"{key} must be positive, got '{node.value}'", node.loc)
+            self.ok = False
+            return None
+        return value
+
+    def number(self, key: str, lo: float, hi: float, default: float) -> float:
+        node = self._get(key, False)
+        if node is None:
+            return default
+        v = node.value
+        if isinstance(v, bool) or not isinstance(v, (int, float)) or not math.isfinite(v) or not lo <= v <= hi:
+            self.errors.add(f"expected a number from {lo} to {hi}, got {v!r}", node.loc)
+            self.ok = False
+            return default
+        return float(v)
+
+
+def _kind(value: Any) -> str:
+    if isinstance(value, dict):
+        return "a mapping"
+    if isinstance(value, list):
+        return "a list"
+    if value is None:
+        return "nothing"
+    return f"'{str(value)[:40]}'"
+
+
+PackLoader = Callable[[str, str, Location], tuple[ResistancePack, CombinationPack]]
+
+
+def read_model(
+    path: Path | str,
+    rules_dirs: tuple[Path, ...] = (),
+    rule_pack: str | None = None,
+) -> tuple[Model, ResistancePack, CombinationPack]:
+    """Read and validate a model file; return it with the rule packs it selects."""
+    root = read_yaml_file(path)
+    return build_model(root, str(path), rules_dirs, rule_pack)
+
+
+def build_model(
+    root: Node, name: str, rules_dirs: tuple[Path, ...] = (), rule_pack: str | None = None
+) -> tuple[Model, ResistancePack, CombinationPack]:
+    errors = ErrorCollector()
+    top = _Fields(root, TOP_KEYS, errors, "the model")
+    if not top.ok:
+        errors.raise_if_any()
+    for key in ("project", "materials", "members", "bearings"):
+        if key not in top.map:
+            errors.add(f"missing section '{key}'", root.child_loc(key))
+    errors.raise_if_any()
+
+    project = _read_project(top.map["project"], errors)
+    errors.raise_if_any()
+    pack_id = rule_pack or project.rule_pack
+    resistance, combos = select_packs(
+        pack_id, project.combinations, rules_dirs, top.map["project"].loc
+    )
+    if project.area_reading and project.area_reading not in resistance.near_area_readings:
+        errors.add(
+            f"reading '{project.area_reading}' is not in rule pack {resistance.id} "
+            f"(readings: {', '.join(resistance.near_area_readings)})",
+            top.map["project"].child_loc("near_support_area"),
+        )
+    if project.kb_reading and project.kb_reading not in resistance.near_kb_readings:
+        errors.add(
+            f"reading '{project.kb_reading}' is not in rule pack {resistance.id} "
+            f"(readings: {', '.join(resistance.near_kb_readings)})",
+            top.map["project"].child_loc("near_support_kb"),
+        )
+
+    materials = _read_materials(top.map["materials"], resistance, errors)
+    members = _read_members(top.map["members"], materials, project, errors)
+    bearings = _read_bearings(top.map["bearings"], members, errors)
+    loads, groups = (
+        _read_loads(top.map["loads"], members, combos, errors) if "loads" in top.map else ((), {})
+    )
+    errors.raise_if_any()
+    _check_support_graph(members, bearings, errors)
+    _check_loads_within_members(members, loads, errors)
+    errors.raise_if_any()
+    model = Model(name, project, materials, members, bearings, loads, groups)
+    return model, resistance, combos
+
+
+# ---------------------------------------------------------------- sections
+
+
+def _read_project(node: Node, errors: ErrorCollector) -> Project:
+    f = _Fields(node, PROJECT_KEYS, errors, "project")
+    tol_rel, tol_abs = 0.03, 500.0
+    if f.has("tolerance"):
+        t = _Fields(f.map["tolerance"], {"relative", "absolute"}, errors, "project.tolerance")
+        tol_rel = t.number("relative", 0.0, 1.0, tol_rel)
+        abs_value = t.quantity("absolute", "force", required=False)
+        if abs_value is not None:
+            if abs_value < 0:
+                errors.add("tolerance must not be negative", t.loc("absolute"))
+            tol_abs = abs_value
+    date = None
+    if f.has("date"):
+        raw = f.map["date"].value
+        if isinstance(raw, dt.datetime):
+            date = raw.date()
+        elif isinstance(raw, dt.date):
+            date = raw
+        else:
+            try:
+                date = dt.date.fromisoformat(str(raw))
+            except ValueError:
+                errors.add(f"date must be YYYY-MM-DD, got {raw!r}", f.loc("date"))
+    return Project(
+        title=f.text("title"),
+        calc=f.text("calc", required=False),
+        reviewer=f.text("reviewer", required=False),
+        rule_pack=f.text("rule_pack", required=False, default="o86-2019-recalled"),
+        combinations=f.text("combinations", required=False, default="nbcc-2015-recalled"),
+        service=f.choice("service", SERVICES, required=False, default="dry"),
+        tolerance_relative=tol_rel,
+        tolerance_absolute=tol_abs,
+        date=date,
+        area_reading=f.text("near_support_area", required=False) or None,
+        kb_reading=f.text("near_support_kb", required=False) or None,
+    )
+
+
+def _read_materials(node: Node, pack: ResistancePack, errors: ErrorCollector) -> dict[str, Material]:
+    if not isinstance(node.value, dict):
+        errors.add(f"expected a mapping of material id to material, got {_kind(node.value)}", node.loc)
+        return {}
+    out: dict[str, Material] = {}
+    for mat_id, mat_node in node.value.items():
+        f = _Fields(mat_node, MATERIAL_KEYS, errors, f"material '{mat_id}'")
+        family = f.choice("family", ALL_FAMILIES)
+        if not f.ok:
+            continue
+        material = _material_of_family(mat_id, family, f, pack, errors)
+        if material is not None and f.ok:
+            out[mat_id] = material
+    return out
+
+
+def _material_of_family(
+    mat_id: str, family: str, f: _Fields, pack: ResistancePack, errors: ErrorCollector
+) -> Material | None:
+    loc = f.node.loc
+    if family == "engineered":
+        fcp = f.quantity("fcp", "stress", positive=True)
+        fc = f.quantity("fc", "stress", required=False, positive=True)
+        source = f.text("source")
+        applies: set[str] = set()
+        if f.has("factors"):
+            fnode = f.map["factors"]
+            if not isinstance(fnode.value, list):
+                errors.add("factors must be a list such as [KD, KScp, KB]", fnode.loc)
+                return None
+            for item in fnode.value:
+                if item.value not in ENGINEERED_FACTORS:
+                    errors.add(
+                        f"unknown factor '{item.value}' (known: {', '.join(ENGINEERED_FACTORS)})", item.loc
+                    )
+                    return None
+                applies.add(item.value)
+        else:
+            errors.add(
+                "missing field 'factors': say which O86 factors apply to this product", f.node.child_loc("factors")
+            )
+            return None
+        wet = f.number("wet_factor", 0.01, 1.0, -1.0)
+        return Material(
+            mat_id, family, fcp=fcp, fc=fc, applies=frozenset(applies),
+            wet_factor=None if wet < 0 else wet, source=source, loc=loc,
+        )
+    if family not in pack.timber_families.value:
+        return Material(mat_id, family, source=f.text("source", required=False), loc=loc)
+    species = f.text("species")
+    grade = f.text("grade")
+    if not f.ok:
+        return None
+    table = pack.fcp.get(family, {})
+    if species not in table:
+        errors.add(
+            f"species '{species}' is not in rule pack {pack.id} for {family} "
+            f"(known: {', '.join(table) or 'none'})",
+            f.loc("species"),
+        )
+        return None
+    strength = table[species]
+    if strength.grades and grade not in strength.grades:
+        errors.add(
+            f"grade '{grade}' is not listed for {family} {species} in rule pack {pack.id} "
+            f"(known: {', '.join(strength.grades)})",
+            f.loc("grade"),
+        )
+        return None
+    for key in ("fcp", "factors", "wet_factor"):
+        if f.has(key):
+            errors.add(f"'{key}' is only for engineered products; {family} takes it from the rule pack", f.loc(key))
+            return None
+    fc_entry = pack.fc.get(family, {}).get(species)
+    return Material(
+        mat_id, family, species, grade, fcp=strength.fcp.value,
+        fc=fc_entry.value if fc_entry else None, source=f.text("source", required=False), loc=loc,
+    )
+
+
+def _list_of_mappings(node: Node, what: str, errors: ErrorCollector) -> list[Node]:
+    if node.value is None:
+        return []
+    if not isinstance(node.value, list):
+        errors.add(f"expected a list of {what}, got {_kind(node.value)}", node.loc)
+        return []
+    return node.value
+
+
+def _read_members(
+    node: Node, materials: dict[str, Material], project: Project, errors: ErrorCollector
+) -> dict[str, Member]:
+    out: dict[str, Member] = {}
+    for item in _list_of_mappings(node, "members", errors):
+        f = _Fields(item, MEMBER_KEYS, errors, "member")
+        member_id = f.text("id", limit=120)
+        material = f.text("material")
+        if f.ok and material not in materials:
+            errors.add(f"unknown material '{material}'", f.loc("material"))
+            f.ok = False
+        b = f.quantity("b", "length", positive=True)
+        d = f.quantity("d", "length", positive=True)
+        length = f.quantity("length", "length", positive=True)
+        orientation = f.choice("orientation", ("horizontal", "vertical"), required=False, default="horizontal")
+        service = f.choice("service", SERVICES, required=False, default=project.service)
+        kt = f.number("KT", 0.01, 1.5, 1.0)
+        support = f.choice("support", ("bearings", "continuous"), required=False, default="bearings")
+        if support == "continuous" and orientation == "vertical":
+            errors.add("only a horizontal member can be continuously supported", f.loc("support"))
+            f.ok = False
+        if member_id in out:
+            errors.add(f"duplicate member id '{member_id}'", f.loc("id"))
+            continue
+        if not f.ok or b is None or d is None or length is None:
+            continue
+        out[member_id] = Member(
+            id=member_id, material=material, b=b, d=d, length=length,
+            vertical=orientation == "vertical", service=service, kt=kt,
+            continuous=support == "continuous", level=f.text("level", required=False),
+            label=f.text("label", required=False), loc=item.loc,
+        )
+    return out
+
+
+def _read_side(
+    node: Node, role: str, members: dict[str, Member], errors: ErrorCollector
+) -> Side | None:
+    if isinstance(node.value, str):
+        node = Node({"member": node}, node.loc)
+    f = _Fields(node, SIDE_KEYS, errors, f"bearing {role}")
+    member_id = f.text("member")
+    if not f.ok:
+        return None
+    if member_id not in members:
+        errors.add(f"unknown member '{member_id}'", f.loc("member"))
+        return None
+    member = members[member_id]
+    at = None
+    if not member.vertical:
+        at = f.quantity("at", "length")
+        if at is not None and not 0.0 <= at <= member.length:
+            errors.add(
+                f"bearing centre at {at * 1000:.0f} mm is outside member '{member_id}' "
+                f"(length {member.length * 1000:.0f} mm)",
+                f.loc("at"),
+            )
+            return None
+    elif f.has("at"):
+        errors.add(f"'{member_id}' is vertical: its bearings are at its ends, give no 'at'", f.loc("at"))
+        return None
+    length = f.quantity("length", "length", required=False, positive=True)
+    if length is not None and length > member.length:
+        errors.add(
+            f"bearing length {length * 1000:.0f} mm is longer than member '{member_id}' "
+            f"({member.length * 1000:.0f} mm)",
+            f.loc("length"),
+        )
+        return None
+    angle = f.quantity("angle", "angle", required=False)
+    if angle is not None and not 0.0 < angle <= math.pi / 2 + 1e-12:
+        errors.add("angle between load and grain must be more than 0 and at most 90 deg", f.loc("angle"))
+        return None
+    if not f.ok:
+        return None
+    return Side(member_id, at, length, angle, node.loc)
+
+
+def _read_bearings(node: Node, members: dict[str, Member], errors: ErrorCollector) -> tuple[Bearing, ...]:
+    out: list[Bearing] = []
+    seen: dict[str, Location] = {}
+    aliases_seen: dict[str, str] = {}
+    for item in _list_of_mappings(node, "bearings", errors):
+        f = _Fields(item, BEARING_KEYS, errors, "bearing")
+        if not f.ok:
+            continue
+        for role in ("upper", "lower"):
+            if role not in f.map:
+                errors.add(f"missing field '{role}'", item.child_loc(role))
+        if "upper" not in f.map or "lower" not in f.map:
+            continue
+        upper = _read_side(f.map["upper"], "upper", members, errors)
+        lower = _read_side(f.map["lower"], "lower", members, errors)
+        width = f.quantity("width", "length", required=False, positive=True)
+        aliases: tuple[str, ...] = ()
+        if f.has("aliases"):
+            a_node = f.map["aliases"]
+            if not isinstance(a_node.value, list):
+                errors.add("aliases must be a list of labels", a_node.loc)
+                continue
+            aliases = tuple(str(a.value) for a in a_node.value)
+        if upper is None or lower is None or not f.ok:
+            continue
+        if upper.member == lower.member:
+            errors.add(f"member '{upper.member}' cannot bear on itself", item.loc)
+            continue
+        bearing_id = f.text("id", required=False, limit=120) or f"{upper.member}/{lower.member}"
+        if bearing_id in seen:
+            hint = "" if f.has("id") else " (two bearings join the same members: give each an 'id')"
+            errors.add(f"duplicate bearing id '{bearing_id}'{hint}", f.loc("id") if f.has("id") else item.loc)
+            continue
+        seen[bearing_id] = item.loc
+        for alias in aliases:
+            other = aliases_seen.get(alias.casefold())
+            if other is not None and other != bearing_id:
+                errors.add(f"alias '{alias}' is already used by bearing '{other}'", f.loc("aliases"))
+            aliases_seen[alias.casefold()] = bearing_id
+        out.append(Bearing(bearing_id, upper, lower, width, aliases, item.loc))
+    return tuple(out)
+
+
+def _read_loads(
+    node: Node, members: dict[str, Member], combos: CombinationPack, errors: ErrorCollector
+) -> tuple[tuple[Load, ...], dict[str, FactoredGroup]]:
+    out: list[Load] = []
+    groups: dict[str, FactoredGroup] = {}
+    ids: set[str] = set()
+    for index, item in enumerate(_list_of_mappings(node, "loads", errors)):
+        f = _Fields(item, LOAD_KEYS, errors, "load")
+        member_id = f.text("member")
+        kind = f.choice("type", ("point", "uniform"))
+        if not f.ok:
+            continue
+        if member_id not in members:
+            errors.add(f"unknown member '{member_id}'", f.loc("member"))
+            continue
+        member = members[member_id]
+        load_id = f.text("id", required=False) or f"load{index + 1}"
+        if load_id in ids:
+            errors.add(f"duplicate load id '{load_id}'", f.loc("id"))
+            continue
+        ids.add(load_id)
+        dimension = "force" if kind == "point" else "line_load"
+        if member.vertical and kind != "point":
+            errors.add(f"'{member_id}' is vertical: give its loads as type: point (axial)", f.loc("type"))
+            continue
+        geometry = _load_geometry(f, kind, member)
+        if geometry is None:
+            continue
+        at, start, end, length, width = geometry
+        has_specified, has_factored = f.has("specified"), f.has("factored")
+        if has_specified == has_factored:
+            errors.add("give either 'specified' (loads by case) or 'factored' (with 'duration')", item.loc)
+            continue
+        entries: list[tuple[str, float]] = []
+        if has_specified:
+            s = _Fields(f.map["specified"], set(combos.cases), errors, "specified loads")
+            for case in s.map:
+                if case in combos.cases:
+                    value = s.quantity(case, dimension)
+                    if value is not None:
+                        entries.append((case, value))
+            if not s.map and s.ok:
+                errors.add("no load cases given", f.loc("specified"))
+            if not s.ok:
+                continue
+            for key in ("duration", "label"):
+                if f.has(key):
+                    errors.add(f"'{key}' is only for factored loads", f.loc(key))
+        else:
+            value = f.quantity("factored", dimension)
+            duration = f.choice("duration", DURATIONS)
+            if value is None or not f.ok:
+                continue
+            label = f.text("label", required=False) or f"factored, {duration} term"
+            prior = groups.get(label)
+            if prior is not None and prior.duration != duration:
+                errors.add(
+                    f"factored loads labelled '{label}' must share one duration "
+                    f"(another says {prior.duration})",
+                    f.loc("duration"),
+                )
+                continue
+            groups[label] = FactoredGroup(label, duration)
+            entries.append((FACTORED_PREFIX + label, value))
+        for case, value in entries:
+            out.append(
+                Load(load_id, member_id, kind, case, value, at, start, end, length, width, item.loc)
+            )
+    return tuple(out), groups
+
+
+def _load_geometry(
+    f: _Fields, kind: str, member: Member
+) -> tuple[float | None, float | None, float | None, float | None, float | None] | None:
+    length = f.quantity("length", "length", required=False, positive=True)
+    width = f.quantity("width", "length", required=False, positive=True)
+    if member.vertical:
+        for key in ("at", "from", "to"):
+            if f.has(key):
+                f.errors.add(f"'{member.id}' is vertical: its loads act at its top, give no '{key}'", f.loc(key))
+                return None
+        return None, None, None, length, width
+    if kind == "point":
+        at = f.quantity("at", "length")
+        if at is None:
+            return None
+        return at, None, None, length, width
+    start = f.quantity("from", "length", required=False)
+    end = f.quantity("to", "length", required=False)
+    start = 0.0 if start is None else start
+    end = member.length if end is None else end
+    if end <= start:
+        f.errors.add("'to' must be beyond 'from'", f.loc("to"))
+        return None
+    return None, start, end, None, None
+
+
+def _check_loads_within_members(
+    members: dict[str, Member], loads: tuple[Load, ...], errors: ErrorCollector
+) -> None:
+    for load in loads:
+        member = members[load.member]
+        positions = [p for p in (load.at, load.start, load.end) if p is not None]
+        if any(not -1e-9 <= p <= member.length + 1e-9 for p in positions):
+            errors.add(
+                f"load lies outside member '{member.id}' (length {member.length * 1000:.0f} mm)",
+                load.loc,
+            )
+
+
+# ---------------------------------------------------------------- support graph
+
+
+def _check_support_graph(
+    members: dict[str, Member], bearings: tuple[Bearing, ...], errors: ErrorCollector
+) -> None:
+    supports: dict[str, list[Bearing]] = {m: [] for m in members}
+    for b in bearings:
+        supports[b.upper.member].append(b)
+    for member in members.values():
+        below = supports[member.id]
+        if member.vertical and len(below) > 1:
+            errors.add(
+                f"post '{member.id}' bears on {len(below)} members; a post has one bearing at its foot",
+                below[1].loc,
+            )
+        elif not member.vertical and member.continuous and below:
+            errors.add(
+                f"'{member.id}' is continuously supported and cannot also bear on other members",
+                below[0].loc,
+            )
+        elif not member.vertical and not member.continuous and len(below) < 2:
+            errors.add(
+                f"horizontal member '{member.id}' has {len(below)} support(s); it needs at least two "
+                "bearings, or 'support: continuous'",
+                member.loc,
+            )
+        positions = sorted(b.upper.at for b in below if b.upper.at is not None)
+        for a, c in itertools.pairwise(positions):
+            if c - a < 1e-6:
+                errors.add(f"two supports of '{member.id}' stand at the same point", member.loc)
+                break
+    cycle = find_support_cycle(members, bearings)
+    if cycle:
+        first = next(b for b in bearings if b.upper.member == cycle[0] and b.lower.member == cycle[1])
+        errors.add(f"members support each other in a cycle: {' -> '.join(cycle)}", first.loc)
+
+
+def find_support_cycle(members: dict[str, Member], bearings: tuple[Bearing, ...]) -> list[str]:
+    """A list of member ids forming a cycle (upper -> lower -> ... -> upper), or []."""
+    below: dict[str, list[str]] = {m: [] for m in members}
+    for b in bearings:
+        below[b.upper.member].append(b.lower.member)
+    state: dict[str, int] = {}
+    for start in sorted(members):
+        if state.get(start):
+            continue
+        stack: list[tuple[str, int]] = [(start, 0)]
+        path: list[str] = []
+        while stack:
+            node, i = stack.pop()
+            if i == 0:
+                state[node] = 1
+                path.append(node)
+            nxt = below[node]
+            if i < len(nxt):
+                stack.append((node, i + 1))
+                child = nxt[i]
+                if state.get(child) == 1:
+                    return [*path[path.index(child):], child]
+                if not state.get(child):
+                    stack.append((child, 0))
+            else:
+                state[node] = 2
+                path.pop()
+    return []

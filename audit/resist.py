@@ -1,0 +1,336 @@
+"""Stage 4: compute each required check's resistance from a rule pack, per load combination.
+
+    Qr  = phi * Fcp * Ab  * KB * KZcp                 local bearing
+    Qr' = (2/3) * phi * Fcp * Ab' * KB * KZcp          loads within d of a support
+    Fcp = fcp * (KD * KScp * KT)
+    Nr  = Pr * Qr / (Pr sin^2(theta) + Qr cos^2(theta))   bearing at an angle (Hankinson)
+
+Every factor comes with the reason it took its value. KD changes with the combination, so
+each combination gets its own Qr and the governing one is the highest Qf/Qr.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, replace
+
+from audit.errors import InputError
+from audit.list_checks import LOCAL, NEAR, CheckList, RequiredCheck, near_support_geometry
+from audit.model import FACTORED_PREFIX, Material, Member, Model
+from audit.rulepack import CombinationPack, ResistancePack
+from audit.take_down import Forces
+
+STANDARD_TERM_CASES = ("L", "S")
+LONG_TERM_CASE = "D"
+PASS_LIMIT = 1.0 + 1e-9
+
+
+@dataclass(frozen=True)
+class LoadCombination:
+    name: str
+    factors: dict[str, float]  # load case (or factored key) -> load factor
+    duration: str  # permanent | standard | short
+    clause: str = ""
+    factored: bool = False  # a group of already-factored loads
+
+
+@dataclass(frozen=True)
+class Factor:
+    name: str
+    value: float
+    reason: str
+    clause: str = ""
+
+
+@dataclass(frozen=True)
+class ResistanceInputs:
+    """Everything Qr depends on except KD; diagnosis varies these one at a time."""
+
+    phi: float
+    coefficient: float  # 1 for local bearing, 2/3 for near-support
+    fcp: float  # Pa, specified strength
+    kscp: float
+    kt: float
+    kb: float
+    kzcp: float
+    area: float  # m^2, Ab or Ab'
+    uses_kd: bool
+    fc_parallel: float | None  # Pa, fc * KSc * KT for Hankinson; None when perpendicular
+    angle: float | None
+
+
+@dataclass(frozen=True)
+class CombinationResult:
+    combination: str
+    duration: str
+    qf: float  # N
+    kd: float
+    kd_reason: str
+    qr: float  # N
+    utilisation: float
+
+
+@dataclass(frozen=True)
+class CheckResult:
+    check: RequiredCheck
+    material: str
+    inputs: ResistanceInputs
+    factors: tuple[Factor, ...]  # phi, fcp, KScp, KT, KB, KZcp (and 2/3): value and reason
+    area_reason: str
+    combinations: tuple[CombinationResult, ...]
+    governing: CombinationResult
+    uplift: tuple[str, ...]  # combinations in which the bearing force is upward
+    passes: bool
+
+
+# ---------------------------------------------------------------- combinations
+
+
+def load_combinations(model: Model, cpack: CombinationPack) -> tuple[LoadCombination, ...]:
+    """The pack's combinations for specified loads, plus one per group of factored loads."""
+    out = [LoadCombination(c.name, c.factors, c.duration, c.source.clause) for c in cpack.combinations]
+    for group in sorted(model.factored_groups.values(), key=lambda g: g.label):
+        out.append(
+            LoadCombination(group.label, {FACTORED_PREFIX + group.label: 1.0}, group.duration, "", True)
+        )
+    return tuple(out)
+
+
+def factored_force(forces: Forces, combo: LoadCombination) -> float:
+    return math.fsum(factor * forces.get(case, 0.0) for case, factor in combo.factors.items())
+
+
+def load_duration_factor(forces: Forces, combo: LoadCombination, pack: ResistancePack) -> tuple[float, str]:
+    """KD for one combination at one check, with the reason."""
+    if combo.duration != "standard":
+        value = pack.kd[combo.duration].value
+        return value, f"KD = {value:.2f}: {combo.duration}-term combination {combo.name}"
+    standard_value = pack.kd["standard"].value
+    if combo.factored:
+        return standard_value, f"KD = {standard_value:.2f}: factored loads stated as standard term"
+    long_term = max(forces.get(LONG_TERM_CASE, 0.0), 0.0)
+    standard = math.fsum(
+        max(forces.get(c, 0.0), 0.0) for c in STANDARD_TERM_CASES if combo.factors.get(c, 0.0) != 0.0
+    )
+    if long_term <= standard or long_term == 0.0:
+        return standard_value, f"KD = {standard_value:.2f}: standard-term combination {combo.name}"
+    rule = pack.kd_long_term.value
+    floor = rule["floor"]
+    if standard <= 0.0:
+        return floor, f"KD = {floor:.2f}: {combo.name} has no L or S at this bearing, dead load alone"
+    value = max(floor, rule["intercept"] - rule["slope"] * math.log10(long_term / standard))
+    return value, (
+        f"KD = {value:.3f}: dead load PL = {long_term / 1000:.2f} kN exceeds PS = {standard / 1000:.2f} kN, "
+        f"KD = {rule['intercept']:g} - {rule['slope']:g} log10(PL/PS), not less than {floor:g}"
+    )
+
+
+# ---------------------------------------------------------------- factors
+
+
+def _kb(length: float, end_distance: float, material: Material, pack: ResistancePack) -> Factor:
+    clause = pack.kb_table.clause
+    if "KB" not in material.applies:
+        return Factor("KB", 1.0, "KB = 1.00: the product's evaluation report does not allow KB", clause)
+    max_len = pack.kb_max_length.value
+    min_end = pack.kb_min_end_distance.value
+    if length > max_len + 1e-9:
+        return Factor(
+            "KB", 1.0, f"KB = 1.00: bearing length {length * 1000:.0f} mm exceeds {max_len * 1000:.0f} mm", clause
+        )
+    if end_distance < min_end - 1e-9:
+        return Factor(
+            "KB", 1.0,
+            f"KB = 1.00: bearing {end_distance * 1000:.0f} mm from the member end, less than {min_end * 1000:.0f} mm",
+            clause,
+        )
+    value = pack.kb_table.value.at(length)
+    return Factor(
+        "KB", value,
+        f"KB = {value:.3f}: bearing length {length * 1000:.0f} mm, {end_distance * 1000:.0f} mm from the member end",
+        clause,
+    )
+
+
+def _kzcp(member: Member, material: Material, pack: ResistancePack) -> Factor:
+    clause = pack.kzcp_table.clause
+    applies = (
+        "KZcp" in material.applies if material.family == "engineered" else material.family in pack.kzcp_families.value
+    )
+    if not applies:
+        return Factor("KZcp", 1.0, f"KZcp = 1.00: not applied to {material.family.replace('_', ' ')}", clause)
+    ratio = member.b / member.d
+    value = pack.kzcp_table.value.at(ratio)
+    return Factor(
+        "KZcp", value,
+        f"KZcp = {value:.3f}: width/depth = {member.b * 1000:.0f}/{member.d * 1000:.0f} = {ratio:.2f}",
+        clause,
+    )
+
+
+def _kscp(member: Member, material: Material, pack: ResistancePack) -> Factor:
+    if material.family == "engineered":
+        if "KScp" not in material.applies or member.service == "dry":
+            return Factor("KScp", 1.0, f"KScp = 1.00: {member.service} service, product report")
+        if material.wet_factor is None:
+            raise InputError(
+                f"member '{member.id}' is in wet service: give 'wet_factor' for material '{material.id}'",
+                material.loc,
+            )
+        return Factor("KScp", material.wet_factor, f"KScp = {material.wet_factor:.2f}: wet service, product report")
+    entry = pack.kscp[material.family]
+    value = entry.value[member.service]
+    return Factor("KScp", value, f"KScp = {value:.2f}: {member.service} service", entry.clause)
+
+
+def _fc_parallel(member: Member, material: Material, pack: ResistancePack, angle: float | None) -> float | None:
+    if angle is None or abs(angle - math.pi / 2) < 1e-9:
+        return None
+    if material.fc is None:
+        raise InputError(
+            f"bearing at an angle on '{member.id}' needs fc (compression parallel) for material "
+            f"'{material.id}'; the rule pack has none",
+            material.loc,
+        )
+    ksc = 1.0
+    if material.family in pack.ksc:
+        ksc = pack.ksc[material.family].value[member.service]
+    elif member.service == "wet" and material.wet_factor is not None:
+        ksc = material.wet_factor
+    return material.fc * ksc * (member.kt if "KT" in material.applies else 1.0)
+
+
+def resistance_inputs(
+    check: RequiredCheck, model: Model, pack: ResistancePack,
+    area_reading: str, kb_reading: str,
+) -> tuple[ResistanceInputs, tuple[Factor, ...], str]:
+    member = model.members[check.member]
+    material = model.materials[member.material]
+    fcp_reason = (
+        f"fcp = {material.fcp / 1e6:.2f} MPa: {material.family.replace('_', ' ')} {material.species} {material.grade}"
+        if material.family != "engineered"
+        else f"fcp = {material.fcp / 1e6:.2f} MPa: {material.source}"
+    )
+    fcp_clause = pack.fcp[material.family][material.species].fcp.clause if material.family != "engineered" else ""
+    kscp = _kscp(member, material, pack)
+    kt_value = member.kt if "KT" in material.applies else 1.0
+    kt = Factor("KT", kt_value, "KT = 1.00: untreated" if kt_value == 1.0 else f"KT = {kt_value:.2f}: as stated")
+    kzcp = _kzcp(member, material, pack)
+    phi = Factor("phi", pack.phi.value, f"phi = {pack.phi.value:.2f}", pack.phi.clause)
+    fcp = Factor("fcp", material.fcp, fcp_reason, fcp_clause)
+    if check.kind == LOCAL:
+        c = check.contact
+        kb = _kb(c.length, c.end_distance, material, pack)
+        area = c.length * c.width
+        area_reason = (
+            f"Ab = {c.width * 1000:.0f} x {c.length * 1000:.0f} = {area * 1e6:,.0f} mm²: "
+            f"width {c.width_note}; length {c.length_note}"
+        )
+        coefficient = Factor("coefficient", 1.0, "local bearing")
+    else:
+        area, area_reason = _near_area(check, pack, area_reading)
+        kb = _near_kb(check, material, pack, kb_reading)
+        factor = pack.near_factor.value
+        coefficient = Factor("2/3", factor, f"near-support factor {factor:.3f}", pack.near_factor.clause)
+    inputs = ResistanceInputs(
+        phi=phi.value, coefficient=coefficient.value, fcp=material.fcp, kscp=kscp.value, kt=kt.value,
+        kb=kb.value, kzcp=kzcp.value, area=area, uses_kd="KD" in material.applies,
+        fc_parallel=_fc_parallel(member, material, pack, check.angle), angle=check.angle,
+    )
+    factors = (phi, fcp, kscp, kt, kb, kzcp) + ((coefficient,) if check.kind == NEAR else ())
+    return inputs, factors, area_reason
+
+
+def _near_area(check: RequiredCheck, pack: ResistancePack, reading: str) -> tuple[float, str]:
+    l1, l2, b = near_support_geometry(check)
+    ratio = pack.near_area_ratio
+    if reading == "length_cap":
+        l2_used = min(l2, ratio * l1)
+        area = b * (l1 + l2_used) / 2.0
+        cap = f", L2 limited to {ratio:g} L1" if l2_used < l2 else ""
+        text = (
+            f"Ab' = b (L1 + L2)/2 = {b * 1000:.0f} x ({l1 * 1000:.0f} + {l2_used * 1000:.0f})/2 = "
+            f"{area * 1e6:,.0f} mm²{cap} (reading: {reading})"
+        )
+    else:
+        raw = b * (l1 + l2) / 2.0
+        area = min(raw, ratio * b * l1)
+        cap = f", capped at {ratio:g} b L1" if area < raw else ""
+        text = (
+            f"Ab' = b (L1 + L2)/2 = {b * 1000:.0f} x ({l1 * 1000:.0f} + {l2 * 1000:.0f})/2{cap} = "
+            f"{area * 1e6:,.0f} mm² (reading: {reading})"
+        )
+    return area, text
+
+
+def _near_kb(check: RequiredCheck, material: Material, pack: ResistancePack, reading: str) -> Factor:
+    support = check.contact
+    top_length = math.fsum(c.length for c in check.opposite)
+    top_end = min(c.end_distance for c in check.opposite)
+    kb_support = _kb(support.length, support.end_distance, material, pack)
+    kb_top = _kb(top_length, top_end, material, pack)
+    shorter = kb_support if support.length <= top_length else kb_top
+    if reading == "both_qualify":
+        if kb_support.value > 1.0 and kb_top.value > 1.0:
+            return replace(shorter, reason=f"{shorter.reason}; both faces qualify, KB of the shorter bearing")
+        return Factor("KB", 1.0, "KB = 1.00: both bearings must qualify for KB (conservative reading)", shorter.clause)
+    return replace(shorter, reason=f"{shorter.reason}; KB of the shorter bearing (reading: {reading})")
+
+
+# ---------------------------------------------------------------- results
+
+
+def resistance(inputs: ResistanceInputs, kd: float) -> float:
+    kd_used = kd if inputs.uses_kd else 1.0
+    fcp_modified = inputs.fcp * kd_used * inputs.kscp * inputs.kt
+    qr = inputs.coefficient * inputs.phi * fcp_modified * inputs.area * inputs.kb * inputs.kzcp
+    if inputs.fc_parallel is None or inputs.angle is None:
+        return qr
+    pr = inputs.phi * inputs.fc_parallel * kd_used * inputs.area
+    s, c = math.sin(inputs.angle), math.cos(inputs.angle)
+    return pr * qr / (pr * s * s + qr * c * c)
+
+
+def evaluate(
+    check: RequiredCheck, inputs: ResistanceInputs, combos: tuple[LoadCombination, ...], pack: ResistancePack,
+    forces: Forces | None = None,
+) -> tuple[tuple[CombinationResult, ...], CombinationResult, tuple[str, ...]]:
+    forces = check.forces if forces is None else forces
+    results = []
+    uplift = []
+    for combo in combos:
+        if not any(case in forces for case in combo.factors):
+            continue
+        qf = factored_force(forces, combo)
+        kd, kd_reason = load_duration_factor(forces, combo, pack)
+        if not inputs.uses_kd:
+            kd, kd_reason = 1.0, "KD = 1.00: the product's evaluation report does not apply KD"
+        qr = resistance(inputs, kd)
+        if qf < -1e-6:
+            uplift.append(combo.name)
+        results.append(CombinationResult(combo.name, combo.duration, qf, kd, kd_reason, qr, max(qf, 0.0) / qr))
+    if not results:
+        qr = resistance(inputs, pack.kd["standard"].value)
+        results.append(CombinationResult("no load", "standard", 0.0, 1.0, "no load reaches this bearing", qr, 0.0))
+    governing = max(results, key=lambda r: r.utilisation)
+    return tuple(results), governing, tuple(uplift)
+
+
+def resist(
+    checklist: CheckList, model: Model, pack: ResistancePack, cpack: CombinationPack
+) -> tuple[CheckResult, ...]:
+    combos = load_combinations(model, cpack)
+    area_reading = model.project.area_reading or pack.near_area_limit.value
+    kb_reading = model.project.kb_reading or pack.near_kb_reading.value
+    out = []
+    for check in checklist.checks:
+        inputs, factors, area_reason = resistance_inputs(check, model, pack, area_reading, kb_reading)
+        results, governing, uplift = evaluate(check, inputs, combos, pack)
+        out.append(
+            CheckResult(
+                check=check, material=model.members[check.member].material, inputs=inputs, factors=factors,
+                area_reason=area_reason, combinations=results, governing=governing, uplift=uplift,
+                passes=governing.utilisation <= PASS_LIMIT,
+            )
+        )
+    return tuple(out)

@@ -1,0 +1,457 @@
+"""Read rule packs (data files under ``rules/``) into frozen, self-validating records.
+
+Code interprets, data states: every number the resistance stage uses comes from here, and
+each keeps its clause, source and status so the memo and ``bearing-audit rules`` can show
+where it came from.
+"""
+
+from __future__ import annotations
+
+import itertools
+import math
+from dataclasses import dataclass
+from importlib import resources
+from pathlib import Path
+from typing import Any
+
+from audit.errors import ErrorCollector, InputError, Location
+from audit.located_yaml import Node, read_yaml_file
+from audit.units import parse_quantity
+
+DURATIONS = ("permanent", "standard", "short")
+SERVICES = ("dry", "wet")
+TIMBER_FAMILIES_ALL = ("sawn_lumber", "timber", "glulam", "engineered")
+ALL_FAMILIES = (*TIMBER_FAMILIES_ALL, "steel", "concrete", "masonry")
+
+
+@dataclass(frozen=True)
+class Sourced:
+    """A value with its provenance."""
+
+    value: Any
+    clause: str
+    source: str
+    status: str
+
+    def cite(self) -> str:
+        return f"O86 {self.clause} ({self.status})" if self.clause else self.status
+
+
+@dataclass(frozen=True)
+class Table:
+    """Piecewise-linear table, held constant beyond its ends."""
+
+    points: tuple[tuple[float, float], ...]
+
+    def __post_init__(self) -> None:
+        xs = [p[0] for p in self.points]
+        if len(xs) < 2 or any(b <= a for a, b in itertools.pairwise(xs)):
+            raise ValueError("table x values must rise strictly, with at least two points")
+
+    def at(self, x: float) -> float:
+        pts = self.points
+        if x <= pts[0][0]:
+            return pts[0][1]
+        for (x0, y0), (x1, y1) in itertools.pairwise(pts):
+            if x <= x1:
+                return y0 + (y1 - y0) * (x - x0) / (x1 - x0)
+        return pts[-1][1]
+
+
+@dataclass(frozen=True)
+class SpeciesStrength:
+    fcp: Sourced  # Pa
+    grades: tuple[str, ...]
+
+
+@dataclass(frozen=True)
+class ResistancePack:
+    id: str
+    title: str
+    edition: str
+    provenance: str
+    path: str
+    phi: Sourced
+    timber_families: Sourced
+    fcp: dict[str, dict[str, SpeciesStrength]]
+    fc: dict[str, dict[str, Sourced]]
+    kb_max_length: Sourced  # m
+    kb_min_end_distance: Sourced  # m
+    kb_table: Sourced  # Table over bearing length in m
+    kzcp_families: Sourced
+    kzcp_table: Sourced  # Table over b/d
+    kd: dict[str, Sourced]
+    kd_long_term: Sourced  # dict intercept/slope/floor
+    kscp: dict[str, Sourced]  # family -> {dry, wet}
+    ksc: dict[str, Sourced]
+    near_factor: Sourced
+    near_reach: Sourced
+    near_area_limit: Sourced  # value: reading name; readings in extra
+    near_area_ratio: float
+    near_area_readings: dict[str, str]
+    near_kb_reading: Sourced
+    near_kb_readings: dict[str, str]
+
+    def is_timber(self, family: str) -> bool:
+        return family in self.timber_families.value
+
+    def all_sourced(self) -> list[tuple[str, Sourced]]:
+        """Every value with a dotted name, for listing."""
+        out: list[tuple[str, Sourced]] = [("phi", self.phi), ("timber_families", self.timber_families)]
+        for fam, species in self.fcp.items():
+            for sp, strength in species.items():
+                out.append((f"fcp.{fam}.{sp}", strength.fcp))
+        for fam, species in self.fc.items():
+            for sp, val in species.items():
+                out.append((f"fc.{fam}.{sp}", val))
+        out += [
+            ("kb.max_length", self.kb_max_length),
+            ("kb.min_end_distance", self.kb_min_end_distance),
+            ("kb.table", self.kb_table),
+            ("kzcp.families", self.kzcp_families),
+            ("kzcp.table", self.kzcp_table),
+        ]
+        out += [(f"kd.{k}", v) for k, v in self.kd.items()]
+        out.append(("kd.long_term_formula", self.kd_long_term))
+        out += [(f"kscp.{k}", v) for k, v in self.kscp.items()]
+        out += [(f"ksc.{k}", v) for k, v in self.ksc.items()]
+        out += [
+            ("near_support.factor", self.near_factor),
+            ("near_support.reach", self.near_reach),
+            ("near_support.area_limit", self.near_area_limit),
+            ("near_support.kb_reading", self.near_kb_reading),
+        ]
+        return out
+
+
+@dataclass(frozen=True)
+class Combination:
+    name: str
+    factors: dict[str, float]
+    duration: str
+    source: Sourced
+
+
+@dataclass(frozen=True)
+class CombinationPack:
+    id: str
+    title: str
+    edition: str
+    provenance: str
+    path: str
+    cases: tuple[str, ...]
+    combinations: tuple[Combination, ...]
+
+
+# ---------------------------------------------------------------- reading
+
+
+class _Reader:
+    """Small helpers that read located nodes and collect errors."""
+
+    def __init__(self, errors: ErrorCollector) -> None:
+        self.errors = errors
+
+    def mapping(self, node: Node, key: str) -> Node | None:
+        child = node.value.get(key) if isinstance(node.value, dict) else None
+        if child is None:
+            self.errors.add(f"missing '{key}'", node.child_loc(key) if node else None)
+            return None
+        if not isinstance(child.value, dict):
+            self.errors.add("expected a mapping", child.loc)
+            return None
+        return child
+
+    def text(self, node: Node, key: str, default: str | None = None) -> str:
+        child = node.value.get(key) if isinstance(node.value, dict) else None
+        if child is None:
+            if default is None:
+                self.errors.add(f"missing '{key}'", node.child_loc(key))
+            return default or ""
+        return str(child.value).strip()
+
+    def sourced(self, node: Node | None, convert: Any = None) -> Sourced | None:
+        if node is None:
+            return None
+        if not isinstance(node.value, dict) or "value" not in node.value:
+            self.errors.add("expected a mapping with value, clause, source and status", node.loc)
+            return None
+        for k in ("source", "status"):
+            if k not in node.value:
+                self.errors.add(f"missing '{k}': every value carries its provenance", node.child_loc(k))
+        raw = node.value["value"]
+        try:
+            value = convert(raw, node) if convert else _plain(raw)
+        except InputError as exc:
+            self.errors.extend(exc)
+            return None
+        return Sourced(
+            value=value,
+            clause=self.text(node, "clause", ""),
+            source=self.text(node, "source", ""),
+            status=self.text(node, "status", ""),
+        )
+
+
+def _plain(node: Node) -> Any:
+    v = node.value
+    if isinstance(v, dict):
+        return {k: _plain(n) for k, n in v.items()}
+    if isinstance(v, list):
+        return [_plain(n) for n in v]
+    return v
+
+
+def _number(node: Node, lo: float = 0.0, hi: float = math.inf) -> float:
+    v = node.value
+    if isinstance(v, bool) or not isinstance(v, (int, float)) or not math.isfinite(v):
+        raise InputError("expected a plain number", node.loc)
+    if not lo < v <= hi:
+        raise InputError(f"expected a number in ({lo}, {hi}], got {v}", node.loc)
+    return float(v)
+
+
+def _stress(node: Node, _parent: Node) -> float:
+    value = parse_quantity(node.value, "stress", node.loc)
+    if value <= 0:
+        raise InputError("strength must be positive", node.loc)
+    return value
+
+
+def _length(node: Node, _parent: Node) -> float:
+    value = parse_quantity(node.value, "length", node.loc)
+    if value <= 0:
+        raise InputError("length must be positive", node.loc)
+    return value
+
+
+def _number_conv(node: Node, _parent: Node) -> float:
+    return _number(node)
+
+
+def _table(node: Node, parent: Node) -> Table:
+    if not isinstance(node.value, list):
+        raise InputError("expected a list of [x, y] points", node.loc)
+    scale = 1.0
+    unit_node = parent.value.get("unit")
+    if unit_node is not None:
+        scale = parse_quantity(f"1 {unit_node.value}", "length", unit_node.loc)
+    points = []
+    for item in node.value:
+        if not isinstance(item.value, list) or len(item.value) != 2:
+            raise InputError("expected a point [x, y]", item.loc)
+        points.append((_number(item.value[0]) * scale, _number(item.value[1])))
+    try:
+        return Table(tuple(points))
+    except ValueError as exc:
+        raise InputError(str(exc), node.loc) from None
+
+
+def _service_pair(node: Node, _parent: Node) -> dict[str, float]:
+    if not isinstance(node.value, dict) or set(node.value) != set(SERVICES):
+        raise InputError("expected {dry: number, wet: number}", node.loc)
+    return {k: _number(node.value[k], 0.0, 2.0) for k in SERVICES}
+
+
+def _family_list(node: Node, _parent: Node) -> tuple[str, ...]:
+    if not isinstance(node.value, list):
+        raise InputError("expected a list of material families", node.loc)
+    out = []
+    for item in node.value:
+        if item.value not in ALL_FAMILIES:
+            raise InputError(f"unknown family '{item.value}' (known: {', '.join(ALL_FAMILIES)})", item.loc)
+        out.append(item.value)
+    return tuple(out)
+
+
+def _reading(node: Node, parent: Node) -> str:
+    readings = parent.value.get("readings")
+    names = set(readings.value) if readings is not None and isinstance(readings.value, dict) else set()
+    if node.value not in names:
+        raise InputError(f"reading '{node.value}' is not one of {sorted(names)}", node.loc)
+    return str(node.value)
+
+
+def _long_term(node: Node, _parent: Node) -> dict[str, float]:
+    if not isinstance(node.value, dict) or set(node.value) != {"intercept", "slope", "floor"}:
+        raise InputError("expected {intercept, slope, floor}", node.loc)
+    return {k: _number(v) for k, v in node.value.items()}
+
+
+def read_resistance_pack(root: Node, path: str) -> ResistancePack:
+    errors = ErrorCollector()
+    r = _Reader(errors)
+    get = root.value.get
+
+    def sub(parent: Node | None, key: str) -> Node | None:
+        return r.mapping(parent, key) if parent is not None else None
+
+    fcp: dict[str, dict[str, SpeciesStrength]] = {}
+    fcp_node = sub(root, "fcp")
+    for fam, fam_node in (fcp_node.value.items() if fcp_node else []):
+        if fam not in TIMBER_FAMILIES_ALL:
+            errors.add(f"unknown family '{fam}'", fam_node.loc)
+            continue
+        fcp[fam] = {}
+        for sp, sp_node in fam_node.value.items():
+            s = r.sourced(sp_node, _stress)
+            grades_node = sp_node.value.get("grades") if isinstance(sp_node.value, dict) else None
+            grades = tuple(str(g.value) for g in grades_node.value) if grades_node else ()
+            if s is not None:
+                fcp[fam][sp] = SpeciesStrength(s, grades)
+    fc: dict[str, dict[str, Sourced]] = {}
+    fc_node = get("fc")
+    for fam, fam_node in (fc_node.value.items() if fc_node else []):
+        fc[fam] = {sp: s for sp, n in fam_node.value.items() if (s := r.sourced(n, _stress))}
+
+    kb = sub(root, "kb")
+    kz = sub(root, "kzcp")
+    kd = sub(root, "kd")
+    ns = sub(root, "near_support")
+    kscp = sub(root, "kscp")
+    ksc = get("ksc")
+    area = sub(ns, "area_limit")
+    kbr = sub(ns, "kb_reading")
+    pack_kwargs: dict[str, Any] = dict(
+        phi=r.sourced(get("phi"), lambda n, p: _number(n, 0.0, 1.0)),
+        timber_families=r.sourced(sub(root, "timber_families"), _family_list),
+        kb_max_length=r.sourced(sub(kb, "max_length"), _length),
+        kb_min_end_distance=r.sourced(sub(kb, "min_end_distance"), _length),
+        kb_table=r.sourced(sub(kb, "table"), _table),
+        kzcp_families=r.sourced(sub(kz, "families"), _family_list),
+        kzcp_table=r.sourced(sub(kz, "table"), _table),
+        kd={d: s for d in DURATIONS if (s := r.sourced(sub(kd, d), _number_conv))},
+        kd_long_term=r.sourced(sub(kd, "long_term_formula"), _long_term),
+        kscp={f: s for f, n in (kscp.value.items() if kscp else []) if (s := r.sourced(n, _service_pair))},
+        ksc={f: s for f, n in (ksc.value.items() if ksc else []) if (s := r.sourced(n, _service_pair))},
+        near_factor=r.sourced(sub(ns, "factor"), lambda n, p: _number(n, 0.0, 1.0)),
+        near_reach=r.sourced(sub(ns, "reach"), _number_conv),
+        near_area_limit=r.sourced(area, _reading),
+        near_kb_reading=r.sourced(kbr, _reading),
+    )
+    ratio = 1.5
+    if area is not None and "ratio" in area.value:
+        try:
+            ratio = _number(area.value["ratio"])
+        except InputError as exc:
+            errors.extend(exc)
+    errors.raise_if_any()
+    missing = [k for k, v in pack_kwargs.items() if v is None]
+    if missing:
+        raise InputError(f"rule pack lacks {', '.join(missing)}", root.loc)
+    return ResistancePack(
+        id=r.text(root, "id"),
+        title=r.text(root, "title", ""),
+        edition=r.text(root, "edition", ""),
+        provenance=r.text(root, "provenance", ""),
+        path=path,
+        fcp=fcp,
+        fc=fc,
+        near_area_ratio=ratio,
+        near_area_readings={k: str(v.value) for k, v in area.value["readings"].value.items()},
+        near_kb_readings={k: str(v.value) for k, v in kbr.value["readings"].value.items()},
+        **pack_kwargs,
+    )
+
+
+def read_combination_pack(root: Node, path: str) -> CombinationPack:
+    errors = ErrorCollector()
+    r = _Reader(errors)
+    cases_node = root.value.get("cases")
+    cases = tuple(str(c.value) for c in cases_node.value) if cases_node else ()
+    if not cases:
+        errors.add("missing 'cases'", root.child_loc("cases"))
+    combos = []
+    combos_node = root.value.get("combinations")
+    for item in combos_node.value if combos_node else []:
+        if not isinstance(item.value, dict):
+            errors.add("expected a mapping", item.loc)
+            continue
+        name = r.text(item, "name")
+        duration = r.text(item, "duration")
+        if duration and duration not in DURATIONS:
+            errors.add(f"duration must be one of {', '.join(DURATIONS)}", item.child_loc("duration"))
+        factors: dict[str, float] = {}
+        f_node = item.value.get("factors")
+        for case, val in (f_node.value.items() if f_node else []):
+            if case not in cases:
+                errors.add(f"unknown load case '{case}'", val.loc)
+                continue
+            try:
+                factors[case] = _number(val, -10.0, 10.0)
+            except InputError as exc:
+                errors.extend(exc)
+        src = Sourced(None, r.text(item, "clause", ""), r.text(item, "source"), r.text(item, "status"))
+        combos.append(Combination(name, factors, duration, src))
+    if not combos:
+        errors.add("no combinations", root.loc)
+    errors.raise_if_any()
+    return CombinationPack(
+        id=r.text(root, "id"),
+        title=r.text(root, "title", ""),
+        edition=r.text(root, "edition", ""),
+        provenance=r.text(root, "provenance", ""),
+        path=path,
+        cases=cases,
+        combinations=tuple(combos),
+    )
+
+
+# ---------------------------------------------------------------- finding packs
+
+
+def builtin_rules_dir() -> Path:
+    """The bundled packs: installed as ``audit.rules``; a source checkout has them in rules/."""
+    try:
+        return Path(str(resources.files("audit.rules")))
+    except ModuleNotFoundError:
+        return Path(__file__).resolve().parent.parent / "rules"
+
+
+def pack_files(extra_dirs: tuple[Path, ...] = ()) -> list[Path]:
+    """Pack files: the reviewer's own folders first, then the bundled packs."""
+    out: list[Path] = []
+    for folder in (*extra_dirs, builtin_rules_dir()):
+        if not folder.is_dir():
+            raise InputError("rules folder does not exist", Location(str(folder)))
+        out += sorted(folder.glob("*.yaml"))
+    return out
+
+
+def load_all_packs(
+    extra_dirs: tuple[Path, ...] = (),
+) -> tuple[dict[str, ResistancePack], dict[str, CombinationPack]]:
+    resistance: dict[str, ResistancePack] = {}
+    combos: dict[str, CombinationPack] = {}
+    for path in pack_files(extra_dirs):
+        root = read_yaml_file(path)
+        if not isinstance(root.value, dict):
+            raise InputError("a rule pack must be a mapping", root.loc)
+        kind = root.value.get("kind")
+        kind_value = kind.value if kind else None
+        if kind_value == "resistance":
+            pack = read_resistance_pack(root, str(path))
+            resistance.setdefault(pack.id, pack)
+        elif kind_value == "combinations":
+            cpack = read_combination_pack(root, str(path))
+            combos.setdefault(cpack.id, cpack)
+        else:
+            raise InputError("kind must be 'resistance' or 'combinations'", root.child_loc("kind"))
+    return resistance, combos
+
+
+def select_packs(
+    resistance_id: str, combinations_id: str, extra_dirs: tuple[Path, ...] = (),
+    where: Location | None = None,
+) -> tuple[ResistancePack, CombinationPack]:
+    resistance, combos = load_all_packs(extra_dirs)
+    if resistance_id not in resistance:
+        raise InputError(
+            f"unknown rule pack '{resistance_id}' (available: {', '.join(sorted(resistance))})", where
+        )
+    if combinations_id not in combos:
+        raise InputError(
+            f"unknown combination pack '{combinations_id}' (available: {', '.join(sorted(combos))})",
+            where,
+        )
+    return resistance[resistance_id], combos[combinations_id]

@@ -1,0 +1,106 @@
+"""The units edge: pint reads quantities where values come in and formats them going out.
+
+Inside the program every quantity is a plain SI float (N, m, Pa, N/m, rad). Nothing past
+this module touches pint.
+"""
+
+from __future__ import annotations
+
+import math
+from functools import lru_cache
+
+import pint
+
+from audit.errors import InputError, Location
+
+UREG = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+UREG.define("plf = lbf / foot")
+UREG.define("klf = kip / foot")
+
+# dimension name -> (pint dimensionality, SI unit used inside, example for messages)
+DIMENSIONS: dict[str, tuple[str, str, str]] = {
+    "length": ("[length]", "m", "130 mm, 5.125 in"),
+    "force": ("[force]", "N", "12.5 kN, 2800 lbf"),
+    "line_load": ("[force] / [length]", "N/m", "4.2 kN/m, 290 plf"),
+    "stress": ("[pressure]", "Pa", "7.0 MPa, 625 psi"),
+    "angle": ("", "rad", "30 deg"),
+}
+
+
+class UnitProblem(ValueError):
+    """A quantity string that cannot be read as the wanted dimension."""
+
+
+@lru_cache(maxsize=65536)
+def _parse_cached(text: str, dimension: str) -> float:
+    dim, si_unit, example = DIMENSIONS[dimension]
+    try:
+        q = UREG.Quantity(text)
+    except Exception:  # pint raises many kinds for unreadable text
+        raise UnitProblem(f"cannot read '{text}' as a {dimension} (e.g. {example})") from None
+    if not isinstance(q, UREG.Quantity):
+        raise UnitProblem(f"'{text}' has no unit; give a {dimension} such as {example}")
+    if dimension == "angle":
+        if not (q.dimensionless and str(q.units) in {"degree", "radian", "arcminute"}):
+            raise UnitProblem(f"'{text}' is not an angle (e.g. {example})")
+    elif q.dimensionality != UREG.get_dimensionality(dim):
+        raise UnitProblem(
+            f"'{text}' is a {_describe(q)}, not a {dimension} (e.g. {example})"
+        )
+    value = float(q.to(si_unit).magnitude)
+    if not math.isfinite(value):
+        raise UnitProblem(f"'{text}' is not a finite number")
+    return value
+
+
+def _describe(q: pint.Quantity) -> str:
+    for name, (dim, _, _) in DIMENSIONS.items():
+        if dim and q.dimensionality == UREG.get_dimensionality(dim):
+            return name
+    if q.dimensionless:
+        return "plain number"
+    return f"quantity of dimension {q.dimensionality}"
+
+
+def parse_quantity(value: object, dimension: str, loc: Location) -> float:
+    """Read a quantity (a string with a unit) into an SI float, or raise InputError."""
+    if isinstance(value, bool) or value is None:
+        raise InputError(f"expected a {dimension} with a unit, got {value!r}", loc)
+    if isinstance(value, (int, float)):
+        example = DIMENSIONS[dimension][2]
+        raise InputError(f"bare number {value!r}: give a {dimension} with a unit (e.g. {example})", loc)
+    if not isinstance(value, str):
+        raise InputError(f"expected a {dimension} with a unit, got a {type(value).__name__}", loc)
+    if len(value) > 200:
+        raise InputError(f"value is {len(value)} characters long; expected a {dimension}", loc)
+    try:
+        return _parse_cached(value.strip(), dimension)
+    except UnitProblem as exc:
+        raise InputError(str(exc), loc) from None
+
+
+def to_display(value_si: float, unit: str) -> float:
+    """Convert an SI float to a display unit (kN, mm, MPa, kN/m, in, lbf)."""
+    return _display_factor(unit) * value_si
+
+
+@lru_cache(maxsize=64)
+def _display_factor(unit: str) -> float:
+    q = UREG.Quantity(1.0, unit)
+    return 1.0 / float(q.to_base_units().magnitude)
+
+
+def kn(value_n: float) -> str:
+    return f"{value_n / 1000.0:.2f} kN"
+
+
+def mm(value_m: float) -> str:
+    return f"{value_m * 1000.0:.0f} mm"
+
+
+def mpa(value_pa: float) -> str:
+    return f"{value_pa / 1e6:.2f} MPa"
+
+
+def mm2(value_m2: float) -> str:
+    return f"{value_m2 * 1e6:,.0f} mm²"

@@ -1,0 +1,1 @@
+"""Rule packs shipped with bearing-audit (data files; see DEVELOPERS.md)."""
