@@ -137,8 +137,7 @@ def _local_why(member: Member, other: Member, face: str) -> str:
     if face == "top":
         return f"{other.id} bears on the side grain of {member.id}: the supporting member is crushed"
     return (
-        f"{member.id} bears on {other.id}: the reverse-direction check, the member above crushed "
-        "on its own side grain"
+        f"{member.id} bears on {other.id}: the reverse-direction check, the member above crushed on its own side grain"
     )
 
 
@@ -211,8 +210,13 @@ def _top_contact(model: Model, member: Member, item: AppliedForce, bearings_by_i
     start = max(load.at - 0.5 * load.length, 0.0)
     end = min(load.at + 0.5 * load.length, member.length)
     return Contact(
-        load.id, end - start, width, min(start, member.length - end), load.at,
-        "stated in the model", "stated in the model" if load.width is not None else f"full width of {member.id}",
+        load.id,
+        end - start,
+        width,
+        min(start, member.length - end),
+        load.at,
+        "stated in the model",
+        "stated in the model" if load.width is not None else f"full width of {member.id}",
     )
 
 

@@ -90,9 +90,7 @@ def _loc(node: yaml.Node, name: str, key: str) -> Location:
 def _convert(node: yaml.Node, name: str, key: str, loader: yaml.SafeLoader, budget: list[int]) -> Node:
     budget[0] -= 1
     if budget[0] < 0:
-        raise InputError(
-            "document expands to too many values (aliases nested too deeply?)", _loc(node, name, key)
-        )
+        raise InputError("document expands to too many values (aliases nested too deeply?)", _loc(node, name, key))
     loc = _loc(node, name, key)
     if isinstance(node, yaml.MappingNode):
         out: dict[str, Node] = {}
@@ -110,9 +108,7 @@ def _convert(node: yaml.Node, name: str, key: str, loader: yaml.SafeLoader, budg
             out[k] = _convert(v_node, name, child_key, loader, budget)
         return Node(out, loc, key_locs)
     if isinstance(node, yaml.SequenceNode):
-        items = [
-            _convert(item, name, join_key(key, i), loader, budget) for i, item in enumerate(node.value)
-        ]
+        items = [_convert(item, name, join_key(key, i), loader, budget) for i, item in enumerate(node.value)]
         return Node(items, loc)
     try:
         value = loader.construct_object(node, deep=True)

@@ -61,10 +61,13 @@ def uplift_findings(results: tuple[CheckResult, ...]) -> tuple[Finding, ...]:
         worst = min((c for c in r.combinations if c.qf < 0), key=lambda c: c.qf)
         out.append(
             Finding(
-                "uplift", KINDS["uplift"].severity,
+                "uplift",
+                KINDS["uplift"].severity,
                 f"Bearing {r.check.bearing}: {worst.combination} gives an upward force of "
                 f"{-worst.qf / 1000:.2f} kN; a bearing cannot resist uplift, confirm the tie-down.",
-                bearing=r.check.bearing, member=r.check.member, numbers={"qf": worst.qf},
+                bearing=r.check.bearing,
+                member=r.check.member,
+                numbers={"qf": worst.qf},
             )
         )
     return tuple(out)

@@ -38,18 +38,46 @@ from audit.units import parse_quantity
 
 TOP_KEYS = {"project", "materials", "members", "bearings", "loads"}
 PROJECT_KEYS = {
-    "title", "calc", "reviewer", "rule_pack", "combinations", "service", "tolerance", "date",
-    "near_support_area", "near_support_kb",
+    "title",
+    "calc",
+    "reviewer",
+    "rule_pack",
+    "combinations",
+    "service",
+    "tolerance",
+    "date",
+    "near_support_area",
+    "near_support_kb",
 }
 MATERIAL_KEYS = {"family", "species", "grade", "fcp", "fc", "factors", "wet_factor", "source"}
 MEMBER_KEYS = {
-    "id", "material", "b", "d", "length", "orientation", "service", "KT", "support", "level", "label",
+    "id",
+    "material",
+    "b",
+    "d",
+    "length",
+    "orientation",
+    "service",
+    "KT",
+    "support",
+    "level",
+    "label",
 }
 BEARING_KEYS = {"id", "upper", "lower", "width", "aliases"}
 SIDE_KEYS = {"member", "at", "length", "angle"}
 LOAD_KEYS = {
-    "id", "member", "type", "at", "from", "to", "length", "width", "specified", "factored",
-    "duration", "label",
+    "id",
+    "member",
+    "type",
+    "at",
+    "from",
+    "to",
+    "length",
+    "width",
+    "specified",
+    "factored",
+    "duration",
+    "label",
 }
 ENGINEERED_FACTORS = ("KD", "KScp", "KB", "KZcp", "KT")
 
@@ -110,9 +138,7 @@ class _Fields:
             return default
         return value
 
-    def quantity(
-        self, key: str, dimension: str, required: bool = True, positive: bool = False
-    ) -> float | None:
+    def quantity(self, key: str, dimension: str, required: bool = True, positive: bool = False) -> float | None:
         node = self._get(key, required)
         if node is None:
             return None
@@ -178,9 +204,7 @@ def build_model(
     project = _read_project(top.map["project"], errors)
     errors.raise_if_any()
     pack_id = rule_pack or project.rule_pack
-    resistance, combos = select_packs(
-        pack_id, project.combinations, rules_dirs, top.map["project"].loc
-    )
+    resistance, combos = select_packs(pack_id, project.combinations, rules_dirs, top.map["project"].loc)
     if project.area_reading and project.area_reading not in resistance.near_area_readings:
         errors.add(
             f"reading '{project.area_reading}' is not in rule pack {resistance.id} "
@@ -197,9 +221,7 @@ def build_model(
     materials = _read_materials(top.map["materials"], resistance, errors)
     members = _read_members(top.map["members"], materials, project, errors)
     bearings = _read_bearings(top.map["bearings"], members, errors)
-    loads, groups = (
-        _read_loads(top.map["loads"], members, combos, errors) if "loads" in top.map else ((), {})
-    )
+    loads, groups = _read_loads(top.map["loads"], members, combos, errors) if "loads" in top.map else ((), {})
     errors.raise_if_any()
     _check_support_graph(members, bearings, errors)
     _check_loads_within_members(members, loads, errors)
@@ -281,9 +303,7 @@ def _material_of_family(
                 return None
             for item in fnode.value:
                 if item.value not in ENGINEERED_FACTORS:
-                    errors.add(
-                        f"unknown factor '{item.value}' (known: {', '.join(ENGINEERED_FACTORS)})", item.loc
-                    )
+                    errors.add(f"unknown factor '{item.value}' (known: {', '.join(ENGINEERED_FACTORS)})", item.loc)
                     return None
                 applies.add(item.value)
         else:
@@ -293,8 +313,14 @@ def _material_of_family(
             return None
         wet = f.number("wet_factor", 0.01, 1.0, -1.0)
         return Material(
-            mat_id, family, fcp=fcp, fc=fc, applies=frozenset(applies),
-            wet_factor=None if wet < 0 else wet, source=source, loc=loc,
+            mat_id,
+            family,
+            fcp=fcp,
+            fc=fc,
+            applies=frozenset(applies),
+            wet_factor=None if wet < 0 else wet,
+            source=source,
+            loc=loc,
         )
     if family not in pack.timber_families.value:
         return Material(mat_id, family, source=f.text("source", required=False), loc=loc)
@@ -305,8 +331,7 @@ def _material_of_family(
     table = pack.fcp.get(family, {})
     if species not in table:
         errors.add(
-            f"species '{species}' is not in rule pack {pack.id} for {family} "
-            f"(known: {', '.join(table) or 'none'})",
+            f"species '{species}' is not in rule pack {pack.id} for {family} (known: {', '.join(table) or 'none'})",
             f.loc("species"),
         )
         return None
@@ -324,8 +349,14 @@ def _material_of_family(
             return None
     fc_entry = pack.fc.get(family, {}).get(species)
     return Material(
-        mat_id, family, species, grade, fcp=strength.fcp.value,
-        fc=fc_entry.value if fc_entry else None, source=f.text("source", required=False), loc=loc,
+        mat_id,
+        family,
+        species,
+        grade,
+        fcp=strength.fcp.value,
+        fc=fc_entry.value if fc_entry else None,
+        source=f.text("source", required=False),
+        loc=loc,
     )
 
 
@@ -365,17 +396,23 @@ def _read_members(
         if not f.ok or b is None or d is None or length is None:
             continue
         out[member_id] = Member(
-            id=member_id, material=material, b=b, d=d, length=length,
-            vertical=orientation == "vertical", service=service, kt=kt,
-            continuous=support == "continuous", level=f.text("level", required=False),
-            label=f.text("label", required=False), loc=item.loc,
+            id=member_id,
+            material=material,
+            b=b,
+            d=d,
+            length=length,
+            vertical=orientation == "vertical",
+            service=service,
+            kt=kt,
+            continuous=support == "continuous",
+            level=f.text("level", required=False),
+            label=f.text("label", required=False),
+            loc=item.loc,
         )
     return out
 
 
-def _read_side(
-    node: Node, role: str, members: dict[str, Member], errors: ErrorCollector
-) -> Side | None:
+def _read_side(node: Node, role: str, members: dict[str, Member], errors: ErrorCollector) -> Side | None:
     if isinstance(node.value, str):
         node = Node({"member": node}, node.loc)
     f = _Fields(node, SIDE_KEYS, errors, f"bearing {role}")
@@ -516,17 +553,14 @@ def _read_loads(
             prior = groups.get(label)
             if prior is not None and prior.duration != duration:
                 errors.add(
-                    f"factored loads labelled '{label}' must share one duration "
-                    f"(another says {prior.duration})",
+                    f"factored loads labelled '{label}' must share one duration (another says {prior.duration})",
                     f.loc("duration"),
                 )
                 continue
             groups[label] = FactoredGroup(label, duration)
             entries.append((FACTORED_PREFIX + label, value))
         for case, value in entries:
-            out.append(
-                Load(load_id, member_id, kind, case, value, at, start, end, length, width, item.loc)
-            )
+            out.append(Load(load_id, member_id, kind, case, value, at, start, end, length, width, item.loc))
     return tuple(out), groups
 
 
@@ -556,9 +590,7 @@ def _load_geometry(
     return None, start, end, None, None
 
 
-def _check_loads_within_members(
-    members: dict[str, Member], loads: tuple[Load, ...], errors: ErrorCollector
-) -> None:
+def _check_loads_within_members(members: dict[str, Member], loads: tuple[Load, ...], errors: ErrorCollector) -> None:
     for load in loads:
         member = members[load.member]
         positions = [p for p in (load.at, load.start, load.end) if p is not None]
@@ -572,9 +604,7 @@ def _check_loads_within_members(
 # ---------------------------------------------------------------- support graph
 
 
-def _check_support_graph(
-    members: dict[str, Member], bearings: tuple[Bearing, ...], errors: ErrorCollector
-) -> None:
+def _check_support_graph(members: dict[str, Member], bearings: tuple[Bearing, ...], errors: ErrorCollector) -> None:
     supports: dict[str, list[Bearing]] = {m: [] for m in members}
     for b in bearings:
         supports[b.upper.member].append(b)
@@ -628,7 +658,7 @@ def find_support_cycle(members: dict[str, Member], bearings: tuple[Bearing, ...]
                 stack.append((node, i + 1))
                 child = nxt[i]
                 if state.get(child) == 1:
-                    return [*path[path.index(child):], child]
+                    return [*path[path.index(child) :], child]
                 if not state.get(child):
                     stack.append((child, 0))
             else:

@@ -90,9 +90,7 @@ def load_combinations(model: Model, cpack: CombinationPack) -> tuple[LoadCombina
     """The pack's combinations for specified loads, plus one per group of factored loads."""
     out = [LoadCombination(c.name, c.factors, c.duration, c.source.clause) for c in cpack.combinations]
     for group in sorted(model.factored_groups.values(), key=lambda g: g.label):
-        out.append(
-            LoadCombination(group.label, {FACTORED_PREFIX + group.label: 1.0}, group.duration, "", True)
-        )
+        out.append(LoadCombination(group.label, {FACTORED_PREFIX + group.label: 1.0}, group.duration, "", True))
     return tuple(out)
 
 
@@ -109,9 +107,7 @@ def load_duration_factor(forces: Forces, combo: LoadCombination, pack: Resistanc
     if combo.factored:
         return standard_value, f"KD = {standard_value:.2f}: factored loads stated as standard term"
     long_term = max(forces.get(LONG_TERM_CASE, 0.0), 0.0)
-    standard = math.fsum(
-        max(forces.get(c, 0.0), 0.0) for c in STANDARD_TERM_CASES if combo.factors.get(c, 0.0) != 0.0
-    )
+    standard = math.fsum(max(forces.get(c, 0.0), 0.0) for c in STANDARD_TERM_CASES if combo.factors.get(c, 0.0) != 0.0)
     if long_term <= standard or long_term == 0.0:
         return standard_value, f"KD = {standard_value:.2f}: standard-term combination {combo.name}"
     rule = pack.kd_long_term.value
@@ -140,13 +136,15 @@ def _kb(length: float, end_distance: float, material: Material, pack: Resistance
         )
     if end_distance < min_end - 1e-9:
         return Factor(
-            "KB", 1.0,
+            "KB",
+            1.0,
             f"KB = 1.00: bearing {end_distance * 1000:.0f} mm from the member end, less than {min_end * 1000:.0f} mm",
             clause,
         )
     value = pack.kb_table.value.at(length)
     return Factor(
-        "KB", value,
+        "KB",
+        value,
         f"KB = {value:.3f}: bearing length {length * 1000:.0f} mm, {end_distance * 1000:.0f} mm from the member end",
         clause,
     )
@@ -162,7 +160,8 @@ def _kzcp(member: Member, material: Material, pack: ResistancePack) -> Factor:
     ratio = member.b / member.d
     value = pack.kzcp_table.value.at(ratio)
     return Factor(
-        "KZcp", value,
+        "KZcp",
+        value,
         f"KZcp = {value:.3f}: width/depth = {member.b * 1000:.0f}/{member.d * 1000:.0f} = {ratio:.2f}",
         clause,
     )
@@ -201,8 +200,11 @@ def _fc_parallel(member: Member, material: Material, pack: ResistancePack, angle
 
 
 def resistance_inputs(
-    check: RequiredCheck, model: Model, pack: ResistancePack,
-    area_reading: str, kb_reading: str,
+    check: RequiredCheck,
+    model: Model,
+    pack: ResistancePack,
+    area_reading: str,
+    kb_reading: str,
 ) -> tuple[ResistanceInputs, tuple[Factor, ...], str]:
     member = model.members[check.member]
     material = model.materials[member.material]
@@ -233,9 +235,17 @@ def resistance_inputs(
         factor = pack.near_factor.value
         coefficient = Factor("2/3", factor, f"near-support factor {factor:.3f}", pack.near_factor.clause)
     inputs = ResistanceInputs(
-        phi=phi.value, coefficient=coefficient.value, fcp=material.fcp, kscp=kscp.value, kt=kt.value,
-        kb=kb.value, kzcp=kzcp.value, area=area, uses_kd="KD" in material.applies,
-        fc_parallel=_fc_parallel(member, material, pack, check.angle), angle=check.angle,
+        phi=phi.value,
+        coefficient=coefficient.value,
+        fcp=material.fcp,
+        kscp=kscp.value,
+        kt=kt.value,
+        kb=kb.value,
+        kzcp=kzcp.value,
+        area=area,
+        uses_kd="KD" in material.applies,
+        fc_parallel=_fc_parallel(member, material, pack, check.angle),
+        angle=check.angle,
     )
     factors = (phi, fcp, kscp, kt, kb, kzcp) + ((coefficient,) if check.kind == NEAR else ())
     return inputs, factors, area_reason
@@ -291,15 +301,31 @@ def resistance(inputs: ResistanceInputs, kd: float) -> float:
     return pr * qr / (pr * s * s + qr * c * c)
 
 
+def _principal_present(combo: LoadCombination, forces: Forces) -> bool:
+    """A combination whose principal load is absent here only repeats another; skip it.
+
+    The principal is the case with the largest load factor other than dead load (dead load
+    itself for a dead-only combination).
+    """
+    live = {case: f for case, f in combo.factors.items() if case != LONG_TERM_CASE}
+    if not live:
+        return forces.get(LONG_TERM_CASE, 0.0) != 0.0
+    principal = max(live, key=lambda case: live[case])
+    return forces.get(principal, 0.0) != 0.0
+
+
 def evaluate(
-    check: RequiredCheck, inputs: ResistanceInputs, combos: tuple[LoadCombination, ...], pack: ResistancePack,
+    check: RequiredCheck,
+    inputs: ResistanceInputs,
+    combos: tuple[LoadCombination, ...],
+    pack: ResistancePack,
     forces: Forces | None = None,
 ) -> tuple[tuple[CombinationResult, ...], CombinationResult, tuple[str, ...]]:
     forces = check.forces if forces is None else forces
     results = []
     uplift = []
     for combo in combos:
-        if not any(case in forces for case in combo.factors):
+        if not _principal_present(combo, forces):
             continue
         qf = factored_force(forces, combo)
         kd, kd_reason = load_duration_factor(forces, combo, pack)
@@ -316,9 +342,7 @@ def evaluate(
     return tuple(results), governing, tuple(uplift)
 
 
-def resist(
-    checklist: CheckList, model: Model, pack: ResistancePack, cpack: CombinationPack
-) -> tuple[CheckResult, ...]:
+def resist(checklist: CheckList, model: Model, pack: ResistancePack, cpack: CombinationPack) -> tuple[CheckResult, ...]:
     combos = load_combinations(model, cpack)
     area_reading = model.project.area_reading or pack.near_area_limit.value
     kb_reading = model.project.kb_reading or pack.near_kb_reading.value
@@ -328,8 +352,14 @@ def resist(
         results, governing, uplift = evaluate(check, inputs, combos, pack)
         out.append(
             CheckResult(
-                check=check, material=model.members[check.member].material, inputs=inputs, factors=factors,
-                area_reason=area_reason, combinations=results, governing=governing, uplift=uplift,
+                check=check,
+                material=model.members[check.member].material,
+                inputs=inputs,
+                factors=factors,
+                area_reason=area_reason,
+                combinations=results,
+                governing=governing,
+                uplift=uplift,
                 passes=governing.utilisation <= PASS_LIMIT,
             )
         )

@@ -288,7 +288,7 @@ def read_resistance_pack(root: Node, path: str) -> ResistancePack:
 
     fcp: dict[str, dict[str, SpeciesStrength]] = {}
     fcp_node = sub(root, "fcp")
-    for fam, fam_node in (fcp_node.value.items() if fcp_node else []):
+    for fam, fam_node in fcp_node.value.items() if fcp_node else []:
         if fam not in TIMBER_FAMILIES_ALL:
             errors.add(f"unknown family '{fam}'", fam_node.loc)
             continue
@@ -301,7 +301,7 @@ def read_resistance_pack(root: Node, path: str) -> ResistancePack:
                 fcp[fam][sp] = SpeciesStrength(s, grades)
     fc: dict[str, dict[str, Sourced]] = {}
     fc_node = get("fc")
-    for fam, fam_node in (fc_node.value.items() if fc_node else []):
+    for fam, fam_node in fc_node.value.items() if fc_node else []:
         fc[fam] = {sp: s for sp, n in fam_node.value.items() if (s := r.sourced(n, _stress))}
 
     kb = sub(root, "kb")
@@ -373,7 +373,7 @@ def read_combination_pack(root: Node, path: str) -> CombinationPack:
             errors.add(f"duration must be one of {', '.join(DURATIONS)}", item.child_loc("duration"))
         factors: dict[str, float] = {}
         f_node = item.value.get("factors")
-        for case, val in (f_node.value.items() if f_node else []):
+        for case, val in f_node.value.items() if f_node else []:
             if case not in cases:
                 errors.add(f"unknown load case '{case}'", val.loc)
                 continue
@@ -441,14 +441,14 @@ def load_all_packs(
 
 
 def select_packs(
-    resistance_id: str, combinations_id: str, extra_dirs: tuple[Path, ...] = (),
+    resistance_id: str,
+    combinations_id: str,
+    extra_dirs: tuple[Path, ...] = (),
     where: Location | None = None,
 ) -> tuple[ResistancePack, CombinationPack]:
     resistance, combos = load_all_packs(extra_dirs)
     if resistance_id not in resistance:
-        raise InputError(
-            f"unknown rule pack '{resistance_id}' (available: {', '.join(sorted(resistance))})", where
-        )
+        raise InputError(f"unknown rule pack '{resistance_id}' (available: {', '.join(sorted(resistance))})", where)
     if combinations_id not in combos:
         raise InputError(
             f"unknown combination pack '{combinations_id}' (available: {', '.join(sorted(combos))})",

@@ -44,9 +44,7 @@ def _parse_cached(text: str, dimension: str) -> float:
         if not (q.dimensionless and str(q.units) in {"degree", "radian", "arcminute"}):
             raise UnitProblem(f"'{text}' is not an angle (e.g. {example})")
     elif q.dimensionality != UREG.get_dimensionality(dim):
-        raise UnitProblem(
-            f"'{text}' is a {_describe(q)}, not a {dimension} (e.g. {example})"
-        )
+        raise UnitProblem(f"'{text}' is a {_describe(q)}, not a {dimension} (e.g. {example})")
     value = float(q.to(si_unit).magnitude)
     if not math.isfinite(value):
         raise UnitProblem(f"'{text}' is not a finite number")

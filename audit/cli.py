@@ -1,0 +1,136 @@
+"""The command line (typer). Input errors print one line each and exit 2; no traceback."""
+
+from __future__ import annotations
+
+import sys
+from pathlib import Path
+from typing import NoReturn
+
+import typer
+
+from audit.errors import InputError, InputErrors
+
+app = typer.Typer(
+    add_completion=False,
+    no_args_is_help=True,
+    help="Peer-review the timber bearing checks (CSA O86, compression perpendicular to grain) of a calc package.",
+)
+
+RulesDir = typer.Option(None, "--rules-dir", help="A folder of your own rule packs (searched before the bundled ones).")
+RulePack = typer.Option(None, "--rule-pack", help="Rule pack id; overrides project.rule_pack.")
+
+
+def _fail(error: InputError) -> NoReturn:
+    lines = error.lines() if isinstance(error, InputErrors) else [error.one_line()]
+    for line in lines:
+        typer.echo(f"error: {line}", err=True)
+    if len(lines) > 1:
+        typer.echo(f"{len(lines)} errors; nothing was reviewed.", err=True)
+    raise typer.Exit(2)
+
+
+def _dirs(rules_dir: list[Path] | None) -> tuple[Path, ...]:
+    return tuple(rules_dir or ())
+
+
+@app.command()
+def review(
+    model: Path = typer.Argument(..., help="The review model (YAML)."),
+    json_out: Path | None = typer.Option(None, "--json", help="Write every check with all its factors as JSON."),
+    rules_dir: list[Path] | None = RulesDir,
+    rule_pack: str | None = RulePack,
+) -> None:
+    """Recompute every required bearing check of a model and print them."""
+    from audit.export import check_table, review_record, summary_line, to_json
+    from audit.outfiles import write_atomic
+    from audit.pipeline import review_model
+
+    try:
+        result = review_model(model, _dirs(rules_dir), rule_pack)
+    except InputError as exc:
+        _fail(exc)
+    typer.echo(check_table(result))
+    for finding in result.engine_findings:
+        typer.echo(f"{finding.code} {finding.kind}: {finding.message}")
+    typer.echo(summary_line(result))
+    if json_out:
+        write_atomic(json_out, to_json(review_record(result)))
+        typer.echo(f"wrote {json_out}")
+    failing = any(not r.passes for r in result.results) or bool(result.engine_findings)
+    raise typer.Exit(1 if failing else 0)
+
+
+@app.command()
+def explain(
+    model: Path = typer.Argument(..., help="The review model (YAML)."),
+    check_id: str = typer.Argument(..., help="A check id as printed by 'review'."),
+    rules_dir: list[Path] | None = RulesDir,
+    rule_pack: str | None = RulePack,
+) -> None:
+    """Print one check's full derivation: geometry, every factor and why, every combination."""
+    from audit.export import explain as explain_text
+    from audit.pipeline import review_model
+
+    try:
+        result = review_model(model, _dirs(rules_dir), rule_pack)
+    except InputError as exc:
+        _fail(exc)
+    ids = [r.check.id for r in result.results]
+    if check_id not in ids:
+        close = [i for i in ids if check_id.split(":")[0] in i][:5]
+        hint = f" (did you mean: {', '.join(close)})" if close else ""
+        typer.echo(f"error: {model}: no check '{check_id}'{hint}", err=True)
+        raise typer.Exit(2)
+    typer.echo(explain_text(result, check_id))
+
+
+@app.command()
+def rules(rules_dir: list[Path] | None = RulesDir) -> None:
+    """List the rule packs and every value with its provenance."""
+    from audit.rulepack import load_all_packs
+
+    try:
+        resistance, combos = load_all_packs(_dirs(rules_dir))
+    except InputError as exc:
+        _fail(exc)
+    for pack in resistance.values():
+        typer.echo(f"resistance pack {pack.id}: {pack.title}\n  edition: {pack.edition}\n  file: {pack.path}")
+        typer.echo(f"  provenance: {pack.provenance}")
+        for name, value in pack.all_sourced():
+            shown = value.value
+            if hasattr(shown, "points"):
+                shown = ", ".join(f"{x:g}->{y:g}" for x, y in shown.points)
+            elif isinstance(shown, float) and shown > 1000:
+                shown = f"{shown / 1e6:g} MPa" if name.startswith("fc") else f"{shown * 1000:g} mm"
+            elif isinstance(shown, float) and name.startswith("kb.m"):
+                shown = f"{shown * 1000:g} mm"
+            typer.echo(f"  {name} = {shown}  [{value.clause}; {value.source}; {value.status}]")
+    for cpack in combos.values():
+        typer.echo(f"combinations pack {cpack.id}: {cpack.title}\n  edition: {cpack.edition}\n  file: {cpack.path}")
+        typer.echo(f"  provenance: {cpack.provenance}")
+        for c in cpack.combinations:
+            typer.echo(f"  {c.name} ({c.duration} term)  [{c.source.clause}; {c.source.source}; {c.source.status}]")
+
+
+@app.command()
+def schema(which: str = typer.Argument("model", help="Which input file: model.")) -> None:
+    """Print the JSON Schema of an input file, for editors that validate and complete YAML."""
+    import json
+
+    from audit.schema import SCHEMAS
+
+    if which not in SCHEMAS:
+        typer.echo(f"error: no schema '{which}' (known: {', '.join(SCHEMAS)})", err=True)
+        raise typer.Exit(2)
+    typer.echo(json.dumps(SCHEMAS[which], indent=2))
+
+
+def main() -> None:
+    try:
+        app()
+    except KeyboardInterrupt:
+        sys.exit(130)
+
+
+if __name__ == "__main__":
+    main()

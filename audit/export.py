@@ -1,0 +1,188 @@
+"""Plain-data views of a review for JSON and CSV exports and the text table.
+
+Values are given in display units (kN, mm, MPa) with the unit in the key name, so a comment
+log can take them as they are.
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import json
+from typing import Any
+
+from audit import __version__
+from audit.list_checks import Contact
+from audit.pipeline import Review
+from audit.resist import CheckResult
+
+
+def _contact(c: Contact) -> dict[str, Any]:
+    return {
+        "source": c.source,
+        "length_mm": round(c.length * 1000, 2),
+        "width_mm": round(c.width * 1000, 2),
+        "end_distance_mm": round(c.end_distance * 1000, 2),
+        "length_note": c.length_note,
+        "width_note": c.width_note,
+    }
+
+
+def check_record(r: CheckResult) -> dict[str, Any]:
+    c = r.check
+    g = r.governing
+    return {
+        "id": c.id,
+        "kind": c.kind,
+        "member": c.member,
+        "material": r.material,
+        "bearing": c.bearing,
+        "other_member": c.other_member,
+        "face": c.face,
+        "why_required": c.why,
+        "contact": _contact(c.contact),
+        "opposite": [_contact(o) for o in c.opposite],
+        "area_mm2": round(r.inputs.area * 1e6, 1),
+        "area_reason": r.area_reason,
+        "factors": [
+            {"name": f.name, "value": round(f.value, 4), "reason": f.reason, "clause": f.clause} for f in r.factors
+        ],
+        "forces_kN": {case: round(v / 1000, 3) for case, v in sorted(c.forces.items())},
+        "combinations": [
+            {
+                "name": x.combination,
+                "duration": x.duration,
+                "Qf_kN": round(x.qf / 1000, 3),
+                "KD": round(x.kd, 4),
+                "KD_reason": x.kd_reason,
+                "Qr_kN": round(x.qr / 1000, 3),
+                "utilisation": round(x.utilisation, 4),
+            }
+            for x in r.combinations
+        ],
+        "governing": g.combination,
+        "Qf_kN": round(g.qf / 1000, 3),
+        "Qr_kN": round(g.qr / 1000, 3),
+        "utilisation": round(g.utilisation, 4),
+        "passes": r.passes,
+        "uplift_in": list(r.uplift),
+    }
+
+
+def review_record(review: Review) -> dict[str, Any]:
+    p = review.model.project
+    return {
+        "tool": {"name": "bearing-audit", "version": __version__},
+        "project": {
+            "title": p.title,
+            "calc": p.calc,
+            "reviewer": p.reviewer,
+            "date": p.date.isoformat() if p.date else None,
+        },
+        "rule_pack": {"id": review.pack.id, "edition": review.pack.edition, "provenance": review.pack.provenance},
+        "combinations_pack": {"id": review.cpack.id, "edition": review.cpack.edition},
+        "readings": {"near_support_area": review.area_reading, "near_support_kb": review.kb_reading},
+        "checks": [check_record(r) for r in review.results],
+        "not_checked": [
+            {"bearing": e.bearing, "member": e.member, "reason": e.reason} for e in review.checklist.exempt
+        ],
+        "engine_findings": [
+            {"code": f.code, "kind": f.kind, "severity": f.severity, "message": f.message, "bearing": f.bearing}
+            for f in review.engine_findings
+        ],
+    }
+
+
+def to_json(data: Any) -> str:
+    return json.dumps(data, indent=2, ensure_ascii=False, sort_keys=False) + "\n"
+
+
+def rows_to_csv(header: list[str], rows: list[list[Any]]) -> str:
+    buffer = io.StringIO()
+    writer = csv.writer(buffer, lineterminator="\n")
+    writer.writerow(header)
+    writer.writerows([[_csv_safe(v) for v in row] for row in rows])
+    return buffer.getvalue()
+
+
+def _csv_safe(value: Any) -> Any:
+    # a cell starting with = + - @ is read as a formula by spreadsheets; quote it as text
+    if isinstance(value, str) and value[:1] in ("=", "+", "-", "@", "\t", "\r"):
+        return "'" + value
+    return value
+
+
+def check_table(review: Review) -> str:
+    header = ["check", "member", "kind", "Qf kN", "Qr kN", "Qf/Qr", "governing", "status"]
+    rows = []
+    for r in review.results:
+        g = r.governing
+        rows.append(
+            [
+                r.check.id,
+                r.check.member,
+                r.check.kind,
+                f"{g.qf / 1000:.2f}",
+                f"{g.qr / 1000:.2f}",
+                f"{g.utilisation:.2f}",
+                g.combination,
+                "passes" if r.passes else "FAILS",
+            ]
+        )
+    widths = [max(len(str(x)) for x in col) for col in zip(header, *rows, strict=False)]
+    numeric = {3, 4, 5}
+    lines = []
+    for row in [header, *rows]:
+        cells = [
+            str(v).rjust(w) if i in numeric else str(v).ljust(w)
+            for i, (v, w) in enumerate(zip(row, widths, strict=False))
+        ]
+        lines.append("  ".join(cells).rstrip())
+    lines.insert(1, "  ".join("-" * w for w in widths))
+    return "\n".join(lines)
+
+
+def summary_line(review: Review) -> str:
+    failing = sum(1 for r in review.results if not r.passes)
+    near = sum(1 for r in review.results if r.check.kind == "near-support")
+    return (
+        f"{len(review.results)} required checks ({near} near-support) at {len(review.model.bearings)} bearings; "
+        f"{failing} failing; {len(review.checklist.exempt)} members in bearings not checked here; "
+        f"{len(review.engine_findings)} uplift findings."
+    )
+
+
+def explain(review: Review, check_id: str) -> str:
+    r = review.result(check_id)
+    c = r.check
+    lines = [
+        f"Check {c.id}: {c.kind} bearing of {c.member} ({r.material}) at bearing {c.bearing}",
+        f"Why required: {c.why}",
+        f"Contact on the {c.face} face: {c.contact.length * 1000:.0f} mm along the grain ({c.contact.length_note}), "
+        f"{c.contact.width * 1000:.0f} mm across ({c.contact.width_note}), "
+        f"{c.contact.end_distance * 1000:.0f} mm from the member end",
+    ]
+    for o in c.opposite:
+        lines.append(
+            f"Load within d on the opposite face: {o.source}, {o.length * 1000:.0f} mm long, "
+            f"{o.width * 1000:.0f} mm wide, centre at {o.centre * 1000:.0f} mm"
+        )
+    lines.append(r.area_reason)
+    lines += [f"  {f.reason}" + (f"  [{f.clause}]" if f.clause else "") for f in r.factors]
+    formula = "Qr' = (2/3) phi Fcp Ab' KB KZcp" if c.kind == "near-support" else "Qr = phi Fcp Ab KB KZcp"
+    lines.append(f"{formula}, Fcp = fcp (KD KScp KT)")
+    lines.append(
+        "Forces through the check (specified, per case): "
+        + ", ".join(f"{case} = {v / 1000:.2f} kN" for case, v in sorted(c.forces.items()))
+    )
+    for x in r.combinations:
+        mark = "  <- governs" if x is r.governing else ""
+        lines.append(
+            f"  {x.combination:28s} Qf = {x.qf / 1000:8.2f} kN  {x.kd_reason:60.60s}  "
+            f"Qr = {x.qr / 1000:8.2f} kN  Qf/Qr = {x.utilisation:.3f}{mark}"
+        )
+    verdict = "passes" if r.passes else "FAILS"
+    lines.append(f"Result: {verdict} (Qf/Qr = {r.governing.utilisation:.3f} under {r.governing.combination})")
+    if r.uplift:
+        lines.append(f"Uplift (upward force) under: {', '.join(r.uplift)}")
+    return "\n".join(lines)

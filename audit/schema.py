@@ -1,0 +1,140 @@
+"""JSON Schemas of the input files, so editors can validate and complete them.
+
+The schema describes the shape; the reader (read_model, read_claims) is the authority and
+checks what a schema cannot (units, references, geometry).
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+QUANTITY = {"type": "string", "description": "a number with a unit, e.g. '130 mm', '5.125 in', '12 kN'"}
+LENGTH = {**QUANTITY, "description": "a length with a unit, e.g. '130 mm' or '5.5 in'"}
+FORCE = {**QUANTITY, "description": "a force with a unit, e.g. '12.5 kN' or '2800 lbf'"}
+CASES = ["D", "L", "S", "W", "E"]
+
+
+def _obj(props: dict[str, Any], required: list[str], description: str = "") -> dict[str, Any]:
+    out: dict[str, Any] = {"type": "object", "properties": props, "required": required, "additionalProperties": False}
+    if description:
+        out["description"] = description
+    return out
+
+
+SIDE = {
+    "oneOf": [
+        {"type": "string", "description": "member id"},
+        _obj(
+            {
+                "member": {"type": "string"},
+                "at": {**LENGTH, "description": "bearing centre along a horizontal member, from its start"},
+                "length": {**LENGTH, "description": "bearing length along this member's grain"},
+                "angle": {**QUANTITY, "description": "angle between load and grain, e.g. '60 deg' (default 90 deg)"},
+            },
+            ["member"],
+        ),
+    ]
+}
+
+MODEL_SCHEMA: dict[str, Any] = {
+    "$schema": "https://json-schema.org/draft/2020-12/schema",
+    "title": "bearing-audit review model",
+    **_obj(
+        {
+            "project": _obj(
+                {
+                    "title": {"type": "string"},
+                    "calc": {"type": "string", "description": "the calculation package under review"},
+                    "reviewer": {"type": "string"},
+                    "rule_pack": {"type": "string", "default": "o86-2019-recalled"},
+                    "combinations": {"type": "string", "default": "nbcc-2015-recalled"},
+                    "service": {"enum": ["dry", "wet"], "default": "dry"},
+                    "tolerance": _obj(
+                        {"relative": {"type": "number", "minimum": 0, "maximum": 1}, "absolute": FORCE}, []
+                    ),
+                    "date": {"type": "string", "format": "date"},
+                    "near_support_area": {"type": "string", "description": "a reading named in the rule pack"},
+                    "near_support_kb": {"type": "string", "description": "a reading named in the rule pack"},
+                },
+                ["title"],
+            ),
+            "materials": {
+                "type": "object",
+                "additionalProperties": _obj(
+                    {
+                        "family": {
+                            "enum": ["sawn_lumber", "timber", "glulam", "engineered", "steel", "concrete", "masonry"]
+                        },
+                        "species": {"type": "string"},
+                        "grade": {"type": "string"},
+                        "fcp": {**QUANTITY, "description": "engineered products only: specified fcp"},
+                        "fc": {**QUANTITY, "description": "engineered products only: fc, for bearing at an angle"},
+                        "factors": {"type": "array", "items": {"enum": ["KD", "KScp", "KB", "KZcp", "KT"]}},
+                        "wet_factor": {"type": "number", "exclusiveMinimum": 0, "maximum": 1},
+                        "source": {"type": "string"},
+                    },
+                    ["family"],
+                ),
+            },
+            "members": {
+                "type": "array",
+                "items": _obj(
+                    {
+                        "id": {"type": "string"},
+                        "material": {"type": "string"},
+                        "b": {**LENGTH, "description": "width across the bearing face"},
+                        "d": {**LENGTH, "description": "depth through which bearing loads pass"},
+                        "length": LENGTH,
+                        "orientation": {"enum": ["horizontal", "vertical"], "default": "horizontal"},
+                        "service": {"enum": ["dry", "wet"]},
+                        "KT": {"type": "number"},
+                        "support": {"enum": ["bearings", "continuous"], "default": "bearings"},
+                        "level": {"type": "string"},
+                        "label": {"type": "string"},
+                    },
+                    ["id", "material", "b", "d", "length"],
+                ),
+            },
+            "bearings": {
+                "type": "array",
+                "items": _obj(
+                    {
+                        "id": {"type": "string"},
+                        "upper": SIDE,
+                        "lower": SIDE,
+                        "width": {**LENGTH, "description": "contact width, where a plate or seat states it"},
+                        "aliases": {"type": "array", "items": {"type": "string"}},
+                    },
+                    ["upper", "lower"],
+                ),
+            },
+            "loads": {
+                "type": "array",
+                "items": _obj(
+                    {
+                        "id": {"type": "string"},
+                        "member": {"type": "string"},
+                        "type": {"enum": ["point", "uniform"]},
+                        "at": LENGTH,
+                        "from": LENGTH,
+                        "to": LENGTH,
+                        "length": {**LENGTH, "description": "bearing length of a point load"},
+                        "width": LENGTH,
+                        "specified": {
+                            "type": "object",
+                            "propertyNames": {"enum": CASES},
+                            "additionalProperties": QUANTITY,
+                        },
+                        "factored": QUANTITY,
+                        "duration": {"enum": ["permanent", "standard", "short"]},
+                        "label": {"type": "string"},
+                    },
+                    ["member", "type"],
+                ),
+            },
+        },
+        ["project", "materials", "members", "bearings"],
+    ),
+}
+
+SCHEMAS: dict[str, dict[str, Any]] = {"model": MODEL_SCHEMA}

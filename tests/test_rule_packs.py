@@ -1,0 +1,56 @@
+"""Rule packs are data: every value carries provenance; a firm's own pack changes results
+without code changes."""
+
+from __future__ import annotations
+
+from audit.rulepack import builtin_rules_dir, load_all_packs
+from tests.conftest import base_model
+
+
+def test_every_resistance_value_carries_source_and_status():
+    resistance, _ = load_all_packs()
+    for pack in resistance.values():
+        for name, value in pack.all_sourced():
+            assert value.source, name
+            assert value.status, name
+
+
+def test_every_combination_carries_a_duration_and_source():
+    _, combos = load_all_packs()
+    for pack in combos.values():
+        for c in pack.combinations:
+            assert c.duration in ("permanent", "standard", "short")
+            assert c.source.source and c.source.status
+
+
+def test_a_firms_own_pack_is_selected_by_id_and_changes_the_result(tmp_path, write_model, run_cli):
+    text = (builtin_rules_dir() / "o86-2019-recalled.yaml").read_text()
+    text = text.replace("id: o86-2019-recalled", "id: firm-verified-2026")
+    text = text.replace("value: 5.3 MPa", "value: 4.3 MPa")
+    (tmp_path / "firm").mkdir()
+    (tmp_path / "firm" / "firm.yaml").write_text(text)
+    data = base_model()
+    data["project"]["rule_pack"] = "firm-verified-2026"
+    path = write_model(data)
+    base = run_cli("explain", path, "J1/B1:J1", "--rules-dir", tmp_path / "firm")
+    assert base.exit_code == 0, base.output
+    assert "fcp = 4.30 MPa" in base.output
+
+
+def test_unknown_rule_pack_is_an_input_error(write_model, run_cli):
+    data = base_model()
+    data["project"]["rule_pack"] = "no-such-pack"
+    result = run_cli("review", write_model(data))
+    assert result.exit_code == 2
+    assert "unknown rule pack 'no-such-pack'" in result.stderr
+
+
+def test_a_pack_value_without_provenance_is_refused(tmp_path, run_cli):
+    text = (builtin_rules_dir() / "o86-2019-recalled.yaml").read_text()
+    text = text.replace("id: o86-2019-recalled", "id: bad-pack")
+    text = text.replace("  source: CSA O86 resistance factor for compression perpendicular to grain\n", "")
+    (tmp_path / "bad").mkdir()
+    (tmp_path / "bad" / "bad.yaml").write_text(text)
+    result = run_cli("rules", "--rules-dir", tmp_path / "bad")
+    assert result.exit_code == 2
+    assert "provenance" in result.stderr
