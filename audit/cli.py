@@ -36,28 +36,56 @@ def _dirs(rules_dir: list[Path] | None) -> tuple[Path, ...]:
 @app.command()
 def review(
     model: Path = typer.Argument(..., help="The review model (YAML)."),
-    json_out: Path | None = typer.Option(None, "--json", help="Write every check with all its factors as JSON."),
+    claims: Path | None = typer.Option(None, "--claims", help="What the calc claims (YAML), to reconcile."),
+    memo: Path | None = typer.Option(None, "--memo", help="Write the HTML review memo here."),
+    json_out: Path | None = typer.Option(None, "--json", help="Write every check and finding as JSON."),
+    csv_out: Path | None = typer.Option(None, "--csv", help="Write the findings as CSV, for a comment log."),
+    date: str | None = typer.Option(None, "--date", help="Memo date (YYYY-MM-DD); default project.date."),
     rules_dir: list[Path] | None = RulesDir,
     rule_pack: str | None = RulePack,
 ) -> None:
-    """Recompute every required bearing check of a model and print them."""
-    from audit.export import check_table, review_record, summary_line, to_json
+    """Recompute every required bearing check; with --claims, reconcile the calc's claims."""
+    import datetime as dt
+
+    from audit.export import check_table, summary_line
     from audit.outfiles import write_atomic
     from audit.pipeline import review_model
+    from audit.read_claims import read_claims
+    from audit.reconcile import reconcile
+    from audit.write_memo import MemoOptions, findings_csv, findings_json, render_memo
 
     try:
+        memo_date = dt.date.fromisoformat(date) if date else None
+    except ValueError:
+        typer.echo(f"error: --date: expected YYYY-MM-DD, got {date!r}", err=True)
+        raise typer.Exit(2) from None
+    try:
         result = review_model(model, _dirs(rules_dir), rule_pack)
+        claim_list = read_claims(claims) if claims else ()
     except InputError as exc:
         _fail(exc)
+    rec = reconcile(result, claim_list) if claims else None
+    findings = rec.findings if rec else result.engine_findings
     typer.echo(check_table(result))
-    for finding in result.engine_findings:
-        typer.echo(f"{finding.code} {finding.kind}: {finding.message}")
+    for finding in findings:
+        if finding.kind != "confirmed":
+            typer.echo(f"{finding.code} {finding.severity:8s} {finding.kind}: {finding.message}")
     typer.echo(summary_line(result))
+    if rec is not None:
+        counts = rec.counts()
+        typer.echo("findings: " + ", ".join(f"{n} {k}" for k, n in counts.items()))
+    if memo:
+        write_atomic(memo, render_memo(result, rec, claim_list, MemoOptions(date=memo_date)))
+        typer.echo(f"wrote {memo}")
     if json_out:
-        write_atomic(json_out, to_json(review_record(result)))
+        write_atomic(json_out, findings_json(result, rec, findings))
         typer.echo(f"wrote {json_out}")
-    failing = any(not r.passes for r in result.results) or bool(result.engine_findings)
-    raise typer.Exit(1 if failing else 0)
+    if csv_out:
+        write_atomic(csv_out, findings_csv(findings))
+        typer.echo(f"wrote {csv_out}")
+    serious = any(f.severity in ("critical", "major") for f in findings)
+    failing = any(not r.passes for r in result.results)
+    raise typer.Exit(1 if serious or failing else 0)
 
 
 @app.command()

@@ -24,6 +24,7 @@ DIMENSIONS: dict[str, tuple[str, str, str]] = {
     "line_load": ("[force] / [length]", "N/m", "4.2 kN/m, 290 plf"),
     "stress": ("[pressure]", "Pa", "7.0 MPa, 625 psi"),
     "angle": ("", "rad", "30 deg"),
+    "area": ("[length] ** 2", "m**2", "19500 mm**2, 30 in**2"),
 }
 
 

@@ -1,0 +1,193 @@
+"""Stage 5: read what the calc package claims, one record per claimed bearing check.
+
+Claims come from a YAML file the reviewer writes (or that ``extract`` writes from the calc's
+PDF). Each keeps where in the calc it stands, so the memo can cite the page.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+from pathlib import Path
+
+from audit.errors import ErrorCollector, Location
+from audit.located_yaml import Node, read_yaml_file
+from audit.read_model import _Fields, _kind, _list_of_mappings
+
+CLAIM_KEYS = {"id", "where", "location", "member", "kind", "Qf", "Qr", "utilisation", "factors", "adequate", "text"}
+WHERE_KEYS = {"page", "sheet", "table", "item", "x", "y"}
+# factor name -> dimension for reading it
+CLAIM_FACTORS = {
+    "Ab": "area",
+    "KB": None,
+    "KZcp": None,
+    "KD": None,
+    "KScp": None,
+    "KT": None,
+    "fcp": "stress",
+    "length": "length",
+    "width": "length",
+}
+KINDS = ("local", "near-support")
+
+
+@dataclass(frozen=True)
+class Where:
+    page: int | None = None
+    sheet: str = ""
+    table: str = ""
+    item: str = ""
+    x: float | None = None  # position on the page (points), when extracted from a PDF
+    y: float | None = None
+
+    def cite(self) -> str:
+        parts = []
+        if self.page is not None:
+            parts.append(f"p. {self.page}")
+        if self.sheet:
+            parts.append(f"sheet {self.sheet}")
+        if self.table:
+            parts.append(self.table)
+        if self.item:
+            parts.append(f"item {self.item}")
+        return ", ".join(parts) or "no page reference"
+
+
+@dataclass(frozen=True)
+class Claim:
+    id: str
+    where: Where
+    label: str  # the calc's own label for the location
+    member: str  # "" when the calc does not say
+    kind: str
+    qf: float | None  # N
+    qr: float | None  # N
+    utilisation: float | None
+    factors: dict[str, float] = field(default_factory=dict)  # SI values
+    adequate: bool | None = None
+    text: str = ""  # raw text it came from, when extracted
+    loc: Location = field(default=Location(""), compare=False)
+
+    @property
+    def claimed_qr(self) -> float | None:
+        if self.qr is not None:
+            return self.qr
+        if self.qf is not None and self.utilisation:
+            return self.qf / self.utilisation
+        return None
+
+
+def read_claims(path: Path | str) -> tuple[Claim, ...]:
+    root = read_yaml_file(path)
+    return build_claims(root)
+
+
+def build_claims(root: Node) -> tuple[Claim, ...]:
+    errors = ErrorCollector()
+    top = _Fields(root, {"claims"}, errors, "the claims file")
+    if top.ok and "claims" not in top.map:
+        errors.add("missing section 'claims'", root.child_loc("claims"))
+    errors.raise_if_any()
+    out: list[Claim] = []
+    ids: set[str] = set()
+    for index, item in enumerate(_list_of_mappings(top.map["claims"], "claims", errors)):
+        claim = _read_claim(item, index, errors)
+        if claim is None:
+            continue
+        if claim.id in ids:
+            errors.add(f"duplicate claim id '{claim.id}'", item.child_loc("id"))
+            continue
+        ids.add(claim.id)
+        out.append(claim)
+    errors.raise_if_any()
+    return tuple(out)
+
+
+def _read_claim(item: Node, index: int, errors: ErrorCollector) -> Claim | None:
+    f = _Fields(item, CLAIM_KEYS, errors, "claim")
+    if not f.ok:
+        return None
+    claim_id = f.text("id", required=False, limit=120) or f"claim{index + 1}"
+    label = f.text("location", limit=300)
+    kind = f.choice("kind", KINDS, required=False, default="local")
+    qf = f.quantity("Qf", "force", required=False)
+    qr = f.quantity("Qr", "force", required=False, positive=True)
+    util = f.number("utilisation", 0.0, 1e6, -1.0)
+    if qf is None and qr is None and util < 0:
+        errors.add("a claim needs at least one of Qf, Qr or utilisation", item.loc)
+        return None
+    adequate = None
+    if f.has("adequate"):
+        value = f.map["adequate"].value
+        if not isinstance(value, bool):
+            errors.add(f"adequate must be true or false, got {_kind(value)}", f.loc("adequate"))
+            return None
+        adequate = value
+    where = _read_where(f, errors)
+    factors = _read_factors(f, errors)
+    if not f.ok or where is None or factors is None:
+        return None
+    return Claim(
+        id=claim_id,
+        where=where,
+        label=label,
+        member=f.text("member", required=False, limit=120),
+        kind=kind,
+        qf=qf,
+        qr=qr,
+        utilisation=None if util < 0 else util,
+        factors=factors,
+        adequate=adequate,
+        text=f.text("text", required=False, limit=2000),
+        loc=item.loc,
+    )
+
+
+def _read_where(f: _Fields, errors: ErrorCollector) -> Where | None:
+    if not f.has("where"):
+        return Where()
+    node = f.map["where"]
+    if isinstance(node.value, (str, int)) and not isinstance(node.value, bool):
+        return Where(item=str(node.value)) if isinstance(node.value, str) else Where(page=int(node.value))
+    w = _Fields(node, WHERE_KEYS, errors, "where")
+    if not w.ok:
+        return None
+    page = None
+    if w.has("page"):
+        raw = w.map["page"].value
+        if isinstance(raw, bool) or not isinstance(raw, int) or raw < 1:
+            errors.add(f"page must be a whole number from 1, got {_kind(raw)}", w.loc("page"))
+            return None
+        page = raw
+    x = w.number("x", -1e6, 1e6, math.nan)
+    y = w.number("y", -1e6, 1e6, math.nan)
+    return Where(
+        page=page,
+        sheet=w.text("sheet", required=False),
+        table=w.text("table", required=False),
+        item=w.text("item", required=False),
+        x=None if math.isnan(x) else x,
+        y=None if math.isnan(y) else y,
+    )
+
+
+def _read_factors(f: _Fields, errors: ErrorCollector) -> dict[str, float] | None:
+    if not f.has("factors"):
+        return {}
+    node = f.map["factors"]
+    ff = _Fields(node, set(CLAIM_FACTORS), errors, "claim factors")
+    if not ff.ok:
+        return None
+    out: dict[str, float] = {}
+    for name, dimension in CLAIM_FACTORS.items():
+        if not ff.has(name):
+            continue
+        if dimension is None:
+            value = ff.number(name, 0.0, 10.0, math.nan)
+        else:
+            q = ff.quantity(name, dimension, positive=True)
+            value = math.nan if q is None else q
+        if math.isnan(value):
+            return None
+        out[name] = value
+    return out

@@ -1,0 +1,490 @@
+"""Stage 6: reconcile the calc's claims with the recomputed checks.
+
+Every required check gets exactly one outcome and every claim exactly one outcome. Numbers
+that differ are diagnosed: each common slip is recomputed in turn, and the ones that
+reproduce the claimed number are named. Failing checks get the smallest bearing length that
+would make them pass.
+"""
+
+from __future__ import annotations
+
+import difflib
+import math
+from dataclasses import dataclass, replace
+
+from audit.findings import KINDS, Finding, severity_rank
+from audit.list_checks import LOCAL, NEAR, RequiredCheck
+from audit.pipeline import Review
+from audit.read_claims import Claim
+from audit.resist import CheckResult, evaluate, resistance, resistance_inputs
+
+FACTOR_REL_TOL = 0.01
+
+
+@dataclass(frozen=True)
+class Slip:
+    name: str
+    text: str
+    value: float  # the number this slip gives (N)
+
+
+@dataclass(frozen=True)
+class Comparison:
+    quantity: str  # Qf | Qr
+    claimed: float
+    recomputed: float
+    within: bool
+    direction: str  # unconservative | conservative | ""
+    slips: tuple[Slip, ...]  # slips that reproduce the claimed number
+    tried: tuple[Slip, ...]  # every slip recomputed
+
+    @property
+    def difference(self) -> float:
+        return self.claimed - self.recomputed
+
+    @property
+    def relative(self) -> float:
+        return self.difference / self.recomputed if self.recomputed else math.inf
+
+
+@dataclass(frozen=True)
+class FactorDifference:
+    name: str
+    claimed: float
+    recomputed: float
+
+
+@dataclass(frozen=True)
+class CheckOutcome:
+    check_id: str
+    claim_id: str  # "" when the calc does not claim it
+    status: str  # failing | missing | mis-loaded | resistance-differs | confirmed
+    findings: tuple[Finding, ...]
+    qf: Comparison | None = None
+    qr: Comparison | None = None
+    factor_differences: tuple[FactorDifference, ...] = ()
+    remedy: str = ""
+
+
+@dataclass(frozen=True)
+class ClaimOutcome:
+    claim_id: str
+    check_id: str  # "" when unmatched
+    finding: Finding | None
+    candidates: tuple[str, ...] = ()
+
+
+@dataclass(frozen=True)
+class Reconciliation:
+    checks: tuple[CheckOutcome, ...]
+    claims: tuple[ClaimOutcome, ...]
+    findings: tuple[Finding, ...]  # every finding, most severe first
+
+    def outcome(self, check_id: str) -> CheckOutcome:
+        return next(o for o in self.checks if o.check_id == check_id)
+
+    def counts(self) -> dict[str, int]:
+        out = dict.fromkeys(KINDS, 0)
+        for f in self.findings:
+            out[f.kind] += 1
+        return out
+
+
+# ---------------------------------------------------------------- matching
+
+
+def normalise(label: str) -> str:
+    return " ".join(label.casefold().split())
+
+
+def label_index(review: Review) -> dict[str, str]:
+    """Normalised calc label -> bearing id (bearing ids and their aliases)."""
+    index: dict[str, str] = {}
+    for b in review.model.bearings:
+        index.setdefault(normalise(b.id), b.id)
+        for alias in b.aliases:
+            index.setdefault(normalise(alias), b.id)
+    return index
+
+
+def match_claims(
+    review: Review, claims: tuple[Claim, ...]
+) -> tuple[dict[str, Claim], list[tuple[Claim, str, tuple[str, ...]]]]:
+    """(check id -> claim, [(unmatched claim, reason, candidate check ids)])."""
+    index = label_index(review)
+    by_bearing: dict[str, list[RequiredCheck]] = {}
+    check_ids = {r.check.id for r in review.results}
+    for r in review.results:
+        by_bearing.setdefault(r.check.bearing, []).append(r.check)
+    matched: dict[str, Claim] = {}
+    unmatched: list[tuple[Claim, str, tuple[str, ...]]] = []
+    for claim in claims:
+        key = normalise(claim.label)
+        if claim.label in check_ids:
+            candidates = [next(r.check for r in review.results if r.check.id == claim.label)]
+        elif key in index:
+            at_bearing = by_bearing.get(index[key], [])
+            candidates = [c for c in at_bearing if c.kind == claim.kind]
+            if claim.member:
+                candidates = [c for c in candidates if c.member == claim.member]
+            if not candidates:
+                near = tuple(c.id for c in at_bearing)
+                what = f"{claim.kind} check of {claim.member or 'any member'}"
+                unmatched.append((claim, f"bearing {index[key]} has no {what}", near))
+                continue
+        else:
+            unmatched.append((claim, f"no bearing is labelled '{claim.label}'", _nearest(review, claim.label)))
+            continue
+        if len(candidates) > 1:
+            unmatched.append(
+                (claim, "the label fits several checks; say which member", tuple(c.id for c in candidates))
+            )
+            continue
+        check = candidates[0]
+        if check.id in matched:
+            unmatched.append((claim, f"claim {matched[check.id].id} already covers check {check.id}", (check.id,)))
+            continue
+        matched[check.id] = claim
+    return matched, unmatched
+
+
+def _nearest(review: Review, label: str) -> tuple[str, ...]:
+    names: dict[str, str] = {}
+    for b in review.model.bearings:
+        for name in (b.id, *b.aliases):
+            names.setdefault(normalise(name), b.id)
+    close = difflib.get_close_matches(normalise(label), list(names), n=5, cutoff=0.4)
+    bearings = list(dict.fromkeys(names[c] for c in close))[:3]
+    return tuple(r.check.id for r in review.results if r.check.bearing in bearings)
+
+
+# ---------------------------------------------------------------- comparing
+
+
+def _within(claimed: float, recomputed: float, review: Review) -> bool:
+    p = review.model.project
+    return abs(claimed - recomputed) <= max(p.tolerance_absolute, p.tolerance_relative * abs(recomputed))
+
+
+def _compare(quantity: str, claimed: float, recomputed: float, slips: list[Slip], review: Review) -> Comparison:
+    within = _within(claimed, recomputed, review)
+    direction = ""
+    if not within:
+        too_low = claimed < recomputed
+        unconservative = too_low if quantity == "Qf" else not too_low
+        direction = "unconservative" if unconservative else "conservative"
+    reproducing = tuple(s for s in slips if not within and _within(claimed, s.value, review))
+    return Comparison(quantity, claimed, recomputed, within, direction, reproducing, tuple(slips))
+
+
+def qf_slips(result: CheckResult, review: Review) -> list[Slip]:
+    check = result.check
+    g = result.governing
+    out: list[Slip] = []
+    partner_kind = LOCAL if check.kind == NEAR else NEAR
+    partner = _partner(review, check, partner_kind)
+    if partner is not None and check.kind == NEAR:
+        out.append(
+            Slip(
+                "whole-reaction-near-support",
+                "the near-support check was loaded with the whole support reaction instead of only the loads within d",
+                partner.governing.qf,
+            )
+        )
+    if partner is not None and check.kind == LOCAL:
+        out.append(
+            Slip(
+                "nearby-load-only-local",
+                "the local support check was loaded with only the load within d instead of the whole reaction",
+                partner.governing.qf,
+            )
+        )
+    combo = next((c for c in _combos(review) if c.name == g.combination), None)
+    if combo is not None:
+        unfactored = math.fsum(check.forces.get(case, 0.0) for case in combo.factors)
+        out.append(Slip("unfactored-loads", "specified (unfactored) loads were used as Qf", unfactored))
+    return out
+
+
+def _combos(review: Review):
+    from audit.resist import load_combinations
+
+    return load_combinations(review.model, review.cpack)
+
+
+def _partner(review: Review, check: RequiredCheck, kind: str) -> CheckResult | None:
+    for r in review.results:
+        if r.check.bearing == check.bearing and r.check.member == check.member and r.check.kind == kind:
+            return r
+    return None
+
+
+def qr_slips(result: CheckResult, review: Review) -> list[Slip]:
+    check, inputs, g = result.check, result.inputs, result.governing
+    pack = review.pack
+    model = review.model
+    member = model.members[check.member]
+    other = model.members[check.other_member]
+    material = model.materials[member.material]
+    out: list[Slip] = []
+
+    def variant(name: str, text: str, kd: float | None = None, **changes) -> None:
+        out.append(Slip(name, text, resistance(replace(inputs, **changes), g.kd if kd is None else kd)))
+
+    if inputs.kb == 1.0 and ("KB" in material.applies):
+        length = (
+            check.contact.length
+            if check.kind == LOCAL
+            else min(check.contact.length, math.fsum(c.length for c in check.opposite))
+        )
+        kb_table = pack.kb_table.value.at(length)
+        if kb_table > 1.0:
+            variant("kb-where-not-allowed", f"KB = {kb_table:.2f} taken at an end bearing or over 150 mm", kb=kb_table)
+    kz_max = pack.kzcp_table.value.points[0][1]
+    if inputs.kzcp < kz_max:
+        variant("kzcp-flat-plate", f"KZcp = {kz_max:.2f} taken for a plate or plank laid flat (or glulam)", kzcp=kz_max)
+    wider = max(member.b, other.b)
+    width = (
+        check.contact.width if check.kind == LOCAL else min([check.contact.width, *(c.width for c in check.opposite)])
+    )
+    if wider > width + 1e-9:
+        variant(
+            "wider-width-area",
+            f"bearing area from the wider member's width ({wider * 1000:.0f} mm) "
+            f"instead of the contact width ({width * 1000:.0f} mm)",
+            area=inputs.area * wider / width,
+        )
+    if inputs.kscp < 1.0:
+        variant("wet-factor-left-out", "the wet service factor KScp was left out", kscp=1.0)
+    short = pack.kd["short"].value
+    if g.duration != "short" and inputs.uses_kd:
+        variant("short-term-kd", f"KD = {short:.2f} (short term) used for a snow or occupancy combination", kd=short)
+    if check.kind == NEAR:
+        variant("two-thirds-left-out", "the 2/3 factor was left out of Qr'", coefficient=1.0)
+    return out
+
+
+def factor_differences(claim: Claim, result: CheckResult) -> tuple[FactorDifference, ...]:
+    recomputed = {f.name: f.value for f in result.factors}
+    recomputed["Ab"] = result.inputs.area
+    recomputed["KD"] = result.governing.kd
+    recomputed["length"] = result.check.contact.length
+    recomputed["width"] = result.check.contact.width
+    out = []
+    for name, value in claim.factors.items():
+        ours = recomputed.get(name)
+        if ours is not None and abs(value - ours) > FACTOR_REL_TOL * abs(ours):
+            out.append(FactorDifference(name, value, ours))
+    return tuple(out)
+
+
+# ---------------------------------------------------------------- remedy
+
+
+def smallest_passing_length(result: CheckResult, review: Review) -> tuple[float, float] | None:
+    """(bearing length, KB) at the present contact width that makes the check pass, or None."""
+    check = result.check
+    member = review.model.members[check.member]
+    combos = _combos(review)
+
+    def passes(length: float) -> tuple[bool, float]:
+        contact = check.contact
+        grown = length - contact.length
+        end_distance = contact.end_distance if contact.end_distance < 1e-9 else max(contact.end_distance - grown / 2, 0)
+        trial = replace(check, contact=replace(contact, length=length, end_distance=end_distance))
+        inputs, _, _ = resistance_inputs(trial, review.model, review.pack, review.area_reading, review.kb_reading)
+        _, gov, _ = evaluate(trial, inputs, combos, review.pack)
+        return gov.utilisation <= 1.0, inputs.kb
+
+    lo, hi = check.contact.length, member.length
+    if not passes(hi)[0]:
+        return None
+    for _ in range(60):
+        mid = 0.5 * (lo + hi)
+        if passes(mid)[0]:
+            hi = mid
+        else:
+            lo = mid
+    length = math.ceil(hi * 1000.0) / 1000.0  # whole millimetres, rounded up
+    return length, passes(length)[1]
+
+
+def remedy_text(result: CheckResult, review: Review) -> str:
+    check = result.check
+    found = smallest_passing_length(result, review)
+    width = check.contact.width * 1000
+    face = "support" if check.kind == NEAR else "bearing"
+    if found is None:
+        text = (
+            f"No {face} length along the grain makes it pass at {width:.0f} mm contact width; "
+            "a wider bearing, a stronger species or a reinforced contact is needed."
+        )
+        if check.kind == NEAR:
+            text += " The near-support area is limited by the bearing on the opposite face."
+        return text
+    length, kb = found
+    member = review.model.members[check.member]
+    text = f"Passes with a {face} length of at least {length * 1000:.0f} mm at {width:.0f} mm width (KB = {kb:.2f})"
+    if check.contact.width < member.b - 1e-9:
+        text += f", or with a bearing plate the full {member.b * 1000:.0f} mm width of {member.id}"
+    return text + "."
+
+
+# ---------------------------------------------------------------- reconcile
+
+
+def reconcile(review: Review, claims: tuple[Claim, ...]) -> Reconciliation:
+    matched, unmatched = match_claims(review, claims)
+    check_outcomes = [_check_outcome(r, matched.get(r.check.id), review) for r in review.results]
+    claim_check = {claim.id: check_id for check_id, claim in matched.items()}
+    claim_outcomes = []
+    unmatched_by_id = {claim.id: (reason, cands) for claim, reason, cands in unmatched}
+    for claim in claims:
+        if claim.id in claim_check:
+            claim_outcomes.append(ClaimOutcome(claim.id, claim_check[claim.id], None))
+            continue
+        reason, candidates = unmatched_by_id[claim.id]
+        hint = f"nearest: {', '.join(candidates)}" if candidates else "no near candidates"
+        finding = Finding(
+            "unmatched-claim",
+            KINDS["unmatched-claim"].severity,
+            f"Claim '{claim.label}' ({claim.where.cite()}) matches no required check: {reason}; {hint}.",
+            claim_id=claim.id,
+            member=claim.member,
+            page=claim.where.cite(),
+            hint=hint,
+        )
+        claim_outcomes.append(ClaimOutcome(claim.id, "", finding, candidates))
+    findings = [f for o in check_outcomes for f in o.findings]
+    findings += [o.finding for o in claim_outcomes if o.finding is not None]
+    findings += list(review.engine_findings)
+    findings.sort(key=lambda f: (severity_rank(f.severity), f.kind, f.check_id, f.claim_id, f.bearing))
+    return Reconciliation(tuple(check_outcomes), tuple(claim_outcomes), tuple(findings))
+
+
+def _location(result: CheckResult, review: Review) -> str:
+    bearing = next(b for b in review.model.bearings if b.id == result.check.bearing)
+    aliases = f" (calc: {', '.join(bearing.aliases)})" if bearing.aliases else ""
+    return f"bearing {bearing.id}{aliases}"
+
+
+def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> CheckOutcome:
+    check, g = result.check, result.governing
+    clause = "O86 6.5.6.3" if check.kind == NEAR else "O86 6.5.6.2"
+    where = _location(result, review)
+    page = claim.where.cite() if claim else ""
+    common = {"check_id": check.id, "bearing": check.bearing, "member": check.member, "clause": clause, "page": page}
+    findings: list[Finding] = []
+    remedy = ""
+    if not result.passes:
+        remedy = remedy_text(result, review)
+        said_ok = claim is None or claim.adequate is not False
+        severity = "critical" if said_ok else "major"
+        stance = (
+            "the calc does not check it"
+            if claim is None
+            else "the calc calls it adequate"
+            if claim.adequate is not False
+            else "the calc also finds it inadequate"
+        )
+        findings.append(
+            Finding(
+                "failing",
+                severity,
+                f"{check.kind.capitalize()} bearing of {check.member} at {where} fails: recomputed Qf = "
+                f"{g.qf / 1000:.2f} kN > Qr = {g.qr / 1000:.2f} kN (Qf/Qr = {g.utilisation:.2f}, {g.combination}); "
+                f"{stance}. {remedy}",
+                hint=remedy,
+                numbers={"qf": g.qf, "qr": g.qr},
+                **common,
+            )
+        )
+    if claim is None:
+        findings.append(
+            Finding(
+                "missing",
+                KINDS["missing"].severity,
+                f"Missing {check.kind} check of {check.member} at {where}: required because {check.why}. "
+                f"Recomputed Qf = {g.qf / 1000:.2f} kN, Qr = {g.qr / 1000:.2f} kN ({g.combination}).",
+                numbers={"qf": g.qf, "qr": g.qr},
+                **common,
+            )
+        )
+        status = "failing" if not result.passes else "missing"
+        return CheckOutcome(check.id, "", status, tuple(findings), remedy=remedy)
+
+    qf_cmp = _compare("Qf", claim.qf, g.qf, qf_slips(result, review), review) if claim.qf is not None else None
+    claimed_qr = claim.claimed_qr
+    qr_cmp = _compare("Qr", claimed_qr, g.qr, qr_slips(result, review), review) if claimed_qr is not None else None
+    diffs = factor_differences(claim, result)
+    for cmp, kind in ((qf_cmp, "mis-loaded"), (qr_cmp, "resistance-differs")):
+        if cmp is None or cmp.within:
+            continue
+        severity = "major" if cmp.direction == "unconservative" else "minor"
+        findings.append(
+            Finding(
+                kind,
+                severity,
+                _difference_message(cmp, check, where, diffs if kind == "resistance-differs" else ()),
+                numbers={"claimed": cmp.claimed, "recomputed": cmp.recomputed},
+                **common,
+            )
+        )
+    status = (
+        "failing"
+        if not result.passes
+        else next((f.kind for f in findings if f.kind in ("mis-loaded", "resistance-differs")), "confirmed")
+    )
+    if status == "confirmed":
+        findings.append(
+            Finding(
+                "confirmed",
+                "info",
+                f"{check.kind.capitalize()} check of {check.member} at {where} confirmed: claimed and recomputed agree "
+                f"within tolerance (Qf = {g.qf / 1000:.2f} kN, Qr = {g.qr / 1000:.2f} kN).",
+                **common,
+            )
+        )
+    return CheckOutcome(check.id, claim.id, status, tuple(findings), qf_cmp, qr_cmp, diffs, remedy)
+
+
+def _difference_message(cmp: Comparison, check: RequiredCheck, where: str, diffs) -> str:
+    what = "factored load" if cmp.quantity == "Qf" else "resistance"
+    text = (
+        f"{check.kind.capitalize()} check of {check.member} at {where}: claimed {cmp.quantity} = "
+        f"{cmp.claimed / 1000:.2f} kN, recomputed {cmp.recomputed / 1000:.2f} kN "
+        f"({cmp.relative:+.0%}, {cmp.direction}). "
+    )
+    if diffs:
+        text += (
+            "Factors that differ: "
+            + "; ".join(
+                f"{d.name} claimed {_fmt_factor(d.name, d.claimed)}, recomputed {_fmt_factor(d.name, d.recomputed)}"
+                for d in diffs
+            )
+            + ". "
+        )
+    if cmp.slips:
+        text += "Likely cause: " + "; or ".join(s.text for s in cmp.slips) + "."
+    else:
+        text += f"No single common slip reproduces the claimed {what}."
+    return text
+
+
+def _fmt_factor(name: str, value: float) -> str:
+    if name == "Ab":
+        return f"{value * 1e6:,.0f} mm²"
+    if name in ("length", "width"):
+        return f"{value * 1000:.0f} mm"
+    if name == "fcp":
+        return f"{value / 1e6:.2f} MPa"
+    return f"{value:.3f}"
+
+
+def accounted(reconciliation: Reconciliation, review: Review, claims: tuple[Claim, ...]) -> bool:
+    """Every required check and every claim appears exactly once."""
+    checks = [o.check_id for o in reconciliation.checks]
+    claim_ids = [o.claim_id for o in reconciliation.claims]
+    return sorted(checks) == sorted(r.check.id for r in review.results) and sorted(claim_ids) == sorted(
+        c.id for c in claims
+    )

@@ -1,0 +1,310 @@
+"""Stage 7: write the review memo (one self-contained HTML file) and the findings exports.
+
+The memo is rendered by jinja2 with autoescaping from plain view data built here; it loads
+no stylesheet, font, script or image from anywhere. Output is deterministic: the date comes
+from the model or the command line, and everything is ordered.
+"""
+
+from __future__ import annotations
+
+import datetime as dt
+from dataclasses import dataclass
+from typing import Any
+
+import jinja2
+
+from audit import __version__
+from audit.export import check_record, rows_to_csv, to_json
+from audit.findings import KINDS, SEVERITIES, Finding
+from audit.list_checks import NEAR
+from audit.pipeline import Review
+from audit.read_claims import Claim
+from audit.reconcile import Reconciliation
+
+STATUS_WORDS = {
+    "failing": "FAILS",
+    "missing": "MISSING",
+    "mis-loaded": "MIS-LOADED",
+    "resistance-differs": "QR DIFFERS",
+    "confirmed": "CONFIRMED",
+    "computed": "PASSES",
+}
+SKETCH_LIMIT = 400  # members drawn; a larger building lists the rest in the table only
+
+CAUTIONS = (
+    "This memo supports the reviewer's judgement and never replaces it.",
+    "Every factor in the rule pack must be verified against the edition of CSA O86 and the building code "
+    "adopted where the building stands; values marked 'from memory: verify' have not been checked against a "
+    "printed edition.",
+    "The engineer of record, local codes and licensed practice govern.",
+    "bearing-audit recomputes only what the review model states: a member, bearing or load missing from the "
+    "model is missing from this review. It does not design.",
+)
+
+
+@dataclass(frozen=True)
+class MemoOptions:
+    date: dt.date | None = None
+    title: str = "Bearing review memo"
+
+
+def _env() -> jinja2.Environment:
+    return jinja2.Environment(
+        loader=jinja2.PackageLoader("audit", "templates"),
+        autoescape=jinja2.select_autoescape(default=True, default_for_string=True),
+        undefined=jinja2.StrictUndefined,
+        trim_blocks=True,
+        lstrip_blocks=True,
+    )
+
+
+def kn(value: float | None) -> str:
+    return "—" if value is None else f"{value / 1000:.2f}"
+
+
+def assumptions(review: Review) -> list[str]:
+    pack = review.pack
+    out = [
+        "Members on two supports are solved by statics; members on three or more supports by the stiffness "
+        "method for a continuous beam of constant EI on unyielding supports.",
+        "Spans run between bearing centres; loads beyond an end support act on an overhang.",
+        f"Near-support area: {pack.near_area_readings[review.area_reading]}.",
+        f"KB in Qr': {pack.near_kb_readings[review.kb_reading]}.",
+        "Near-support checks take the point loads and bearings on the top face whose centres lie within the "
+        "member depth d of the support centre; uniformly distributed loads are not counted as such loads.",
+        "Continuously supported members (plates on walls, sills on footings) get local checks under every "
+        "bearing; a support under them is not modelled as a bearing.",
+        "Where the model gives no bearing length, the length along a member is the other member's width "
+        "(square crossing) or a post's depth; the contact width is the member's own width where two horizontal "
+        "members cross, and the lesser of the two widths where a post is involved.",
+        "KD per combination: permanent 0.65, short term 1.15, standard term 1.00 or the long-term formula where "
+        "the specified dead load at the check exceeds its L + S load. The governing combination is the one with "
+        "the highest Qf/Qr.",
+    ]
+    if review.model.factored_groups:
+        out.append(
+            "Already-factored loads act in their own groups, each with its stated duration; they are not "
+            "combined with specified loads."
+        )
+    return out
+
+
+def _finding_view(f: Finding, review: Review, reconciliation: Reconciliation | None, claims: dict[str, Claim]):
+    outcome = reconciliation.outcome(f.check_id) if reconciliation and f.check_id else None
+    claim = claims.get(outcome.claim_id) if outcome and outcome.claim_id else claims.get(f.claim_id)
+    result = review.result(f.check_id) if f.check_id else None
+    rows = []
+    if result is not None:
+        g = result.governing
+        cmp_qf = outcome.qf if outcome else None
+        cmp_qr = outcome.qr if outcome else None
+        rows.append(
+            ("Qf (kN)", kn(claim.qf) if claim else "not claimed", kn(g.qf), kn(cmp_qf.difference) if cmp_qf else "")
+        )
+        rows.append(
+            (
+                "Qr (kN)",
+                kn(claim.claimed_qr) if claim else "not claimed",
+                kn(g.qr),
+                kn(cmp_qr.difference) if cmp_qr else "",
+            )
+        )
+        rows.append(
+            (
+                "Qf/Qr",
+                f"{claim.qf / claim.claimed_qr:.2f}" if claim and claim.qf and claim.claimed_qr else "",
+                f"{g.utilisation:.2f}",
+                "",
+            )
+        )
+    return {
+        "code": f.code,
+        "kind": f.kind,
+        "severity": f.severity,
+        "message": f.message,
+        "check_id": f.check_id,
+        "bearing": f.bearing,
+        "member": f.member,
+        "page": f.page or (claim.where.cite() if claim else ""),
+        "clause": f.clause,
+        "rows": rows,
+        "governing": result.governing.combination if result else "",
+        "claim_text": claim.text if claim else "",
+    }
+
+
+def _check_rows(review: Review, reconciliation: Reconciliation | None, claims: dict[str, Claim]):
+    groups: dict[tuple[str, str], list[dict[str, Any]]] = {}
+    for r in review.results:
+        member = review.model.members[r.check.member]
+        outcome = reconciliation.outcome(r.check.id) if reconciliation else None
+        status = outcome.status if outcome else ("failing" if not r.passes else "computed")
+        claim = claims.get(outcome.claim_id) if outcome and outcome.claim_id else None
+        groups.setdefault((member.level or "(no level)", member.id), []).append(
+            {
+                "id": r.check.id,
+                "kind": r.check.kind,
+                "qf": kn(r.governing.qf),
+                "qr": kn(r.governing.qr),
+                "util": f"{r.governing.utilisation:.2f}",
+                "governing": r.governing.combination,
+                "claim": f"{claim.id} ({claim.where.cite()})" if claim else "—",
+                "status": STATUS_WORDS[status],
+                "status_class": status,
+            }
+        )
+    out = []
+    for level in sorted({k[0] for k in groups}):
+        members = [{"id": m, "rows": groups[(lv, m)]} for lv, m in sorted(groups) if lv == level]
+        out.append({"level": level, "members": members})
+    return out
+
+
+def _derivations(review: Review):
+    out = []
+    for r in review.results:
+        rec = check_record(r)
+        out.append(
+            {
+                "id": r.check.id,
+                "why": r.check.why,
+                "formula": "Qr' = (2/3) phi Fcp Ab' KB KZcp" if r.check.kind == NEAR else "Qr = phi Fcp Ab KB KZcp",
+                "area": r.area_reason,
+                "factors": [
+                    (f.name, f"{f.value:.3f}" if f.name != "fcp" else f"{f.value / 1e6:.2f} MPa", f.reason, f.clause)
+                    for f in r.factors
+                ],
+                "forces": ", ".join(f"{case} {v:.2f} kN" for case, v in rec["forces_kN"].items()) or "none",
+                "governing": r.governing,
+                "kd_reason": r.governing.kd_reason,
+                "qf": kn(r.governing.qf),
+                "qr": kn(r.governing.qr),
+                "util": f"{r.governing.utilisation:.3f}",
+            }
+        )
+    return out
+
+
+def build_view(
+    review: Review, reconciliation: Reconciliation | None, claims: tuple[Claim, ...], options: MemoOptions
+) -> dict[str, Any]:
+    from audit.sketch import member_sketches
+
+    p = review.model.project
+    claims_by_id = {c.id: c for c in claims}
+    findings = reconciliation.findings if reconciliation else review.engine_findings
+    shown = [f for f in findings if f.kind != "confirmed"]
+    counts = {k: 0 for k in KINDS}
+    for f in findings:
+        counts[f.kind] += 1
+    by_severity = {s: sum(1 for f in shown if f.severity == s) for s in SEVERITIES}
+    date = options.date or p.date
+    status_of = (
+        {o.check_id: o.status for o in reconciliation.checks}
+        if reconciliation
+        else {r.check.id: ("failing" if not r.passes else "computed") for r in review.results}
+    )
+    return {
+        "title": options.title,
+        "project": p,
+        "date": date.isoformat() if date else "undated",
+        "version": __version__,
+        "pack": review.pack,
+        "cpack": review.cpack,
+        "summary": _summary(review, reconciliation, counts, claims),
+        "counts": [(KINDS[k].code, k, n) for k, n in counts.items()],
+        "by_severity": by_severity,
+        "findings": [_finding_view(f, review, reconciliation, claims_by_id) for f in shown],
+        "groups": _check_rows(review, reconciliation, claims_by_id),
+        "exempt": review.checklist.exempt,
+        "sketches": member_sketches(review, status_of, STATUS_WORDS, SKETCH_LIMIT),
+        "sketch_limit": SKETCH_LIMIT,
+        "derivations": _derivations(review),
+        "assumptions": assumptions(review),
+        "cautions": CAUTIONS,
+        "kinds": list(KINDS.values()),
+        "has_claims": reconciliation is not None,
+    }
+
+
+def _summary(review: Review, rec: Reconciliation | None, counts: dict[str, int], claims) -> str:
+    n = len(review.results)
+    if rec is None:
+        failing = sum(1 for r in review.results if not r.passes)
+        return f"{n} required bearing checks recomputed at {len(review.model.bearings)} bearings; {failing} fail."
+    return (
+        f"Of {n} required bearing checks at {len(review.model.bearings)} bearings, the calc claims "
+        f"{n - counts['missing']} and {len(claims)} claims were read: {counts['failing']} fail on recomputation, "
+        f"{counts['missing']} are missing, {counts['mis-loaded']} carry a load that differs, "
+        f"{counts['resistance-differs']} a resistance that differs, {counts['unmatched-claim']} claims match no "
+        f"required check, and {counts['confirmed']} are confirmed."
+    )
+
+
+def render_memo(
+    review: Review, reconciliation: Reconciliation | None, claims: tuple[Claim, ...], options: MemoOptions
+) -> str:
+    view = build_view(review, reconciliation, claims, options)
+    return _env().get_template("memo.html.j2").render(**view)
+
+
+# ---------------------------------------------------------------- exports
+
+FINDING_COLUMNS = [
+    "code",
+    "kind",
+    "severity",
+    "check",
+    "bearing",
+    "member",
+    "claim",
+    "calc_reference",
+    "clause",
+    "claimed",
+    "recomputed",
+    "message",
+]
+
+
+def finding_rows(findings: tuple[Finding, ...]) -> list[list[Any]]:
+    rows = []
+    for f in findings:
+        claimed = f.numbers.get("claimed")
+        recomputed = f.numbers.get("recomputed", f.numbers.get("qf"))
+        rows.append(
+            [
+                f.code,
+                f.kind,
+                f.severity,
+                f.check_id,
+                f.bearing,
+                f.member,
+                f.claim_id,
+                f.page,
+                f.clause,
+                "" if claimed is None else f"{claimed / 1000:.3f}",
+                "" if recomputed is None else f"{recomputed / 1000:.3f}",
+                f.message,
+            ]
+        )
+    return rows
+
+
+def findings_csv(findings: tuple[Finding, ...]) -> str:
+    return rows_to_csv(FINDING_COLUMNS, finding_rows(findings))
+
+
+def findings_json(review: Review, rec: Reconciliation | None, findings: tuple[Finding, ...]) -> str:
+    from audit.export import review_record
+
+    data = review_record(review)
+    data["findings"] = [dict(zip(FINDING_COLUMNS, row, strict=True)) for row in finding_rows(findings)]
+    if rec is not None:
+        data["check_outcomes"] = [
+            {"check": o.check_id, "claim": o.claim_id or None, "status": o.status, "remedy": o.remedy or None}
+            for o in rec.checks
+        ]
+        data["claim_outcomes"] = [
+            {"claim": o.claim_id, "check": o.check_id or None, "candidates": list(o.candidates)} for o in rec.claims
+        ]
+    return to_json(data)
