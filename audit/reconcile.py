@@ -133,7 +133,8 @@ def match_claims(
                 unmatched.append((claim, f"bearing {index[key]} has no {what}", near))
                 continue
         else:
-            unmatched.append((claim, f"no bearing is labelled '{claim.label}'", _nearest(review, claim.label)))
+            nearest = _nearest(review, claim.label, claim.member)
+            unmatched.append((claim, f"no bearing is labelled '{claim.label}'", nearest))
             continue
         if len(candidates) > 1:
             unmatched.append(
@@ -148,14 +149,17 @@ def match_claims(
     return matched, unmatched
 
 
-def _nearest(review: Review, label: str) -> tuple[str, ...]:
+def _nearest(review: Review, label: str, member: str) -> tuple[str, ...]:
+    """Checks at the bearings whose labels read most like the claim's, then checks of its member."""
     names: dict[str, str] = {}
     for b in review.model.bearings:
         for name in (b.id, *b.aliases):
             names.setdefault(normalise(name), b.id)
     close = difflib.get_close_matches(normalise(label), list(names), n=5, cutoff=0.4)
     bearings = list(dict.fromkeys(names[c] for c in close))[:3]
-    return tuple(r.check.id for r in review.results if r.check.bearing in bearings)
+    out = [r.check.id for r in review.results if r.check.bearing in bearings]
+    out += [r.check.id for r in review.results if member and r.check.member == member and r.check.id not in out]
+    return tuple(out[:6])
 
 
 # ---------------------------------------------------------------- comparing

@@ -59,7 +59,10 @@ def _env() -> jinja2.Environment:
 
 
 def kn(value: float | None) -> str:
-    return "—" if value is None else f"{value / 1000:.2f}"
+    if value is None:
+        return "—"
+    text = f"{value / 1000:.2f}"
+    return "0.00" if text == "-0.00" else text
 
 
 def assumptions(review: Review) -> list[str]:
@@ -234,7 +237,7 @@ def _summary(review: Review, rec: Reconciliation | None, counts: dict[str, int],
         return f"{n} required bearing checks recomputed at {len(review.model.bearings)} bearings; {failing} fail."
     return (
         f"Of {n} required bearing checks at {len(review.model.bearings)} bearings, the calc claims "
-        f"{n - counts['missing']} and {len(claims)} claims were read: {counts['failing']} fail on recomputation, "
+        f"{n - counts['missing']} ({len(claims)} claims read). {counts['failing']} fail on recomputation, "
         f"{counts['missing']} are missing, {counts['mis-loaded']} carry a load that differs, "
         f"{counts['resistance-differs']} a resistance that differs, {counts['unmatched-claim']} claims match no "
         f"required check, and {counts['confirmed']} are confirmed."

@@ -75,3 +75,18 @@ def review_dict(data: dict):
     root = read_yaml_text(yaml.safe_dump(data, sort_keys=False), "model.yaml")
     model, pack, cpack = build_model(root, "model.yaml")
     return review_built(model, pack, cpack)
+
+
+def claims_from(items: list[dict]):
+    from audit.located_yaml import read_yaml_text
+    from audit.read_claims import build_claims
+
+    return build_claims(read_yaml_text(yaml.safe_dump({"claims": items}, sort_keys=False), "claims.yaml"))
+
+
+def reconcile_dicts(model: dict, claims: list[dict]):
+    from audit.reconcile import reconcile
+
+    review = review_dict(model)
+    claim_list = claims_from(claims)
+    return review, claim_list, reconcile(review, claim_list)
