@@ -28,7 +28,7 @@ def claim(label, member, kind="local", **numbers):
 
 
 def outcome(model, claims, check_id):
-    review, claim_list, rec = reconcile_dicts(model, claims)
+    _, _, rec = reconcile_dicts(model, claims)
     return rec.outcome(check_id), rec
 
 
