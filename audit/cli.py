@@ -8,7 +8,7 @@ from typing import NoReturn
 
 import typer
 
-from audit.errors import InputError, InputErrors
+from audit.errors import InputError, InputErrors, Location
 
 app = typer.Typer(
     add_completion=False,
@@ -37,6 +37,9 @@ def _dirs(rules_dir: list[Path] | None) -> tuple[Path, ...]:
 def review(
     model: Path = typer.Argument(..., help="The review model (YAML)."),
     claims: Path | None = typer.Option(None, "--claims", help="What the calc claims (YAML), to reconcile."),
+    calc_pdf: Path | None = typer.Option(None, "--calc-pdf", help="Extract the claims from the calc's PDF."),
+    pages: str | None = typer.Option(None, "--pages", help="With --calc-pdf: pages to read, e.g. 12-30,35."),
+    column_map: Path | None = typer.Option(None, "--map", help="With --calc-pdf: a column map (YAML)."),
     memo: Path | None = typer.Option(None, "--memo", help="Write the HTML review memo here."),
     json_out: Path | None = typer.Option(None, "--json", help="Write every check and finding as JSON."),
     csv_out: Path | None = typer.Option(None, "--csv", help="Write the findings as CSV, for a comment log."),
@@ -62,9 +65,11 @@ def review(
     try:
         result = review_model(model, _dirs(rules_dir), rule_pack)
         claim_list = read_claims(claims) if claims else ()
+        if calc_pdf:
+            claim_list += _extract(calc_pdf, pages, column_map).claims
     except InputError as exc:
         _fail(exc)
-    rec = reconcile(result, claim_list) if claims else None
+    rec = reconcile(result, claim_list) if (claims or calc_pdf) else None
     findings = rec.findings if rec else result.engine_findings
     typer.echo(check_table(result))
     for finding in findings:
@@ -86,6 +91,66 @@ def review(
     serious = any(f.severity in ("critical", "major") for f in findings)
     failing = any(not r.passes for r in result.results)
     raise typer.Exit(1 if serious or failing else 0)
+
+
+def _extract(pdf: Path, pages: str | None, column_map: Path | None):
+    """Run the extraction with a progress bar on long documents; warnings go to stderr."""
+    from audit.read_calc_pdf import extract, read_column_map
+
+    cmap = read_column_map(column_map) if column_map else None
+    bar = None
+    if sys.stderr.isatty():
+        from rich.progress import Progress
+
+        bar = Progress(transient=True)
+        bar.start()
+        task = bar.add_task("reading pages", total=None)
+
+        def advance(n: int) -> None:
+            bar.update(task, advance=n)
+
+    try:
+        result = extract(pdf, pages, cmap, progress=advance if bar else None)
+    finally:
+        if bar:
+            bar.stop()
+    for warning in result.warnings:
+        typer.echo(f"warning: {warning}", err=True)
+    if result.no_text_pages:
+        listed = ", ".join(str(p) for p in result.no_text_pages[:30])
+        more = " ..." if len(result.no_text_pages) > 30 else ""
+        typer.echo(f"warning: {pdf}: pages {listed}{more} have no text layer: they need OCR first", err=True)
+    if not result.claims:
+        where = f"pages {pages}" if pages else f"{result.pages_scanned} pages"
+        raise InputError(
+            f"no bearing checks found in {where} (no table headed Qf/Qr and no line such as 'Qr = 45.2 kN >= "
+            "Qf = 31.0 kN'); give a --map for unusual headers",
+            Location(str(pdf)),
+        )
+    return result
+
+
+@app.command()
+def extract(
+    pdf: Path = typer.Argument(..., help="The calc package (PDF)."),
+    output: Path = typer.Option(..., "-o", "--output", help="Write the claims (YAML) here."),
+    pages: str | None = typer.Option(None, "--pages", help="Pages to read, e.g. 12-30,35."),
+    column_map: Path | None = typer.Option(None, "--map", help="A column map (YAML) for unusual tables."),
+) -> None:
+    """Pull the claimed bearing checks out of a calc package PDF into a claims file."""
+    from audit.outfiles import write_atomic
+    from audit.read_calc_pdf import claims_yaml
+
+    try:
+        result = _extract(pdf, pages, column_map)
+    except InputError as exc:
+        _fail(exc)
+    write_atomic(output, claims_yaml(result, pdf.name))
+    typer.echo(f"wrote {output}: {len(result.claims)} claims from pages {_page_list(result.pages_parsed)}")
+
+
+def _page_list(pages: tuple[int, ...]) -> str:
+    return ", ".join(str(p) for p in pages[:20]) + (" ..." if len(pages) > 20 else "")
 
 
 @app.command()
