@@ -93,8 +93,22 @@ def review_record(review: Review) -> dict[str, Any]:
     }
 
 
-def to_json(data: Any) -> str:
-    return json.dumps(data, indent=2, ensure_ascii=False, sort_keys=False) + "\n"
+def to_json(data: dict[str, Any]) -> str:
+    """JSON with one line per item of each list: readable, diff-friendly, and written by the C
+    encoder (an indented dump goes through the slow pure-Python encoder)."""
+    parts = []
+    for key, value in data.items():
+        if isinstance(value, list):
+            items = ",\n    ".join(_compact(v) for v in value)
+            body = f"[\n    {items}\n  ]" if value else "[]"
+        else:
+            body = _compact(value)
+        parts.append(f"  {_compact(key)}: {body}")
+    return "{\n" + ",\n".join(parts) + "\n}\n"
+
+
+def _compact(value: Any) -> str:
+    return json.dumps(value, ensure_ascii=False, separators=(", ", ": "))
 
 
 def rows_to_csv(header: list[str], rows: list[list[Any]]) -> str:

@@ -20,7 +20,7 @@ MAX_NODES = 2_000_000
 MAX_FILE_BYTES = 64 * 1024 * 1024
 
 
-@dataclass
+@dataclass(slots=True)
 class Node:
     """A YAML value with its location; ``value`` is a dict, list or scalar."""
 
@@ -59,8 +59,12 @@ def read_yaml_file(path: Path | str) -> Node:
     return read_yaml_text(text, name)
 
 
+# libyaml's parser when PyYAML was built with it (much faster); it gives the same nodes and marks
+_LOADER = getattr(yaml, "CSafeLoader", yaml.SafeLoader)
+
+
 def read_yaml_text(text: str, name: str) -> Node:
-    loader = yaml.SafeLoader(text)
+    loader = _LOADER(text)
     try:
         root = loader.get_single_node()
     except yaml.MarkedYAMLError as exc:
@@ -87,7 +91,7 @@ def _loc(node: yaml.Node, name: str, key: str) -> Location:
     return Location(name, node.start_mark.line + 1, node.start_mark.column + 1, key)
 
 
-def _convert(node: yaml.Node, name: str, key: str, loader: yaml.SafeLoader, budget: list[int]) -> Node:
+def _convert(node: yaml.Node, name: str, key: str, loader, budget: list[int]) -> Node:
     budget[0] -= 1
     if budget[0] < 0:
         raise InputError("document expands to too many values (aliases nested too deeply?)", _loc(node, name, key))
@@ -110,8 +114,13 @@ def _convert(node: yaml.Node, name: str, key: str, loader: yaml.SafeLoader, budg
     if isinstance(node, yaml.SequenceNode):
         items = [_convert(item, name, join_key(key, i), loader, budget) for i, item in enumerate(node.value)]
         return Node(items, loc)
+    if node.tag == _STR_TAG:
+        return Node(node.value, loc)  # most scalars are text: no constructor needed
     try:
         value = loader.construct_object(node, deep=True)
     except (yaml.YAMLError, ValueError, OverflowError) as exc:
         raise InputError(f"cannot read value: {exc}", loc) from None
     return Node(value, loc)
+
+
+_STR_TAG = "tag:yaml.org,2002:str"

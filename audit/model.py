@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import datetime as dt
 from dataclasses import dataclass, field
+from functools import cached_property
 
 from audit.errors import Location
 
@@ -121,3 +122,7 @@ class Model:
 
     def material_of(self, member_id: str) -> Material:
         return self.materials[self.members[member_id].material]
+
+    @cached_property
+    def bearings_by_id(self) -> dict[str, Bearing]:
+        return {b.id: b for b in self.bearings}

@@ -3,13 +3,14 @@
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import cached_property
 from pathlib import Path
 
 from audit.findings import KINDS, Finding
 from audit.list_checks import CheckList, list_checks
 from audit.model import Model
 from audit.read_model import read_model
-from audit.resist import CheckResult, resist
+from audit.resist import CheckResult, LoadCombination, load_combinations, resist
 from audit.rulepack import CombinationPack, ResistancePack
 from audit.take_down import TakeDown, take_down
 
@@ -24,11 +25,24 @@ class Review:
     results: tuple[CheckResult, ...]
     engine_findings: tuple[Finding, ...]  # uplift
 
+    @cached_property
+    def combinations(self) -> tuple[LoadCombination, ...]:
+        return load_combinations(self.model, self.cpack)
+
+    @cached_property
+    def _by_id(self) -> dict[str, CheckResult]:
+        return {r.check.id: r for r in self.results}
+
+    @cached_property
+    def _by_place(self) -> dict[tuple[str, str, str], CheckResult]:
+        return {(r.check.bearing, r.check.member, r.check.kind): r for r in self.results}
+
     def result(self, check_id: str) -> CheckResult:
-        for r in self.results:
-            if r.check.id == check_id:
-                return r
-        raise KeyError(check_id)
+        return self._by_id[check_id]
+
+    def result_at(self, bearing: str, member: str, kind: str) -> CheckResult | None:
+        """The check of ``member`` of that kind at ``bearing``, if the design requires one."""
+        return self._by_place.get((bearing, member, kind))
 
     @property
     def area_reading(self) -> str:

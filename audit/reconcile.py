@@ -11,6 +11,7 @@ from __future__ import annotations
 import difflib
 import math
 from dataclasses import dataclass, replace
+from functools import cached_property
 
 from audit.findings import KINDS, Finding, severity_rank
 from audit.list_checks import LOCAL, NEAR, RequiredCheck
@@ -80,8 +81,12 @@ class Reconciliation:
     claims: tuple[ClaimOutcome, ...]
     findings: tuple[Finding, ...]  # every finding, most severe first
 
+    @cached_property
+    def _by_check(self) -> dict[str, CheckOutcome]:
+        return {o.check_id: o for o in self.checks}
+
     def outcome(self, check_id: str) -> CheckOutcome:
-        return next(o for o in self.checks if o.check_id == check_id)
+        return self._by_check[check_id]
 
     def counts(self) -> dict[str, int]:
         out = dict.fromkeys(KINDS, 0)
@@ -121,7 +126,7 @@ def match_claims(
     for claim in claims:
         key = normalise(claim.label)
         if claim.label in check_ids:
-            candidates = [next(r.check for r in review.results if r.check.id == claim.label)]
+            candidates = [review.result(claim.label).check]
         elif key in index:
             at_bearing = by_bearing.get(index[key], [])
             candidates = [c for c in at_bearing if c.kind == claim.kind]
@@ -211,16 +216,11 @@ def qf_slips(result: CheckResult, review: Review) -> list[Slip]:
 
 
 def _combos(review: Review):
-    from audit.resist import load_combinations
-
-    return load_combinations(review.model, review.cpack)
+    return review.combinations
 
 
 def _partner(review: Review, check: RequiredCheck, kind: str) -> CheckResult | None:
-    for r in review.results:
-        if r.check.bearing == check.bearing and r.check.member == check.member and r.check.kind == kind:
-            return r
-    return None
+    return review.result_at(check.bearing, check.member, kind)
 
 
 def qr_slips(result: CheckResult, review: Review) -> list[Slip]:
@@ -289,7 +289,8 @@ def smallest_passing_length(result: CheckResult, review: Review) -> tuple[float,
     """(bearing length, KB) at the present contact width that makes the check pass, or None."""
     check = result.check
     member = review.model.members[check.member]
-    combos = _combos(review)
+    # the governing combination stays governing as the length changes: Qr scales alike in all
+    combos = tuple(c for c in _combos(review) if c.name == result.governing.combination)
 
     def passes(length: float) -> tuple[bool, float]:
         contact = check.contact
@@ -303,7 +304,7 @@ def smallest_passing_length(result: CheckResult, review: Review) -> tuple[float,
     lo, hi = check.contact.length, member.length
     if not passes(hi)[0]:
         return None
-    for _ in range(60):
+    while hi - lo > 2e-4:  # to a fifth of a millimetre
         mid = 0.5 * (lo + hi)
         if passes(mid)[0]:
             hi = mid
@@ -367,7 +368,7 @@ def reconcile(review: Review, claims: tuple[Claim, ...]) -> Reconciliation:
 
 
 def _location(result: CheckResult, review: Review) -> str:
-    bearing = next(b for b in review.model.bearings if b.id == result.check.bearing)
+    bearing = review.model.bearings_by_id[result.check.bearing]
     aliases = f" (calc: {', '.join(bearing.aliases)})" if bearing.aliases else ""
     return f"bearing {bearing.id}{aliases}"
 

@@ -30,6 +30,7 @@ STATUS_WORDS = {
     "computed": "PASSES",
 }
 SKETCH_LIMIT = 400  # members drawn; a larger building lists the rest in the table only
+DERIVATION_LIMIT = 2000  # above this many checks, derivations are given for checks with findings only
 
 CAUTIONS = (
     "This memo supports the reviewer's judgement and never replaces it.",
@@ -163,9 +164,13 @@ def _check_rows(review: Review, reconciliation: Reconciliation | None, claims: d
     return out
 
 
-def _derivations(review: Review):
+def _derivations(review: Review, status_of: dict[str, str]) -> tuple[list[dict[str, Any]], bool]:
+    """Derivations of every check, or of the checks with findings on a large building."""
     out = []
+    all_checks = len(review.results) <= DERIVATION_LIMIT
     for r in review.results:
+        if not all_checks and status_of.get(r.check.id) in ("confirmed", "computed"):
+            continue
         rec = check_record(r)
         out.append(
             {
@@ -185,7 +190,7 @@ def _derivations(review: Review):
                 "util": f"{r.governing.utilisation:.3f}",
             }
         )
-    return out
+    return out, all_checks
 
 
 def build_view(
@@ -207,6 +212,7 @@ def build_view(
         if reconciliation
         else {r.check.id: ("failing" if not r.passes else "computed") for r in review.results}
     )
+    derivations, all_derivations = _derivations(review, status_of)
     return {
         "title": options.title,
         "project": p,
@@ -222,7 +228,9 @@ def build_view(
         "exempt": review.checklist.exempt,
         "sketches": member_sketches(review, status_of, STATUS_WORDS, SKETCH_LIMIT),
         "sketch_limit": SKETCH_LIMIT,
-        "derivations": _derivations(review),
+        "derivations": derivations,
+        "all_derivations": all_derivations,
+        "derivation_limit": DERIVATION_LIMIT,
         "assumptions": assumptions(review),
         "cautions": CAUTIONS,
         "kinds": list(KINDS.values()),

@@ -37,10 +37,13 @@ def make_package(path: Path, pages: int) -> int:
         for _ in range(9):
             pdf.multi_cell(0, 4.5, NARRATIVE, new_x="LMARGIN", new_y="NEXT")
         if page % 10 == 0:
-            table = [[f"J{page}-{i} on B{page}", f"J{page}-{i}", f"{5 + i * 0.5:.2f}", f"{24 + i:.2f}", "OK"]
-                     for i in range(12)]
-            draw_table(pdf, ["Location", "Member", "Qf (kN)", "Qr (kN)", "OK?"], table, [46, 26, 28, 28, 18],
-                       ruled=True)
+            table = [
+                [f"J{page}-{i} on B{page}", f"J{page}-{i}", f"{5 + i * 0.5:.2f}", f"{24 + i:.2f}", "OK"]
+                for i in range(12)
+            ]
+            draw_table(
+                pdf, ["Location", "Member", "Qf (kN)", "Qr (kN)", "OK?"], table, [46, 26, 28, 28, 18], ruled=True
+            )
             rows += len(table)
         elif page % 25 == 3:
             for line in (f"Location: B{page} at C{page}", f"Member checked: GB{page}", "Qr = 63.97 kN >= Qf = 51.0 kN"):
