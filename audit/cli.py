@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import gc
 import sys
 from pathlib import Path
 from typing import NoReturn
@@ -55,7 +56,7 @@ def review(
     from audit.pipeline import review_model
     from audit.read_claims import read_claims
     from audit.reconcile import reconcile
-    from audit.write_memo import MemoOptions, findings_csv, findings_json, render_memo
+    from audit.write_memo import MemoOptions, findings_csv, findings_json_chunks, memo_chunks
 
     try:
         memo_date = dt.date.fromisoformat(date) if date else None
@@ -80,10 +81,10 @@ def review(
         counts = rec.counts()
         typer.echo("findings: " + ", ".join(f"{n} {k}" for k, n in counts.items()))
     if memo:
-        write_atomic(memo, render_memo(result, rec, claim_list, MemoOptions(date=memo_date)))
+        write_atomic(memo, memo_chunks(result, rec, claim_list, MemoOptions(date=memo_date)))
         typer.echo(f"wrote {memo}")
     if json_out:
-        write_atomic(json_out, findings_json(result, rec, findings))
+        write_atomic(json_out, findings_json_chunks(result, rec, findings))
         typer.echo(f"wrote {json_out}")
     if csv_out:
         write_atomic(csv_out, findings_csv(findings))
@@ -219,6 +220,9 @@ def schema(which: str = typer.Argument("model", help="Which input file: model.")
 
 
 def main() -> None:
+    # A review builds hundreds of thousands of small, acyclic records; collecting less often
+    # saves a third of the run time on a large building and frees nothing that would be kept.
+    gc.set_threshold(200_000, 20, 50)
     try:
         app()
     except KeyboardInterrupt:

@@ -9,6 +9,7 @@ from __future__ import annotations
 import csv
 import io
 import json
+from collections.abc import Iterator
 from typing import Any
 
 from audit import __version__
@@ -48,19 +49,13 @@ def check_record(r: CheckResult) -> dict[str, Any]:
             {"name": f.name, "value": round(f.value, 4), "reason": f.reason, "clause": f.clause} for f in r.factors
         ],
         "forces_kN": {case: round(v / 1000, 3) for case, v in sorted(c.forces.items())},
+        # every combination as [name, Qf kN, KD, Qr kN, Qf/Qr]; the governing one's KD reason below
         "combinations": [
-            {
-                "name": x.combination,
-                "duration": x.duration,
-                "Qf_kN": round(x.qf / 1000, 3),
-                "KD": round(x.kd, 4),
-                "KD_reason": x.kd_reason,
-                "Qr_kN": round(x.qr / 1000, 3),
-                "utilisation": round(x.utilisation, 4),
-            }
+            [x.combination, round(x.qf / 1000, 3), round(x.kd, 4), round(x.qr / 1000, 3), round(x.utilisation, 4)]
             for x in r.combinations
         ],
         "governing": g.combination,
+        "KD_reason": g.kd_reason,
         "Qf_kN": round(g.qf / 1000, 3),
         "Qr_kN": round(g.qr / 1000, 3),
         "utilisation": round(g.utilisation, 4),
@@ -82,7 +77,7 @@ def review_record(review: Review) -> dict[str, Any]:
         "rule_pack": {"id": review.pack.id, "edition": review.pack.edition, "provenance": review.pack.provenance},
         "combinations_pack": {"id": review.cpack.id, "edition": review.cpack.edition},
         "readings": {"near_support_area": review.area_reading, "near_support_kb": review.kb_reading},
-        "checks": [check_record(r) for r in review.results],
+        "checks": (check_record(r) for r in review.results),
         "not_checked": [
             {"bearing": e.bearing, "member": e.member, "reason": e.reason} for e in review.checklist.exempt
         ],
@@ -94,17 +89,25 @@ def review_record(review: Review) -> dict[str, Any]:
 
 
 def to_json(data: dict[str, Any]) -> str:
-    """JSON with one line per item of each list: readable, diff-friendly, and written by the C
-    encoder (an indented dump goes through the slow pure-Python encoder)."""
-    parts = []
-    for key, value in data.items():
-        if isinstance(value, list):
-            items = ",\n    ".join(_compact(v) for v in value)
-            body = f"[\n    {items}\n  ]" if value else "[]"
+    return "".join(json_chunks(data))
+
+
+def json_chunks(data: dict[str, Any]) -> Iterator[str]:
+    """JSON with one line per item of each list: readable, diff-friendly, written by the C
+    encoder (an indented dump goes through the slow pure-Python encoder), and produced in
+    chunks so a large review is never held as one string. Lists may be given as iterables."""
+    yield "{"
+    for n, (key, value) in enumerate(data.items()):
+        yield ("," if n else "") + f"\n  {_compact(key)}: "
+        if isinstance(value, (list, tuple, Iterator)):
+            first = True
+            for item in value:
+                yield ("[\n    " if first else ",\n    ") + _compact(item)
+                first = False
+            yield "[]" if first else "\n  ]"
         else:
-            body = _compact(value)
-        parts.append(f"  {_compact(key)}: {body}")
-    return "{\n" + ",\n".join(parts) + "\n}\n"
+            yield _compact(value)
+    yield "\n}\n"
 
 
 def _compact(value: Any) -> str:

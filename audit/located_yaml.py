@@ -8,7 +8,8 @@ decoded as UTF-8 with a clear error when it is not.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+import gc
+from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
@@ -22,14 +23,29 @@ MAX_FILE_BYTES = 64 * 1024 * 1024
 
 @dataclass(slots=True)
 class Node:
-    """A YAML value with its location; ``value`` is a dict, list or scalar."""
+    """A YAML value with where it stood; ``value`` is a dict of Nodes, a list of Nodes or a scalar.
+
+    Locations are made only when asked for (an error), which keeps reading large files cheap.
+    """
 
     value: Any
-    loc: Location
-    key_locs: dict[str, Location] = field(default_factory=dict)
+    file: str
+    line: int
+    column: int
+    key: str
+    key_marks: dict[str, tuple[int, int]] | None = None
+
+    @property
+    def loc(self) -> Location:
+        return Location(self.file, self.line, self.column, self.key)
 
     def child_loc(self, key: str | int) -> Location:
-        return Location(self.loc.file, self.loc.line, self.loc.column, join_key(self.loc.key, key))
+        return Location(self.file, self.line, self.column, join_key(self.key, key))
+
+    def key_loc(self, key: str) -> Location:
+        """Where a mapping key itself stands."""
+        line, column = (self.key_marks or {}).get(key, (self.line, self.column))
+        return Location(self.file, line, column, join_key(self.key, key))
 
 
 def join_key(path: str, key: str | int) -> str:
@@ -64,9 +80,21 @@ _LOADER = getattr(yaml, "CSafeLoader", yaml.SafeLoader)
 
 
 def read_yaml_text(text: str, name: str) -> Node:
+    # the node trees are acyclic and short-lived: pausing the cycle collector while they are
+    # built saves it from walking hundreds of thousands of young objects again and again
+    enabled = gc.isenabled()
+    gc.disable()
+    try:
+        return _read_yaml_text(text, name)
+    finally:
+        if enabled:
+            gc.enable()
+
+
+def _read_yaml_text(text: str, name: str) -> Node:
     loader = _LOADER(text)
     try:
-        root = loader.get_single_node()
+        return _compose(loader, name)
     except yaml.MarkedYAMLError as exc:
         mark = exc.problem_mark or exc.context_mark
         line, col = (mark.line + 1, mark.column + 1) if mark else (0, 0)
@@ -78,49 +106,109 @@ def read_yaml_text(text: str, name: str) -> Node:
         raise InputError("YAML is nested too deeply", Location(name)) from None
     finally:
         loader.dispose()
-    if root is None:
-        raise InputError("file is empty", Location(name, 1, 1))
-    budget = [MAX_NODES]
-    try:
-        return _convert(root, name, "", loader, budget)
-    except RecursionError:
-        raise InputError("YAML is nested too deeply", _loc(root, name, "")) from None
 
 
-def _loc(node: yaml.Node, name: str, key: str) -> Location:
-    return Location(name, node.start_mark.line + 1, node.start_mark.column + 1, key)
+def _loc_of(event: yaml.Event, name: str, key: str) -> Location:
+    return Location(name, event.start_mark.line + 1, event.start_mark.column + 1, key)
 
 
-def _convert(node: yaml.Node, name: str, key: str, loader, budget: list[int]) -> Node:
-    budget[0] -= 1
-    if budget[0] < 0:
-        raise InputError("document expands to too many values (aliases nested too deeply?)", _loc(node, name, key))
-    loc = _loc(node, name, key)
-    if isinstance(node, yaml.MappingNode):
+class _Composer:
+    """Builds Nodes straight from the parser's events, so no second tree of PyYAML nodes is held.
+
+    Aliases share the anchored Node; the node budget counts every expansion, so a crafted
+    "alias bomb" is refused instead of exhausting memory in the readers that walk the tree.
+    """
+
+    def __init__(self, loader, name: str) -> None:
+        self.loader = loader
+        self.name = name
+        self.anchors: dict[str, tuple[Node, int]] = {}
+        self.budget = MAX_NODES
+
+    def spend(self, count: int, event: yaml.Event, key: str) -> None:
+        self.budget -= count
+        if self.budget < 0:
+            raise InputError(
+                "document expands to too many values (aliases nested too deeply?)", _loc_of(event, self.name, key)
+            )
+
+    def node(self, event: yaml.Event, key: str) -> tuple[Node, int]:
+        if isinstance(event, yaml.AliasEvent):
+            if event.anchor not in self.anchors:
+                raise InputError(f"unknown alias *{event.anchor}", _loc_of(event, self.name, key))
+            found, size = self.anchors[event.anchor]
+            self.spend(size, event, key)
+            return found, size
+        self.spend(1, event, key)
+        mark = event.start_mark
+        if isinstance(event, yaml.ScalarEvent):
+            result, size = Node(self.scalar(event, key), self.name, mark.line + 1, mark.column + 1, key), 1
+        elif isinstance(event, yaml.SequenceStartEvent):
+            items, size = [], 1
+            while not isinstance(nxt := self.loader.get_event(), yaml.SequenceEndEvent):
+                child, child_size = self.node(nxt, join_key(key, len(items)))
+                items.append(child)
+                size += child_size
+            result = Node(items, self.name, mark.line + 1, mark.column + 1, key)
+        elif isinstance(event, yaml.MappingStartEvent):
+            result, size = self.mapping(event, key)
+        else:
+            raise InputError(f"unexpected YAML event {type(event).__name__}", _loc_of(event, self.name, key))
+        if getattr(event, "anchor", None):
+            self.anchors[event.anchor] = (result, size)
+        return result, size
+
+    def mapping(self, event: yaml.Event, key: str) -> tuple[Node, int]:
         out: dict[str, Node] = {}
-        key_locs: dict[str, Location] = {}
-        for k_node, v_node in node.value:
-            if k_node.tag == "tag:yaml.org,2002:merge":
-                raise InputError("YAML merge keys (<<) are not supported", _loc(k_node, name, key))
-            if not isinstance(k_node, yaml.ScalarNode):
-                raise InputError("a mapping key must be plain text", _loc(k_node, name, key))
-            k = str(k_node.value)
+        marks: dict[str, tuple[int, int]] = {}
+        size = 1
+        while not isinstance(k_event := self.loader.get_event(), yaml.MappingEndEvent):
+            if not isinstance(k_event, yaml.ScalarEvent):
+                raise InputError("a mapping key must be plain text", _loc_of(k_event, self.name, key))
+            if self._tag(k_event) == _MERGE_TAG:
+                raise InputError("YAML merge keys (<<) are not supported", _loc_of(k_event, self.name, key))
+            k = k_event.value
             child_key = join_key(key, k)
             if k in out:
-                raise InputError(f"duplicate key '{k}'", _loc(k_node, name, child_key))
-            key_locs[k] = _loc(k_node, name, child_key)
-            out[k] = _convert(v_node, name, child_key, loader, budget)
-        return Node(out, loc, key_locs)
-    if isinstance(node, yaml.SequenceNode):
-        items = [_convert(item, name, join_key(key, i), loader, budget) for i, item in enumerate(node.value)]
-        return Node(items, loc)
-    if node.tag == _STR_TAG:
-        return Node(node.value, loc)  # most scalars are text: no constructor needed
-    try:
-        value = loader.construct_object(node, deep=True)
-    except (yaml.YAMLError, ValueError, OverflowError) as exc:
-        raise InputError(f"cannot read value: {exc}", loc) from None
-    return Node(value, loc)
+                raise InputError(f"duplicate key '{k}'", _loc_of(k_event, self.name, child_key))
+            marks[k] = (k_event.start_mark.line + 1, k_event.start_mark.column + 1)
+            out[k], child_size = self.node(self.loader.get_event(), child_key)
+            size += child_size
+        mark = event.start_mark
+        return Node(out, self.name, mark.line + 1, mark.column + 1, key, marks), size
+
+    def _tag(self, event: yaml.ScalarEvent) -> str:
+        if event.tag and event.tag != "!":
+            return event.tag
+        return self.loader.resolve(yaml.ScalarNode, event.value, event.implicit)
+
+    def scalar(self, event: yaml.ScalarEvent, key: str) -> Any:
+        tag = self._tag(event)
+        if tag == _STR_TAG:
+            return event.value  # most scalars are text: no constructor needed
+        constructor = self.loader.yaml_constructors.get(tag)
+        if constructor is None:
+            raise InputError(f"unsupported YAML tag {tag}", _loc_of(event, self.name, key))
+        node = yaml.ScalarNode(tag, event.value, event.start_mark, event.end_mark, event.style)
+        try:
+            return constructor(self.loader, node)
+        except (yaml.YAMLError, ValueError, OverflowError) as exc:
+            raise InputError(f"cannot read value: {exc}", _loc_of(event, self.name, key)) from None
+
+
+def _compose(loader, name: str) -> Node:
+    composer = _Composer(loader, name)
+    loader.get_event()  # stream start
+    event = loader.get_event()
+    if isinstance(event, yaml.StreamEndEvent):
+        raise InputError("file is empty", Location(name, 1, 1))
+    root, _ = composer.node(loader.get_event(), "")  # after the document start
+    loader.get_event()  # document end
+    extra = loader.get_event()
+    if not isinstance(extra, yaml.StreamEndEvent):
+        raise InputError("the file holds more than one YAML document", _loc_of(extra, name, ""))
+    return root
 
 
 _STR_TAG = "tag:yaml.org,2002:str"
+_MERGE_TAG = "tag:yaml.org,2002:merge"

@@ -80,7 +80,7 @@ def read_column_map(path: Path | str) -> ColumnMap:
         raise InputError("a column map must be a mapping", root.loc)
     unknown = set(root.value) - {"columns", "pages", "kind"}
     for key in sorted(unknown):
-        errors.add(f"unknown key '{key}' (allowed: columns, pages, kind)", root.key_locs[key])
+        errors.add(f"unknown key '{key}' (allowed: columns, pages, kind)", root.key_loc(key))
     headers = dict(default_map().headers)
     units: dict[str, str] = {}
     columns = root.value.get("columns")

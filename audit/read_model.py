@@ -99,7 +99,7 @@ class _Fields:
             if key not in allowed:
                 errors.add(
                     f"unknown key '{key}' in {what} (allowed: {', '.join(sorted(allowed))})",
-                    node.key_locs.get(key, node.child_loc(key)),
+                    node.key_loc(key),
                 )
 
     def has(self, key: str) -> bool:
@@ -414,7 +414,7 @@ def _read_members(
 
 def _read_side(node: Node, role: str, members: dict[str, Member], errors: ErrorCollector) -> Side | None:
     if isinstance(node.value, str):
-        node = Node({"member": node}, node.loc)
+        node = Node({"member": node}, node.file, node.line, node.column, node.key)
     f = _Fields(node, SIDE_KEYS, errors, f"bearing {role}")
     member_id = f.text("member")
     if not f.ok:

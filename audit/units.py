@@ -7,6 +7,7 @@ this module touches pint.
 from __future__ import annotations
 
 import math
+import re
 from functools import lru_cache
 
 import pint
@@ -61,6 +62,30 @@ def _describe(q: pint.Quantity) -> str:
     return f"quantity of dimension {q.dimensionality}"
 
 
+# "<number> <unit>": read the number with float() and the unit once through pint (cached), so
+# thousands of quantities cost one pint parse per distinct unit, not one per value.
+_SIMPLE = re.compile(r"^([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*([^\d\s.+-].*)$")
+
+
+@lru_cache(maxsize=1024)
+def _unit_factor(unit: str, dimension: str) -> float:
+    return _parse_cached(f"1 {unit}", dimension)
+
+
+def _fast_parse(text: str, dimension: str) -> float:
+    match = _SIMPLE.match(text)
+    if match is None:
+        return _parse_cached(text, dimension)
+    try:
+        factor = _unit_factor(match[2], dimension)
+    except UnitProblem:
+        return _parse_cached(text, dimension)  # the full parse words the message for the whole text
+    value = float(match[1]) * factor
+    if not math.isfinite(value):
+        raise UnitProblem(f"'{text}' is not a finite number")
+    return value
+
+
 def parse_quantity(value: object, dimension: str, loc: Location) -> float:
     """Read a quantity (a string with a unit) into an SI float, or raise InputError."""
     if isinstance(value, bool) or value is None:
@@ -73,7 +98,7 @@ def parse_quantity(value: object, dimension: str, loc: Location) -> float:
     if len(value) > 200:
         raise InputError(f"value is {len(value)} characters long; expected a {dimension}", loc)
     try:
-        return _parse_cached(value.strip(), dimension)
+        return _fast_parse(value.strip(), dimension)
     except UnitProblem as exc:
         raise InputError(str(exc), loc) from None
 

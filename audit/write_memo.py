@@ -8,13 +8,14 @@ from the model or the command line, and everything is ordered.
 from __future__ import annotations
 
 import datetime as dt
+from collections.abc import Iterator
 from dataclasses import dataclass
 from typing import Any
 
 import jinja2
 
 from audit import __version__
-from audit.export import check_record, rows_to_csv, to_json
+from audit.export import check_record, rows_to_csv
 from audit.findings import KINDS, SEVERITIES, Finding
 from audit.list_checks import NEAR
 from audit.pipeline import Review
@@ -255,8 +256,15 @@ def _summary(review: Review, rec: Reconciliation | None, counts: dict[str, int],
 def render_memo(
     review: Review, reconciliation: Reconciliation | None, claims: tuple[Claim, ...], options: MemoOptions
 ) -> str:
+    return "".join(memo_chunks(review, reconciliation, claims, options))
+
+
+def memo_chunks(
+    review: Review, reconciliation: Reconciliation | None, claims: tuple[Claim, ...], options: MemoOptions
+) -> Iterator[str]:
+    """The memo in pieces, for writing a large one without holding it whole."""
     view = build_view(review, reconciliation, claims, options)
-    return _env().get_template("memo.html.j2").render(**view)
+    return _env().get_template("memo.html.j2").generate(**view)
 
 
 # ---------------------------------------------------------------- exports
@@ -306,10 +314,14 @@ def findings_csv(findings: tuple[Finding, ...]) -> str:
 
 
 def findings_json(review: Review, rec: Reconciliation | None, findings: tuple[Finding, ...]) -> str:
-    from audit.export import review_record
+    return "".join(findings_json_chunks(review, rec, findings))
+
+
+def findings_json_chunks(review: Review, rec: Reconciliation | None, findings: tuple[Finding, ...]) -> Iterator[str]:
+    from audit.export import json_chunks, review_record
 
     data = review_record(review)
-    data["findings"] = [dict(zip(FINDING_COLUMNS, row, strict=True)) for row in finding_rows(findings)]
+    data["findings"] = (dict(zip(FINDING_COLUMNS, row, strict=True)) for row in finding_rows(findings))
     if rec is not None:
         data["check_outcomes"] = [
             {"check": o.check_id, "claim": o.claim_id or None, "status": o.status, "remedy": o.remedy or None}
@@ -318,4 +330,4 @@ def findings_json(review: Review, rec: Reconciliation | None, findings: tuple[Fi
         data["claim_outcomes"] = [
             {"claim": o.claim_id, "check": o.check_id or None, "candidates": list(o.candidates)} for o in rec.claims
         ]
-    return to_json(data)
+    return json_chunks(data)

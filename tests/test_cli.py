@@ -40,7 +40,9 @@ def test_json_export_carries_every_combination_with_kd(run_cli, tmp_path):
     out = tmp_path / "c.json"
     run_cli("review", DEMO, "--json", out)
     check = json.loads(out.read_text())["checks"][0]
-    assert check["combinations"] and all("KD" in c and "Qr_kN" in c for c in check["combinations"])
+    assert check["combinations"] and all(len(c) == 5 for c in check["combinations"])  # name, Qf, KD, Qr, Qf/Qr
+    governing = next(c for c in check["combinations"] if c[0] == check["governing"])
+    assert governing[4] == check["utilisation"] and check["KD_reason"].startswith("KD =")
 
 
 def test_explain_prints_the_full_derivation(run_cli):

@@ -13,7 +13,6 @@ Invented data only.
 from __future__ import annotations
 
 import argparse
-import math
 import random
 import sys
 from pathlib import Path
@@ -33,7 +32,7 @@ def bearing_count(storeys: int, n: int) -> int:
 def grid_for(bearings: int) -> tuple[int, int, int]:
     """(storeys, beam lines, posts per line) giving about ``bearings`` bearings."""
     per_joist_bay = 2 + 2 * JOISTS_PER_SEGMENT
-    storeys = max(2, round((bearings / per_joist_bay) ** (1 / 3) / 1.5))
+    storeys = min(6, max(2, round((bearings / per_joist_bay) ** (1 / 3) / 1.5)))
     n = min(range(3, 400), key=lambda k: abs(bearing_count(storeys, k) - bearings))
     return storeys, n, n
 
@@ -46,6 +45,7 @@ def building(bearings: int) -> dict:
     loads = []
     materials = {
         "GL": {"family": "glulam", "species": "D.Fir-L", "grade": "24f-EX"},
+        "GLS": {"family": "glulam", "species": "D.Fir-L", "grade": "20f-EX"},
         "GLP": {"family": "glulam", "species": "Spruce-Pine", "grade": "12c-E"},
         "DF2": {"family": "sawn_lumber", "species": "D.Fir-L", "grade": "No.2"},
         "SPF": {"family": "sawn_lumber", "species": "S-P-F", "grade": "No.2"},
@@ -133,7 +133,7 @@ def building(bearings: int) -> dict:
                                 "lower": {"member": beam, "at": f"{y:.3f} m"},
                             }
                         )
-                    spec = {"D": "0.6 kN/m", "S": "1.6 kN/m"} if top else {"D": "0.9 kN/m", "L": "1.9 kN/m"}
+                    spec = {"D": "0.4 kN/m", "S": "1.0 kN/m"} if top else {"D": "0.5 kN/m", "L": "1.1 kN/m"}
                     loads.append({"member": joist, "type": "uniform", "specified": spec})
     return {
         "project": {

@@ -1,0 +1,207 @@
+"""Benchmark: a whole building reviewed with memo, JSON and CSV, against the YAML-load floor.
+
+    python -m tests.benchmarks.bench_scale [--sizes 1000 10000 50000] [--no-report] [--no-browser]
+
+For each size it generates a synthetic building and claims (tests/benchmarks/make_building.py),
+then measures in fresh processes, in the same run: the wall time and peak memory of
+`bearing-audit review MODEL --claims CLAIMS --memo --json --csv`, and the floor of merely loading
+the same two YAML files with PyYAML's C loader. It reports the ratio, how time grows from the
+second size to the largest, and how long headless Chromium takes to load the largest memo.
+Outputs are checked for form (JSON and CSV parse, the memo is complete); nothing is asserted
+about speed.
+"""
+
+from __future__ import annotations
+
+import argparse
+import csv
+import json
+import math
+import shutil
+import subprocess
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+from tests.benchmarks.make_building import write
+from tests.benchmarks.report import machine, write_section
+
+CHILD_REVIEW = """
+import json, resource, sys, time
+t = time.perf_counter()
+from audit.cli import main
+sys.argv = ["bearing-audit", "review", *sys.argv[1:]]
+try:
+    main()
+except SystemExit as stop:
+    code = stop.code
+seconds = time.perf_counter() - t
+print(json.dumps({"seconds": seconds, "peak_mb": resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024,
+                  "exit": code}))
+"""
+
+CHILD_FLOOR = """
+import json, resource, sys, time
+t = time.perf_counter()
+import yaml
+for path in sys.argv[1:]:
+    with open(path, encoding="utf-8") as handle:
+        yaml.load(handle.read(), Loader=yaml.CSafeLoader)
+seconds = time.perf_counter() - t
+print(json.dumps({"seconds": seconds, "peak_mb": resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024}))
+"""
+
+
+def _child(code: str, args: list[str]) -> dict:
+    done = subprocess.run([sys.executable, "-c", code, *args], capture_output=True, text=True, check=True)
+    return json.loads(done.stdout.strip().splitlines()[-1])
+
+
+def check_outputs(out: Path) -> int:
+    """Assert the outputs are well-formed; return how many checks the JSON lists."""
+    data = json.loads((out / "findings.json").read_text(encoding="utf-8"))
+    assert data["checks"] and data["check_outcomes"] and len(data["checks"]) == len(data["check_outcomes"])
+    with (out / "findings.csv").open(encoding="utf-8") as handle:
+        rows = list(csv.DictReader(handle))
+    assert len(rows) == len(data["findings"])
+    memo = (out / "memo.html").read_text(encoding="utf-8")
+    assert memo.rstrip().endswith("</html>") and "Every required check" in memo
+    return len(data["checks"])
+
+
+def browser_load_seconds(page: Path) -> float | None:
+    """Time for headless Chromium to load and lay out the page, less an empty page's time."""
+    chromium = shutil.which("chromium") or shutil.which("chromium-browser")
+    if chromium is None:
+        return None
+    flags = [
+        "--headless",
+        "--no-sandbox",
+        "--disable-gpu",
+        "--disable-background-networking",
+        "--disable-component-update",
+        "--disable-sync",
+        "--no-first-run",
+        "--dump-dom",
+    ]
+
+    def timed(target: Path) -> float:
+        with tempfile.TemporaryDirectory() as profile:
+            t = time.perf_counter()
+            subprocess.run(
+                [chromium, *flags, f"--user-data-dir={profile}", target.resolve().as_uri()],
+                capture_output=True,
+                timeout=600,
+                check=False,
+            )
+            return time.perf_counter() - t
+
+    with tempfile.TemporaryDirectory() as tmp:
+        empty = Path(tmp) / "empty.html"
+        empty.write_text("<!DOCTYPE html><title>empty</title><p>empty</p>")
+        baseline = min(timed(empty) for _ in range(2))
+    return max(0.0, timed(page) - baseline)
+
+
+def run(sizes: list[int], browser: bool) -> tuple[list[dict], float | None]:
+    rows = []
+    load = None
+    with tempfile.TemporaryDirectory() as tmp:
+        for size in sizes:
+            folder = Path(tmp) / f"b{size}"
+            model, claims, bearings = write(folder, size)
+            out = folder / "out"
+            out.mkdir()
+            review = _child(
+                CHILD_REVIEW,
+                [
+                    str(model),
+                    "--claims",
+                    str(claims),
+                    "--memo",
+                    str(out / "memo.html"),
+                    "--json",
+                    str(out / "findings.json"),
+                    "--csv",
+                    str(out / "findings.csv"),
+                ],
+            )
+            floor = _child(CHILD_FLOOR, [str(model), str(claims)])
+            checks = check_outputs(out)
+            rows.append(
+                {
+                    "target": size,
+                    "bearings": bearings,
+                    "checks": checks,
+                    "review": review,
+                    "floor": floor,
+                    "memo_mb": (out / "memo.html").stat().st_size / 1e6,
+                }
+            )
+            if browser and size == max(sizes):
+                load = browser_load_seconds(out / "memo.html")
+    return rows, load
+
+
+def render(rows: list[dict], load: float | None) -> str:
+    lines = [
+        "## Scale (`python -m tests.benchmarks.bench_scale`)",
+        "",
+        f"Machine: {machine()}.",
+        "",
+        "Synthetic buildings (storeys of a post grid, glulam beams continuous over the posts, sawn joists, "
+        "posts stacked through beams), with claims in which about 5% of checks are left out and 5% carry a slip. "
+        "`review` writes the memo, the JSON and the CSV; the floor is loading the same model and claims YAML "
+        "with PyYAML's C loader. Each figure is one fresh process.",
+        "",
+        "| bearings | checks | review with memo, JSON, CSV (s) | YAML-load floor (s) | ratio | peak memory (MB) | "
+        "memo (MB) |",
+        "|---|---|---|---|---|---|---|",
+    ]
+    for r in rows:
+        ratio = r["review"]["seconds"] / r["floor"]["seconds"]
+        lines.append(
+            f"| {r['bearings']:,} | {r['checks']:,} | {r['review']['seconds']:.2f} | {r['floor']['seconds']:.2f} | "
+            f"{ratio:.2f} | {r['review']['peak_mb']:.0f} | {r['memo_mb']:.1f} |"
+        )
+    lines.append("")
+    lines.append(
+        "Targets (2 cores): about 10k bearings within 2.5x of the floor; peak memory under 400 MB; "
+        "5x the bearings in at most 6x the time."
+    )
+    if len(rows) >= 2:
+        a, b = rows[-2], rows[-1]
+        n = b["bearings"] / a["bearings"]
+        t = b["review"]["seconds"] / a["review"]["seconds"]
+        nlogn = n * math.log(b["bearings"]) / math.log(a["bearings"])
+        lines.append("")
+        lines.append(
+            f"Growth from {a['bearings']:,} to {b['bearings']:,} bearings ({n:.2f}x): time {t:.2f}x "
+            f"(n log n would be {nlogn:.2f}x; the target allows {6 * n / 5:.2f}x)."
+        )
+    if load is not None:
+        lines.append("")
+        lines.append(
+            f"Headless Chromium loads the largest memo ({rows[-1]['memo_mb']:.1f} MB, "
+            f"{rows[-1]['checks']:,} checks) in {load:.2f} s beyond an empty page."
+        )
+    return "\n".join(lines) + "\n"
+
+
+def main(argv: list[str] | None = None) -> int:
+    parser = argparse.ArgumentParser(description=__doc__)
+    parser.add_argument("--sizes", type=int, nargs="+", default=[1000, 10000, 50000])
+    parser.add_argument("--no-report", action="store_true", help="print only; leave reports/benchmarks.md alone")
+    parser.add_argument("--no-browser", action="store_true", help="skip the Chromium load measurement")
+    args = parser.parse_args(argv)
+    rows, load = run(args.sizes, browser=not args.no_browser)
+    text = render(rows, load)
+    print(text)
+    if not args.no_report:
+        write_section("scale", text)
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())
