@@ -219,14 +219,47 @@ def schema(which: str = typer.Argument("model", help="Which input file: model.")
     typer.echo(json.dumps(SCHEMAS[which], indent=2))
 
 
+def run(argv: list[str] | None = None) -> int:
+    """Run the command line and return its exit status; never lets a traceback out."""
+    try:
+        code = app(args=argv, standalone_mode=False)
+    except typer.Exit as stop:
+        return stop.exit_code
+    except SystemExit as stop:
+        return stop.code if isinstance(stop.code, int) else 2
+    except Exception as exc:
+        if type(exc).__name__ == "Abort":
+            return 130
+        if hasattr(exc, "show") and isinstance(getattr(exc, "exit_code", None), int):
+            exc.show()  # a usage error of the command line itself (typer's own click)
+            return exc.exit_code
+        return _unexpected(exc)
+    return code if isinstance(code, int) else 0
+
+
+def _unexpected(exc: Exception) -> int:
+    """One line for an exception that escaped a command; exit status 2."""
+    if isinstance(exc, InputError):  # an input error raised outside a command's own handling
+        lines = [f"error: {line}" for line in (exc.lines() if isinstance(exc, InputErrors) else [exc.one_line()])]
+    elif isinstance(exc, RecursionError):
+        lines = ["error: input is nested too deeply to read"]
+    elif isinstance(exc, MemoryError):
+        lines = ["error: input is too large to read in the memory available"]
+    else:  # a defect of ours: say so in one line rather than a traceback
+        lines = [
+            f"error: internal error ({type(exc).__name__}: {str(exc)[:200]}); nothing was written. "
+            "Please report it with the input that caused it."
+        ]
+    for line in lines:
+        typer.echo(line, err=True)
+    return 2
+
+
 def main() -> None:
     # A review builds hundreds of thousands of small, acyclic records; collecting less often
     # saves a third of the run time on a large building and frees nothing that would be kept.
     gc.set_threshold(200_000, 20, 50)
-    try:
-        app()
-    except KeyboardInterrupt:
-        sys.exit(130)
+    sys.exit(run())
 
 
 if __name__ == "__main__":

@@ -19,10 +19,10 @@ class Location:
     key: str = ""
 
     def __str__(self) -> str:
-        where = self.file
-        if self.line:
-            where += f":{self.line}:{self.column}"
-        return f"{where}: {self.key}" if self.key else where
+        if not self.line:
+            return f"{self.file}: {self.key}" if self.key else self.file
+        # an error about the document as a whole still names a key, so every line reads alike
+        return f"{self.file}:{self.line}:{self.column}: {self.key or '(document)'}"
 
 
 class InputError(ValueError):

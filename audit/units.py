@@ -18,6 +18,9 @@ UREG = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
 UREG.define("plf = lbf / foot")
 UREG.define("klf = kip / foot")
 
+# Largest plausible magnitude per dimension (SI): beyond it a value is a typo or a hostile file.
+LIMITS = {"length": 1e3, "force": 1e10, "line_load": 1e9, "stress": 1e10, "angle": 7.0, "area": 1e4}
+
 # dimension name -> (pint dimensionality, SI unit used inside, example for messages)
 DIMENSIONS: dict[str, tuple[str, str, str]] = {
     "length": ("[length]", "m", "130 mm, 5.125 in"),
@@ -98,9 +101,12 @@ def parse_quantity(value: object, dimension: str, loc: Location) -> float:
     if len(value) > 200:
         raise InputError(f"value is {len(value)} characters long; expected a {dimension}", loc)
     try:
-        return _fast_parse(value.strip(), dimension)
+        result = _fast_parse(value.strip(), dimension)
     except UnitProblem as exc:
         raise InputError(str(exc), loc) from None
+    if abs(result) > LIMITS[dimension]:
+        raise InputError(f"'{value}' is implausibly large for a {dimension}", loc)
+    return result
 
 
 def to_display(value_si: float, unit: str) -> float:

@@ -1,0 +1,104 @@
+"""Hostile and malformed input: exit status 2, one line naming file, line and key, no traceback.
+
+The corpus is tests/hostile/ (written by fixtures/make_hostile_corpus.py, which also states each
+case's expected message, key and line in tests/hostile/expected.yaml). The largest inputs are
+made here at run time and run in a child process under a memory cap and a hang timeout.
+"""
+
+from __future__ import annotations
+
+import re
+import resource
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+import yaml
+
+from audit import cli
+from fixtures.make_hostile_corpus import MODEL
+from tests.conftest import ROOT
+
+CORPUS = ROOT / "tests" / "hostile"
+MANIFEST = yaml.safe_load((CORPUS / "expected.yaml").read_text())
+LINE = re.compile(r"^error: (?P<file>.+?):(?P<line>\d+):(?P<col>\d+): (?P<key>\S+): (?P<msg>.+)$")
+
+
+def test_corpus_has_at_least_forty_cases():
+    assert len(MANIFEST) >= 40
+    assert {f.name for f in CORPUS.glob("*.yaml")} - {"expected.yaml"} == set(MANIFEST)
+
+
+@pytest.fixture(scope="module")
+def valid_model(tmp_path_factory) -> Path:
+    path = tmp_path_factory.mktemp("base") / "model.yaml"
+    path.write_text(MODEL)
+    return path
+
+
+@pytest.mark.parametrize("name", sorted(MANIFEST))
+def test_malformed_file_gives_exit_2_and_a_located_line(name, valid_model, capsys):
+    case = MANIFEST[name]
+    path = CORPUS / name
+    argv = ["review", str(path)] if case["input"] == "model" else ["review", str(valid_model), "--claims", str(path)]
+    assert cli.run(argv) == 2
+    err = capsys.readouterr().err
+    assert "Traceback" not in err and "internal error" not in err
+    lines = [ln for ln in err.splitlines() if ln.startswith("error: ")]
+    match = next((LINE.match(ln) for ln in lines if case["message"] in ln), None)
+    assert match, f"no located line with {case['message']!r} in:\n{err}"
+    assert match["file"] == str(path)
+    assert match["key"].startswith(case["key"])
+    if case["line"]:
+        assert int(match["line"]) == case["line"]
+
+
+def _capped_child(args: list[str], memory_mb: int = 1024, timeout: float = 60.0) -> subprocess.CompletedProcess:
+    """Run the CLI in a child under an address-space cap; the timeout only catches a hang."""
+
+    def cap() -> None:
+        limit = memory_mb * 1024 * 1024
+        resource.setrlimit(resource.RLIMIT_AS, (limit, limit))
+
+    code = "import sys; from audit.cli import run; sys.exit(run(sys.argv[1:]))"
+    return subprocess.run(
+        [sys.executable, "-c", code, *args],
+        capture_output=True,
+        text=True,
+        timeout=timeout,
+        preexec_fn=cap,
+        check=False,
+    )
+
+
+@pytest.mark.parametrize(
+    ("make", "message"),
+    [
+        (lambda: MODEL.replace("Hostile corpus base (invented)", "x" * 10_000_000), "characters long"),
+        (lambda: "project: " + "[" * 200_000 + "]" * 200_000 + "\n", "nested too deeply"),
+        (lambda: (CORPUS / "model-alias-bomb.yaml").read_text(), "too many values"),
+        (
+            lambda: (
+                MODEL
+                + "".join(
+                    f"  - {{id: X{i}, member: J1, type: point, at: 1 m, specified: {{D: 1 kN}}}}\n"
+                    for i in range(20_000)
+                )
+                + "  - {id: X7, member: J1, type: point, at: 1 m}\n"
+            ),
+            "duplicate load id",
+        ),
+    ],
+    ids=["10MB-label", "deep-nesting", "alias-bomb", "20k-loads-then-a-fault"],
+)
+def test_large_hostile_inputs_stay_within_a_memory_cap(make, message, tmp_path):
+    path = tmp_path / "big.yaml"
+    path.write_text(make())
+    done = _capped_child(["review", str(path)])
+    assert done.returncode == 2, done.stderr[-2000:]
+    assert message in done.stderr and "Traceback" not in done.stderr
+    assert all(
+        line.startswith(("error: ", "1 errors", "2 errors")) or "errors; nothing" in line
+        for line in done.stderr.splitlines()
+    )
