@@ -15,7 +15,7 @@ from typing import Any
 from audit import __version__
 from audit.list_checks import Contact
 from audit.pipeline import Review
-from audit.resist import CheckResult
+from audit.resist import CheckResult, load_duration_factor
 
 
 def _contact(c: Contact) -> dict[str, Any]:
@@ -192,10 +192,16 @@ def explain(review: Review, check_id: str) -> str:
         "Forces through the check (specified, per case): "
         + ", ".join(f"{case} = {v / 1000:.2f} kN" for case, v in sorted(c.forces.items()))
     )
+    combos = {c.name: c for c in review.combinations}
     for x in r.combinations:
         mark = "  <- governs" if x is r.governing else ""
+        reason = x.kd_reason or (
+            load_duration_factor(c.forces, combos[x.combination], review.pack)[1]
+            if r.inputs.uses_kd and x.combination in combos
+            else f"KD = {x.kd:.2f}"
+        )
         lines.append(
-            f"  {x.combination:28s} Qf = {x.qf / 1000:8.2f} kN  {x.kd_reason:60.60s}  "
+            f"  {x.combination:28s} Qf = {x.qf / 1000:8.2f} kN  {reason:60.60s}  "
             f"Qr = {x.qr / 1000:8.2f} kN  Qf/Qr = {x.utilisation:.3f}{mark}"
         )
     verdict = "passes" if r.passes else "FAILS"

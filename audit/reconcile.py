@@ -37,7 +37,6 @@ class Comparison:
     within: bool
     direction: str  # unconservative | conservative | ""
     slips: tuple[Slip, ...]  # slips that reproduce the claimed number
-    tried: tuple[Slip, ...]  # every slip recomputed
 
     @property
     def difference(self) -> float:
@@ -175,15 +174,17 @@ def _within(claimed: float, recomputed: float, review: Review) -> bool:
     return abs(claimed - recomputed) <= max(p.tolerance_absolute, p.tolerance_relative * abs(recomputed))
 
 
-def _compare(quantity: str, claimed: float, recomputed: float, slips: list[Slip], review: Review) -> Comparison:
+def _compare(quantity: str, claimed: float, recomputed: float, slips, review: Review) -> Comparison:
+    """Compare one number; only when it differs are the slips (a callable giving them) recomputed."""
     within = _within(claimed, recomputed, review)
-    direction = ""
-    if not within:
-        too_low = claimed < recomputed
-        unconservative = too_low if quantity == "Qf" else not too_low
-        direction = "unconservative" if unconservative else "conservative"
-    reproducing = tuple(s for s in slips if not within and _within(claimed, s.value, review))
-    return Comparison(quantity, claimed, recomputed, within, direction, reproducing, tuple(slips))
+    if within:
+        return Comparison(quantity, claimed, recomputed, True, "", ())
+    too_low = claimed < recomputed
+    unconservative = too_low if quantity == "Qf" else not too_low
+    reproducing = tuple(s for s in slips() if _within(claimed, s.value, review))
+    return Comparison(
+        quantity, claimed, recomputed, False, "unconservative" if unconservative else "conservative", reproducing
+    )
 
 
 def qf_slips(result: CheckResult, review: Review) -> list[Slip]:
@@ -418,9 +419,13 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
         status = "failing" if not result.passes else "missing"
         return CheckOutcome(check.id, "", status, tuple(findings), remedy=remedy)
 
-    qf_cmp = _compare("Qf", claim.qf, g.qf, qf_slips(result, review), review) if claim.qf is not None else None
+    qf_cmp = None
+    if claim.qf is not None:
+        qf_cmp = _compare("Qf", claim.qf, g.qf, lambda: qf_slips(result, review), review)
     claimed_qr = claim.claimed_qr
-    qr_cmp = _compare("Qr", claimed_qr, g.qr, qr_slips(result, review), review) if claimed_qr is not None else None
+    qr_cmp = None
+    if claimed_qr is not None:
+        qr_cmp = _compare("Qr", claimed_qr, g.qr, lambda: qr_slips(result, review), review)
     diffs = factor_differences(claim, result)
     for cmp, kind in ((qf_cmp, "mis-loaded"), (qr_cmp, "resistance-differs")):
         if cmp is None or cmp.within:

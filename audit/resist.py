@@ -323,6 +323,7 @@ def evaluate(
 ) -> tuple[tuple[CombinationResult, ...], CombinationResult, tuple[str, ...]]:
     forces = check.forces if forces is None else forces
     results = []
+    reasons = []  # kept aside: only the governing combination's reason is stored (memory on large buildings)
     uplift = []
     for combo in combos:
         if not _principal_present(combo, forces):
@@ -334,12 +335,15 @@ def evaluate(
         qr = resistance(inputs, kd)
         if qf < -1e-6:
             uplift.append(combo.name)
-        results.append(CombinationResult(combo.name, combo.duration, qf, kd, kd_reason, qr, max(qf, 0.0) / qr))
+        results.append(CombinationResult(combo.name, combo.duration, qf, kd, "", qr, max(qf, 0.0) / qr))
+        reasons.append(kd_reason)
     if not results:
         qr = resistance(inputs, pack.kd["standard"].value)
-        results.append(CombinationResult("no load", "standard", 0.0, 1.0, "no load reaches this bearing", qr, 0.0))
-    governing = max(results, key=lambda r: r.utilisation)
-    return tuple(results), governing, tuple(uplift)
+        results.append(CombinationResult("no load", "standard", 0.0, 1.0, "", qr, 0.0))
+        reasons.append("no load reaches this bearing")
+    index = max(range(len(results)), key=lambda i: results[i].utilisation)
+    results[index] = replace(results[index], kd_reason=reasons[index])
+    return tuple(results), results[index], tuple(uplift)
 
 
 def resist(checklist: CheckList, model: Model, pack: ResistancePack, cpack: CombinationPack) -> tuple[CheckResult, ...]:

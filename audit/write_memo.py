@@ -31,7 +31,9 @@ STATUS_WORDS = {
     "computed": "PASSES",
 }
 SKETCH_LIMIT = 400  # members drawn; a larger building lists the rest in the table only
-DERIVATION_LIMIT = 2000  # above this many checks, derivations are given for checks with findings only
+DERIVATION_LIMIT = 2000  # above this many checks the memo is trimmed to stay quick to open:
+LARGE_DERIVATIONS = 300  # derivations of failing checks only, at most this many
+LARGE_SKETCHES = 100
 
 CAUTIONS = (
     "This memo supports the reviewer's judgement and never replaces it.",
@@ -99,7 +101,7 @@ def _finding_view(f: Finding, review: Review, reconciliation: Reconciliation | N
     claim = claims.get(outcome.claim_id) if outcome and outcome.claim_id else claims.get(f.claim_id)
     result = review.result(f.check_id) if f.check_id else None
     rows = []
-    if result is not None:
+    if result is not None and claim is not None:  # a missing check's numbers are in its message
         g = result.governing
         cmp_qf = outcome.qf if outcome else None
         cmp_qr = outcome.qr if outcome else None
@@ -166,11 +168,11 @@ def _check_rows(review: Review, reconciliation: Reconciliation | None, claims: d
 
 
 def _derivations(review: Review, status_of: dict[str, str]) -> tuple[list[dict[str, Any]], bool]:
-    """Derivations of every check, or of the checks with findings on a large building."""
+    """Derivations of every check, or on a large building of the first failing ones."""
     out = []
     all_checks = len(review.results) <= DERIVATION_LIMIT
     for r in review.results:
-        if not all_checks and status_of.get(r.check.id) in ("confirmed", "computed"):
+        if not all_checks and (status_of.get(r.check.id) != "failing" or len(out) >= LARGE_DERIVATIONS):
             continue
         rec = check_record(r)
         out.append(
@@ -214,6 +216,7 @@ def build_view(
         else {r.check.id: ("failing" if not r.passes else "computed") for r in review.results}
     )
     derivations, all_derivations = _derivations(review, status_of)
+    sketch_limit = SKETCH_LIMIT if all_derivations else LARGE_SKETCHES
     return {
         "title": options.title,
         "project": p,
@@ -227,11 +230,12 @@ def build_view(
         "findings": [_finding_view(f, review, reconciliation, claims_by_id) for f in shown],
         "groups": _check_rows(review, reconciliation, claims_by_id),
         "exempt": review.checklist.exempt,
-        "sketches": member_sketches(review, status_of, STATUS_WORDS, SKETCH_LIMIT),
-        "sketch_limit": SKETCH_LIMIT,
+        "sketches": member_sketches(review, status_of, STATUS_WORDS, sketch_limit),
+        "sketch_limit": sketch_limit,
         "derivations": derivations,
         "all_derivations": all_derivations,
         "derivation_limit": DERIVATION_LIMIT,
+        "large_derivations": LARGE_DERIVATIONS,
         "assumptions": assumptions(review),
         "cautions": CAUTIONS,
         "kinds": list(KINDS.values()),

@@ -1,0 +1,147 @@
+"""Fuzzing the whole command line with generated and mutated models and claims.
+
+Property: every run ends with exit status 0, 1 or 2 and a message, never an uncaught
+exception; for valid input, every required check and every claim is accounted for in the JSON
+and the memo. A short run is part of every test run; the dedicated job runs thousands:
+
+    FUZZ_EXAMPLES=3000 python -m pytest -m fuzz -q
+"""
+
+from __future__ import annotations
+
+import json
+import os
+import tempfile
+from pathlib import Path
+
+import pytest
+import yaml
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
+
+from audit import cli
+from tests.conftest import base_model
+
+EXAMPLES = int(os.environ.get("FUZZ_EXAMPLES", "40"))
+SETTINGS = settings(max_examples=EXAMPLES, deadline=None, suppress_health_check=list(HealthCheck))
+pytestmark = pytest.mark.fuzz
+
+JUNK = st.one_of(
+    st.none(), st.booleans(), st.integers(-10**6, 10**6), st.floats(allow_nan=True, allow_infinity=True),
+    st.text(max_size=30), st.sampled_from(["130 mm", "-1 mm", "0 m", "nan mm", "1e400 kN", "5 kN/m", "12 kip",
+                                           "3 deg", "7 MPa", "<script>x</script>", "B1", "J1", "C1", "W1", "local",
+                                           "near-support", "", "1,000 lbf", "∞ m"]),
+    st.lists(st.integers(), max_size=3), st.dictionaries(st.text(max_size=5), st.integers(), max_size=2),
+)
+
+
+def _paths(data) -> list[tuple]:
+    out = []
+
+    def walk(node, path):
+        out.append(path)
+        if isinstance(node, dict):
+            for k, v in node.items():
+                walk(v, (*path, k))
+        elif isinstance(node, list):
+            for i, v in enumerate(node):
+                walk(v, (*path, i))
+
+    walk(data, ())
+    return out
+
+
+def _mutate(data, choice, junk, action):
+    paths = [p for p in _paths(data) if p]
+    if not paths:
+        return data
+    path = paths[choice % len(paths)]
+    parent = data
+    for k in path[:-1]:
+        parent = parent[k]
+    last = path[-1]
+    if action == "delete":
+        if isinstance(parent, dict):
+            del parent[last]
+        else:
+            parent.pop(last)
+    elif action == "duplicate" and isinstance(parent, list):
+        parent.append(parent[last])
+    elif action == "rename" and isinstance(parent, dict):
+        parent[f"{last}_x"] = parent.pop(last)
+    else:
+        parent[last] = junk
+    return data
+
+
+mutations = st.lists(
+    st.tuples(st.integers(0, 10_000), JUNK, st.sampled_from(["replace", "delete", "duplicate", "rename"])),
+    min_size=0, max_size=4,
+)
+
+
+def _claims_for(data) -> list[dict]:
+    items = []
+    for i, b in enumerate(data["bearings"]):
+        upper = b["upper"]["member"] if isinstance(b["upper"], dict) else b["upper"]
+        lower = b["lower"]["member"] if isinstance(b["lower"], dict) else b["lower"]
+        items.append({"id": f"c{i}", "location": f"{upper}/{lower}", "member": upper, "Qf": "5 kN", "Qr": "20 kN"})
+    return items
+
+
+def _run(model_text: bytes, claims: list | dict | str) -> None:
+    with tempfile.TemporaryDirectory() as tmp:
+        folder = Path(tmp)
+        model = folder / "model.yaml"
+        model.write_bytes(model_text)
+        claims_path = folder / "claims.yaml"
+        claims_path.write_text(claims if isinstance(claims, str) else yaml.safe_dump(claims, allow_unicode=True))
+        out, memo = folder / "out.json", folder / "memo.html"
+        import contextlib
+        import io
+
+        err = io.StringIO()
+        with contextlib.redirect_stderr(err), contextlib.redirect_stdout(io.StringIO()):
+            code = cli.run(["review", str(model), "--claims", str(claims_path), "--json", str(out),
+                            "--memo", str(memo)])
+        text = err.getvalue()
+        assert code in (0, 1, 2), code
+        assert "Traceback" not in text and "internal error" not in text, text
+        if code == 2:
+            assert text.startswith("error: "), text
+            return
+        data = json.loads(out.read_text())
+        check_ids = [c["id"] for c in data["checks"]]
+        assert sorted(o["check"] for o in data["check_outcomes"]) == sorted(check_ids)
+        items = yaml.safe_load(claims_path.read_text())["claims"] or []
+        claim_ids = [str(c["id"]) if "id" in c else f"claim{n + 1}" for n, c in enumerate(items)]
+        assert sorted(o["claim"] for o in data["claim_outcomes"]) == sorted(claim_ids)
+        html = memo.read_text()
+        assert all(f"<td>{cid}</td>" in html for cid in check_ids if "<" not in cid and "&" not in cid)
+
+
+@SETTINGS
+@given(mutations, mutations)
+def test_mutated_models_and_claims_end_in_0_1_or_2_with_everything_accounted_for(model_mutations, claim_mutations):
+    data = base_model()
+    for choice, junk, action in model_mutations:
+        data = _mutate(data, choice, junk, action)
+    claims = {"claims": _claims_for(base_model())}
+    for choice, junk, action in claim_mutations:
+        claims = _mutate(claims, choice, junk, action)
+    _run(yaml.safe_dump(data, allow_unicode=True).encode(), claims)
+
+
+@SETTINGS
+@given(st.lists(st.tuples(st.integers(0, 10_000), st.integers(0, 255)), min_size=1, max_size=6))
+def test_byte_flipped_models_end_in_0_1_or_2(flips):
+    raw = bytearray(yaml.safe_dump(base_model()).encode())
+    for where, value in flips:
+        raw[where % len(raw)] = value
+    _run(bytes(raw), {"claims": []})
+
+
+@SETTINGS
+@given(st.text(max_size=400))
+def test_arbitrary_text_as_claims_ends_in_0_1_or_2(text):
+    _run(yaml.safe_dump(base_model()).encode(), text)
