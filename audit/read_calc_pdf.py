@@ -59,6 +59,7 @@ UNIT_ALIASES = {
 }
 CANDIDATE = re.compile(r"Q\s?'?\s?[fr]\b|Q[fr]'|F\s?cp|K\s?ZCP|KZcp|Qf|Qr", re.IGNORECASE)
 MAX_PAGE_TEXT = 400_000  # characters; a page with more is skipped with a warning
+MAX_PAGE_OBJECTS = 100_000  # drawing objects; a page with more is skipped with a warning
 
 
 @dataclass(frozen=True)
@@ -135,7 +136,7 @@ def open_document(path: Path):
     """Open with pdfium, turning every failure into a one-line InputError."""
     import pypdfium2 as pdfium
 
-    where = Location(str(path))
+    where = Location(str(path), 1, 1, "(document)")
     try:
         with path.open("rb") as handle:
             head = handle.read(1024)
@@ -160,12 +161,19 @@ def scan_pages(path: Path, pages: list[int], any_text: bool = False) -> tuple[li
     A candidate page carries the trade's symbols; with ``any_text`` (a column map of the
     reviewer's own headers) every page with text is a candidate.
     """
+    import pypdfium2.raw as pdfium_raw
+
     doc = open_document(path)
     candidates, empty, warnings = [], [], []
     try:
         for number in pages:
             try:
                 page = doc[number - 1]
+                objects = pdfium_raw.FPDFPage_CountObjects(page.raw)
+                if objects > MAX_PAGE_OBJECTS:
+                    warnings.append(f"page {number}: {objects} drawing objects, too many to read; skipped")
+                    page.close()
+                    continue
                 textpage = page.get_textpage()
                 count = textpage.count_chars()
                 if count > MAX_PAGE_TEXT:

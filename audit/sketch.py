@@ -19,19 +19,25 @@ BEAM_Y = 70.0
 BEAM_H = 22.0
 
 
+MAX_CHECKS_DRAWN = 60  # a member with more checks than this is left to the table: a sketch would be a blur
+
+
 def member_sketches(review: Review, status_of: dict[str, str], words: dict[str, str], limit: int) -> list[dict]:
+    """Sketches of up to ``limit`` members, those with failing checks first."""
     checks_by_member: dict[str, list] = {}
     for r in review.results:
         checks_by_member.setdefault(r.check.member, []).append(r)
-    out = []
-    for member_id in sorted(checks_by_member):
-        member = review.model.members[member_id]
-        if member.vertical:
-            continue
-        if len(out) >= limit:
-            break
-        out.append(_sketch(review, member_id, checks_by_member[member_id], status_of, words))
-    return out
+
+    def failing_first(member_id: str) -> tuple[bool, str]:
+        return (not any(status_of.get(r.check.id) == "failing" for r in checks_by_member[member_id]), member_id)
+
+    drawable = [
+        m
+        for m in checks_by_member
+        if not review.model.members[m].vertical and len(checks_by_member[m]) <= MAX_CHECKS_DRAWN
+    ]
+    chosen = sorted(drawable, key=failing_first)[:limit]
+    return [_sketch(review, m, checks_by_member[m], status_of, words) for m in sorted(chosen)]
 
 
 def _sketch(review: Review, member_id: str, results, status_of, words) -> dict[str, Any]:

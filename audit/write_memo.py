@@ -33,7 +33,7 @@ STATUS_WORDS = {
 SKETCH_LIMIT = 400  # members drawn; a larger building lists the rest in the table only
 DERIVATION_LIMIT = 2000  # above this many checks the memo is trimmed to stay quick to open:
 LARGE_DERIVATIONS = 300  # derivations of failing checks only, at most this many
-LARGE_SKETCHES = 100
+LARGE_SKETCHES = 40
 
 CAUTIONS = (
     "This memo supports the reviewer's judgement and never replaces it.",
@@ -199,7 +199,7 @@ def _derivations(review: Review, status_of: dict[str, str]) -> tuple[list[dict[s
 def build_view(
     review: Review, reconciliation: Reconciliation | None, claims: tuple[Claim, ...], options: MemoOptions
 ) -> dict[str, Any]:
-    from audit.sketch import member_sketches
+    from audit.sketch import MAX_CHECKS_DRAWN, member_sketches
 
     p = review.model.project
     claims_by_id = {c.id: c for c in claims}
@@ -232,6 +232,7 @@ def build_view(
         "exempt": review.checklist.exempt,
         "sketches": member_sketches(review, status_of, STATUS_WORDS, sketch_limit),
         "sketch_limit": sketch_limit,
+        "max_checks_drawn": MAX_CHECKS_DRAWN,
         "derivations": derivations,
         "all_derivations": all_derivations,
         "derivation_limit": DERIVATION_LIMIT,

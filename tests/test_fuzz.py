@@ -27,11 +27,36 @@ SETTINGS = settings(max_examples=EXAMPLES, deadline=None, suppress_health_check=
 pytestmark = pytest.mark.fuzz
 
 JUNK = st.one_of(
-    st.none(), st.booleans(), st.integers(-10**6, 10**6), st.floats(allow_nan=True, allow_infinity=True),
-    st.text(max_size=30), st.sampled_from(["130 mm", "-1 mm", "0 m", "nan mm", "1e400 kN", "5 kN/m", "12 kip",
-                                           "3 deg", "7 MPa", "<script>x</script>", "B1", "J1", "C1", "W1", "local",
-                                           "near-support", "", "1,000 lbf", "∞ m"]),
-    st.lists(st.integers(), max_size=3), st.dictionaries(st.text(max_size=5), st.integers(), max_size=2),
+    st.none(),
+    st.booleans(),
+    st.integers(-(10**6), 10**6),
+    st.floats(allow_nan=True, allow_infinity=True),
+    st.text(max_size=30),
+    st.sampled_from(
+        [
+            "130 mm",
+            "-1 mm",
+            "0 m",
+            "nan mm",
+            "1e400 kN",
+            "5 kN/m",
+            "12 kip",
+            "3 deg",
+            "7 MPa",
+            "<script>x</script>",
+            "B1",
+            "J1",
+            "C1",
+            "W1",
+            "local",
+            "near-support",
+            "",
+            "1,000 lbf",
+            "∞ m",
+        ]
+    ),
+    st.lists(st.integers(), max_size=3),
+    st.dictionaries(st.text(max_size=5), st.integers(), max_size=2),
 )
 
 
@@ -76,7 +101,8 @@ def _mutate(data, choice, junk, action):
 
 mutations = st.lists(
     st.tuples(st.integers(0, 10_000), JUNK, st.sampled_from(["replace", "delete", "duplicate", "rename"])),
-    min_size=0, max_size=4,
+    min_size=0,
+    max_size=4,
 )
 
 
@@ -102,8 +128,9 @@ def _run(model_text: bytes, claims: list | dict | str) -> None:
 
         err = io.StringIO()
         with contextlib.redirect_stderr(err), contextlib.redirect_stdout(io.StringIO()):
-            code = cli.run(["review", str(model), "--claims", str(claims_path), "--json", str(out),
-                            "--memo", str(memo)])
+            code = cli.run(
+                ["review", str(model), "--claims", str(claims_path), "--json", str(out), "--memo", str(memo)]
+            )
         text = err.getvalue()
         assert code in (0, 1, 2), code
         assert "Traceback" not in text and "internal error" not in text, text

@@ -71,7 +71,8 @@ def check_outputs(out: Path) -> int:
 
 
 def browser_load_seconds(page: Path) -> float | None:
-    """Time for headless Chromium to load and lay out the page, less an empty page's time."""
+    """Time for headless Chromium to load, lay out and paint the first screen of the page (a
+    screenshot), less the same for an empty page."""
     chromium = shutil.which("chromium") or shutil.which("chromium-browser")
     if chromium is None:
         return None

@@ -1,0 +1,102 @@
+"""PDF faults: crowded pages, very long documents, markup in the text. Bounded time and
+memory (a child process under a memory cap; the timeout only catches a hang), clear messages,
+escaped output."""
+
+from __future__ import annotations
+
+import zlib
+from pathlib import Path
+
+from tests.test_hostile_input import _capped_child
+
+
+def raw_pdf(path: Path, page_streams: list[bytes]) -> None:
+    """A minimal PDF written by hand: one content stream per page (shared when identical), Helvetica."""
+    objects: list[bytes] = []
+
+    def add(body: bytes) -> int:
+        objects.append(body)
+        return len(objects)
+
+    font = add(b"<< /Type /Font /Subtype /Type1 /BaseFont /Helvetica >>")
+    streams: dict[bytes, int] = {}
+    page_ids = []
+    pages_id = len(objects) + 1 + len(set(page_streams)) + len(page_streams)  # reserved below
+    for content in page_streams:
+        if content not in streams:
+            packed = zlib.compress(content, 9)
+            streams[content] = add(
+                b"<< /Length %d /Filter /FlateDecode >>\nstream\n" % len(packed) + packed + b"\nendstream"
+            )
+        page_ids.append(
+            add(
+                b"<< /Type /Page /Parent %d 0 R /MediaBox [0 0 612 792] /Contents %d 0 R "
+                b"/Resources << /Font << /F1 %d 0 R >> >> >>" % (pages_id, streams[content], font)
+            )
+        )
+    kids = b" ".join(b"%d 0 R" % i for i in page_ids)
+    assert add(b"<< /Type /Pages /Kids [%s] /Count %d >>" % (kids, len(page_ids))) == pages_id
+    catalog = add(b"<< /Type /Catalog /Pages %d 0 R >>" % pages_id)
+    out = bytearray(b"%PDF-1.7\n")
+    offsets = []
+    for number, body in enumerate(objects, start=1):
+        offsets.append(len(out))
+        out += b"%d 0 obj\n" % number + body + b"\nendobj\n"
+    xref = len(out)
+    out += b"xref\n0 %d\n0000000000 65535 f \n" % (len(objects) + 1)
+    out += b"".join(b"%010d 00000 n \n" % o for o in offsets)
+    out += b"trailer\n<< /Size %d /Root %d 0 R >>\nstartxref\n%d\n%%%%EOF\n" % (len(objects) + 1, catalog, xref)
+    path.write_bytes(bytes(out))
+
+
+def text_lines(lines: list[str], top: float = 740.0) -> bytes:
+    ops = [b"BT /F1 10 Tf"]
+    for i, line in enumerate(lines):
+        escaped = line.replace("\\", "\\\\").replace("(", "\\(").replace(")", "\\)").encode("latin-1")
+        ops.append(b"1 0 0 1 60 %.1f Tm (%s) Tj" % (top - 14 * i, escaped))
+    ops.append(b"ET")
+    return b"\n".join(ops) + b"\n"
+
+
+EQUATION = ["Location: B1 at C1", "Member checked: GB1", "Qr = 109.2 kN >= Qf = 15.8 kN OK"]
+
+
+def test_page_with_a_million_tiny_objects_is_skipped_with_a_warning(tmp_path):
+    crowded = b"".join(b"%d %d 0.2 0.2 re f\n" % (i % 600, (i // 600) % 780) for i in range(1_000_000))
+    raw_pdf(tmp_path / "crowded.pdf", [text_lines(EQUATION) + crowded, text_lines(EQUATION)])
+    done = _capped_child(["extract", str(tmp_path / "crowded.pdf"), "-o", str(tmp_path / "c.yaml")])
+    assert done.returncode == 0, done.stderr
+    assert "page 1:" in done.stderr and "too many to read; skipped" in done.stderr
+    assert "page: 2" in (tmp_path / "c.yaml").read_text()
+
+
+def test_thousands_of_pages_are_scanned_cheaply(tmp_path):
+    blank = text_lines(["Narrative sheet with no bearing checks on it."])
+    pages = [blank] * 3000
+    pages[2876] = text_lines(EQUATION)
+    raw_pdf(tmp_path / "long.pdf", pages)
+    done = _capped_child(["extract", str(tmp_path / "long.pdf"), "-o", str(tmp_path / "l.yaml")])
+    assert done.returncode == 0, done.stderr
+    text = (tmp_path / "l.yaml").read_text()
+    assert "page: 2877" in text and "from 1 of 3000 pages read" in text  # only that page was parsed
+
+
+def test_markup_in_pdf_text_is_escaped_in_the_memo(tmp_path, run_cli):
+    from tests.conftest import DEMO
+
+    evil = ["Location: <script>alert(1)</script>", "Member checked: GB1", "Qr = 10 kN >= Qf = 5 kN OK"]
+    raw_pdf(tmp_path / "evil.pdf", [text_lines(evil)])
+    result = run_cli(
+        "review", DEMO, "--calc-pdf", tmp_path / "evil.pdf", "--memo", tmp_path / "m.html", "--csv", tmp_path / "f.csv"
+    )
+    assert result.exit_code == 1
+    html = (tmp_path / "m.html").read_text()
+    assert "<script>alert(1)</script>" not in html
+    assert "&lt;script&gt;alert(1)&lt;/script&gt;" in html
+
+
+def test_a_pdf_of_only_blank_pages_says_no_checks_were_found(tmp_path):
+    raw_pdf(tmp_path / "blank.pdf", [text_lines(["Cover sheet"])] * 5)
+    done = _capped_child(["extract", str(tmp_path / "blank.pdf"), "-o", str(tmp_path / "b.yaml")])
+    assert done.returncode == 2 and "no bearing checks found" in done.stderr
+    assert not (tmp_path / "b.yaml").exists()
