@@ -49,9 +49,17 @@ def check_record(r: CheckResult) -> dict[str, Any]:
             {"name": f.name, "value": round(f.value, 4), "reason": f.reason, "clause": f.clause} for f in r.factors
         ],
         "forces_kN": {case: round(v / 1000, 3) for case, v in sorted(c.forces.items())},
-        # every combination as [name, Qf kN, KD, Qr kN, Qf/Qr]; the governing one's KD reason below
+        # every combination as [name, Qf kN, KD, Fcp MPa, Qr kN, Qf/Qr]; the governing one's KD reason below
+        "combination_columns": ["name", "Qf_kN", "KD", "Fcp_MPa", "Qr_kN", "utilisation"],
         "combinations": [
-            [x.combination, round(x.qf / 1000, 3), round(x.kd, 4), round(x.qr / 1000, 3), round(x.utilisation, 4)]
+            [
+                x.combination,
+                round(x.qf / 1000, 3),
+                round(x.kd, 4),
+                round(_fcp(r, x.kd) / 1e6, 4),
+                round(x.qr / 1000, 3),
+                round(x.utilisation, 4),
+            ]
             for x in r.combinations
         ],
         "governing": g.combination,
@@ -62,6 +70,11 @@ def check_record(r: CheckResult) -> dict[str, Any]:
         "passes": r.passes,
         "uplift_in": list(r.uplift),
     }
+
+
+def _fcp(r: CheckResult, kd: float) -> float:
+    """Fcp = fcp (KD KScp KT), Pa."""
+    return r.inputs.fcp * kd * r.inputs.kscp * r.inputs.kt
 
 
 def review_record(review: Review) -> dict[str, Any]:
@@ -201,7 +214,7 @@ def explain(review: Review, check_id: str) -> str:
             else f"KD = {x.kd:.2f}"
         )
         lines.append(
-            f"  {x.combination:28s} Qf = {x.qf / 1000:8.2f} kN  {reason:60.60s}  "
+            f"  {x.combination:28s} Qf = {x.qf / 1000:8.2f} kN  {reason:60.60s}  Fcp = {_fcp(r, x.kd) / 1e6:5.2f} MPa  "
             f"Qr = {x.qr / 1000:8.2f} kN  Qf/Qr = {x.utilisation:.3f}{mark}"
         )
     verdict = "passes" if r.passes else "FAILS"

@@ -137,4 +137,64 @@ MODEL_SCHEMA: dict[str, Any] = {
     ),
 }
 
-SCHEMAS: dict[str, dict[str, Any]] = {"model": MODEL_SCHEMA}
+NUMBER_FACTOR = {"type": "number", "minimum": 0}
+
+CLAIMS_SCHEMA: dict[str, Any] = {
+    "$schema": "https://json-schema.org/draft/2020-12/schema",
+    "title": "bearing-audit claims (what the calc package claims for its bearing checks)",
+    **_obj(
+        {
+            "claims": {
+                "type": "array",
+                "items": _obj(
+                    {
+                        "id": {"type": "string"},
+                        "where": {
+                            "oneOf": [
+                                {"type": "string"},
+                                {"type": "integer", "minimum": 1},
+                                _obj(
+                                    {
+                                        "page": {"type": "integer", "minimum": 1},
+                                        "sheet": {"type": ["string", "integer"]},
+                                        "table": {"type": "string"},
+                                        "item": {"type": ["string", "integer"]},
+                                        "x": {"type": "number"},
+                                        "y": {"type": "number"},
+                                    },
+                                    [],
+                                ),
+                            ]
+                        },
+                        "location": {"type": "string", "description": "the calc's label: a bearing id or alias"},
+                        "member": {"type": "string"},
+                        "kind": {"enum": ["local", "near-support"], "default": "local"},
+                        "Qf": FORCE,
+                        "Qr": FORCE,
+                        "utilisation": {"type": "number", "minimum": 0},
+                        "factors": _obj(
+                            {
+                                "Ab": {**QUANTITY, "description": "an area, e.g. '19500 mm**2'"},
+                                "KB": NUMBER_FACTOR,
+                                "KZcp": NUMBER_FACTOR,
+                                "KD": NUMBER_FACTOR,
+                                "KScp": NUMBER_FACTOR,
+                                "KT": NUMBER_FACTOR,
+                                "fcp": QUANTITY,
+                                "length": LENGTH,
+                                "width": LENGTH,
+                            },
+                            [],
+                        ),
+                        "adequate": {"type": "boolean"},
+                        "text": {"type": "string", "description": "the calc's own words"},
+                    },
+                    ["location"],
+                ),
+            }
+        },
+        ["claims"],
+    ),
+}
+
+SCHEMAS: dict[str, dict[str, Any]] = {"model": MODEL_SCHEMA, "claims": CLAIMS_SCHEMA}

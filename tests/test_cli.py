@@ -40,9 +40,12 @@ def test_json_export_carries_every_combination_with_kd(run_cli, tmp_path):
     out = tmp_path / "c.json"
     run_cli("review", DEMO, "--json", out)
     check = json.loads(out.read_text())["checks"][0]
-    assert check["combinations"] and all(len(c) == 5 for c in check["combinations"])  # name, Qf, KD, Qr, Qf/Qr
+    assert check["combination_columns"] == ["name", "Qf_kN", "KD", "Fcp_MPa", "Qr_kN", "utilisation"]
+    assert check["combinations"] and all(len(c) == 6 for c in check["combinations"])
     governing = next(c for c in check["combinations"] if c[0] == check["governing"])
-    assert governing[4] == check["utilisation"] and check["KD_reason"].startswith("KD =")
+    assert governing[5] == check["utilisation"] and check["KD_reason"].startswith("KD =")
+    fcp = next(f["value"] for f in check["factors"] if f["name"] == "fcp")
+    assert governing[3] == round(fcp / 1e6 * governing[2], 4)  # dry, untreated: Fcp = fcp KD
 
 
 def test_explain_prints_the_full_derivation(run_cli):
@@ -86,3 +89,16 @@ def test_schema_rejects_an_unknown_key(run_cli):
     data["members"][0]["colour"] = "red"
     with pytest.raises(jsonschema.ValidationError):
         jsonschema.validate(data, schema)
+
+
+def test_claims_schema_validates_the_demo_claims_and_an_extracted_file(run_cli, tmp_path):
+    import jsonschema
+    import yaml
+
+    from tests.conftest import ROOT
+
+    schema = json.loads(run_cli("schema", "claims").output)
+    jsonschema.validate(yaml.safe_load((ROOT / "fixtures/demo/claims.yaml").read_text()), schema)
+    out = tmp_path / "x.yaml"
+    assert run_cli("extract", ROOT / "fixtures/demo/calc.pdf", "-o", out).exit_code == 0
+    jsonschema.validate(yaml.safe_load(out.read_text()), schema)

@@ -50,6 +50,20 @@ def test_printed_memo_carries_every_finding_and_no_table_runs_off_the_page(tmp_p
             assert f"{value / 1000:.2f}".lstrip("-") in text, (f.kind, value)
 
 
+def test_memo_fits_an_a4_page_as_well_as_letter(tmp_path):
+    review = review_model(DEMO)
+    claims = read_claims(CLAIMS)
+    html = render_memo(review, reconcile(review, claims), claims, MemoOptions())
+    page = tmp_path / "a4.html"
+    page.write_text(html.replace("@page { margin", "@page { size: A4; margin"), encoding="utf-8")
+    pdf_path = browser.print_pdf(page, tmp_path / "a4.pdf", tmp_path / "profile")
+    with pdfplumber.open(pdf_path) as pdf:
+        assert round(pdf.pages[0].width) == 595  # A4 in points
+        for p in pdf.pages:
+            xs = [o["x1"] for o in (*p.chars, *p.rects, *p.lines)]
+            assert not xs or max(xs) <= p.width + 0.5, f"page {p.page_number} runs off the right edge"
+
+
 def test_markup_in_any_field_is_text_in_the_dom_and_runs_nothing(tmp_path):
     evil = "<script>document.title='owned'</script><img src=x onerror=\"document.title='owned'\">"
     data = base_model()
