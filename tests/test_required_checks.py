@@ -9,18 +9,24 @@ def _ids(review):
     return {r.check.id for r in review.results}
 
 
-def test_both_members_of_a_timber_contact_get_their_own_local_check():
-    ids = _ids(review_dict(base_model()))
-    assert {"J1/B1:B1", "J1/B1:J1", "J1/W1:W1", "J1/W1:J1"} <= ids
-
-
-def test_steel_and_end_grain_members_are_listed_with_a_reason():
+def _with_post_on_plate() -> dict:
+    """The base frame with a timber post P9 standing on the plate W1."""
     data = base_model()
     data["materials"]["DF"] = {"family": "timber", "species": "D.Fir-L", "grade": "No.1"}
     data["members"].append(
         {"id": "P9", "material": "DF", "b": "140 mm", "d": "140 mm", "length": "2 m", "orientation": "vertical"}
     )
     data["bearings"].append({"upper": "P9", "lower": {"member": "W1", "at": "4 m"}})
+    return data
+
+
+def test_both_members_of_a_timber_contact_get_their_own_local_check():
+    ids = _ids(review_dict(base_model()))
+    assert {"J1/B1:B1", "J1/B1:J1", "J1/W1:W1", "J1/W1:J1"} <= ids
+
+
+def test_steel_and_end_grain_members_are_listed_with_a_reason():
+    data = _with_post_on_plate()
     review = review_dict(data)
     reasons = {(e.bearing, e.member): e.reason for e in review.checklist.exempt}
     assert "own standard" in reasons[("B1/C1", "C1")]
@@ -57,12 +63,7 @@ def test_near_support_check_carries_only_the_loads_within_d():
 
 
 def test_a_post_passes_its_load_to_the_bearing_at_its_foot():
-    data = base_model()
-    data["materials"]["DF"] = {"family": "timber", "species": "D.Fir-L", "grade": "No.1"}
-    data["members"].append(
-        {"id": "P9", "material": "DF", "b": "140 mm", "d": "140 mm", "length": "2 m", "orientation": "vertical"}
-    )
-    data["bearings"].append({"upper": "P9", "lower": {"member": "W1", "at": "4 m"}})
+    data = _with_post_on_plate()
     data["loads"].append({"member": "P9", "type": "point", "specified": {"S": "30 kN"}})
     review = review_dict(data)
     assert review.flow.bearing_forces["P9/W1"] == {"S": 30000.0}
