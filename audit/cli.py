@@ -101,7 +101,7 @@ def _extract(pdf: Path, pages: str | None, column_map: Path | None):
     cmap = read_column_map(column_map) if column_map else None
     bar = None
     if sys.stderr.isatty():
-        from rich.progress import Progress
+        from rich.progress import Progress  # rich comes with typer
 
         bar = Progress(transient=True)
         bar.start()
