@@ -126,7 +126,7 @@ def _extract(pdf: Path, pages: str | None, column_map: Path | None):
         raise InputError(
             f"no bearing checks found in {where} (no table headed Qf/Qr and no line such as 'Qr = 45.2 kN >= "
             "Qf = 31.0 kN'); give a --map for unusual headers",
-            Location(str(pdf)),
+            Location(str(pdf), 1, 1, "(document)"),
         )
     return result
 

@@ -15,7 +15,7 @@ from audit.pipeline import Review
 WIDTH = 720.0
 LEFT = 40.0
 RIGHT = 40.0
-BEAM_Y = 70.0
+BEAM_Y = 96.0
 BEAM_H = 22.0
 
 
@@ -73,8 +73,21 @@ def _sketch(review: Review, member_id: str, results, status_of, words) -> dict[s
         below = c.face == "bottom" or c.kind == NEAR
         status = status_of.get(c.id, "computed")
         row = (number - 1) % 2
-        y = BEAM_Y + BEAM_H + 44 + 16 * row if below else BEAM_Y - 56 - 14 * row
-        marks.append({"x": px(x), "y": y, "n": number, "status": status, "word": words[status]})
+        y = BEAM_Y + BEAM_H + 44 + 16 * row if below else BEAM_Y - 58 - 16 * row
+        at = px(x)
+        # words read to the right of the marker, or to its left near the right-hand end
+        left = at > WIDTH - RIGHT - 70
+        marks.append(
+            {
+                "x": at,
+                "y": y,
+                "n": number,
+                "status": status,
+                "word": words[status],
+                "tx": at - 10 if left else at + 10,
+                "anchor": "end" if left else "start",
+            }
+        )
         legend.append(
             {
                 "n": number,
@@ -91,7 +104,7 @@ def _sketch(review: Review, member_id: str, results, status_of, words) -> dict[s
         "length_mm": f"{member.length * 1000:.0f}",
         "d_mm": f"{member.d * 1000:.0f}",
         "width": WIDTH,
-        "height": 190.0,
+        "height": 214.0,
         "beam": {"x": px(0.0), "y": BEAM_Y, "w": round(span, 1), "h": BEAM_H},
         "supports": supports,
         "continuous": supports_line,
