@@ -12,7 +12,7 @@ from __future__ import annotations
 import math
 from bisect import bisect_left, bisect_right
 from collections import defaultdict
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 
 from audit.errors import InputError
 from audit.model import Bearing, Member, Model
@@ -64,7 +64,6 @@ class Exempt:
 class CheckList:
     checks: tuple[RequiredCheck, ...]
     exempt: tuple[Exempt, ...]
-    notes: tuple[str, ...] = field(default=())
 
 
 def contact_on(member: Member, other: Member, bearing: Bearing) -> Contact:

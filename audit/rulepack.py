@@ -33,9 +33,6 @@ class Sourced:
     source: str
     status: str
 
-    def cite(self) -> str:
-        return f"O86 {self.clause} ({self.status})" if self.clause else self.status
-
 
 @dataclass(frozen=True)
 class Table:

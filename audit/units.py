@@ -1,4 +1,4 @@
-"""The units edge: pint reads quantities where values come in and formats them going out.
+"""The units edge: pint reads quantities where values come in.
 
 Inside the program every quantity is a plain SI float (N, m, Pa, N/m, rad). Nothing past
 this module touches pint.
@@ -107,30 +107,3 @@ def parse_quantity(value: object, dimension: str, loc: Location) -> float:
     if abs(result) > LIMITS[dimension]:
         raise InputError(f"'{value}' is implausibly large for a {dimension}", loc)
     return result
-
-
-def to_display(value_si: float, unit: str) -> float:
-    """Convert an SI float to a display unit (kN, mm, MPa, kN/m, in, lbf)."""
-    return _display_factor(unit) * value_si
-
-
-@lru_cache(maxsize=64)
-def _display_factor(unit: str) -> float:
-    q = UREG.Quantity(1.0, unit)
-    return 1.0 / float(q.to_base_units().magnitude)
-
-
-def kn(value_n: float) -> str:
-    return f"{value_n / 1000.0:.2f} kN"
-
-
-def mm(value_m: float) -> str:
-    return f"{value_m * 1000.0:.0f} mm"
-
-
-def mpa(value_pa: float) -> str:
-    return f"{value_pa / 1e6:.2f} MPa"
-
-
-def mm2(value_m2: float) -> str:
-    return f"{value_m2 * 1e6:,.0f} mm²"
