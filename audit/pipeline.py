@@ -10,7 +10,7 @@ from audit.findings import KINDS, Finding
 from audit.list_checks import CheckList, list_checks
 from audit.model import Model
 from audit.read_model import read_model
-from audit.resist import CheckResult, LoadCombination, load_combinations, resist
+from audit.resist import CheckResult, LoadCombination, load_combinations, near_readings, resist
 from audit.rulepack import CombinationPack, ResistancePack
 from audit.take_down import TakeDown, take_down
 
@@ -46,11 +46,11 @@ class Review:
 
     @property
     def area_reading(self) -> str:
-        return self.model.project.area_reading or self.pack.near_area_limit.value
+        return near_readings(self.model, self.pack)[0]
 
     @property
     def kb_reading(self) -> str:
-        return self.model.project.kb_reading or self.pack.near_kb_reading.value
+        return near_readings(self.model, self.pack)[1]
 
 
 def review_model(model_path: Path | str, rules_dirs: tuple[Path, ...] = (), rule_pack: str | None = None) -> Review:

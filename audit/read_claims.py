@@ -12,7 +12,7 @@ from pathlib import Path
 
 from audit.errors import ErrorCollector, Location
 from audit.located_yaml import Node, read_yaml_file
-from audit.read_model import _Fields, _kind, _list_of_mappings
+from audit.read_model import FieldReader, describe_value, list_items
 
 CLAIM_KEYS = {"id", "where", "location", "member", "kind", "Qf", "Qr", "utilisation", "factors", "adequate", "text"}
 WHERE_KEYS = {"page", "sheet", "table", "item", "x", "y"}
@@ -84,13 +84,13 @@ def read_claims(path: Path | str) -> tuple[Claim, ...]:
 
 def build_claims(root: Node) -> tuple[Claim, ...]:
     errors = ErrorCollector()
-    top = _Fields(root, {"claims"}, errors, "the claims file")
+    top = FieldReader(root, {"claims"}, errors, "the claims file")
     if top.ok and "claims" not in top.map:
         errors.add("missing section 'claims'", root.child_loc("claims"))
     errors.raise_if_any()
     out: list[Claim] = []
     ids: set[str] = set()
-    for index, item in enumerate(_list_of_mappings(top.map["claims"], "claims", errors)):
+    for index, item in enumerate(list_items(top.map["claims"], "claims", errors)):
         claim = _read_claim(item, index, errors)
         if claim is None:
             continue
@@ -104,7 +104,7 @@ def build_claims(root: Node) -> tuple[Claim, ...]:
 
 
 def _read_claim(item: Node, index: int, errors: ErrorCollector) -> Claim | None:
-    f = _Fields(item, CLAIM_KEYS, errors, "claim")
+    f = FieldReader(item, CLAIM_KEYS, errors, "claim")
     if not f.ok:
         return None
     claim_id = f.text("id", required=False, limit=120) or f"claim{index + 1}"
@@ -120,7 +120,7 @@ def _read_claim(item: Node, index: int, errors: ErrorCollector) -> Claim | None:
     if f.has("adequate"):
         value = f.map["adequate"].value
         if not isinstance(value, bool):
-            errors.add(f"adequate must be true or false, got {_kind(value)}", f.loc("adequate"))
+            errors.add(f"adequate must be true or false, got {describe_value(value)}", f.loc("adequate"))
             return None
         adequate = value
     where = _read_where(f, errors)
@@ -143,20 +143,20 @@ def _read_claim(item: Node, index: int, errors: ErrorCollector) -> Claim | None:
     )
 
 
-def _read_where(f: _Fields, errors: ErrorCollector) -> Where | None:
+def _read_where(f: FieldReader, errors: ErrorCollector) -> Where | None:
     if not f.has("where"):
         return Where()
     node = f.map["where"]
     if isinstance(node.value, (str, int)) and not isinstance(node.value, bool):
         return Where(item=str(node.value)) if isinstance(node.value, str) else Where(page=int(node.value))
-    w = _Fields(node, WHERE_KEYS, errors, "where")
+    w = FieldReader(node, WHERE_KEYS, errors, "where")
     if not w.ok:
         return None
     page = None
     if w.has("page"):
         raw = w.map["page"].value
         if isinstance(raw, bool) or not isinstance(raw, int) or raw < 1:
-            errors.add(f"page must be a whole number from 1, got {_kind(raw)}", w.loc("page"))
+            errors.add(f"page must be a whole number from 1, got {describe_value(raw)}", w.loc("page"))
             return None
         page = raw
     x = w.number("x", -1e6, 1e6, math.nan)
@@ -171,11 +171,11 @@ def _read_where(f: _Fields, errors: ErrorCollector) -> Where | None:
     )
 
 
-def _read_factors(f: _Fields, errors: ErrorCollector) -> dict[str, float] | None:
+def _read_factors(f: FieldReader, errors: ErrorCollector) -> dict[str, float] | None:
     if not f.has("factors"):
         return {}
     node = f.map["factors"]
-    ff = _Fields(node, set(CLAIM_FACTORS), errors, "claim factors")
+    ff = FieldReader(node, set(CLAIM_FACTORS), errors, "claim factors")
     if not ff.ok:
         return None
     out: dict[str, float] = {}

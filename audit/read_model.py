@@ -82,7 +82,7 @@ LOAD_KEYS = {
 ENGINEERED_FACTORS = ("KD", "KScp", "KB", "KZcp", "KT")
 
 
-class _Fields:
+class FieldReader:
     """Reads the fields of one mapping node, collecting errors instead of stopping."""
 
     def __init__(self, node: Node, allowed: set[str], errors: ErrorCollector, what: str) -> None:
@@ -90,7 +90,7 @@ class _Fields:
         self.errors = errors
         self.ok = True
         if not isinstance(node.value, dict):
-            errors.add(f"expected a mapping for {what}, got {_kind(node.value)}", node.loc)
+            errors.add(f"expected a mapping for {what}, got {describe_value(node.value)}", node.loc)
             self.ok = False
             self.map: dict[str, Node] = {}
             return
@@ -120,7 +120,7 @@ class _Fields:
         if node is None:
             return default
         if isinstance(node.value, (dict, list)) or node.value is None:
-            self.errors.add(f"expected text, got {_kind(node.value)}", node.loc)
+            self.errors.add(f"expected text, got {describe_value(node.value)}", node.loc)
             self.ok = False
             return default
         text = str(node.value)
@@ -166,7 +166,7 @@ class _Fields:
         return float(v)
 
 
-def _kind(value: Any) -> str:
+def describe_value(value: Any) -> str:
     if isinstance(value, dict):
         return "a mapping"
     if isinstance(value, list):
@@ -193,7 +193,7 @@ def build_model(
     root: Node, name: str, rules_dirs: tuple[Path, ...] = (), rule_pack: str | None = None
 ) -> tuple[Model, ResistancePack, CombinationPack]:
     errors = ErrorCollector()
-    top = _Fields(root, TOP_KEYS, errors, "the model")
+    top = FieldReader(root, TOP_KEYS, errors, "the model")
     if not top.ok:
         errors.raise_if_any()
     for key in ("project", "materials", "members", "bearings"):
@@ -234,10 +234,10 @@ def build_model(
 
 
 def _read_project(node: Node, errors: ErrorCollector) -> Project:
-    f = _Fields(node, PROJECT_KEYS, errors, "project")
+    f = FieldReader(node, PROJECT_KEYS, errors, "project")
     tol_rel, tol_abs = 0.03, 500.0
     if f.has("tolerance"):
-        t = _Fields(f.map["tolerance"], {"relative", "absolute"}, errors, "project.tolerance")
+        t = FieldReader(f.map["tolerance"], {"relative", "absolute"}, errors, "project.tolerance")
         tol_rel = t.number("relative", 0.0, 1.0, tol_rel)
         abs_value = t.quantity("absolute", "force", required=False)
         if abs_value is not None:
@@ -273,11 +273,11 @@ def _read_project(node: Node, errors: ErrorCollector) -> Project:
 
 def _read_materials(node: Node, pack: ResistancePack, errors: ErrorCollector) -> dict[str, Material]:
     if not isinstance(node.value, dict):
-        errors.add(f"expected a mapping of material id to material, got {_kind(node.value)}", node.loc)
+        errors.add(f"expected a mapping of material id to material, got {describe_value(node.value)}", node.loc)
         return {}
     out: dict[str, Material] = {}
     for mat_id, mat_node in node.value.items():
-        f = _Fields(mat_node, MATERIAL_KEYS, errors, f"material '{mat_id}'")
+        f = FieldReader(mat_node, MATERIAL_KEYS, errors, f"material '{mat_id}'")
         family = f.choice("family", ALL_FAMILIES)
         if not f.ok:
             continue
@@ -288,7 +288,7 @@ def _read_materials(node: Node, pack: ResistancePack, errors: ErrorCollector) ->
 
 
 def _material_of_family(
-    mat_id: str, family: str, f: _Fields, pack: ResistancePack, errors: ErrorCollector
+    mat_id: str, family: str, f: FieldReader, pack: ResistancePack, errors: ErrorCollector
 ) -> Material | None:
     loc = f.node.loc
     if family == "engineered":
@@ -360,11 +360,11 @@ def _material_of_family(
     )
 
 
-def _list_of_mappings(node: Node, what: str, errors: ErrorCollector) -> list[Node]:
+def list_items(node: Node, what: str, errors: ErrorCollector) -> list[Node]:
     if node.value is None:
         return []
     if not isinstance(node.value, list):
-        errors.add(f"expected a list of {what}, got {_kind(node.value)}", node.loc)
+        errors.add(f"expected a list of {what}, got {describe_value(node.value)}", node.loc)
         return []
     return node.value
 
@@ -373,8 +373,8 @@ def _read_members(
     node: Node, materials: dict[str, Material], project: Project, errors: ErrorCollector
 ) -> dict[str, Member]:
     out: dict[str, Member] = {}
-    for item in _list_of_mappings(node, "members", errors):
-        f = _Fields(item, MEMBER_KEYS, errors, "member")
+    for item in list_items(node, "members", errors):
+        f = FieldReader(item, MEMBER_KEYS, errors, "member")
         member_id = f.text("id", limit=120)
         material = f.text("material")
         if f.ok and material not in materials:
@@ -415,7 +415,7 @@ def _read_members(
 def _read_side(node: Node, role: str, members: dict[str, Member], errors: ErrorCollector) -> Side | None:
     if isinstance(node.value, str):
         node = Node({"member": node}, node.file, node.line, node.column, node.key)
-    f = _Fields(node, SIDE_KEYS, errors, f"bearing {role}")
+    f = FieldReader(node, SIDE_KEYS, errors, f"bearing {role}")
     member_id = f.text("member")
     if not f.ok:
         return None
@@ -457,8 +457,8 @@ def _read_bearings(node: Node, members: dict[str, Member], errors: ErrorCollecto
     out: list[Bearing] = []
     seen: dict[str, Location] = {}
     aliases_seen: dict[str, str] = {}
-    for item in _list_of_mappings(node, "bearings", errors):
-        f = _Fields(item, BEARING_KEYS, errors, "bearing")
+    for item in list_items(node, "bearings", errors):
+        f = FieldReader(item, BEARING_KEYS, errors, "bearing")
         if not f.ok:
             continue
         for role in ("upper", "lower"):
@@ -502,8 +502,8 @@ def _read_loads(
     out: list[Load] = []
     groups: dict[str, FactoredGroup] = {}
     ids: set[str] = set()
-    for index, item in enumerate(_list_of_mappings(node, "loads", errors)):
-        f = _Fields(item, LOAD_KEYS, errors, "load")
+    for index, item in enumerate(list_items(node, "loads", errors)):
+        f = FieldReader(item, LOAD_KEYS, errors, "load")
         member_id = f.text("member")
         kind = f.choice("type", ("point", "uniform"))
         if not f.ok:
@@ -531,7 +531,7 @@ def _read_loads(
             continue
         entries: list[tuple[str, float]] = []
         if has_specified:
-            s = _Fields(f.map["specified"], set(combos.cases), errors, "specified loads")
+            s = FieldReader(f.map["specified"], set(combos.cases), errors, "specified loads")
             for case in s.map:
                 if case in combos.cases:
                     value = s.quantity(case, dimension)
@@ -565,7 +565,7 @@ def _read_loads(
 
 
 def _load_geometry(
-    f: _Fields, kind: str, member: Member
+    f: FieldReader, kind: str, member: Member
 ) -> tuple[float | None, float | None, float | None, float | None, float | None] | None:
     length = f.quantity("length", "length", required=False, positive=True)
     width = f.quantity("width", "length", required=False, positive=True)

@@ -209,15 +209,11 @@ def qf_slips(result: CheckResult, review: Review) -> list[Slip]:
                 partner.governing.qf,
             )
         )
-    combo = next((c for c in _combos(review) if c.name == g.combination), None)
+    combo = next((c for c in review.combinations if c.name == g.combination), None)
     if combo is not None:
         unfactored = math.fsum(check.forces.get(case, 0.0) for case in combo.factors)
         out.append(Slip("unfactored-loads", "specified (unfactored) loads were used as Qf", unfactored))
     return out
-
-
-def _combos(review: Review):
-    return review.combinations
 
 
 def _partner(review: Review, check: RequiredCheck, kind: str) -> CheckResult | None:
@@ -291,7 +287,7 @@ def smallest_passing_length(result: CheckResult, review: Review) -> tuple[float,
     check = result.check
     member = review.model.members[check.member]
     # the governing combination stays governing as the length changes: Qr scales alike in all
-    combos = tuple(c for c in _combos(review) if c.name == result.governing.combination)
+    combos = tuple(c for c in review.combinations if c.name == result.governing.combination)
 
     def passes(length: float) -> tuple[bool, float]:
         contact = check.contact

@@ -346,10 +346,17 @@ def evaluate(
     return tuple(results), results[index], tuple(uplift)
 
 
+def near_readings(model: Model, pack: ResistancePack) -> tuple[str, str]:
+    """(area-limit reading, KB reading) for near-support checks: the model's choice, else the pack's default."""
+    return (
+        model.project.area_reading or pack.near_area_limit.value,
+        model.project.kb_reading or pack.near_kb_reading.value,
+    )
+
+
 def resist(checklist: CheckList, model: Model, pack: ResistancePack, cpack: CombinationPack) -> tuple[CheckResult, ...]:
     combos = load_combinations(model, cpack)
-    area_reading = model.project.area_reading or pack.near_area_limit.value
-    kb_reading = model.project.kb_reading or pack.near_kb_reading.value
+    area_reading, kb_reading = near_readings(model, pack)
     out = []
     for check in checklist.checks:
         inputs, factors, area_reason = resistance_inputs(check, model, pack, area_reading, kb_reading)
