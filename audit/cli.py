@@ -9,7 +9,7 @@ from typing import NoReturn
 
 import typer
 
-from audit.errors import InputError, InputErrors, Location
+from audit.core.errors import InputError, InputErrors, Location
 
 app = typer.Typer(
     add_completion=False,
@@ -51,12 +51,12 @@ def review(
     """Recompute every required bearing check; with --claims, reconcile the calc's claims."""
     import datetime as dt
 
-    from audit.export import check_table, summary_line
-    from audit.outfiles import write_atomic
-    from audit.pipeline import review_model
-    from audit.read_claims import read_claims
-    from audit.reconcile import reconcile
-    from audit.write_memo import MemoOptions, findings_csv, findings_json_chunks, memo_chunks
+    from audit.core.outfiles import write_atomic
+    from audit.inputs.read_claims import read_claims
+    from audit.report.export import check_table, summary_line
+    from audit.report.memo import MemoOptions, findings_csv, findings_json_chunks, memo_chunks
+    from audit.review.reconcile import reconcile
+    from audit.review.review import review_model
 
     try:
         memo_date = dt.date.fromisoformat(date) if date else None
@@ -96,7 +96,7 @@ def review(
 
 def _extract(pdf: Path, pages: str | None, column_map: Path | None):
     """Run the extraction with a progress bar on long documents; warnings go to stderr."""
-    from audit.read_calc_pdf import extract, read_column_map
+    from audit.inputs.pdf.extract import extract, read_column_map
 
     cmap = read_column_map(column_map) if column_map else None
     bar = None
@@ -139,8 +139,8 @@ def extract(
     column_map: Path | None = typer.Option(None, "--map", help="A column map (YAML) for unusual tables."),
 ) -> None:
     """Pull the claimed bearing checks out of a calc package PDF into a claims file."""
-    from audit.outfiles import write_atomic
-    from audit.read_calc_pdf import claims_yaml
+    from audit.core.outfiles import write_atomic
+    from audit.inputs.pdf.extract import claims_yaml
 
     try:
         result = _extract(pdf, pages, column_map)
@@ -162,8 +162,8 @@ def explain(
     rule_pack: str | None = RulePack,
 ) -> None:
     """Print one check's full derivation: geometry, every factor and why, every combination."""
-    from audit.export import explain as explain_text
-    from audit.pipeline import review_model
+    from audit.report.export import explain as explain_text
+    from audit.review.review import review_model
 
     try:
         result = review_model(model, _dirs(rules_dir), rule_pack)
@@ -181,7 +181,7 @@ def explain(
 @app.command()
 def rules(rules_dir: list[Path] | None = RulesDir) -> None:
     """List the rule packs and every value with its provenance."""
-    from audit.rulepack import load_all_packs
+    from audit.standards.packs import load_all_packs
 
     try:
         resistance, combos = load_all_packs(_dirs(rules_dir))
@@ -211,7 +211,7 @@ def schema(which: str = typer.Argument("model", help="Which input file: model or
     """Print the JSON Schema of an input file, for editors that validate and complete YAML."""
     import json
 
-    from audit.schema import SCHEMAS
+    from audit.inputs.schema import SCHEMAS
 
     if which not in SCHEMAS:
         typer.echo(f"error: no schema '{which}' (known: {', '.join(SCHEMAS)})", err=True)

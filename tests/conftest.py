@@ -68,9 +68,9 @@ def run_cli():
 
 def review_dict(data: dict):
     """Run the engine on a model given as a dict (no file)."""
-    from audit.located_yaml import read_yaml_text
-    from audit.pipeline import review_built
-    from audit.read_model import build_model
+    from audit.core.located_yaml import read_yaml_text
+    from audit.inputs.read_model import build_model
+    from audit.review.review import review_built
 
     root = read_yaml_text(yaml.safe_dump(data, sort_keys=False), "model.yaml")
     model, pack, cpack = build_model(root, "model.yaml")
@@ -78,14 +78,14 @@ def review_dict(data: dict):
 
 
 def claims_from(items: list[dict]):
-    from audit.located_yaml import read_yaml_text
-    from audit.read_claims import build_claims
+    from audit.core.located_yaml import read_yaml_text
+    from audit.inputs.read_claims import build_claims
 
     return build_claims(read_yaml_text(yaml.safe_dump({"claims": items}, sort_keys=False), "claims.yaml"))
 
 
 def reconcile_dicts(model: dict, claims: list[dict]):
-    from audit.reconcile import reconcile
+    from audit.review.reconcile import reconcile
 
     review = review_dict(model)
     claim_list = claims_from(claims)

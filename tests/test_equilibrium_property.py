@@ -8,7 +8,7 @@ import math
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from audit.beam_statics import reactions
+from audit.engine.beam_statics import reactions
 from tests.conftest import base_model, review_dict
 
 positions = st.floats(min_value=0.0, max_value=12.0, allow_nan=False)

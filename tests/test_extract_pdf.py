@@ -6,7 +6,7 @@ from __future__ import annotations
 import pytest
 import yaml
 
-from audit.read_calc_pdf import claims_yaml, extract, read_column_map
+from audit.inputs.pdf.extract import claims_yaml, extract, read_column_map
 from tests.conftest import DEMO, ROOT
 
 PDFS = ROOT / "fixtures" / "pdf"
@@ -63,7 +63,7 @@ def test_page_selection_reads_only_those_pages():
 
 
 def test_extracted_claims_file_reads_back_with_the_same_values(tmp_path):
-    from audit.read_claims import read_claims
+    from audit.inputs.read_claims import read_claims
 
     result = extract(PDFS / "borderless.pdf")
     path = tmp_path / "claims.yaml"

@@ -7,10 +7,10 @@ import io
 import json
 import re
 
-from audit.pipeline import review_model
-from audit.read_claims import read_claims
-from audit.reconcile import reconcile
-from audit.write_memo import MemoOptions, render_memo
+from audit.inputs.read_claims import read_claims
+from audit.report.memo import MemoOptions, render_memo
+from audit.review.reconcile import reconcile
+from audit.review.review import review_model
 from tests.conftest import DEMO, ROOT, base_model, claims_from, review_dict
 
 CLAIMS = ROOT / "fixtures" / "demo" / "claims.yaml"

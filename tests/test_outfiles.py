@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import pytest
 
-from audit.outfiles import write_atomic
+from audit.core.outfiles import write_atomic
 
 
 def test_a_failure_while_writing_keeps_the_previous_file_and_leaves_no_temporary(tmp_path):

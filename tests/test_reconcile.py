@@ -207,9 +207,9 @@ def test_no_single_slip_is_said_when_none_reproduces_the_number():
 
 @pytest.mark.parametrize("severity_kind", ["failing", "missing", "mis-loaded", "resistance-differs"])
 def test_demo_claims_contain_every_finding_kind(severity_kind):
-    from audit.pipeline import review_model
-    from audit.read_claims import read_claims
-    from audit.reconcile import reconcile
+    from audit.inputs.read_claims import read_claims
+    from audit.review.reconcile import reconcile
+    from audit.review.review import review_model
     from tests.conftest import ROOT
 
     review = review_model(ROOT / "fixtures/demo/model.yaml")
@@ -218,9 +218,9 @@ def test_demo_claims_contain_every_finding_kind(severity_kind):
 
 
 def test_demo_claims_contain_every_slip():
-    from audit.pipeline import review_model
-    from audit.read_claims import read_claims
-    from audit.reconcile import reconcile
+    from audit.inputs.read_claims import read_claims
+    from audit.review.reconcile import reconcile
+    from audit.review.review import review_model
     from tests.conftest import ROOT
 
     review = review_model(ROOT / "fixtures/demo/model.yaml")

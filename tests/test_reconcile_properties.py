@@ -7,7 +7,7 @@ import random
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from audit.reconcile import accounted, reconcile
+from audit.review.reconcile import accounted, reconcile
 from tests.conftest import base_model, claims_from, review_dict
 
 REVIEW = review_dict(base_model())

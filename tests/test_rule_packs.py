@@ -3,7 +3,7 @@ without code changes."""
 
 from __future__ import annotations
 
-from audit.rulepack import builtin_rules_dir, load_all_packs
+from audit.standards.packs import builtin_rules_dir, load_all_packs
 from tests.conftest import base_model
 
 

@@ -17,7 +17,7 @@ from pathlib import Path
 
 import pdfplumber
 
-from audit.read_calc_pdf import extract
+from audit.inputs.pdf.extract import extract
 from fixtures.make_calc_pdfs import Calc, draw_table
 from tests.benchmarks.report import machine, write_section
 

@@ -151,7 +151,7 @@ def building(bearings: int) -> dict:
 
 def claims_for(model_path: Path, share_missing: float, share_slip: float, seed: int = 7) -> dict:
     """Claims from the recomputed checks: some left out, some with a slip (x1.15 on Qr, x0.7 on Qf)."""
-    from audit.pipeline import review_model
+    from audit.review.review import review_model
 
     review = review_model(model_path)
     rnd = random.Random(seed)

@@ -11,10 +11,10 @@ from dataclasses import dataclass
 
 import pint
 
-from audit.beam_statics import reactions
-from audit.errors import Location
-from audit.rulepack import load_all_packs
-from audit.units import parse_quantity
+from audit.core.errors import Location
+from audit.core.units import parse_quantity
+from audit.engine.beam_statics import reactions
+from audit.standards.packs import load_all_packs
 
 INCH_MM = 25.4
 

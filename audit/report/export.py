@@ -13,9 +13,9 @@ from collections.abc import Iterator
 from typing import Any
 
 from audit import __version__
-from audit.list_checks import Contact
-from audit.pipeline import Review
-from audit.resist import CheckResult, load_duration_factor
+from audit.review.review import Review
+from audit.standards.checks import Contact
+from audit.standards.o86 import CheckResult, load_duration_factor
 
 
 def _contact(c: Contact) -> dict[str, Any]:

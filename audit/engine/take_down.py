@@ -11,8 +11,8 @@ from __future__ import annotations
 from collections import defaultdict
 from dataclasses import dataclass, field
 
-from audit.beam_statics import reactions
-from audit.model import Model
+from audit.engine.beam_statics import reactions
+from audit.engine.model import Model
 
 Forces = dict[str, float]  # load case (or factored group key) -> force, N, downward positive
 

@@ -13,11 +13,11 @@ import math
 from dataclasses import dataclass, replace
 from functools import cached_property
 
-from audit.findings import KINDS, Finding, severity_rank
-from audit.list_checks import LOCAL, NEAR, RequiredCheck
-from audit.pipeline import Review
-from audit.read_claims import Claim
-from audit.resist import CheckResult, evaluate, resistance, resistance_inputs
+from audit.inputs.read_claims import Claim
+from audit.review.findings import KINDS, Finding, severity_rank
+from audit.review.review import Review
+from audit.standards.checks import LOCAL, NEAR, RequiredCheck
+from audit.standards.o86 import CheckResult, evaluate, resistance, resistance_inputs
 
 FACTOR_REL_TOL = 0.01
 

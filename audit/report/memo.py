@@ -15,12 +15,12 @@ from typing import Any
 import jinja2
 
 from audit import __version__
-from audit.export import check_record, rows_to_csv
-from audit.findings import KINDS, SEVERITIES, Finding
-from audit.list_checks import NEAR
-from audit.pipeline import Review
-from audit.read_claims import Claim
-from audit.reconcile import Reconciliation
+from audit.inputs.read_claims import Claim
+from audit.report.export import check_record, rows_to_csv
+from audit.review.findings import KINDS, SEVERITIES, Finding
+from audit.review.reconcile import Reconciliation
+from audit.review.review import Review
+from audit.standards.checks import NEAR
 
 STATUS_WORDS = {
     "failing": "FAILS",
@@ -54,7 +54,7 @@ class MemoOptions:
 
 def _env() -> jinja2.Environment:
     return jinja2.Environment(
-        loader=jinja2.PackageLoader("audit", "templates"),
+        loader=jinja2.PackageLoader("audit.report", "templates"),
         autoescape=jinja2.select_autoescape(default=True, default_for_string=True),
         undefined=jinja2.StrictUndefined,
         trim_blocks=True,
@@ -199,7 +199,7 @@ def _derivations(review: Review, status_of: dict[str, str]) -> tuple[list[dict[s
 def build_view(
     review: Review, reconciliation: Reconciliation | None, claims: tuple[Claim, ...], options: MemoOptions
 ) -> dict[str, Any]:
-    from audit.sketch import MAX_CHECKS_DRAWN, member_sketches
+    from audit.report.sketch import MAX_CHECKS_DRAWN, member_sketches
 
     p = review.model.project
     claims_by_id = {c.id: c for c in claims}
@@ -323,7 +323,7 @@ def findings_json(review: Review, rec: Reconciliation | None, findings: tuple[Fi
 
 
 def findings_json_chunks(review: Review, rec: Reconciliation | None, findings: tuple[Finding, ...]) -> Iterator[str]:
-    from audit.export import json_chunks, review_record
+    from audit.report.export import json_chunks, review_record
 
     data = review_record(review)
     data["findings"] = (dict(zip(FINDING_COLUMNS, row, strict=True)) for row in finding_rows(findings))

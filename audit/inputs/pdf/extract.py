@@ -17,10 +17,10 @@ from concurrent.futures import ProcessPoolExecutor
 from dataclasses import dataclass, field, replace
 from pathlib import Path
 
-from audit.errors import ErrorCollector, InputError, Location
-from audit.located_yaml import read_yaml_file
-from audit.read_claims import Claim, Where
-from audit.units import parse_quantity
+from audit.core.errors import ErrorCollector, InputError, Location
+from audit.core.located_yaml import read_yaml_file
+from audit.core.units import parse_quantity
+from audit.inputs.read_claims import Claim, Where
 
 # ---------------------------------------------------------------- column map
 

@@ -15,7 +15,7 @@ from typing import Any
 
 import yaml
 
-from audit.errors import InputError, Location
+from audit.core.errors import InputError, Location
 
 MAX_NODES = 2_000_000
 MAX_FILE_BYTES = 64 * 1024 * 1024

@@ -14,11 +14,11 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, replace
 
-from audit.errors import InputError
-from audit.list_checks import LOCAL, NEAR, CheckList, RequiredCheck, near_support_geometry
-from audit.model import FACTORED_PREFIX, Material, Member, Model
-from audit.rulepack import CombinationPack, ResistancePack
-from audit.take_down import Forces
+from audit.core.errors import InputError
+from audit.engine.model import FACTORED_PREFIX, Material, Member, Model
+from audit.engine.take_down import Forces
+from audit.standards.checks import LOCAL, NEAR, CheckList, RequiredCheck, near_support_geometry
+from audit.standards.packs import CombinationPack, ResistancePack
 
 STANDARD_TERM_CASES = ("L", "S")
 LONG_TERM_CASE = "D"

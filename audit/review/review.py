@@ -6,13 +6,13 @@ from dataclasses import dataclass
 from functools import cached_property
 from pathlib import Path
 
-from audit.findings import KINDS, Finding
-from audit.list_checks import CheckList, list_checks
-from audit.model import Model
-from audit.read_model import read_model
-from audit.resist import CheckResult, LoadCombination, load_combinations, near_readings, resist
-from audit.rulepack import CombinationPack, ResistancePack
-from audit.take_down import TakeDown, take_down
+from audit.engine.model import Model
+from audit.engine.take_down import TakeDown, take_down
+from audit.inputs.read_model import read_model
+from audit.review.findings import KINDS, Finding
+from audit.standards.checks import CheckList, list_checks
+from audit.standards.o86 import CheckResult, LoadCombination, load_combinations, near_readings, resist
+from audit.standards.packs import CombinationPack, ResistancePack
 
 
 @dataclass(frozen=True)

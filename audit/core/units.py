@@ -12,7 +12,7 @@ from functools import lru_cache
 
 import pint
 
-from audit.errors import InputError, Location
+from audit.core.errors import InputError, Location
 
 UREG = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
 UREG.define("plf = lbf / foot")

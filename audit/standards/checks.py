@@ -14,10 +14,10 @@ from bisect import bisect_left, bisect_right
 from collections import defaultdict
 from dataclasses import dataclass
 
-from audit.errors import InputError
-from audit.model import Bearing, Member, Model
-from audit.rulepack import ResistancePack
-from audit.take_down import AppliedForce, Forces, TakeDown
+from audit.core.errors import InputError
+from audit.engine.model import Bearing, Member, Model
+from audit.engine.take_down import AppliedForce, Forces, TakeDown
+from audit.standards.packs import ResistancePack
 
 LOCAL = "local"
 NEAR = "near-support"

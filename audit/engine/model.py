@@ -10,7 +10,7 @@ import datetime as dt
 from dataclasses import dataclass, field
 from functools import cached_property
 
-from audit.errors import Location
+from audit.core.errors import Location
 
 SPECIFIED_CASES = ("D", "L", "S", "W", "E")
 FACTORED_PREFIX = "factored:"

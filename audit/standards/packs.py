@@ -14,9 +14,9 @@ from importlib import resources
 from pathlib import Path
 from typing import Any
 
-from audit.errors import ErrorCollector, InputError, Location
-from audit.located_yaml import Node, read_yaml_file
-from audit.units import parse_quantity
+from audit.core.errors import ErrorCollector, InputError, Location
+from audit.core.located_yaml import Node, read_yaml_file
+from audit.core.units import parse_quantity
 
 DURATIONS = ("permanent", "standard", "short")
 SERVICES = ("dry", "wet")
@@ -402,7 +402,7 @@ def builtin_rules_dir() -> Path:
     try:
         return Path(str(resources.files("audit.rules")))
     except ModuleNotFoundError:
-        return Path(__file__).resolve().parent.parent / "rules"
+        return Path(__file__).resolve().parents[2] / "rules"
 
 
 def pack_files(extra_dirs: tuple[Path, ...] = ()) -> list[Path]:

@@ -13,9 +13,10 @@ from collections.abc import Callable
 from pathlib import Path
 from typing import Any
 
-from audit.errors import ErrorCollector, InputError, Location
-from audit.located_yaml import Node, read_yaml_file
-from audit.model import (
+from audit.core.errors import ErrorCollector, InputError, Location
+from audit.core.located_yaml import Node, read_yaml_file
+from audit.core.units import parse_quantity
+from audit.engine.model import (
     FACTORED_PREFIX,
     Bearing,
     FactoredGroup,
@@ -26,7 +27,7 @@ from audit.model import (
     Project,
     Side,
 )
-from audit.rulepack import (
+from audit.standards.packs import (
     ALL_FAMILIES,
     DURATIONS,
     SERVICES,
@@ -34,7 +35,6 @@ from audit.rulepack import (
     ResistancePack,
     select_packs,
 )
-from audit.units import parse_quantity
 
 TOP_KEYS = {"project", "materials", "members", "bearings", "loads"}
 PROJECT_KEYS = {

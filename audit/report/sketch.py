@@ -9,8 +9,8 @@ from __future__ import annotations
 
 from typing import Any
 
-from audit.list_checks import NEAR
-from audit.pipeline import Review
+from audit.review.review import Review
+from audit.standards.checks import NEAR
 
 WIDTH = 720.0
 LEFT = 40.0

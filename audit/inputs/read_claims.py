@@ -10,9 +10,9 @@ import math
 from dataclasses import dataclass, field
 from pathlib import Path
 
-from audit.errors import ErrorCollector, Location
-from audit.located_yaml import Node, read_yaml_file
-from audit.read_model import FieldReader, describe_value, list_items
+from audit.core.errors import ErrorCollector, Location
+from audit.core.located_yaml import Node, read_yaml_file
+from audit.inputs.read_model import FieldReader, describe_value, list_items
 
 CLAIM_KEYS = {"id", "where", "location", "member", "kind", "Qf", "Qr", "utilisation", "factors", "adequate", "text"}
 WHERE_KEYS = {"page", "sheet", "table", "item", "x", "y"}

@@ -1,0 +1,1 @@
+"""Geometry and statics of the framing, in SI floats; knows no design standard."""

@@ -1,0 +1,1 @@
+"""Claimed checks read from a calc package PDF."""
