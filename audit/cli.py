@@ -230,9 +230,11 @@ def run(argv: list[str] | None = None) -> int:
     except Exception as exc:
         if type(exc).__name__ == "Abort":
             return 130
-        if hasattr(exc, "show") and isinstance(getattr(exc, "exit_code", None), int):
-            exc.show()  # a usage error of the command line itself (typer's own click)
-            return exc.exit_code
+        exit_code = getattr(exc, "exit_code", None)
+        show = getattr(exc, "show", None)
+        if callable(show) and isinstance(exit_code, int):
+            show()  # a usage error of the command line itself (typer's own click)
+            return exit_code
         return _unexpected(exc)
     return code if isinstance(code, int) else 0
 

@@ -76,7 +76,7 @@ def _capped_child(args: list[str], memory_mb: int = 1024, timeout: float = 60.0)
     ("make", "message"),
     [
         (lambda: MODEL.replace("Hostile corpus base (invented)", "x" * 10_000_000), "characters long"),
-        (lambda: "project: " + "[" * 200_000 + "]" * 200_000 + "\n", "nested too deeply"),
+        (lambda: "project: " + "[" * 200_000 + "]" * 200_000 + "\n", "nested more than 64 levels deep"),
         (lambda: (CORPUS / "model-alias-bomb.yaml").read_text(), "too many values"),
         (
             lambda: (

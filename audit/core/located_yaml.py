@@ -18,6 +18,9 @@ import yaml
 from audit.core.errors import InputError, Location
 
 MAX_NODES = 2_000_000
+# A model is a handful of levels deep; our own limit fires long before the parser's, so the
+# message is ours whatever the parser's release
+MAX_DEPTH = 64
 MAX_FILE_BYTES = 64 * 1024 * 1024
 
 
@@ -98,6 +101,9 @@ def _read_yaml_text(text: str, name: str) -> Node:
     except yaml.MarkedYAMLError as exc:
         mark = exc.problem_mark or exc.context_mark
         line, col = (mark.line + 1, mark.column + 1) if mark else (0, 0)
+        if mark is not None and flow_depth(text, mark.index) > MAX_DEPTH:
+            # the parser refuses deep flow nesting before we see an event; word it ourselves
+            raise InputError(f"YAML is nested more than {MAX_DEPTH} levels deep", Location(name, line, col)) from None
         what = exc.problem or exc.context or "not valid YAML"
         raise InputError(f"not valid YAML: {what}", Location(name, line, col)) from None
     except yaml.YAMLError as exc:
@@ -106,6 +112,28 @@ def _read_yaml_text(text: str, name: str) -> Node:
         raise InputError("YAML is nested too deeply", Location(name)) from None
     finally:
         loader.dispose()
+
+
+def flow_depth(text: str, end: int) -> int:
+    """Greatest depth of flow brackets ([ and {) in text[:end], skipping quoted text and comments."""
+    depth = deepest = 0
+    quote = ""
+    comment = False
+    for ch in text[:end]:
+        if comment:
+            comment = ch != "\n"
+        elif quote:
+            quote = "" if ch == quote else quote
+        elif ch in "'\"":
+            quote = ch
+        elif ch == "#":
+            comment = True
+        elif ch in "[{":
+            depth += 1
+            deepest = max(deepest, depth)
+        elif ch in "]}":
+            depth -= 1
+    return deepest
 
 
 def _loc_of(event: yaml.Event, name: str, key: str) -> Location:
@@ -124,6 +152,7 @@ class _Composer:
         self.name = name
         self.anchors: dict[str, tuple[Node, int]] = {}
         self.budget = MAX_NODES
+        self.depth = 0
 
     def spend(self, count: int, event: yaml.Event, key: str) -> None:
         self.budget -= count
@@ -133,6 +162,15 @@ class _Composer:
             )
 
     def node(self, event: yaml.Event, key: str) -> tuple[Node, int]:
+        self.depth += 1
+        try:
+            if self.depth > MAX_DEPTH:
+                raise InputError(f"YAML is nested more than {MAX_DEPTH} levels deep", _loc_of(event, self.name, key))
+            return self._node(event, key)
+        finally:
+            self.depth -= 1
+
+    def _node(self, event: yaml.Event, key: str) -> tuple[Node, int]:
         if isinstance(event, yaml.AliasEvent):
             if event.anchor not in self.anchors:
                 raise InputError(f"unknown alias *{event.anchor}", _loc_of(event, self.name, key))
@@ -144,7 +182,8 @@ class _Composer:
         if isinstance(event, yaml.ScalarEvent):
             result, size = Node(self.scalar(event, key), self.name, mark.line + 1, mark.column + 1, key), 1
         elif isinstance(event, yaml.SequenceStartEvent):
-            items, size = [], 1
+            items: list[Node] = []
+            size = 1
             while not isinstance(nxt := self.loader.get_event(), yaml.SequenceEndEvent):
                 child, child_size = self.node(nxt, join_key(key, len(items)))
                 items.append(child)

@@ -9,12 +9,13 @@ from __future__ import annotations
 import math
 import re
 from functools import lru_cache
+from typing import Any
 
 import pint
 
 from audit.core.errors import InputError, Location
 
-UREG = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+UREG: pint.UnitRegistry = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
 UREG.define("plf = lbf / foot")
 UREG.define("klf = kip / foot")
 
@@ -40,7 +41,7 @@ class UnitProblem(ValueError):
 def _parse_cached(text: str, dimension: str) -> float:
     dim, si_unit, example = DIMENSIONS[dimension]
     try:
-        q = UREG.Quantity(text)
+        q: Any = UREG.Quantity(text)
     except Exception:  # pint raises many kinds for unreadable text
         raise UnitProblem(f"cannot read '{text}' as a {dimension} (e.g. {example})") from None
     if not isinstance(q, UREG.Quantity):

@@ -113,9 +113,9 @@ def _reactions_by_case(positions: list[float], applied: tuple[AppliedForce, ...]
     uniforms: dict[str, list[tuple[float, float, float]]] = defaultdict(list)
     for item in applied:
         for case, value in item.forces.items():
-            if item.kind == "point":
+            if item.kind == "point" and item.at is not None:
                 points[case].append((item.at, value))
-            else:
+            elif item.start is not None and item.end is not None:
                 uniforms[case].append((item.start, item.end, value))
     out: list[Forces] = [{} for _ in positions]
     for case in sorted(set(points) | set(uniforms)):

@@ -195,7 +195,7 @@ def explain(review: Review, check_id: str) -> str:
     for o in c.opposite:
         lines.append(
             f"Load within d on the opposite face: {o.source}, {o.length * 1000:.0f} mm long, "
-            f"{o.width * 1000:.0f} mm wide, centre at {o.centre * 1000:.0f} mm"
+            f"{o.width * 1000:.0f} mm wide, centre at {(o.centre or 0.0) * 1000:.0f} mm"
         )
     lines.append(r.area_reason)
     lines += [f"  {f.reason}" + (f"  [{f.clause}]" if f.clause else "") for f in r.factors]

@@ -169,7 +169,7 @@ def _check_rows(review: Review, reconciliation: Reconciliation | None, claims: d
 
 def _derivations(review: Review, status_of: dict[str, str]) -> tuple[list[dict[str, Any]], bool]:
     """Derivations of every check, or on a large building of the first failing ones."""
-    out = []
+    out: list[dict[str, Any]] = []
     all_checks = len(review.results) <= DERIVATION_LIMIT
     for r in review.results:
         if not all_checks and (status_of.get(r.check.id) != "failing" or len(out) >= LARGE_DERIVATIONS):

@@ -54,6 +54,8 @@ def _sketch(review: Review, member_id: str, results, status_of, words) -> dict[s
         if b.upper.member != member_id:
             continue
         x = b.upper.at
+        if x is None:
+            continue
         supports.append({"x": px(x), "label": model.members[b.lower.member].id})
         zones.append({"x1": px(max(0.0, x - member.d)), "x2": px(min(member.length, x + member.d))})
     loads = []
@@ -62,7 +64,7 @@ def _sketch(review: Review, member_id: str, results, status_of, words) -> dict[s
             loads.append({"x": px(item.at), "label": item.source})
     uniforms = []
     for item in review.flow.on_top.get(member_id, ()):
-        if item.kind == "uniform":
+        if item.kind == "uniform" and item.start is not None and item.end is not None:
             uniforms.append({"x1": px(item.start), "x2": px(item.end), "label": item.source})
     supports_line = {"x1": px(0.0), "x2": px(member.length)} if member.continuous else None
     marks = []

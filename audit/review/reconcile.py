@@ -12,6 +12,7 @@ import difflib
 import math
 from dataclasses import dataclass, replace
 from functools import cached_property
+from typing import Any
 
 from audit.inputs.read_claims import Claim
 from audit.review.findings import KINDS, Finding, severity_rank
@@ -375,7 +376,13 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
     clause = "O86 6.5.6.3" if check.kind == NEAR else "O86 6.5.6.2"
     where = _location(result, review)
     page = claim.where.cite() if claim else ""
-    common = {"check_id": check.id, "bearing": check.bearing, "member": check.member, "clause": clause, "page": page}
+    common: dict[str, Any] = {
+        "check_id": check.id,
+        "bearing": check.bearing,
+        "member": check.member,
+        "clause": clause,
+        "page": page,
+    }
     findings: list[Finding] = []
     remedy = ""
     if not result.passes:

@@ -154,7 +154,7 @@ def _near_support_checks(model: Model, flow: TakeDown, pack: ResistancePack) -> 
             continue
         top = sorted(
             (a for a in flow.on_top.get(member_id, ()) if a.kind == "point" and a.at is not None),
-            key=lambda a: a.at,
+            key=lambda a: a.at if a.at is not None else 0.0,
         )
         if not top:
             continue

@@ -124,7 +124,7 @@ def load_duration_factor(forces: Forces, combo: LoadCombination, pack: Resistanc
 # ---------------------------------------------------------------- factors
 
 
-def _kb(length: float, end_distance: float, material: Material, pack: ResistancePack) -> Factor:
+def kb_factor(length: float, end_distance: float, material: Material, pack: ResistancePack) -> Factor:
     clause = pack.kb_table.clause
     if "KB" not in material.applies:
         return Factor("KB", 1.0, "KB = 1.00: the product's evaluation report does not allow KB", clause)
@@ -208,10 +208,13 @@ def resistance_inputs(
 ) -> tuple[ResistanceInputs, tuple[Factor, ...], str]:
     member = model.members[check.member]
     material = model.materials[member.material]
+    if material.fcp is None:  # the reader fills fcp from the pack or the product; never left empty
+        raise InputError(f"material '{material.id}' has no fcp", material.loc)
+    fcp_value = material.fcp
     fcp_reason = (
-        f"fcp = {material.fcp / 1e6:.2f} MPa: {material.family.replace('_', ' ')} {material.species} {material.grade}"
+        f"fcp = {fcp_value / 1e6:.2f} MPa: {material.family.replace('_', ' ')} {material.species} {material.grade}"
         if material.family != "engineered"
-        else f"fcp = {material.fcp / 1e6:.2f} MPa: {material.source}"
+        else f"fcp = {fcp_value / 1e6:.2f} MPa: {material.source}"
     )
     fcp_clause = pack.fcp[material.family][material.species].fcp.clause if material.family != "engineered" else ""
     kscp = _kscp(member, material, pack)
@@ -219,10 +222,10 @@ def resistance_inputs(
     kt = Factor("KT", kt_value, "KT = 1.00: untreated" if kt_value == 1.0 else f"KT = {kt_value:.2f}: as stated")
     kzcp = _kzcp(member, material, pack)
     phi = Factor("phi", pack.phi.value, f"phi = {pack.phi.value:.2f}", pack.phi.clause)
-    fcp = Factor("fcp", material.fcp, fcp_reason, fcp_clause)
+    fcp = Factor("fcp", fcp_value, fcp_reason, fcp_clause)
     if check.kind == LOCAL:
         c = check.contact
-        kb = _kb(c.length, c.end_distance, material, pack)
+        kb = kb_factor(c.length, c.end_distance, material, pack)
         area = c.length * c.width
         area_reason = (
             f"Ab = {c.width * 1000:.0f} x {c.length * 1000:.0f} = {area * 1e6:,.0f} mm²: "
@@ -237,7 +240,7 @@ def resistance_inputs(
     inputs = ResistanceInputs(
         phi=phi.value,
         coefficient=coefficient.value,
-        fcp=material.fcp,
+        fcp=fcp_value,
         kscp=kscp.value,
         kt=kt.value,
         kb=kb.value,
@@ -277,8 +280,8 @@ def _near_kb(check: RequiredCheck, material: Material, pack: ResistancePack, rea
     support = check.contact
     top_length = math.fsum(c.length for c in check.opposite)
     top_end = min(c.end_distance for c in check.opposite)
-    kb_support = _kb(support.length, support.end_distance, material, pack)
-    kb_top = _kb(top_length, top_end, material, pack)
+    kb_support = kb_factor(support.length, support.end_distance, material, pack)
+    kb_top = kb_factor(top_length, top_end, material, pack)
     shorter = kb_support if support.length <= top_length else kb_top
     if reading == "both_qualify":
         if kb_support.value > 1.0 and kb_top.value > 1.0:

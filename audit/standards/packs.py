@@ -98,8 +98,8 @@ class ResistancePack:
         for fam, species in self.fcp.items():
             for sp, strength in species.items():
                 out.append((f"fcp.{fam}.{sp}", strength.fcp))
-        for fam, species in self.fc.items():
-            for sp, val in species.items():
+        for fam, by_species in self.fc.items():
+            for sp, val in by_species.items():
                 out.append((f"fc.{fam}.{sp}", val))
         out += [
             ("kb.max_length", self.kb_max_length),
@@ -334,7 +334,7 @@ def read_resistance_pack(root: Node, path: str) -> ResistancePack:
             errors.extend(exc)
     errors.raise_if_any()
     missing = [k for k, v in pack_kwargs.items() if v is None]
-    if missing:
+    if missing or area is None or kbr is None:
         raise InputError(f"rule pack lacks {', '.join(missing)}", root.loc)
     return ResistancePack(
         id=r.text(root, "id"),

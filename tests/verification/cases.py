@@ -14,6 +14,8 @@ import pint
 from audit.core.errors import Location
 from audit.core.units import parse_quantity
 from audit.engine.beam_statics import reactions
+from audit.engine.model import Material
+from audit.standards.o86 import kb_factor
 from audit.standards.packs import load_all_packs
 
 INCH_MM = 25.4
@@ -27,6 +29,7 @@ class Case:
     reference: float
     computed: float
     tolerance: float  # absolute
+    tolerance_text: str  # as the report prints it: fixed by the case, never computed from noisy values
     note: str = ""
 
     @property
@@ -56,6 +59,7 @@ def kb_cases() -> list[Case]:
                 round(nds_bearing_area_factor(inches), 4),
                 round(table.at(length_mm / 1000.0), 4),
                 0.01,
+                "0.01",
             )
         )
         if length_mm >= 25.0:
@@ -67,8 +71,69 @@ def kb_cases() -> list[Case]:
                     round(nds_bearing_area_factor(length_mm / INCH_MM), 4),
                     round(table.at(length_mm / 1000.0), 4),
                     0.01,
+                    "0.01",
                 )
             )
+    return out + kb_rule_cases()
+
+
+SAWN = Material("SPF", "sawn_lumber", "S-P-F", "No.2")
+# (bearing length mm, distance from the member end to the bearing's near edge mm, why, tolerance)
+# Between table nodes O86 interpolates linearly while the NDS expression is a hyperbola: the two
+# part by up to about 0.05 (widest between 100 and 150 mm), so those rows allow 0.05; the rule
+# rows (end bearing, long bearing) must agree exactly.
+KB_RULE_SAMPLES = [
+    (30.0, 300.0, "between table nodes", 0.05),
+    (60.0, 300.0, "between table nodes", 0.05),
+    (89.0, 300.0, "between table nodes", 0.05),
+    (140.0, 300.0, "between table nodes", 0.05),
+    (89.0, 40.0, "end bearing, under 75 mm (3 in) from the end", 1e-9),
+    (178.0, 300.0, "longer than 150 mm (6 in)", 1e-9),
+]
+
+# Linear interpolation of the recalled table, worked by hand (O86 table as recalled, from
+# memory: verify): 30 mm: 1.38 - 5/13 x 0.13; 60 mm: 1.19 - 10/25 x 0.06; 89 mm: 1.13 - 14/25 x
+# 0.03; 140 mm: 1.10 - 40/50 x 0.10.
+KB_BY_HAND = {30.0: 1.33, 60.0: 1.166, 89.0: 1.1132, 140.0: 1.02}
+
+
+def nds_cb_with_rules(length_mm: float, end_mm: float) -> float:
+    """US NDS 3.10.4 as a whole: Cb applies below 6 in of bearing and at 3 in or more from the end."""
+    if length_mm / INCH_MM >= 6.0 or end_mm / INCH_MM < 3.0:
+        return 1.0
+    return nds_bearing_area_factor(length_mm / INCH_MM)
+
+
+def kb_rule_cases() -> list[Case]:
+    """The code's own KB (interpolation, length limit, end-distance rule) against NDS Cb."""
+    pack = load_all_packs()[0]["o86-2019-recalled"]
+    out = []
+    for length_mm, end_mm, why, tolerance in KB_RULE_SAMPLES:
+        ours = kb_factor(length_mm / 1000.0, end_mm / 1000.0, SAWN, pack).value
+        out.append(
+            Case(
+                "KB vs NDS Cb",
+                f"KB for {length_mm:g} mm, {end_mm:g} mm from the end ({why})",
+                "US NDS 3.10.4, Cb with its 6 in length and 3 in end-distance rules",
+                round(nds_cb_with_rules(length_mm, end_mm), 4),
+                round(ours, 4),
+                tolerance,
+                f"{tolerance:g}",
+            )
+        )
+    for length_mm, hand in KB_BY_HAND.items():
+        ours = kb_factor(length_mm / 1000.0, 0.3, SAWN, pack).value
+        out.append(
+            Case(
+                "KB vs NDS Cb",
+                f"KB for {length_mm:g} mm, interpolated",
+                "O86 KB table as recalled (from memory: verify), linear interpolation by hand",
+                hand,
+                round(ours, 4),
+                1e-3,
+                "0.001",
+            )
+        )
     return out
 
 
@@ -117,6 +182,7 @@ def statics_cases() -> list[Case]:
                     round(a, 4),
                     round(b, 4),
                     1e-3 * max(1.0, abs(a)),
+                    "0.1 % (at least 0.001 kN)",
                 )
             )
     return out
@@ -131,7 +197,21 @@ UNIT_SAMPLES = [
     ("625 psi", "stress", "MPa"),
     ("7 N/mm**2", "stress", "MPa"),
 ]
-SI = {"mm": 1e-3, "kN": 1e3, "kN/m": 1e3, "MPa": 1e6}
+SI = {"mm": 1e-3, "kN": 1e3, "kN/m": 1e3, "MPa": 1e6, "N": 1.0, "N/m": 1.0, "Pa": 1.0}
+
+# Exact definitions, written out by hand (not taken from pint): the international foot is
+# 0.3048 m and the inch 0.0254 m (1959 agreement); the pound 0.45359237 kg and standard
+# gravity 9.80665 m/s2, so 1 lbf = 4.4482216152605 N.
+LBF_N = 0.45359237 * 9.80665
+FT_M = 0.3048
+EXACT_FACTORS = [
+    ("1 lbf", "force", "N", LBF_N, "1 lbf = 0.45359237 kg x 9.80665 m/s2 (definition)"),
+    ("1 kip", "force", "N", 1000 * LBF_N, "1 kip = 1000 lbf (definition)"),
+    ("1 plf", "line_load", "N/m", LBF_N / FT_M, "1 plf = 1 lbf/ft, ft = 0.3048 m (definition)"),
+    ("1 klf", "line_load", "N/m", 1000 * LBF_N / FT_M, "1 klf = 1000 lbf/ft (definition)"),
+    ("1 psi", "stress", "Pa", LBF_N / 0.0254**2, "1 psi = 1 lbf/in2, in = 0.0254 m (definition)"),
+    ("1 ft", "length", "mm", 304.8, "1 ft = 304.8 mm (definition)"),
+]
 
 
 def unit_cases() -> list[Case]:
@@ -141,7 +221,28 @@ def unit_cases() -> list[Case]:
         ref = ureg.Quantity(text).to(unit).magnitude
         ours = parse_quantity(text, dimension, Location("test")) / SI[unit]
         out.append(
-            Case("Units vs pint", f"'{text}' in {unit}", "pint (PyPI) default registry", ref, ours, 1e-9 * abs(ref))
+            Case(
+                "Units vs pint",
+                f"'{text}' in {unit}",
+                "pint (PyPI) default registry",
+                ref,
+                ours,
+                1e-9 * abs(ref),
+                "1e-9 relative",
+            )
+        )
+    for text, dimension, unit, factor, source in EXACT_FACTORS:
+        ours = parse_quantity(text, dimension, Location("test")) / SI[unit]
+        out.append(
+            Case(
+                "Units vs exact definitions",
+                f"'{text}' in {unit}",
+                source,
+                factor,
+                ours,
+                1e-9 * factor,
+                "1e-9 relative",
+            )
         )
     out.append(
         Case(
@@ -151,6 +252,7 @@ def unit_cases() -> list[Case]:
             25.4,
             parse_quantity("1 in", "length", Location("test")) * 1000,
             1e-12,
+            "1e-12",
         )
     )
     return out

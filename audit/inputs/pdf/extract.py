@@ -225,7 +225,7 @@ def _words_of_pages(args: tuple[str, list[int]]) -> list[tuple[int, list[WordT],
 
 def page_words(
     path: Path, pages: list[int], workers: int, progress: Callable[[int], None] | None = None
-) -> dict[int, tuple[list[WordT], str]]:
+) -> dict[int, PageData]:
     """Word positions of the given pages, in parallel over ``workers`` processes."""
     if not pages:
         return {}
