@@ -51,7 +51,7 @@ def review(
     """Recompute every required bearing check; with --claims, reconcile the calc's claims."""
     import datetime as dt
 
-    from audit.core.outfiles import write_atomic
+    from audit.core.outfiles import Output, write_outputs
     from audit.inputs.read_claims import read_claims
     from audit.report.export import check_table, summary_line
     from audit.report.memo import MemoOptions, findings_csv, findings_json_chunks, memo_chunks
@@ -64,6 +64,10 @@ def review(
         typer.echo(f"error: --date: expected YYYY-MM-DD, got {date!r}", err=True)
         raise typer.Exit(2) from None
     try:
+        _check_files(
+            {"MODEL": model, "--claims": claims, "--calc-pdf": calc_pdf, "--map": column_map},
+            {"--memo": memo, "--json": json_out, "--csv": csv_out},
+        )
         result = review_model(model, _dirs(rules_dir), rule_pack)
         claim_list = read_claims(claims) if claims else ()
         if calc_pdf:
@@ -80,18 +84,34 @@ def review(
     if rec is not None:
         counts = rec.counts()
         typer.echo("findings: " + ", ".join(f"{n} {k}" for k, n in counts.items()))
+    outputs = []
     if memo:
-        write_atomic(memo, memo_chunks(result, rec, claim_list, MemoOptions(date=memo_date)))
-        typer.echo(f"wrote {memo}")
+        outputs.append(
+            Output("--memo", memo, lambda: memo_chunks(result, rec, claim_list, MemoOptions(date=memo_date)))
+        )
     if json_out:
-        write_atomic(json_out, findings_json_chunks(result, rec, findings))
-        typer.echo(f"wrote {json_out}")
+        outputs.append(Output("--json", json_out, lambda: findings_json_chunks(result, rec, findings)))
     if csv_out:
-        write_atomic(csv_out, findings_csv(findings))
-        typer.echo(f"wrote {csv_out}")
+        outputs.append(Output("--csv", csv_out, lambda: findings_csv(findings)))
+    try:
+        write_outputs(outputs)
+    except InputError as exc:
+        _fail(exc)
+    for out in outputs:
+        typer.echo(f"wrote {out.path}")
     serious = any(f.severity in ("critical", "major") for f in findings)
     failing = any(not r.passes for r in result.results)
     raise typer.Exit(1 if serious or failing else 0)
+
+
+def _check_files(inputs: dict[str, Path | None], outputs: dict[str, Path | None]) -> None:
+    """Inputs must be readable regular files; outputs may destroy nothing. Before any reading."""
+    from audit.core.outfiles import check_outputs, require_input_file
+
+    given_inputs = [(option, path) for option, path in inputs.items() if path is not None]
+    for option, path in given_inputs:
+        require_input_file(path, option)
+    check_outputs([(o, p) for o, p in outputs.items() if p is not None], given_inputs)
 
 
 def _extract(pdf: Path, pages: str | None, column_map: Path | None):
@@ -143,10 +163,11 @@ def extract(
     from audit.inputs.pdf.extract import claims_yaml
 
     try:
+        _check_files({"PDF": pdf, "--map": column_map}, {"--output": output})
         result = _extract(pdf, pages, column_map)
+        write_atomic(output, claims_yaml(result, pdf.name), "--output")
     except InputError as exc:
         _fail(exc)
-    write_atomic(output, claims_yaml(result, pdf.name))
     typer.echo(f"wrote {output}: {len(result.claims)} claims from pages {_page_list(result.pages_parsed)}")
 
 
@@ -221,14 +242,33 @@ def schema(which: str = typer.Argument("model", help="Which input file: model or
 
 def run(argv: list[str] | None = None) -> int:
     """Run the command line and return its exit status; never lets a traceback out."""
+    # A review builds millions of small records that form no reference cycles and live until
+    # the run ends; the cycle collector would walk them again and again (a third of the run
+    # time on a large building) and free nothing. Paused for the run only.
+    enabled = gc.isenabled()
+    gc.disable()
+    try:
+        return _run(argv)
+    finally:
+        if enabled:
+            gc.enable()
+
+
+def _run(argv: list[str] | None) -> int:
+    from audit.core.outfiles import Interrupted
+
     try:
         code = app(args=argv, standalone_mode=False)
+    except (KeyboardInterrupt, Interrupted):
+        typer.echo("error: interrupted; no output was written or replaced", err=True)
+        return 130
     except typer.Exit as stop:
         return stop.exit_code
     except SystemExit as stop:
         return stop.code if isinstance(stop.code, int) else 2
     except Exception as exc:
-        if type(exc).__name__ == "Abort":
+        if type(exc).__name__ == "Abort":  # click's word for Ctrl-C
+            typer.echo("error: interrupted; no output was written or replaced", err=True)
             return 130
         exit_code = getattr(exc, "exit_code", None)
         show = getattr(exc, "show", None)
@@ -258,10 +298,6 @@ def _unexpected(exc: Exception) -> int:
 
 
 def main() -> None:
-    # A review builds millions of small records that form no reference cycles and live until
-    # the process ends; the cycle collector would walk them again and again (a third of the run
-    # time on a large building, growing faster than the building) and free nothing.
-    gc.disable()
     sys.exit(run())
 
 

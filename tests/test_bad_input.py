@@ -155,7 +155,7 @@ def test_unreadable_files_give_a_clear_line(text, message, write_model, run_cli)
 def test_missing_file_is_an_input_error(run_cli, tmp_path):
     result = run_cli("review", tmp_path / "nope.yaml")
     assert result.exit_code == 2
-    assert "cannot read file" in result.stderr
+    assert "file not found" in result.stderr and "nope.yaml" in result.stderr
 
 
 def test_non_utf8_file_names_the_line(write_model, run_cli, tmp_path):

@@ -22,7 +22,7 @@ def test_a_failure_while_writing_keeps_the_previous_file_and_leaves_no_temporary
 
 
 def test_a_complete_write_replaces_the_file(tmp_path):
-    target = tmp_path / "out" / "findings.csv"
+    target = tmp_path / "findings.csv"
     write_atomic(target, iter(["a,b\n", "1,2\n"]))
     assert target.read_text() == "a,b\n1,2\n"
     assert oct(target.stat().st_mode & 0o777) != "0o600"  # readable like any other file the user writes

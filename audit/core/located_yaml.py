@@ -59,12 +59,11 @@ def join_key(path: str, key: str | int) -> str:
 
 def read_yaml_file(path: Path | str) -> Node:
     """Read a YAML file into located nodes; raise InputError for any unreadable file."""
+    from audit.core.outfiles import require_input_file
+
     path = Path(path)
     name = str(path)
-    try:
-        size = path.stat().st_size
-    except OSError as exc:
-        raise InputError(f"cannot read file: {exc.strerror or exc}", Location(name)) from None
+    size = require_input_file(path).st_size
     if size > MAX_FILE_BYTES:
         raise InputError(f"file is {size} bytes, over the {MAX_FILE_BYTES} byte limit", Location(name))
     raw = path.read_bytes()
