@@ -9,6 +9,7 @@ decoded as UTF-8 with a clear error when it is not.
 from __future__ import annotations
 
 import gc
+import re
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
@@ -37,6 +38,7 @@ class Node:
     column: int
     key: str
     key_marks: dict[str, tuple[int, int]] | None = None
+    raw: str = ""  # a scalar's text as written, so ids such as NO, ON or 1e3 stay text where text is wanted
 
     @property
     def loc(self) -> Location:
@@ -49,6 +51,11 @@ class Node:
         """Where a mapping key itself stands."""
         line, column = (self.key_marks or {}).get(key, (self.line, self.column))
         return Location(self.file, line, column, join_key(self.key, key))
+
+
+def node_text(node: Node) -> str:
+    """A scalar as text, as written: NO, ON, 1e3 and 2026-01-15 stay text where text is wanted."""
+    return node.value if isinstance(node.value, str) else (node.raw or str(node.value))
 
 
 def join_key(path: str, key: str | int) -> str:
@@ -179,8 +186,10 @@ class _Composer:
         self.spend(1, event, key)
         mark = event.start_mark
         if isinstance(event, yaml.ScalarEvent):
-            result, size = Node(self.scalar(event, key), self.name, mark.line + 1, mark.column + 1, key), 1
+            value = self.scalar(event, key)
+            result, size = Node(value, self.name, mark.line + 1, mark.column + 1, key, None, event.value), 1
         elif isinstance(event, yaml.SequenceStartEvent):
+            self._refuse_tag(event, _SEQ_TAG, key)
             items: list[Node] = []
             size = 1
             while not isinstance(nxt := self.loader.get_event(), yaml.SequenceEndEvent):
@@ -189,6 +198,7 @@ class _Composer:
                 size += child_size
             result = Node(items, self.name, mark.line + 1, mark.column + 1, key)
         elif isinstance(event, yaml.MappingStartEvent):
+            self._refuse_tag(event, _MAP_TAG, key)
             result, size = self.mapping(event, key)
         else:
             raise InputError(f"unexpected YAML event {type(event).__name__}", _loc_of(event, self.name, key))
@@ -215,13 +225,27 @@ class _Composer:
         mark = event.start_mark
         return Node(out, self.name, mark.line + 1, mark.column + 1, key, marks), size
 
-    def _tag(self, event: yaml.ScalarEvent) -> str:
+    def _refuse_tag(self, event: yaml.Event, plain: str, key: str) -> None:
+        tag = getattr(event, "tag", None)
+        if tag and tag not in ("!", plain):
+            raise InputError(f"YAML tag {tag} is not accepted; write the value plainly", _loc_of(event, self.name, key))
+
+    def _tag(self, event: yaml.ScalarEvent, key: str = "") -> str:
         if event.tag and event.tag != "!":
+            if event.tag not in _PLAIN_SCALAR_TAGS:
+                raise InputError(
+                    f"YAML tag {event.tag} is not accepted; write the value plainly", _loc_of(event, self.name, key)
+                )
             return event.tag
         return self.loader.resolve(yaml.ScalarNode, event.value, event.implicit)
 
     def scalar(self, event: yaml.ScalarEvent, key: str) -> Any:
-        tag = self._tag(event)
+        bad = _CONTROL.search(event.value)
+        if bad:
+            raise InputError(
+                f"text holds the control character U+{ord(bad.group()):04X}; remove it", _loc_of(event, self.name, key)
+            )
+        tag = self._tag(event, key)
         if tag == _STR_TAG:
             return event.value  # most scalars are text: no constructor needed
         constructor = self.loader.yaml_constructors.get(tag)
@@ -249,4 +273,9 @@ def _compose(loader, name: str) -> Node:
 
 
 _STR_TAG = "tag:yaml.org,2002:str"
+_SEQ_TAG = "tag:yaml.org,2002:seq"
+_MAP_TAG = "tag:yaml.org,2002:map"
+_PLAIN_SCALAR_TAGS = frozenset(f"tag:yaml.org,2002:{t}" for t in ("str", "int", "float", "bool", "null"))
+# C0 controls but tab, newline and carriage return; DEL; C1 controls
+_CONTROL = re.compile("[\x00-\x08\x0b\x0c\x0e-\x1f\x7f-\x9f]")
 _MERGE_TAG = "tag:yaml.org,2002:merge"

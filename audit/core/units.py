@@ -90,6 +90,18 @@ def _fast_parse(text: str, dimension: str) -> float:
     return value
 
 
+# A quantity is one number and a unit, never an expression: the unit is unit names joined by
+# "*", "/" or a space, each with at most a small whole exponent of its own (mm**2, in^2).
+_NUMBER = r"[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d{1,3})?"
+_UNIT_NAME = r"[A-Za-z_°µμ][A-Za-z_°µμ]*(?:\s*(?:\*\*|\^)\s*[1-4])?"
+_QUANTITY_FORM = re.compile(rf"^{_NUMBER}\s*{_UNIT_NAME}(?:\s*[*/]\s*{_UNIT_NAME}|\s+{_UNIT_NAME})*$")
+
+
+def is_number_and_unit(text: str) -> bool:
+    """True for '130 mm', '1.9 kN/m', '19500 mm**2', '2.5 kN*m'; False for sums, powers, brackets."""
+    return _QUANTITY_FORM.match(text) is not None
+
+
 def parse_quantity(value: object, dimension: str, loc: Location) -> float:
     """Read a quantity (a string with a unit) into an SI float, or raise InputError."""
     if isinstance(value, bool) or value is None:
@@ -101,8 +113,19 @@ def parse_quantity(value: object, dimension: str, loc: Location) -> float:
         raise InputError(f"expected a {dimension} with a unit, got a {type(value).__name__}", loc)
     if len(value) > 200:
         raise InputError(f"value is {len(value)} characters long; expected a {dimension}", loc)
+    text = value.strip()
+    if re.match(r"^[-+]?(?:inf|infinity|nan)\b", text, re.IGNORECASE):
+        raise InputError(f"'{value}' is not a finite number", loc)
+    if not is_number_and_unit(text):
+        example = DIMENSIONS[dimension][2]
+        if re.match(rf"^{_NUMBER}$", text):
+            raise InputError(f"'{value}' has no unit; give a {dimension} such as {example}", loc)
+        raise InputError(
+            f"'{value}' is not one number and a unit (arithmetic is not read); give a {dimension} such as {example}",
+            loc,
+        )
     try:
-        result = _fast_parse(value.strip(), dimension)
+        result = _fast_parse(text, dimension)
     except UnitProblem as exc:
         raise InputError(str(exc), loc) from None
     if abs(result) > LIMITS[dimension]:

@@ -16,6 +16,11 @@ SPECIFIED_CASES = ("D", "L", "S", "W", "E")
 FACTORED_PREFIX = "factored:"
 
 
+def normalise_label(label: str) -> str:
+    """How calc labels and model ids are compared: case and runs of spaces do not count."""
+    return " ".join(label.casefold().split())
+
+
 @dataclass(frozen=True)
 class Material:
     id: str

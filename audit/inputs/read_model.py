@@ -7,14 +7,16 @@ one run. The rule packs are selected here because species and grades are looked 
 from __future__ import annotations
 
 import datetime as dt
+import difflib
 import itertools
 import math
-from collections.abc import Callable
+from collections.abc import Callable, Iterable
+from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
 from audit.core.errors import ErrorCollector, InputError, Location
-from audit.core.located_yaml import Node, read_yaml_file
+from audit.core.located_yaml import Node, node_text, read_yaml_file
 from audit.core.units import parse_quantity
 from audit.engine.model import (
     FACTORED_PREFIX,
@@ -26,6 +28,7 @@ from audit.engine.model import (
     Model,
     Project,
     Side,
+    normalise_label,
 )
 from audit.standards.packs import (
     ALL_FAMILIES,
@@ -97,8 +100,9 @@ class FieldReader:
         self.map = node.value
         for key in node.value:
             if key not in allowed:
+                hint = did_you_mean(key, allowed)
                 errors.add(
-                    f"unknown key '{key}' in {what} (allowed: {', '.join(sorted(allowed))})",
+                    f"unknown key '{key}' in {what}{hint or ' (allowed: ' + ', '.join(sorted(allowed)) + ')'}",
                     node.key_loc(key),
                 )
 
@@ -123,7 +127,7 @@ class FieldReader:
             self.errors.add(f"expected text, got {describe_value(node.value)}", node.loc)
             self.ok = False
             return default
-        text = str(node.value)
+        text = node_text(node)
         if len(text) > limit:
             self.errors.add(f"text is {len(text)} characters long (limit {limit})", node.loc)
             self.ok = False
@@ -219,9 +223,10 @@ def build_model(
         )
 
     materials = _read_materials(top.map["materials"], resistance, errors)
-    members = _read_members(top.map["members"], materials, project, errors)
-    bearings = _read_bearings(top.map["bearings"], members, errors)
-    loads, groups = _read_loads(top.map["loads"], members, combos, errors) if "loads" in top.map else ((), {})
+    members, broken = _read_members(top.map["members"], materials, project, errors)
+    known = KnownMembers(members, broken)
+    bearings = _read_bearings(top.map["bearings"], known, errors)
+    loads, groups = _read_loads(top.map["loads"], known, combos, errors) if "loads" in top.map else ((), {})
     errors.raise_if_any()
     _check_support_graph(members, bearings, errors)
     _check_loads_within_members(members, loads, errors)
@@ -369,16 +374,42 @@ def list_items(node: Node, what: str, errors: ErrorCollector) -> list[Node]:
     return node.value
 
 
+@dataclass(frozen=True)
+class KnownMembers:
+    """The members read, and the ids of those with an error of their own.
+
+    A reference to a member whose own entry has an error is not an error again: one bad value
+    gives one error, not one more for every bearing and load that names the member.
+    """
+
+    members: dict[str, Member]
+    broken: frozenset[str]
+
+    def resolve(self, member_id: str, loc: Location, errors: ErrorCollector) -> Member | None:
+        if member_id in self.members:
+            return self.members[member_id]
+        if member_id not in self.broken:
+            errors.add(f"unknown member '{member_id}'{did_you_mean(member_id, self.members)}", loc)
+        return None
+
+
+def did_you_mean(word: str, choices: Iterable[str]) -> str:
+    """' (did you mean 'X'?)' for a near miss, else nothing."""
+    close = difflib.get_close_matches(word, list(choices), n=1, cutoff=0.5)
+    return f" (did you mean '{close[0]}'?)" if close else ""
+
+
 def _read_members(
     node: Node, materials: dict[str, Material], project: Project, errors: ErrorCollector
-) -> dict[str, Member]:
+) -> tuple[dict[str, Member], frozenset[str]]:
     out: dict[str, Member] = {}
+    broken: set[str] = set()
     for item in list_items(node, "members", errors):
         f = FieldReader(item, MEMBER_KEYS, errors, "member")
         member_id = f.text("id", limit=120)
         material = f.text("material")
         if f.ok and material not in materials:
-            errors.add(f"unknown material '{material}'", f.loc("material"))
+            errors.add(f"unknown material '{material}'{did_you_mean(material, materials)}", f.loc("material"))
             f.ok = False
         b = f.quantity("b", "length", positive=True)
         d = f.quantity("d", "length", positive=True)
@@ -394,6 +425,8 @@ def _read_members(
             errors.add(f"duplicate member id '{member_id}'", f.loc("id"))
             continue
         if not f.ok or b is None or d is None or length is None:
+            if member_id:
+                broken.add(member_id)
             continue
         out[member_id] = Member(
             id=member_id,
@@ -409,20 +442,19 @@ def _read_members(
             label=f.text("label", required=False),
             loc=item.loc,
         )
-    return out
+    return out, frozenset(broken - out.keys())
 
 
-def _read_side(node: Node, role: str, members: dict[str, Member], errors: ErrorCollector) -> Side | None:
-    if isinstance(node.value, str):
+def _read_side(node: Node, role: str, known: KnownMembers, errors: ErrorCollector) -> Side | None:
+    if isinstance(node.value, str) or (node.raw and not isinstance(node.value, (dict, list))):
         node = Node({"member": node}, node.file, node.line, node.column, node.key)
     f = FieldReader(node, SIDE_KEYS, errors, f"bearing {role}")
     member_id = f.text("member")
     if not f.ok:
         return None
-    if member_id not in members:
-        errors.add(f"unknown member '{member_id}'", f.loc("member"))
+    member = known.resolve(member_id, f.loc("member"), errors)
+    if member is None:
         return None
-    member = members[member_id]
     at = None
     if not member.vertical:
         at = f.quantity("at", "length")
@@ -453,7 +485,7 @@ def _read_side(node: Node, role: str, members: dict[str, Member], errors: ErrorC
     return Side(member_id, at, length, angle, node.loc)
 
 
-def _read_bearings(node: Node, members: dict[str, Member], errors: ErrorCollector) -> tuple[Bearing, ...]:
+def _read_bearings(node: Node, known: KnownMembers, errors: ErrorCollector) -> tuple[Bearing, ...]:
     out: list[Bearing] = []
     seen: dict[str, Location] = {}
     aliases_seen: dict[str, str] = {}
@@ -466,8 +498,8 @@ def _read_bearings(node: Node, members: dict[str, Member], errors: ErrorCollecto
                 errors.add(f"missing field '{role}'", item.child_loc(role))
         if "upper" not in f.map or "lower" not in f.map:
             continue
-        upper = _read_side(f.map["upper"], "upper", members, errors)
-        lower = _read_side(f.map["lower"], "lower", members, errors)
+        upper = _read_side(f.map["upper"], "upper", known, errors)
+        lower = _read_side(f.map["lower"], "lower", known, errors)
         width = f.quantity("width", "length", required=False, positive=True)
         aliases: tuple[str, ...] = ()
         if f.has("aliases"):
@@ -475,7 +507,7 @@ def _read_bearings(node: Node, members: dict[str, Member], errors: ErrorCollecto
             if not isinstance(a_node.value, list):
                 errors.add("aliases must be a list of labels", a_node.loc)
                 continue
-            aliases = tuple(str(a.value) for a in a_node.value)
+            aliases = _read_aliases(a_node, errors)
         if upper is None or lower is None or not f.ok:
             continue
         if upper.member == lower.member:
@@ -488,16 +520,36 @@ def _read_bearings(node: Node, members: dict[str, Member], errors: ErrorCollecto
             continue
         seen[bearing_id] = item.loc
         for alias in aliases:
-            other = aliases_seen.get(alias.casefold())
+            other = aliases_seen.get(normalise_label(alias))
             if other is not None and other != bearing_id:
                 errors.add(f"alias '{alias}' is already used by bearing '{other}'", f.loc("aliases"))
-            aliases_seen[alias.casefold()] = bearing_id
+            aliases_seen[normalise_label(alias)] = bearing_id
         out.append(Bearing(bearing_id, upper, lower, width, aliases, item.loc))
+    ids = {normalise_label(b.id): b.id for b in out}
+    for b in out:
+        for alias in b.aliases:
+            owner = ids.get(normalise_label(alias))
+            if owner is not None and owner != b.id:
+                errors.add(f"alias '{alias}' of bearing '{b.id}' is the id of bearing '{owner}'", b.loc)
+    return tuple(out)
+
+
+def _read_aliases(node: Node, errors: ErrorCollector) -> tuple[str, ...]:
+    out = []
+    for i, item in enumerate(node.value):
+        if isinstance(item.value, (dict, list)) or item.value is None:
+            errors.add(f"an alias must be a label, got {describe_value(item.value)}", node.child_loc(i))
+            continue
+        text = node_text(item).strip()
+        if not text or len(text) > 120:
+            errors.add(f"an alias must be 1 to 120 characters, got {len(text)}", item.loc)
+            continue
+        out.append(text)
     return tuple(out)
 
 
 def _read_loads(
-    node: Node, members: dict[str, Member], combos: CombinationPack, errors: ErrorCollector
+    node: Node, known: KnownMembers, combos: CombinationPack, errors: ErrorCollector
 ) -> tuple[tuple[Load, ...], dict[str, FactoredGroup]]:
     out: list[Load] = []
     groups: dict[str, FactoredGroup] = {}
@@ -508,10 +560,10 @@ def _read_loads(
         kind = f.choice("type", ("point", "uniform"))
         if not f.ok:
             continue
-        if member_id not in members:
-            errors.add(f"unknown member '{member_id}'", f.loc("member"))
+        found = known.resolve(member_id, f.loc("member"), errors)
+        if found is None:
             continue
-        member = members[member_id]
+        member = found
         load_id = f.text("id", required=False) or f"load{index + 1}"
         if load_id in ids:
             errors.add(f"duplicate load id '{load_id}'", f.loc("id"))

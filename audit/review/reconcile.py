@@ -14,6 +14,7 @@ from dataclasses import dataclass, replace
 from functools import cached_property
 from typing import Any
 
+from audit.engine.model import normalise_label
 from audit.inputs.read_claims import Claim
 from audit.review.findings import KINDS, Finding, severity_rank
 from audit.review.review import Review
@@ -99,7 +100,7 @@ class Reconciliation:
 
 
 def normalise(label: str) -> str:
-    return " ".join(label.casefold().split())
+    return normalise_label(label)
 
 
 def label_index(review: Review) -> dict[str, str]:

@@ -15,7 +15,7 @@ from pathlib import Path
 from typing import Any
 
 from audit.core.errors import ErrorCollector, InputError, Location
-from audit.core.located_yaml import Node, read_yaml_file
+from audit.core.located_yaml import Node, node_text, read_yaml_file
 from audit.core.units import parse_quantity
 
 DURATIONS = ("permanent", "standard", "short")
@@ -293,7 +293,7 @@ def read_resistance_pack(root: Node, path: str) -> ResistancePack:
         for sp, sp_node in fam_node.value.items():
             s = r.sourced(sp_node, _stress)
             grades_node = sp_node.value.get("grades") if isinstance(sp_node.value, dict) else None
-            grades = tuple(str(g.value) for g in grades_node.value) if grades_node else ()
+            grades = tuple(node_text(g) for g in grades_node.value) if grades_node else ()
             if s is not None:
                 fcp[fam][sp] = SpeciesStrength(s, grades)
     fc: dict[str, dict[str, Sourced]] = {}

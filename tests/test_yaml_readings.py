@@ -1,0 +1,65 @@
+"""YAML's old surprises and one error per cause: what a reviewer types is read as typed."""
+
+from __future__ import annotations
+
+from audit.cli import run
+from tests.conftest import base_model
+
+
+def _rename(data: dict, old: str, new: str) -> dict:
+    for member in data["members"]:
+        if member["id"] == old:
+            member["id"] = new
+    for bearing in data["bearings"]:
+        for role in ("upper", "lower"):
+            side = bearing[role]
+            if side == old:
+                bearing[role] = new
+            elif isinstance(side, dict) and side["member"] == old:
+                side["member"] = new
+    for load in data["loads"]:
+        if load["member"] == old:
+            load["member"] = new
+    return data
+
+
+def test_member_ids_that_look_like_booleans_stay_text(write_model, capsys):
+    # YAML 1.1 reads a plain NO or ON as a boolean; an id is text whatever it looks like
+    text = write_model(_rename(_rename(base_model(), "J1", "NO"), "C1", "ON")).read_text()
+    path = write_model(text.replace("'NO'", "NO").replace("'ON'", "ON"), "plain.yaml")
+    assert "id: NO" in path.read_text()
+    code = run(["review", str(path)])
+    out = capsys.readouterr().out
+    assert code in (0, 1) and "NO/B1:NO" in out and "B1/ON" in out
+
+
+def test_a_numeric_looking_member_id_keeps_its_spelling(write_model, capsys):
+    text = write_model(_rename(base_model(), "J1", "1e3")).read_text().replace("'1e3'", "1e3")
+    code = run(["review", str(write_model(text, "plain.yaml"))])
+    assert code in (0, 1) and "1e3/B1:1e3" in capsys.readouterr().out
+
+
+def test_one_bad_value_on_a_member_gives_one_error_not_one_per_reference(write_model, capsys):
+    data = base_model()
+    data["members"][0]["b"] = "130 kN"  # B1: three bearings name it
+    code = run(["review", str(write_model(data))])
+    err = capsys.readouterr().err
+    assert code == 2
+    assert [line for line in err.splitlines() if line.startswith("error: ")] == [
+        line for line in err.splitlines() if "members[0].b" in line
+    ]
+    assert "unknown member" not in err
+
+
+def test_a_misspelt_member_reference_suggests_the_near_id(write_model, capsys):
+    data = base_model()
+    data["loads"][0]["member"] = "J2"
+    run(["review", str(write_model(data))])
+    assert "did you mean 'J1'?" in capsys.readouterr().err
+
+
+def test_a_misspelt_key_suggests_the_near_key(write_model, capsys):
+    data = base_model()
+    data["members"][0]["lenght"] = data["members"][0].pop("length")
+    run(["review", str(write_model(data))])
+    assert "did you mean 'length'?" in capsys.readouterr().err
