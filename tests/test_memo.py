@@ -45,7 +45,7 @@ def test_committed_demo_outputs_are_byte_identical_to_a_fresh_run(run_cli, tmp_p
 def test_memo_is_self_contained():
     review = review_model(DEMO)
     html = render_memo(review, reconcile(review, read_claims(CLAIMS)), read_claims(CLAIMS), MemoOptions())
-    assert not re.search(r"""(src|href)\\s*=\\s*["']?(https?:|//)""", html)
+    assert not re.search(r"""(src|href)\s*=\s*["']?(https?:|//)""", html)
     assert "@import" not in html and "<link" not in html and "<script" not in html
     assert "default-src 'none'" in html
 

@@ -493,12 +493,3 @@ def _fmt_factor(name: str, value: float) -> str:
     if name == "fcp":
         return f"{value / 1e6:.2f} MPa"
     return f"{value:.3f}"
-
-
-def accounted(reconciliation: Reconciliation, review: Review, claims: tuple[Claim, ...]) -> bool:
-    """Every required check and every claim appears exactly once."""
-    checks = [o.check_id for o in reconciliation.checks]
-    claim_ids = [o.claim_id for o in reconciliation.claims]
-    return sorted(checks) == sorted(r.check.id for r in review.results) and sorted(claim_ids) == sorted(
-        c.id for c in claims
-    )
