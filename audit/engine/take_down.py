@@ -16,6 +16,15 @@ from audit.engine.model import Model
 
 Forces = dict[str, float]  # load case (or factored group key) -> force, N, downward positive
 
+# Float noise never decides: a reaction smaller than this share of the load case's own total
+# on the member is rounding in the statics (a few 1e-13 of it), not a force, and is taken as
+# zero, so the same building in SI or US units, or with every load doubled, gives the same
+# cases at every bearing.
+NOISE_SHARE = 1e-9
+# Forces below this are zero wherever a force is judged (uplift, a case being present): no
+# bearing check turns on a newton.
+FORCE_RESOLUTION = 1.0  # N
+
 
 @dataclass(frozen=True)
 class AppliedForce:
@@ -119,6 +128,7 @@ def _reactions_by_case(positions: list[float], applied: tuple[AppliedForce, ...]
                 uniforms[case].append((item.start, item.end, value))
     out: list[Forces] = [{} for _ in positions]
     for case in sorted(set(points) | set(uniforms)):
+        total = sum(abs(p) for _, p in points[case]) + sum(abs(w) * abs(b - a) for a, b, w in uniforms[case])
         for i, r in enumerate(reactions(positions, points[case], uniforms[case])):
-            out[i][case] = r
+            out[i][case] = 0.0 if abs(r) <= NOISE_SHARE * total else r
     return out

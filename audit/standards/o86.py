@@ -16,7 +16,7 @@ from dataclasses import dataclass, replace
 
 from audit.core.errors import InputError
 from audit.engine.model import FACTORED_PREFIX, Material, Member, Model
-from audit.engine.take_down import Forces
+from audit.engine.take_down import FORCE_RESOLUTION, Forces
 from audit.standards.checks import LOCAL, NEAR, CheckList, RequiredCheck, near_support_geometry
 from audit.standards.packs import CombinationPack, ResistancePack
 
@@ -312,9 +312,9 @@ def _principal_present(combo: LoadCombination, forces: Forces) -> bool:
     """
     live = {case: f for case, f in combo.factors.items() if case != LONG_TERM_CASE}
     if not live:
-        return forces.get(LONG_TERM_CASE, 0.0) != 0.0
+        return abs(forces.get(LONG_TERM_CASE, 0.0)) > FORCE_RESOLUTION
     principal = max(live, key=lambda case: live[case])
-    return forces.get(principal, 0.0) != 0.0
+    return abs(forces.get(principal, 0.0)) > FORCE_RESOLUTION
 
 
 def evaluate(
@@ -336,7 +336,7 @@ def evaluate(
         if not inputs.uses_kd:
             kd, kd_reason = 1.0, "KD = 1.00: the product's evaluation report does not apply KD"
         qr = resistance(inputs, kd)
-        if qf < -1e-6:
+        if qf < -FORCE_RESOLUTION:
             uplift.append(combo.name)
         results.append(CombinationResult(combo.name, combo.duration, qf, kd, "", qr, max(qf, 0.0) / qr))
         reasons.append(kd_reason)
