@@ -238,3 +238,15 @@ def test_demo_claims_contain_every_slip():
         "two-thirds-left-out",
     }
     assert rec.counts()["unmatched-claim"] >= 1 and rec.counts()["confirmed"] >= 1
+
+
+# J1 crushed on B1: Qf = 8.50 kN (above) and Qr = 24.09 kN (tests/test_resistance_hand.py), so
+# Qf/Qr = 8.5 / 24.09 = 0.353, worked by hand
+@pytest.mark.parametrize(
+    ("claimed", "status", "severity"),
+    [(0.35, "confirmed", "info"), (0.20, "resistance-differs", "major"), (0.60, "resistance-differs", "minor")],
+)
+def test_a_claim_stating_only_a_utilisation_confirms_only_when_it_agrees(claimed, status, severity):
+    result, _ = outcome(base_model(), [claim("J1/B1", "J1", utilisation=claimed)], "J1/B1:J1")
+    assert result.status == status
+    assert {f.severity for f in result.findings} == {severity}

@@ -656,6 +656,30 @@ def _check_loads_within_members(members: dict[str, Member], loads: tuple[Load, .
 # ---------------------------------------------------------------- support graph
 
 
+def _support_extent(b: Bearing, members: dict[str, Member]) -> tuple[float, float]:
+    """Where a support's contact lies along the member above: its stated length, else the width of the one below."""
+    at = b.upper.at if b.upper.at is not None else 0.0
+    length = b.upper.length or members[b.lower.member].b
+    return at - length / 2, at + length / 2
+
+
+def _check_supports_apart(
+    member: Member, below: list[Bearing], members: dict[str, Member], errors: ErrorCollector
+) -> None:
+    """Two supports of one member whose contacts overlap are one support typed twice, not two."""
+    placed = sorted((b for b in below if b.upper.at is not None), key=lambda b: b.upper.at or 0.0)
+    for first, second in itertools.pairwise(placed):
+        end_first = _support_extent(first, members)[1]
+        start_second = _support_extent(second, members)[0]
+        if start_second < end_first - 1e-9:
+            errors.add(
+                f"supports '{first.id}' and '{second.id}' of '{member.id}' overlap along it "
+                f"(centres {(first.upper.at or 0.0) * 1000:.0f} mm and {(second.upper.at or 0.0) * 1000:.0f} mm); "
+                "give one bearing, or move them apart",
+                second.loc,
+            )
+
+
 def _check_support_graph(members: dict[str, Member], bearings: tuple[Bearing, ...], errors: ErrorCollector) -> None:
     supports: dict[str, list[Bearing]] = {m: [] for m in members}
     for b in bearings:
@@ -678,11 +702,7 @@ def _check_support_graph(members: dict[str, Member], bearings: tuple[Bearing, ..
                 "bearings, or 'support: continuous'",
                 member.loc,
             )
-        positions = sorted(b.upper.at for b in below if b.upper.at is not None)
-        for a, c in itertools.pairwise(positions):
-            if c - a < 1e-6:
-                errors.add(f"two supports of '{member.id}' stand at the same point", member.loc)
-                break
+        _check_supports_apart(member, below, members, errors)
     cycle = find_support_cycle(members, bearings)
     if cycle:
         first = next(b for b in bearings if b.upper.member == cycle[0] and b.lower.member == cycle[1])

@@ -176,6 +176,17 @@ def _within(claimed: float, recomputed: float, review: Review) -> bool:
     return abs(claimed - recomputed) <= max(p.tolerance_absolute, p.tolerance_relative * abs(recomputed))
 
 
+UTILISATION_ABS_TOL = 0.01  # Qf/Qr as calcs print it, to two decimals
+
+
+def _compare_utilisation(claimed: float, recomputed: float, review: Review) -> Comparison:
+    tol = max(UTILISATION_ABS_TOL, review.model.project.tolerance_relative * abs(recomputed))
+    if abs(claimed - recomputed) <= tol:
+        return Comparison("Qf/Qr", claimed, recomputed, True, "", ())
+    direction = "unconservative" if claimed < recomputed else "conservative"
+    return Comparison("Qf/Qr", claimed, recomputed, False, direction, ())
+
+
 def _compare(quantity: str, claimed: float, recomputed: float, slips, review: Review) -> Comparison:
     """Compare one number; only when it differs are the slips (a callable giving them) recomputed."""
     within = _within(claimed, recomputed, review)
@@ -430,6 +441,21 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
     qr_cmp = None
     if claimed_qr is not None:
         qr_cmp = _compare("Qr", claimed_qr, g.qr, lambda: qr_slips(result, review), review)
+    if qf_cmp is None and qr_cmp is None and claim.utilisation is not None:
+        # a claim that states only Qf/Qr confirms nothing unless that ratio agrees
+        util_cmp = _compare_utilisation(claim.utilisation, g.utilisation, review)
+        if not util_cmp.within:
+            findings.append(
+                Finding(
+                    "resistance-differs",
+                    "major" if util_cmp.direction == "unconservative" else "minor",
+                    f"{check.kind.capitalize()} check of {check.member} at {where}: the calc states only "
+                    f"Qf/Qr = {claim.utilisation:.2f}; recomputed Qf/Qr = {g.utilisation:.2f} ({util_cmp.direction}; "
+                    f"recomputed Qf = {g.qf / 1000:.2f} kN, Qr = {g.qr / 1000:.2f} kN, {g.combination}).",
+                    numbers={"claimed": claim.utilisation, "recomputed": g.utilisation},
+                    **common,
+                )
+            )
     diffs = factor_differences(claim, result)
     for cmp, kind in ((qf_cmp, "mis-loaded"), (qr_cmp, "resistance-differs")):
         if cmp is None or cmp.within:
