@@ -51,7 +51,7 @@ def review(
     """Recompute every required bearing check; with --claims, reconcile the calc's claims."""
     import datetime as dt
 
-    from audit.core.outfiles import Output, write_outputs
+    from audit.core.outfiles import Output, output_limit, write_outputs
     from audit.inputs.read_claims import read_claims
     from audit.report.export import check_table, summary_line
     from audit.report.memo import MemoOptions, findings_csv, findings_json_chunks, memo_chunks
@@ -93,8 +93,9 @@ def review(
         outputs.append(Output("--json", json_out, lambda: findings_json_chunks(result, rec, findings)))
     if csv_out:
         outputs.append(Output("--csv", csv_out, lambda: findings_csv(findings)))
+    given = [p for p in (model, claims, calc_pdf, column_map) if p is not None]
     try:
-        write_outputs(outputs)
+        write_outputs(outputs, output_limit(sum(p.stat().st_size for p in given)))
     except InputError as exc:
         _fail(exc)
     for out in outputs:

@@ -223,3 +223,11 @@ def test_extract_refuses_an_output_that_is_the_pdf(tmp_path, capsys):
     err = capsys.readouterr().err
     assert code == 2 and "input PDF" in err
     assert copy.read_bytes() == pdf.read_bytes()
+
+
+def test_an_output_over_its_bound_writes_nothing(tmp_path):
+    # the bound is checked as the text is made: 100 characters over a limit of 64
+    memo = tmp_path / "memo.html"
+    with pytest.raises(OutputError, match="nothing was written"):
+        write_outputs([Output("--memo", memo, lambda: ("x" * 10 for _ in range(10)))], limit=64)
+    assert list(tmp_path.iterdir()) == []

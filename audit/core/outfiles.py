@@ -108,13 +108,27 @@ def _check_output_path(path: Path, where: Location) -> None:
         raise OutputError(f"folder {parent} is not writable", where)
 
 
-def write_outputs(outputs: Iterable[Output]) -> None:
-    """Write every output to a temporary file, then move them all into place, or none."""
+# Output is bounded by input: labels and aliases repeated in every view of a memo must not turn
+# a small file into hundreds of MB. Each output may be this many times the inputs, and at least
+# the floor.
+OUTPUT_PER_INPUT = 50
+OUTPUT_FLOOR = 16 * 1024 * 1024
+
+
+def output_limit(input_bytes: int) -> int:
+    return max(OUTPUT_FLOOR, OUTPUT_PER_INPUT * input_bytes)
+
+
+def write_outputs(outputs: Iterable[Output], limit: int | None = None) -> None:
+    """Write every output to a temporary file, then move them all into place, or none.
+
+    ``limit`` caps each output's size in characters; over it, nothing is written.
+    """
     done: list[tuple[str, Path]] = []
     try:
         with _signals_as_interrupts():
             for out in outputs:
-                done.append((_write_temporary(out.path, out.make(), out.option), out.path))
+                done.append((_write_temporary(out.path, out.make(), out.option, limit), out.path))
             with _signals_held():
                 for tmp, path in done:
                     os.replace(tmp, path)
@@ -130,7 +144,7 @@ def write_atomic(path: Path | str, text: Chunks, option: str = "") -> None:
     write_outputs([Output(option or str(target), target, lambda: text)])
 
 
-def _write_temporary(path: Path, text: Chunks, option: str) -> str:
+def _write_temporary(path: Path, text: Chunks, option: str, limit: int | None = None) -> str:
     where = Location(str(path), key=option)
     try:
         fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".part", dir=path.parent)
@@ -139,13 +153,24 @@ def _write_temporary(path: Path, text: Chunks, option: str) -> str:
     try:
         os.chmod(tmp, 0o666 & ~_umask())
         with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as handle:
+            written = 0
             for chunk in [text] if isinstance(text, str) else text:
+                written += len(chunk)
+                if limit is not None and written > limit:
+                    raise OutputError(
+                        f"would exceed {limit // (1024 * 1024)} MB ({OUTPUT_PER_INPUT} times the inputs); "
+                        "nothing was written. Shorten repeated labels and aliases, or write fewer outputs",
+                        where,
+                    )
                 handle.write(chunk)
             handle.flush()
             os.fsync(handle.fileno())
     except OSError as exc:
         Path(tmp).unlink(missing_ok=True)
         raise OutputError(f"cannot write: {exc.strerror or exc}; nothing was written", where) from None
+    except OutputError:
+        Path(tmp).unlink(missing_ok=True)
+        raise
     except BaseException:
         Path(tmp).unlink(missing_ok=True)
         raise
