@@ -74,6 +74,8 @@ def review(
             claim_list += _extract(calc_pdf, pages, column_map).claims
     except InputError as exc:
         _fail(exc)
+    for warning in result.model.warnings:
+        typer.echo(f"warning: {warning}", err=True)
     rec = reconcile(result, claim_list) if (claims or calc_pdf) else None
     findings = rec.findings if rec else result.engine_findings
     typer.echo(check_table(result))

@@ -63,3 +63,22 @@ def test_a_misspelt_key_suggests_the_near_key(write_model, capsys):
     data["members"][0]["lenght"] = data["members"][0].pop("length")
     run(["review", str(write_model(data))])
     assert "did you mean 'length'?" in capsys.readouterr().err
+
+
+def test_an_id_with_a_cyrillic_look_alike_letter_is_warned_with_its_code_point(write_model, capsys):
+    data = _rename(base_model(), "J1", "J\u04271")  # CYRILLIC CAPITAL LETTER CHE beside Latin J
+    code = run(["review", str(write_model(data))])
+    err = capsys.readouterr().err
+    assert code in (0, 1) and "warning: " in err and "U+0427" in err and "members[3]" in err
+
+
+def test_an_id_with_a_zero_width_or_bidirectional_character_is_warned(write_model, capsys):
+    for hidden in ("\u200b", "\u202e"):
+        data = _rename(base_model(), "J1", f"J{hidden}1")
+        run(["review", str(write_model(data))])
+        assert f"U+{ord(hidden):04X}" in capsys.readouterr().err
+
+
+def test_plain_ids_give_no_warning(write_model, capsys):
+    run(["review", str(write_model(base_model()))])
+    assert "warning" not in capsys.readouterr().err

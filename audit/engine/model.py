@@ -124,6 +124,7 @@ class Model:
     bearings: tuple[Bearing, ...]
     loads: tuple[Load, ...]
     factored_groups: dict[str, FactoredGroup]
+    warnings: tuple[str, ...] = ()  # located, one line each: printed, never fatal
 
     def material_of(self, member_id: str) -> Material:
         return self.materials[self.members[member_id].material]

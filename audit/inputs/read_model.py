@@ -10,6 +10,7 @@ import datetime as dt
 import difflib
 import itertools
 import math
+import unicodedata
 from collections.abc import Callable, Iterable
 from dataclasses import dataclass
 from pathlib import Path
@@ -231,7 +232,8 @@ def build_model(
     _check_support_graph(members, bearings, errors)
     _check_loads_within_members(members, loads, errors)
     errors.raise_if_any()
-    model = Model(name, project, materials, members, bearings, loads, groups)
+    warnings = tuple(_id_warnings(members, bearings, loads))
+    model = Model(name, project, materials, members, bearings, loads, groups, warnings)
     return model, resistance, combos
 
 
@@ -654,6 +656,30 @@ def _check_loads_within_members(members: dict[str, Member], loads: tuple[Load, .
 
 
 # ---------------------------------------------------------------- support graph
+
+
+def suspicious_characters(text: str) -> str:
+    """Why an id may not be what it looks like: invisible characters, or letters of two scripts."""
+    for ch in text:
+        if unicodedata.category(ch) in ("Cf", "Zl", "Zp") or (unicodedata.category(ch) == "Zs" and ch != " "):
+            return f"holds the invisible character U+{ord(ch):04X} {unicodedata.name(ch, '')}".rstrip()
+    scripts = {unicodedata.name(ch, "").split(" ")[0] for ch in text if ch.isalpha()}
+    if len(scripts) > 1 and "LATIN" in scripts:
+        odd = next(ch for ch in text if ch.isalpha() and not unicodedata.name(ch, "").startswith("LATIN"))
+        return f"mixes scripts: U+{ord(odd):04X} {unicodedata.name(odd, '')} beside Latin letters (a look-alike?)"
+    return ""
+
+
+def _id_warnings(members: dict[str, Member], bearings: tuple[Bearing, ...], loads: tuple[Load, ...]):
+    named = [(m.id, m.loc, "member id") for m in members.values()]
+    for b in bearings:
+        named.append((b.id, b.loc, "bearing id"))
+        named += [(a, b.loc, "alias") for a in b.aliases]
+    named += [(ld.id, ld.loc, "load id") for ld in loads]
+    for text, loc, what in named:
+        why = suspicious_characters(text)
+        if why:
+            yield f"{loc}: {what} {text!r} {why}"
 
 
 def _support_extent(b: Bearing, members: dict[str, Member]) -> tuple[float, float]:
