@@ -52,7 +52,7 @@ def review(
     import datetime as dt
 
     from audit.core.outfiles import Output, output_limit, write_outputs
-    from audit.inputs.read_claims import read_claims
+    from audit.inputs.read_claims import merge_claim_sources, read_claims
     from audit.report.export import check_table, summary_line
     from audit.report.memo import MemoOptions, findings_csv, findings_json_chunks, memo_chunks
     from audit.review.reconcile import reconcile
@@ -71,7 +71,7 @@ def review(
         result = review_model(model, _dirs(rules_dir), rule_pack)
         claim_list = read_claims(claims) if claims else ()
         if calc_pdf:
-            claim_list += _extract(calc_pdf, pages, column_map).claims
+            claim_list = merge_claim_sources(claim_list, _extract(calc_pdf, pages, column_map).claims, calc_pdf.name)
     except InputError as exc:
         _fail(exc)
     for warning in result.model.warnings:

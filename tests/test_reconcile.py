@@ -250,3 +250,22 @@ def test_a_claim_stating_only_a_utilisation_confirms_only_when_it_agrees(claimed
     result, _ = outcome(base_model(), [claim("J1/B1", "J1", utilisation=claimed)], "J1/B1:J1")
     assert result.status == status
     assert {f.severity for f in result.findings} == {severity}
+
+
+def test_a_claim_whose_member_contradicts_the_check_its_label_names_is_a_finding_naming_it():
+    _, _, rec = reconcile_dicts(base_model(), [claim("J1/B1:J1", "B1", Qf=8500.0, Qr=24087.0)])
+    unmatched = [f for f in rec.findings if f.kind == "unmatched-claim"]
+    assert len(unmatched) == 1 and "says member B1" in unmatched[0].message
+    assert rec.outcome("J1/B1:J1").status == "missing"
+
+
+def test_claim_ids_clashing_across_a_claims_file_and_a_pdf_are_made_unique_with_their_source():
+    from audit.inputs.read_claims import merge_claim_sources
+    from tests.conftest import claims_from
+
+    typed = claims_from(
+        [{**claim("J1/B1", "J1", Qf=8500.0), "id": "a"}, {**claim("B1/C1", "B1", Qf=1000.0), "id": "calc.pdf:a"}]
+    )
+    pdf = claims_from([{**claim("J1/B1", "J1", Qf=8500.0), "id": "a"}])
+    ids = [c.id for c in merge_claim_sources(typed, pdf, "calc.pdf")]
+    assert ids == ["a", "calc.pdf:a", "calc.pdf:a#2"]

@@ -7,7 +7,7 @@ PDF). Each keeps where in the calc it stands, so the memo can cite the page.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 
 from audit.core.errors import ErrorCollector, Location
@@ -67,6 +67,7 @@ class Claim:
     adequate: bool | None = None
     text: str = ""  # raw text it came from, when extracted
     loc: Location = field(default=Location(""), compare=False)
+    kind_stated: bool = True  # False when the claims file left 'kind' to its default
 
     @property
     def claimed_qr(self) -> float | None:
@@ -135,6 +136,7 @@ def _read_claim(item: Node, index: int, errors: ErrorCollector) -> Claim | None:
         kind=kind,
         qf=qf,
         qr=qr,
+        kind_stated=f.has("kind"),
         utilisation=None if util < 0 else util,
         factors=factors,
         adequate=adequate,
@@ -191,3 +193,21 @@ def _read_factors(f: FieldReader, errors: ErrorCollector) -> dict[str, float] | 
             return None
         out[name] = value
     return out
+
+
+def merge_claim_sources(first: tuple[Claim, ...], second: tuple[Claim, ...], source: str) -> tuple[Claim, ...]:
+    """Claims of two sources in one run, every id unique: a clashing id of the second source is
+    prefixed with that source's name (and numbered if it still clashes), so each claim is still
+    accounted for once and can be told apart in the memo."""
+    taken = {c.id for c in first}
+    out = list(first)
+    for claim in second:
+        new_id = claim.id
+        if new_id in taken:
+            new_id = f"{source}:{claim.id}"
+            n = 2
+            while new_id in taken:
+                new_id, n = f"{source}:{claim.id}#{n}", n + 1
+        taken.add(new_id)
+        out.append(replace(claim, id=new_id) if new_id != claim.id else claim)
+    return tuple(out)

@@ -127,7 +127,14 @@ def match_claims(
     for claim in claims:
         key = normalise(claim.label)
         if claim.label in check_ids:
-            candidates = [review.result(claim.label).check]
+            named = review.result(claim.label).check
+            contradiction = _contradiction(claim, named)
+            if contradiction:
+                unmatched.append(
+                    (claim, f"the label names check {named.id}, but the claim {contradiction}", (named.id,))
+                )
+                continue
+            candidates = [named]
         elif key in index:
             at_bearing = by_bearing.get(index[key], [])
             candidates = [c for c in at_bearing if c.kind == claim.kind]
@@ -153,6 +160,16 @@ def match_claims(
             continue
         matched[check.id] = claim
     return matched, unmatched
+
+
+def _contradiction(claim: Claim, check: RequiredCheck) -> str:
+    """What a claim says that the check its label names is not, or nothing."""
+    said = []
+    if claim.member and claim.member != check.member:
+        said.append(f"says member {claim.member} (the check is of {check.member})")
+    if claim.kind_stated and claim.kind != check.kind:
+        said.append(f"says a {claim.kind} check (the check is {check.kind})")
+    return " and ".join(said)
 
 
 def _nearest(review: Review, label: str, member: str) -> tuple[str, ...]:
