@@ -82,3 +82,18 @@ def test_an_id_with_a_zero_width_or_bidirectional_character_is_warned(write_mode
 def test_plain_ids_give_no_warning(write_model, capsys):
     run(["review", str(write_model(base_model()))])
     assert "warning" not in capsys.readouterr().err
+
+
+def test_errors_found_after_reading_are_all_reported_once_each(write_model, capsys):
+    # two point loads within d of B1's support, neither with a bearing length: two errors, one
+    # each, in one run (found while listing the near-support checks, not while reading)
+    data = base_model()
+    data["loads"] += [
+        {"id": "p1", "member": "B1", "type": "point", "at": "200 mm", "specified": {"D": "5 kN"}},
+        {"id": "p2", "member": "B1", "type": "point", "at": "5800 mm", "specified": {"D": "5 kN"}},
+    ]
+    code = run(["review", str(write_model(data))])
+    err = capsys.readouterr().err
+    lines = [line for line in err.splitlines() if line.startswith("error: ")]
+    assert code == 2 and len(lines) == 2
+    assert any("'p1'" in line for line in lines) and any("'p2'" in line for line in lines)

@@ -14,7 +14,7 @@ from bisect import bisect_left, bisect_right
 from collections import defaultdict
 from dataclasses import dataclass
 
-from audit.core.errors import InputError
+from audit.core.errors import ErrorCollector, InputError
 from audit.engine.model import Bearing, Member, Model
 from audit.engine.take_down import AppliedForce, Forces, TakeDown
 from audit.standards.packs import ResistancePack
@@ -148,6 +148,7 @@ def _near_support_checks(model: Model, flow: TakeDown, pack: ResistancePack) -> 
     bearings_by_id = {b.id: b for b in model.bearings}
     reach = pack.near_reach.value
     out: list[RequiredCheck] = []
+    errors = ErrorCollector()  # found after reading, but reported like reader errors: all, once each
     for member_id in sorted(supports_of):
         member = model.members[member_id]
         if member.vertical or _no_check_reason(model, member, pack):
@@ -167,7 +168,11 @@ def _near_support_checks(model: Model, flow: TakeDown, pack: ResistancePack) -> 
                 continue
             lower = model.members[support.lower.member]
             support_contact = contact_on(member, lower, support)
-            opposite = tuple(_top_contact(model, member, a, bearings_by_id, loads_by_id) for a in near)
+            try:
+                opposite = tuple(_top_contact(model, member, a, bearings_by_id, loads_by_id) for a in near)
+            except InputError as exc:
+                errors.extend(exc)
+                continue
             forces: Forces = defaultdict(float)
             for item in near:
                 for case, value in item.forces.items():
@@ -191,6 +196,18 @@ def _near_support_checks(model: Model, flow: TakeDown, pack: ResistancePack) -> 
                     ),
                 )
             )
+    unique_errors(errors).raise_if_any()
+    return out
+
+
+def unique_errors(errors: ErrorCollector) -> ErrorCollector:
+    """The same cause met at several checks is one error."""
+    out = ErrorCollector()
+    seen: set[str] = set()
+    for error in errors.errors:
+        if error.one_line() not in seen:
+            seen.add(error.one_line())
+            out.errors.append(error)
     return out
 
 

@@ -14,10 +14,10 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, replace
 
-from audit.core.errors import InputError
+from audit.core.errors import ErrorCollector, InputError
 from audit.engine.model import FACTORED_PREFIX, Material, Member, Model
 from audit.engine.take_down import FORCE_RESOLUTION, Forces
-from audit.standards.checks import LOCAL, NEAR, CheckList, RequiredCheck, near_support_geometry
+from audit.standards.checks import LOCAL, NEAR, CheckList, RequiredCheck, near_support_geometry, unique_errors
 from audit.standards.packs import CombinationPack, ResistancePack
 
 STANDARD_TERM_CASES = ("L", "S")
@@ -361,8 +361,13 @@ def resist(checklist: CheckList, model: Model, pack: ResistancePack, cpack: Comb
     combos = load_combinations(model, cpack)
     area_reading, kb_reading = near_readings(model, pack)
     out = []
+    errors = ErrorCollector()
     for check in checklist.checks:
-        inputs, factors, area_reason = resistance_inputs(check, model, pack, area_reading, kb_reading)
+        try:
+            inputs, factors, area_reason = resistance_inputs(check, model, pack, area_reading, kb_reading)
+        except InputError as exc:
+            errors.extend(exc)
+            continue
         results, governing, uplift = evaluate(check, inputs, combos, pack)
         out.append(
             CheckResult(
@@ -377,4 +382,5 @@ def resist(checklist: CheckList, model: Model, pack: ResistancePack, cpack: Comb
                 passes=governing.utilisation <= PASS_LIMIT,
             )
         )
+    unique_errors(errors).raise_if_any()
     return tuple(out)
