@@ -215,19 +215,26 @@ def rules(rules_dir: list[Path] | None = RulesDir) -> None:
         typer.echo(f"resistance pack {pack.id}: {pack.title}\n  edition: {pack.edition}\n  file: {pack.path}")
         typer.echo(f"  provenance: {pack.provenance}")
         for name, value in pack.all_sourced():
-            shown = value.value
-            if hasattr(shown, "points"):
-                shown = ", ".join(f"{x:g}->{y:g}" for x, y in shown.points)
-            elif isinstance(shown, float) and shown > 1000:
-                shown = f"{shown / 1e6:g} MPa" if name.startswith("fc") else f"{shown * 1000:g} mm"
-            elif isinstance(shown, float) and name.startswith("kb.m"):
-                shown = f"{shown * 1000:g} mm"
-            typer.echo(f"  {name} = {shown}  [{value.clause}; {value.source}; {value.status}]")
+            typer.echo(f"  {name} = {_shown(name, value.value)}  [{value.clause}; {value.source}; {value.status}]")
     for cpack in combos.values():
         typer.echo(f"combinations pack {cpack.id}: {cpack.title}\n  edition: {cpack.edition}\n  file: {cpack.path}")
         typer.echo(f"  provenance: {cpack.provenance}")
         for c in cpack.combinations:
             typer.echo(f"  {c.name} ({c.duration} term)  [{c.source.clause}; {c.source.source}; {c.source.status}]")
+
+
+def _shown(name: str, value: object) -> str:
+    """A pack value in the unit its listing names: lengths in mm, strengths in MPa, 4 figures."""
+    if hasattr(value, "points"):
+        in_mm = name.startswith("kb.")  # KB is tabulated by bearing length; KZcp by a plain ratio
+        return ", ".join(f"{x * 1000:g} mm -> {y:.4g}" if in_mm else f"{x:.4g} -> {y:.4g}" for x, y in value.points)
+    if isinstance(value, float):
+        if name.startswith("fc"):
+            return f"{value / 1e6:g} MPa"
+        if name.startswith("kb.m"):
+            return f"{value * 1000:g} mm"
+        return f"{value:.4g}"
+    return str(value)
 
 
 @app.command()

@@ -54,3 +54,12 @@ def test_a_pack_value_without_provenance_is_refused(tmp_path, run_cli):
     result = run_cli("rules", "--rules-dir", tmp_path / "bad")
     assert result.exit_code == 2
     assert "provenance" in result.stderr
+
+
+def test_rules_listing_prints_lengths_in_mm_and_factors_to_four_figures(run_cli):
+    out = run_cli("rules").stdout
+    kb_line = next(line for line in out.splitlines() if "kb.table =" in line)
+    assert "12.5 mm -> 1.75" in kb_line and "150 mm -> 1" in kb_line  # the table's own mm, not metres
+    factor_line = next(line for line in out.splitlines() if "near_support.factor =" in line)
+    assert "= 0.6667" in factor_line and "0.66666" not in factor_line
+    assert "common practice" not in factor_line  # the 2/3 is part of the clause's formula
