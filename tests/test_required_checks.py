@@ -118,3 +118,23 @@ def test_continuous_beam_on_three_supports_uses_the_stiffness_method():
     f = review.flow.bearing_forces
     # equal spans 2.925 m with a uniform load: the middle support takes 1.25 w L
     assert f["B1/C3"]["D"] > f["B1/C1"]["D"]
+
+
+def _suction_model(threshold: str | None) -> dict:
+    data = base_model()
+    data["loads"][0]["specified"]["W"] = "-3 kN/m"  # roof suction on J1: 1.25D + 1.4W lifts it
+    if threshold:
+        data["project"]["uplift_note_below"] = threshold
+    return data
+
+
+def test_uplift_is_a_major_finding_by_default():
+    uplift = [f for f in review_dict(_suction_model(None)).engine_findings if f.kind == "uplift"]
+    assert uplift and {f.severity for f in uplift} == {"major"}
+
+
+def test_uplift_below_the_project_threshold_is_a_minor_note_that_states_it():
+    # by hand: at J1/B1, 1.25 x 1 kN/m - 1.4 x 3 kN/m = -2.95 kN/m over J1, about -5.7 kN: under 10 kN
+    uplift = [f for f in review_dict(_suction_model("10 kN")).engine_findings if f.kind == "uplift"]
+    assert uplift and {f.severity for f in uplift} == {"minor"}
+    assert all("10.00 kN" in f.message for f in uplift)

@@ -113,6 +113,7 @@ class Project:
     date: dt.date | None
     area_reading: str | None = None  # overrides the pack's default near-support area reading
     kb_reading: str | None = None
+    uplift_note_below: float = 0.0  # N; a smaller calculated uplift is a note (continuity), not a finding
 
 
 @dataclass(frozen=True)

@@ -52,6 +52,7 @@ PROJECT_KEYS = {
     "date",
     "near_support_area",
     "near_support_kb",
+    "uplift_note_below",
 }
 MATERIAL_KEYS = {"family", "species", "grade", "fcp", "fc", "factors", "wet_factor", "source"}
 MEMBER_KEYS = {
@@ -263,6 +264,10 @@ def _read_project(node: Node, errors: ErrorCollector) -> Project:
                 date = dt.date.fromisoformat(str(raw))
             except ValueError:
                 errors.add(f"date must be YYYY-MM-DD, got {raw!r}", f.loc("date"))
+    uplift_note = f.quantity("uplift_note_below", "force", required=False)
+    if uplift_note is not None and uplift_note < 0:
+        errors.add("uplift_note_below must not be negative", f.loc("uplift_note_below"))
+        uplift_note = None
     return Project(
         title=f.text("title"),
         calc=f.text("calc", required=False),
@@ -275,6 +280,7 @@ def _read_project(node: Node, errors: ErrorCollector) -> Project:
         date=date,
         area_reading=f.text("near_support_area", required=False) or None,
         kb_reading=f.text("near_support_kb", required=False) or None,
+        uplift_note_below=uplift_note or 0.0,
     )
 
 

@@ -55,6 +55,11 @@ MODEL_SCHEMA: dict[str, Any] = {
                     "date": {"type": "string", "format": "date"},
                     "near_support_area": {"type": "string", "description": "a reading named in the rule pack"},
                     "near_support_kb": {"type": "string", "description": "a reading named in the rule pack"},
+                    "uplift_note_below": {
+                        "type": "string",
+                        "description": "a force, e.g. '0.5 kN': a smaller calculated uplift (continuity noise at a "
+                        "nailed plate) is reported as a minor note stating this threshold, not a major finding",
+                    },
                 },
                 ["title"],
             ),

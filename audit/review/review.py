@@ -62,10 +62,13 @@ def review_built(model: Model, pack: ResistancePack, cpack: CombinationPack) -> 
     flow = take_down(model)
     checklist = list_checks(model, flow, pack)
     results = resist(checklist, model, pack, cpack)
-    return Review(model, pack, cpack, flow, checklist, results, uplift_findings(results))
+    return Review(
+        model, pack, cpack, flow, checklist, results, uplift_findings(results, model.project.uplift_note_below)
+    )
 
 
-def uplift_findings(results: tuple[CheckResult, ...]) -> tuple[Finding, ...]:
+def uplift_findings(results: tuple[CheckResult, ...], note_below: float = 0.0) -> tuple[Finding, ...]:
+    """One finding per bearing with uplift; below the project's threshold it is a minor note that says so."""
     seen: set[str] = set()
     out = []
     for r in results:
@@ -73,12 +76,19 @@ def uplift_findings(results: tuple[CheckResult, ...]) -> tuple[Finding, ...]:
             continue
         seen.add(r.check.bearing)
         worst = min((c for c in r.combinations if c.qf < 0), key=lambda c: c.qf)
+        small = -worst.qf < note_below
+        advice = (
+            f"below the project's note threshold of {note_below / 1000:.2f} kN (uplift_note_below): likely "
+            "continuity of the statics; confirm the fastening holds it."
+            if small
+            else "a bearing cannot resist uplift, confirm the tie-down."
+        )
         out.append(
             Finding(
                 "uplift",
-                KINDS["uplift"].severity,
+                "minor" if small else KINDS["uplift"].severity,
                 f"Bearing {r.check.bearing}: {worst.combination} gives an upward force of "
-                f"{-worst.qf / 1000:.2f} kN; a bearing cannot resist uplift, confirm the tie-down.",
+                f"{-worst.qf / 1000:.2f} kN; {advice}",
                 bearing=r.check.bearing,
                 member=r.check.member,
                 numbers={"qf": worst.qf},
