@@ -64,7 +64,7 @@ def review(
         typer.echo(f"error: --date: expected YYYY-MM-DD, got {date!r}", err=True)
         raise typer.Exit(2) from None
     try:
-        _check_files(
+        input_bytes = _check_files(
             {"MODEL": model, "--claims": claims, "--calc-pdf": calc_pdf, "--map": column_map},
             {"--memo": memo, "--json": json_out, "--csv": csv_out},
         )
@@ -95,9 +95,8 @@ def review(
         outputs.append(Output("--json", json_out, lambda: findings_json_chunks(result, rec, findings)))
     if csv_out:
         outputs.append(Output("--csv", csv_out, lambda: findings_csv(findings)))
-    given = [p for p in (model, claims, calc_pdf, column_map) if p is not None]
     try:
-        write_outputs(outputs, output_limit(sum(p.stat().st_size for p in given)))
+        write_outputs(outputs, output_limit(input_bytes))
     except InputError as exc:
         _fail(exc)
     for out in outputs:
@@ -107,14 +106,16 @@ def review(
     raise typer.Exit(1 if serious or failing else 0)
 
 
-def _check_files(inputs: dict[str, Path | None], outputs: dict[str, Path | None]) -> None:
-    """Inputs must be readable regular files; outputs may destroy nothing. Before any reading."""
+def _check_files(inputs: dict[str, Path | None], outputs: dict[str, Path | None]) -> int:
+    """Inputs must be readable regular files; outputs may destroy nothing. Before any reading.
+
+    Returns the inputs' total size, which bounds the outputs."""
     from audit.core.outfiles import check_outputs, require_input_file
 
     given_inputs = [(option, path) for option, path in inputs.items() if path is not None]
-    for option, path in given_inputs:
-        require_input_file(path, option)
+    total = sum(require_input_file(path, option).st_size for option, path in given_inputs)
     check_outputs([(o, p) for o, p in outputs.items() if p is not None], given_inputs)
+    return total
 
 
 def _extract(pdf: Path, pages: str | None, column_map: Path | None):

@@ -67,5 +67,7 @@ class ErrorCollector:
             self.errors.append(error)
 
     def raise_if_any(self) -> None:
+        """Raise every error collected, once each: the same cause met at several places is one line."""
         if self.errors:
-            raise InputErrors(self.errors)
+            unique = list({e.one_line(): e for e in self.errors}.values())
+            raise InputErrors(unique)

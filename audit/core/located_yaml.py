@@ -17,6 +17,7 @@ from typing import Any
 import yaml
 
 from audit.core.errors import InputError, Location
+from audit.core.outfiles import require_input_file
 
 MAX_NODES = 2_000_000
 # A model is a handful of levels deep; our own limit fires long before the parser's, so the
@@ -66,8 +67,6 @@ def join_key(path: str, key: str | int) -> str:
 
 def read_yaml_file(path: Path | str) -> Node:
     """Read a YAML file into located nodes; raise InputError for any unreadable file."""
-    from audit.core.outfiles import require_input_file
-
     path = Path(path)
     name = str(path)
     size = require_input_file(path).st_size

@@ -99,17 +99,13 @@ class Reconciliation:
 # ---------------------------------------------------------------- matching
 
 
-def normalise(label: str) -> str:
-    return normalise_label(label)
-
-
 def label_index(review: Review) -> dict[str, str]:
     """Normalised calc label -> bearing id (bearing ids and their aliases)."""
     index: dict[str, str] = {}
     for b in review.model.bearings:
-        index.setdefault(normalise(b.id), b.id)
+        index.setdefault(normalise_label(b.id), b.id)
         for alias in b.aliases:
-            index.setdefault(normalise(alias), b.id)
+            index.setdefault(normalise_label(alias), b.id)
     return index
 
 
@@ -125,7 +121,7 @@ def match_claims(
     matched: dict[str, Claim] = {}
     unmatched: list[tuple[Claim, str, tuple[str, ...]]] = []
     for claim in claims:
-        key = normalise(claim.label)
+        key = normalise_label(claim.label)
         if claim.label in check_ids:
             named = review.result(claim.label).check
             contradiction = _contradiction(claim, named)
@@ -177,8 +173,8 @@ def _nearest(review: Review, label: str, member: str) -> tuple[str, ...]:
     names: dict[str, str] = {}
     for b in review.model.bearings:
         for name in (b.id, *b.aliases):
-            names.setdefault(normalise(name), b.id)
-    close = difflib.get_close_matches(normalise(label), list(names), n=5, cutoff=0.4)
+            names.setdefault(normalise_label(name), b.id)
+    close = difflib.get_close_matches(normalise_label(label), list(names), n=5, cutoff=0.4)
     bearings = list(dict.fromkeys(names[c] for c in close))[:3]
     out = [r.check.id for r in review.results if r.check.bearing in bearings]
     out += [r.check.id for r in review.results if member and r.check.member == member and r.check.id not in out]

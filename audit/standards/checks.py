@@ -196,18 +196,7 @@ def _near_support_checks(model: Model, flow: TakeDown, pack: ResistancePack) -> 
                     ),
                 )
             )
-    unique_errors(errors).raise_if_any()
-    return out
-
-
-def unique_errors(errors: ErrorCollector) -> ErrorCollector:
-    """The same cause met at several checks is one error."""
-    out = ErrorCollector()
-    seen: set[str] = set()
-    for error in errors.errors:
-        if error.one_line() not in seen:
-            seen.add(error.one_line())
-            out.errors.append(error)
+    errors.raise_if_any()
     return out
 
 

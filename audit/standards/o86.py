@@ -17,7 +17,7 @@ from dataclasses import dataclass, replace
 from audit.core.errors import ErrorCollector, InputError
 from audit.engine.model import FACTORED_PREFIX, Material, Member, Model
 from audit.engine.take_down import FORCE_RESOLUTION, Forces
-from audit.standards.checks import LOCAL, NEAR, CheckList, RequiredCheck, near_support_geometry, unique_errors
+from audit.standards.checks import LOCAL, NEAR, CheckList, RequiredCheck, near_support_geometry
 from audit.standards.packs import CombinationPack, ResistancePack
 
 STANDARD_TERM_CASES = ("L", "S")
@@ -382,5 +382,5 @@ def resist(checklist: CheckList, model: Model, pack: ResistancePack, cpack: Comb
                 passes=governing.utilisation <= PASS_LIMIT,
             )
         )
-    unique_errors(errors).raise_if_any()
+    errors.raise_if_any()
     return tuple(out)
