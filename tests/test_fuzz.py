@@ -73,6 +73,11 @@ JUNK = st.one_of(
 )
 
 
+def _as_written(value) -> str:
+    """An id as the YAML file spells it (ids are read as written: false, 1.0e+20), not Python's str()."""
+    return value if isinstance(value, str) else yaml.safe_dump(value).split("\n")[0]
+
+
 def _paths(data) -> list[tuple]:
     out = []
 
@@ -154,7 +159,7 @@ def _run(model_text: bytes, claims: list | dict | str) -> None:
         check_ids = [c["id"] for c in data["checks"]]
         assert sorted(o["check"] for o in data["check_outcomes"]) == sorted(check_ids)
         items = yaml.safe_load(claims_path.read_text())["claims"] or []
-        claim_ids = [str(c["id"]) if "id" in c else f"claim{n + 1}" for n, c in enumerate(items)]
+        claim_ids = [_as_written(c["id"]) if "id" in c else f"claim{n + 1}" for n, c in enumerate(items)]
         assert sorted(o["claim"] for o in data["claim_outcomes"]) == sorted(claim_ids)
         html = memo.read_text()
         assert all(f"<td>{cid}</td>" in html for cid in check_ids if "<" not in cid and "&" not in cid)
