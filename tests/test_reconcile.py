@@ -80,11 +80,11 @@ def test_failing_check_the_calc_already_calls_inadequate_is_major():
 
 
 def test_remedy_length_makes_the_check_pass_and_a_shorter_one_does_not():
-    def model(length_mm=None):
+    def model(length_mm=38):
         data = base_model()
+        data["members"][3]["b"] = "89 mm"  # wide enough for the longer contacts tried along B1
         data["loads"][0]["specified"] = {"D": "4 kN/m", "L": "12 kN/m"}
-        if length_mm is not None:
-            data["bearings"][2]["lower"]["length"] = f"{length_mm} mm"
+        data["bearings"][2]["lower"]["length"] = f"{length_mm} mm"
         return data
 
     out, _ = outcome(model(), [], "J1/B1:B1")

@@ -5,6 +5,7 @@ from __future__ import annotations
 import pytest
 
 from tests.verification.cases import all_cases, kb_cases, statics_cases, unit_cases
+from tests.verification.details import detail_cases
 from tests.verification.write_report import REPORT, render
 
 
@@ -23,6 +24,12 @@ def test_support_reactions_agree_with_anastruct(case):
 @pytest.mark.parametrize("case", unit_cases(), ids=lambda c: c.name)
 def test_unit_conversions_agree_with_pint(case):
     # Source: pint's default registry; the inch is exactly 25.4 mm by definition
+    assert abs(case.reference - case.computed) <= case.tolerance
+
+
+@pytest.mark.parametrize("case", detail_cases(), ids=lambda c: c.name)
+def test_framing_details_agree_with_their_hand_derivations(case):
+    # Source: the hand derivation written out beside each case in tests/verification/details.py
     assert abs(case.reference - case.computed) <= case.tolerance
 
 

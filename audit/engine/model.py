@@ -59,6 +59,7 @@ class Side:
     at: float | None  # bearing centre along a horizontal member (m)
     length: float | None  # bearing length along this member's grain, when stated (m)
     angle: float | None  # angle between load and grain (rad); None means perpendicular
+    width: float | None = None  # seat width across this member's grain, when a seat states it (m)
     loc: Location = field(default=Location(""), compare=False)
 
 

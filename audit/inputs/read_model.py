@@ -69,7 +69,7 @@ MEMBER_KEYS = {
     "label",
 }
 BEARING_KEYS = {"id", "upper", "lower", "width", "aliases"}
-SIDE_KEYS = {"member", "at", "length", "angle"}
+SIDE_KEYS = {"member", "at", "length", "width", "angle"}
 LOAD_KEYS = {
     "id",
     "member",
@@ -484,13 +484,20 @@ def _read_side(node: Node, role: str, known: KnownMembers, errors: ErrorCollecto
             f.loc("length"),
         )
         return None
+    width = f.quantity("width", "length", required=False, positive=True)
+    if width is not None and width > member.b + 1e-9:
+        errors.add(
+            f"seat width {width * 1000:.0f} mm is wider than member '{member_id}' (b = {member.b * 1000:.0f} mm)",
+            f.loc("width"),
+        )
+        return None
     angle = f.quantity("angle", "angle", required=False)
     if angle is not None and not 0.0 < angle <= math.pi / 2 + 1e-12:
         errors.add("angle between load and grain must be more than 0 and at most 90 deg", f.loc("angle"))
         return None
     if not f.ok:
         return None
-    return Side(member_id, at, length, angle, node.loc)
+    return Side(member_id, at, length, angle, width, node.loc)
 
 
 def _read_bearings(node: Node, known: KnownMembers, errors: ErrorCollector) -> tuple[Bearing, ...]:
@@ -521,6 +528,8 @@ def _read_bearings(node: Node, known: KnownMembers, errors: ErrorCollector) -> t
         if upper.member == lower.member:
             errors.add(f"member '{upper.member}' cannot bear on itself", item.loc)
             continue
+        if not _crossing_fits(upper, lower, f, known, errors):
+            continue
         bearing_id = f.text("id", required=False, limit=120) or f"{upper.member}/{lower.member}"
         if bearing_id in seen:
             hint = "" if f.has("id") else " (two bearings join the same members: give each an 'id')"
@@ -540,6 +549,25 @@ def _read_bearings(node: Node, known: KnownMembers, errors: ErrorCollector) -> t
             if owner is not None and owner != b.id:
                 errors.add(f"alias '{alias}' of bearing '{b.id}' is the id of bearing '{owner}'", b.loc)
     return tuple(out)
+
+
+def _crossing_fits(upper: Side, lower: Side, f: FieldReader, known: KnownMembers, errors: ErrorCollector) -> bool:
+    """Where two horizontal members cross, the contact along one cannot be longer than the other is wide."""
+    members = known.members
+    if members[upper.member].vertical or members[lower.member].vertical:
+        return True  # a post may stand on (or carry) a plate longer than itself
+    ok = True
+    for side, other, role in ((upper, lower, "upper"), (lower, upper, "lower")):
+        width = members[other.member].b
+        if side.length is not None and side.length > width + 1e-9:
+            errors.add(
+                f"bearing length {side.length * 1000:.0f} mm along '{side.member}' is more than the "
+                f"{width * 1000:.0f} mm width of '{other.member}' crossing it; a longer contact needs a plate "
+                "or seat, modelled as its own member",
+                f.map[role].value["length"].loc,
+            )
+            ok = False
+    return ok
 
 
 def _read_aliases(node: Node, errors: ErrorCollector) -> tuple[str, ...]:

@@ -81,9 +81,10 @@ def assumptions(review: Review) -> list[str]:
         "member depth d of the support centre; uniformly distributed loads are not counted as such loads.",
         "Continuously supported members (plates on walls, sills on footings) get local checks under every "
         "bearing; a support under them is not modelled as a bearing.",
-        "Where the model gives no bearing length, the length along a member is the other member's width "
-        "(square crossing) or a post's depth; the contact width is the member's own width where two horizontal "
-        "members cross, and the lesser of the two widths where a post is involved.",
+        "Contact area on each member: along its grain, the bearing length on it (where the model gives none, "
+        "the other member's width for a square crossing, or a post's depth); across its grain, the least of its "
+        "own width b, the other member's extent across it (a post's width, or a crossing member's seat along its "
+        "own grain) and any stated plate or seat width. A stated plate or seat limits the contact, never widens it.",
         "KD per combination: permanent 0.65, short term 1.15, standard term 1.00 or the long-term formula where "
         "the specified dead load at the check exceeds its L + S load. The governing combination is the one with "
         "the highest Qf/Qr.",

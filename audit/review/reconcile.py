@@ -353,6 +353,9 @@ def remedy_text(result: CheckResult, review: Review) -> str:
     length, kb = found
     member = review.model.members[check.member]
     text = f"Passes with a {face} length of at least {length * 1000:.0f} mm at {width:.0f} mm width (KB = {kb:.2f})"
+    other = review.model.members[check.other_member]
+    if check.kind == LOCAL and not other.vertical and length > other.b + 1e-9:
+        text += f" (longer than {other.id} is wide: a bearing plate, seat or blocking)"
     if check.contact.width < member.b - 1e-9:
         text += f", or with a bearing plate the full {member.b * 1000:.0f} mm width of {member.id}"
     return text + "."

@@ -66,22 +66,53 @@ class CheckList:
     exempt: tuple[Exempt, ...]
 
 
+def _least(options: list[tuple[float | None, str]]) -> tuple[float, str]:
+    """The smallest stated extent and where it came from (the note names the others it beat)."""
+    given = [(value, why) for value, why in options if value is not None]
+    value, why = min(given, key=lambda o: o[0])
+    beaten = [f"{w}, {v * 1000:.0f} mm" for v, w in given if w != why and v > value + 1e-9]
+    return value, why + (f" (less than {'; '.join(beaten)})" if beaten else "")
+
+
 def contact_on(member: Member, other: Member, bearing: Bearing) -> Contact:
-    """The contact geometry on ``member`` at ``bearing`` (square-crossing defaults)."""
-    side = bearing.side_of(member.id)
+    """The true contact on ``member`` at ``bearing``: along its grain, and across it.
+
+    Across the grain the contact is never wider than the member itself, nor than what bears
+    on it: a post's width (or a stated plate), a crossing member's extent along its own grain
+    (its stated seat), a seat stated on either side. A stated plate or seat limits, never widens.
+    """
+    side, far = bearing.side_of(member.id), bearing.side_of(other.id)
     if side.length is not None:
         length, length_note = side.length, "stated in the model"
     elif other.vertical:
         length, length_note = other.d, f"depth d of post {other.id}"
     else:
         length, length_note = other.b, f"width of {other.id} (square crossing)"
-    if bearing.width is not None:
-        width, width_note = bearing.width, "stated contact width (plate or seat)"
-    elif not other.vertical:
-        width, width_note = member.b, f"full width of {member.id} (square crossing)"
+    if not other.vertical and not member.vertical:  # a crossing: the patch is limited both ways
+        length, length_note = _least(
+            [
+                (length, length_note),
+                (other.b, f"b of {other.id}"),
+                (far.width, f"seat width stated on {other.id}"),
+                (bearing.width, "stated plate or seat width"),
+            ]
+        )
+        across = far.length if far.length is not None else member.b
+        across_note = f"seat length stated on {other.id}"
+        if far.length is None:
+            across_note = f"full width of {member.id} (square crossing)"
+    elif bearing.width is not None:
+        across, across_note = bearing.width, "stated plate or seat width"
     else:
-        width = min(member.b, other.b)
-        width_note = "lesser of the two members' widths"
+        across, across_note = other.b, f"b of post {other.id}"
+    width, width_note = _least(
+        [
+            (across, across_note),
+            (member.b, f"b of {member.id}"),
+            (side.width, f"seat width stated on {member.id}"),
+            (bearing.width, "stated plate or seat width"),
+        ]
+    )
     centre = side.at if side.at is not None else 0.0
     start, end = centre - 0.5 * length, centre + 0.5 * length
     if start < 0.0 or end > member.length:

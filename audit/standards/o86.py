@@ -229,7 +229,7 @@ def resistance_inputs(
         area = c.length * c.width
         area_reason = (
             f"Ab = {c.width * 1000:.0f} x {c.length * 1000:.0f} = {area * 1e6:,.0f} mm²: "
-            f"width {c.width_note}; length {c.length_note}"
+            f"width: {c.width_note}; length: {c.length_note}"
         )
         coefficient = Factor("coefficient", 1.0, "local bearing")
     else:

@@ -259,4 +259,6 @@ def unit_cases() -> list[Case]:
 
 
 def all_cases() -> list[Case]:
-    return kb_cases() + statics_cases() + unit_cases()
+    from tests.verification.details import detail_cases  # it builds on Case: imported here, not at the top
+
+    return kb_cases() + statics_cases() + unit_cases() + detail_cases()

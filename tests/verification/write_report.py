@@ -41,8 +41,9 @@ def render() -> str:
                 "| check | source | reference | computed | tolerance | result |",
                 "|---|---|---|---|---|---|",
             ]
+        named = f"{case.name}: {case.note}" if case.note else case.name
         lines.append(
-            f"| {case.name} | {case.source} | {steady(case.reference)} | {steady(case.computed)} | "
+            f"| {named} | {case.source} | {steady(case.reference)} | {steady(case.computed)} | "
             f"{case.tolerance_text} | {'agrees' if case.ok else 'DIFFERS'} |"
         )
     lines += [
