@@ -217,6 +217,10 @@ def rules(rules_dir: list[Path] | None = RulesDir) -> None:
         typer.echo(f"  provenance: {pack.provenance}")
         for name, value in pack.all_sourced():
             typer.echo(f"  {name} = {_shown(name, value.value)}  [{value.clause}; {value.source}; {value.status}]")
+            if name in pack.choices:
+                for reading, text in pack.choices[name].readings.items():
+                    mark = "default" if reading == value.value else "choose with project.readings"
+                    typer.echo(f"      {reading} ({mark}): {text}")
     for cpack in combos.values():
         typer.echo(f"combinations pack {cpack.id}: {cpack.title}\n  edition: {cpack.edition}\n  file: {cpack.path}")
         typer.echo(f"  provenance: {cpack.provenance}")

@@ -112,8 +112,7 @@ class Project:
     tolerance_relative: float
     tolerance_absolute: float  # N
     date: dt.date | None
-    area_reading: str | None = None  # overrides the pack's default near-support area reading
-    kb_reading: str | None = None
+    readings: dict[str, str] = field(default_factory=dict)  # choice name -> reading chosen over the pack's default
     uplift_note_below: float = 0.0  # N; a smaller calculated uplift is a note (continuity), not a finding
 
 

@@ -53,7 +53,10 @@ PROJECT_KEYS = {
     "near_support_area",
     "near_support_kb",
     "uplift_note_below",
+    "readings",
 }
+# The older project keys for two readings, kept: each names a choice of the rule pack.
+READING_KEYS = {"near_support_area": "near_support.area_limit", "near_support_kb": "near_support.kb_reading"}
 MATERIAL_KEYS = {"family", "species", "grade", "fcp", "fc", "factors", "wet_factor", "source"}
 MEMBER_KEYS = {
     "id",
@@ -211,18 +214,7 @@ def build_model(
     errors.raise_if_any()
     pack_id = rule_pack or project.rule_pack
     resistance, combos = select_packs(pack_id, project.combinations, rules_dirs, top.map["project"].loc)
-    if project.area_reading and project.area_reading not in resistance.near_area_readings:
-        errors.add(
-            f"reading '{project.area_reading}' is not in rule pack {resistance.id} "
-            f"(readings: {', '.join(resistance.near_area_readings)})",
-            top.map["project"].child_loc("near_support_area"),
-        )
-    if project.kb_reading and project.kb_reading not in resistance.near_kb_readings:
-        errors.add(
-            f"reading '{project.kb_reading}' is not in rule pack {resistance.id} "
-            f"(readings: {', '.join(resistance.near_kb_readings)})",
-            top.map["project"].child_loc("near_support_kb"),
-        )
+    _check_readings(project, resistance, top.map["project"], errors)
 
     materials = _read_materials(top.map["materials"], resistance, errors)
     members, broken = _read_members(top.map["members"], materials, project, errors)
@@ -278,10 +270,49 @@ def _read_project(node: Node, errors: ErrorCollector) -> Project:
         tolerance_relative=tol_rel,
         tolerance_absolute=tol_abs,
         date=date,
-        area_reading=f.text("near_support_area", required=False) or None,
-        kb_reading=f.text("near_support_kb", required=False) or None,
+        readings=_read_reading_choices(f, errors),
         uplift_note_below=uplift_note or 0.0,
     )
+
+
+def _read_reading_choices(f: FieldReader, errors: ErrorCollector) -> dict[str, str]:
+    out = {name: f.text(key, required=False) for key, name in READING_KEYS.items() if f.has(key)}
+    if f.has("readings"):
+        node = f.map["readings"]
+        if not isinstance(node.value, dict):
+            errors.add(
+                "readings must map a choice of the rule pack to a reading, e.g. {kzcp.built_up: combined}", node.loc
+            )
+            return out
+        for name, item in node.value.items():
+            if isinstance(item.value, (dict, list)) or item.value is None:
+                errors.add(f"expected a reading id, got {describe_value(item.value)}", item.loc)
+                continue
+            out[name] = node_text(item)
+    return out
+
+
+def _check_readings(project: Project, pack: ResistancePack, node: Node, errors: ErrorCollector) -> None:
+    """Every reading the project chooses names a choice of the pack and one of its readings."""
+    keys = {name: key for key, name in READING_KEYS.items()}
+    for name, reading in project.readings.items():
+        where = node.value[keys[name]].loc if name in keys and keys[name] in node.value else None
+        if where is None:
+            readings_node = node.value["readings"]
+            where = readings_node.value[name].loc
+        choice = pack.choices.get(name)
+        if choice is None:
+            errors.add(
+                f"rule pack {pack.id} has no choice '{name}'{did_you_mean(name, pack.choices)} "
+                f"(choices: {', '.join(pack.choices)})",
+                where,
+            )
+        elif reading not in choice.readings:
+            errors.add(
+                f"reading '{reading}' is not in rule pack {pack.id} for {name} "
+                f"(readings: {', '.join(choice.readings)})",
+                where,
+            )
 
 
 def _read_materials(node: Node, pack: ResistancePack, errors: ErrorCollector) -> dict[str, Material]:

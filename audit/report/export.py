@@ -89,7 +89,7 @@ def review_record(review: Review) -> dict[str, Any]:
         },
         "rule_pack": {"id": review.pack.id, "edition": review.pack.edition, "provenance": review.pack.provenance},
         "combinations_pack": {"id": review.cpack.id, "edition": review.cpack.edition},
-        "readings": {"near_support_area": review.area_reading, "near_support_kb": review.kb_reading},
+        "readings": dict(review.readings),
         "checks": (check_record(r) for r in review.results),
         "not_checked": [
             {"bearing": e.bearing, "member": e.member, "reason": e.reason} for e in review.checklist.exempt

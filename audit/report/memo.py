@@ -75,10 +75,12 @@ def assumptions(review: Review) -> list[str]:
         "Members on two supports are solved by statics; members on three or more supports by the stiffness "
         "method for a continuous beam of constant EI on unyielding supports.",
         "Spans run between bearing centres; loads beyond an end support act on an overhang.",
-        f"Near-support area: {pack.near_area_readings[review.area_reading]}.",
-        f"KB in Qr': {pack.near_kb_readings[review.kb_reading]}.",
-        "Near-support checks take the point loads and bearings on the top face whose centres lie within the "
-        "member depth d of the support centre; uniformly distributed loads are not counted as such loads.",
+        *(
+            f"{choice.title}: {choice.text(review.readings[name])} [reading {review.readings[name]}]."
+            for name, choice in pack.choices.items()
+        ),
+        "Near-support checks are made where point loads or bearings on the top face have their centres within "
+        "the member depth d of the support centre.",
         "Continuously supported members (plates on walls, sills on footings) get local checks under every "
         "bearing; a support under them is not modelled as a bearing.",
         "Contact area on each member: along its grain, the bearing length on it (where the model gives none, "

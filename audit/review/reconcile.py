@@ -18,8 +18,8 @@ from audit.engine.model import normalise_label
 from audit.inputs.read_claims import Claim
 from audit.review.findings import KINDS, Finding, severity_rank
 from audit.review.review import Review
-from audit.standards.checks import LOCAL, NEAR, RequiredCheck
-from audit.standards.o86 import CheckResult, evaluate, resistance, resistance_inputs
+from audit.standards.checks import LOCAL, NEAR, RequiredCheck, top_bearing
+from audit.standards.o86 import CheckResult, evaluate, factored_force, resistance, resistance_inputs
 
 FACTOR_REL_TOL = 0.01
 
@@ -235,11 +235,40 @@ def qf_slips(result: CheckResult, review: Review) -> list[Slip]:
                 partner.governing.qf,
             )
         )
+        if partner.check.spread_forces:
+            out.append(
+                Slip(
+                    "nearby-load-only-local",
+                    "the local support check was loaded with only the point loads within d instead of the whole "
+                    "reaction",
+                    _without_spread(partner, review),
+                )
+            )
+    if check.kind == NEAR and check.spread_forces:
+        out.append(
+            Slip(
+                "distributed-load-left-out",
+                "the part of the distributed load within d was left out of Qf' ("
+                + ", ".join(f"{within * 1000:.0f} mm of {load}" for load, within in check.spread)
+                + ")",
+                _without_spread(result, review),
+            )
+        )
     combo = next((c for c in review.combinations if c.name == g.combination), None)
     if combo is not None:
         unfactored = math.fsum(check.forces.get(case, 0.0) for case in combo.factors)
         out.append(Slip("unfactored-loads", "specified (unfactored) loads were used as Qf", unfactored))
     return out
+
+
+def _without_spread(result: CheckResult, review: Review) -> float:
+    """Qf' of a near-support check in its governing combination without the distributed loads within d."""
+    check = result.check
+    combo = next((c for c in review.combinations if c.name == result.governing.combination), None)
+    if combo is None:  # no load reaches the check
+        return 0.0
+    points = {case: value - check.spread_forces.get(case, 0.0) for case, value in check.forces.items()}
+    return factored_force(points, combo)
 
 
 def _partner(review: Review, check: RequiredCheck, kind: str) -> CheckResult | None:
@@ -262,7 +291,7 @@ def qr_slips(result: CheckResult, review: Review) -> list[Slip]:
         length = (
             check.contact.length
             if check.kind == LOCAL
-            else min(check.contact.length, math.fsum(c.length for c in check.opposite))
+            else min(check.contact.length, top_bearing(check, review.readings["near_support.opposite_bearings"])[0])
         )
         kb_table = pack.kb_table.value.at(length)
         if kb_table > 1.0:
@@ -320,7 +349,7 @@ def smallest_passing_length(result: CheckResult, review: Review) -> tuple[float,
         grown = length - contact.length
         end_distance = contact.end_distance if contact.end_distance < 1e-9 else max(contact.end_distance - grown / 2, 0)
         trial = replace(check, contact=replace(contact, length=length, end_distance=end_distance))
-        inputs, _, _ = resistance_inputs(trial, review.model, review.pack, review.area_reading, review.kb_reading)
+        inputs, _, _ = resistance_inputs(trial, review.model, review.pack, review.readings)
         _, gov, _ = evaluate(trial, inputs, combos, review.pack)
         return gov.utilisation <= 1.0, inputs.kb
 

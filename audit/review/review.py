@@ -11,7 +11,7 @@ from audit.engine.take_down import TakeDown, take_down
 from audit.inputs.read_model import read_model
 from audit.review.findings import KINDS, Finding
 from audit.standards.checks import CheckList, list_checks
-from audit.standards.o86 import CheckResult, LoadCombination, load_combinations, near_readings, resist
+from audit.standards.o86 import CheckResult, LoadCombination, load_combinations, resist
 from audit.standards.packs import CombinationPack, ResistancePack
 
 
@@ -44,13 +44,10 @@ class Review:
         """The check of ``member`` of that kind at ``bearing``, if the design requires one."""
         return self._by_place.get((bearing, member, kind))
 
-    @property
-    def area_reading(self) -> str:
-        return near_readings(self.model, self.pack)[0]
-
-    @property
-    def kb_reading(self) -> str:
-        return near_readings(self.model, self.pack)[1]
+    @cached_property
+    def readings(self) -> dict[str, str]:
+        """The reading in force at each of the pack's choices."""
+        return self.pack.in_force(self.model.project.readings)
 
 
 def review_model(model_path: Path | str, rules_dirs: tuple[Path, ...] = (), rule_pack: str | None = None) -> Review:
@@ -60,7 +57,7 @@ def review_model(model_path: Path | str, rules_dirs: tuple[Path, ...] = (), rule
 
 def review_built(model: Model, pack: ResistancePack, cpack: CombinationPack) -> Review:
     flow = take_down(model)
-    checklist = list_checks(model, flow, pack)
+    checklist = list_checks(model, flow, pack, pack.in_force(model.project.readings))
     results = resist(checklist, model, pack, cpack)
     return Review(
         model, pack, cpack, flow, checklist, results, uplift_findings(results, model.project.uplift_note_below)

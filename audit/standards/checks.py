@@ -12,7 +12,7 @@ from __future__ import annotations
 import math
 from bisect import bisect_left, bisect_right
 from collections import defaultdict
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 from audit.core.errors import ErrorCollector, InputError
 from audit.engine.model import Bearing, Member, Model
@@ -34,6 +34,7 @@ class Contact:
     centre: float | None  # m along the member
     length_note: str
     width_note: str
+    start: float = 0.0  # m along the member, where the contact begins
 
 
 @dataclass(frozen=True)
@@ -49,6 +50,8 @@ class RequiredCheck:
     angle: float | None  # rad between load and grain, None for perpendicular
     other_member: str
     why: str  # why the check is required
+    spread: tuple[tuple[str, float], ...] = ()  # near-support: distributed loads counted, (load id, m within d)
+    spread_forces: Forces = field(default_factory=dict)  # the part of ``forces`` that is their share
 
 
 @dataclass(frozen=True)
@@ -120,10 +123,10 @@ def contact_on(member: Member, other: Member, bearing: Bearing) -> Contact:
         length = end - start
         length_note += ", cut at the member end"
     end_distance = min(start, member.length - end)
-    return Contact(bearing.id, length, width, end_distance, side.at, length_note, width_note)
+    return Contact(bearing.id, length, width, end_distance, side.at, length_note, width_note, start)
 
 
-def list_checks(model: Model, flow: TakeDown, pack: ResistancePack) -> CheckList:
+def list_checks(model: Model, flow: TakeDown, pack: ResistancePack, readings: dict[str, str]) -> CheckList:
     checks: list[RequiredCheck] = []
     exempt: list[Exempt] = []
     for bearing in model.bearings:
@@ -150,7 +153,8 @@ def list_checks(model: Model, flow: TakeDown, pack: ResistancePack) -> CheckList
                     why=_local_why(member, other, face),
                 )
             )
-    checks.extend(_near_support_checks(model, flow, pack))
+    count_spread = readings["near_support.distributed_loads"] == "within_d"
+    checks.extend(_near_support_checks(model, flow, pack, count_spread))
     return CheckList(tuple(checks), tuple(exempt))
 
 
@@ -171,7 +175,7 @@ def _local_why(member: Member, other: Member, face: str) -> str:
     )
 
 
-def _near_support_checks(model: Model, flow: TakeDown, pack: ResistancePack) -> list[RequiredCheck]:
+def _near_support_checks(model: Model, flow: TakeDown, pack: ResistancePack, count_spread: bool) -> list[RequiredCheck]:
     supports_of: dict[str, list[Bearing]] = defaultdict(list)
     for bearing in model.bearings:
         supports_of[bearing.upper.member].append(bearing)
@@ -190,6 +194,7 @@ def _near_support_checks(model: Model, flow: TakeDown, pack: ResistancePack) -> 
         )
         if not top:
             continue
+        spread_loads = [a for a in flow.on_top.get(member_id, ()) if a.kind == "uniform"] if count_spread else []
         positions = [a.at for a in top]
         limit = reach * member.d
         for support in supports_of[member_id]:
@@ -208,7 +213,15 @@ def _near_support_checks(model: Model, flow: TakeDown, pack: ResistancePack) -> 
             for item in near:
                 for case, value in item.forces.items():
                     forces[case] += value
+            spread = _spread_within(spread_loads, x - limit, x + limit, member.length)
+            spread_forces: Forces = defaultdict(float)
+            for item, within in spread:
+                for case, value in item.forces.items():
+                    forces[case] += value * within
+                    spread_forces[case] += value * within
             names = ", ".join(a.source for a in near)
+            if spread:
+                names += " and " + ", ".join(f"{within * 1000:.0f} mm of {item.source}" for item, within in spread)
             out.append(
                 RequiredCheck(
                     id=f"{support.id}:{member_id}:near",
@@ -225,6 +238,8 @@ def _near_support_checks(model: Model, flow: TakeDown, pack: ResistancePack) -> 
                         f"{names} on the top of {member_id} within d = {member.d * 1000:.0f} mm of the "
                         f"support on {lower.id}: the load squeezes through the depth"
                     ),
+                    spread=tuple((item.source, within) for item, within in spread),
+                    spread_forces=dict(spread_forces),
                 )
             )
     errors.raise_if_any()
@@ -242,23 +257,56 @@ def _top_contact(model: Model, member: Member, item: AppliedForce, bearings_by_i
             "so the near-support check can be made",
             load.loc,
         )
-    width = load.width if load.width is not None else member.b
     start = max(load.at - 0.5 * load.length, 0.0)
     end = min(load.at + 0.5 * load.length, member.length)
+    width, width_note = _least([(load.width, "stated in the model"), (member.b, f"b of {member.id}")])
     return Contact(
-        load.id,
-        end - start,
-        width,
-        min(start, member.length - end),
-        load.at,
-        "stated in the model",
-        "stated in the model" if load.width is not None else f"full width of {member.id}",
+        load.id, end - start, width, min(start, member.length - end), load.at, "stated in the model", width_note, start
     )
 
 
-def near_support_geometry(check: RequiredCheck) -> tuple[float, float, float]:
+def _spread_within(
+    loads: list[AppliedForce], lo: float, hi: float, member_length: float
+) -> list[tuple[AppliedForce, float]]:
+    """The distributed loads that reach into [lo, hi] (cut at the member ends), with the length inside."""
+    lo, hi = max(lo, 0.0), min(hi, member_length)
+    out = []
+    for item in loads:
+        if item.start is None or item.end is None:
+            continue
+        within = min(hi, item.end) - max(lo, item.start)
+        if within > 1e-9:
+            out.append((item, within))
+    return out
+
+
+def separate_bearings(contacts: tuple[Contact, ...]) -> list[tuple[float, float]]:
+    """The contacts as (length, end distance) of separate bearings: those that touch or overlap count as one."""
+    spans = sorted((c.start, c.start + c.length, c.end_distance) for c in contacts)
+    merged: list[list[float]] = []
+    for start, end, end_distance in spans:
+        if merged and start <= merged[-1][1] + 1e-9:
+            merged[-1][1] = max(merged[-1][1], end)
+            merged[-1][2] = min(merged[-1][2], end_distance)
+        else:
+            merged.append([start, end, end_distance])
+    return [(end - start, end_distance) for start, end, end_distance in merged]
+
+
+def top_bearing(check: RequiredCheck, reading: str) -> tuple[float, float]:
+    """(L2 candidate, its end distance) on the loaded face of a near-support check, under the pack's reading.
+
+    ``longest_single``: the longest of the separate bearings within d (touching ones merged);
+    ``summed``: every length added, the nearest end distance.
+    """
+    if reading == "summed":
+        return math.fsum(c.length for c in check.opposite), min(c.end_distance for c in check.opposite)
+    return max(separate_bearings(check.opposite), key=lambda b: b[0])
+
+
+def near_support_geometry(check: RequiredCheck, reading: str) -> tuple[float, float, float]:
     """(L1, L2, b) for a near-support check: the shorter and longer face lengths, least width."""
     support_length = check.contact.length
-    top_length = math.fsum(c.length for c in check.opposite)
+    top_length = top_bearing(check, reading)[0]
     width = min([check.contact.width, *(c.width for c in check.opposite)])
     return min(support_length, top_length), max(support_length, top_length), width

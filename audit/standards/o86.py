@@ -17,7 +17,7 @@ from dataclasses import dataclass, replace
 from audit.core.errors import ErrorCollector, InputError
 from audit.engine.model import FACTORED_PREFIX, Material, Member, Model
 from audit.engine.take_down import FORCE_RESOLUTION, Forces
-from audit.standards.checks import LOCAL, NEAR, CheckList, RequiredCheck, near_support_geometry
+from audit.standards.checks import LOCAL, NEAR, CheckList, RequiredCheck, near_support_geometry, top_bearing
 from audit.standards.packs import CombinationPack, ResistancePack
 
 STANDARD_TERM_CASES = ("L", "S")
@@ -203,9 +203,9 @@ def resistance_inputs(
     check: RequiredCheck,
     model: Model,
     pack: ResistancePack,
-    area_reading: str,
-    kb_reading: str,
+    readings: dict[str, str],
 ) -> tuple[ResistanceInputs, tuple[Factor, ...], str]:
+    """Every input of Qr but KD, each with its reason; ``readings`` are the pack's choices in force."""
     member = model.members[check.member]
     material = model.materials[member.material]
     if material.fcp is None:  # the reader fills fcp from the pack or the product; never left empty
@@ -233,8 +233,8 @@ def resistance_inputs(
         )
         coefficient = Factor("coefficient", 1.0, "local bearing")
     else:
-        area, area_reason = _near_area(check, pack, area_reading)
-        kb = _near_kb(check, material, pack, kb_reading)
+        area, area_reason = _near_area(check, pack, readings)
+        kb = _near_kb(check, material, pack, readings)
         factor = pack.near_factor.value
         coefficient = Factor("2/3", factor, f"near-support factor {factor:.3f}", pack.near_factor.clause)
     inputs = ResistanceInputs(
@@ -254,8 +254,9 @@ def resistance_inputs(
     return inputs, factors, area_reason
 
 
-def _near_area(check: RequiredCheck, pack: ResistancePack, reading: str) -> tuple[float, str]:
-    l1, l2, b = near_support_geometry(check)
+def _near_area(check: RequiredCheck, pack: ResistancePack, readings: dict[str, str]) -> tuple[float, str]:
+    reading = readings["near_support.area_limit"]
+    l1, l2, b = near_support_geometry(check, readings["near_support.opposite_bearings"])
     ratio = pack.near_area_ratio
     if reading == "length_cap":
         l2_used = min(l2, ratio * l1)
@@ -276,10 +277,10 @@ def _near_area(check: RequiredCheck, pack: ResistancePack, reading: str) -> tupl
     return area, text
 
 
-def _near_kb(check: RequiredCheck, material: Material, pack: ResistancePack, reading: str) -> Factor:
+def _near_kb(check: RequiredCheck, material: Material, pack: ResistancePack, readings: dict[str, str]) -> Factor:
+    reading = readings["near_support.kb_reading"]
     support = check.contact
-    top_length = math.fsum(c.length for c in check.opposite)
-    top_end = min(c.end_distance for c in check.opposite)
+    top_length, top_end = top_bearing(check, readings["near_support.opposite_bearings"])
     kb_support = kb_factor(support.length, support.end_distance, material, pack)
     kb_top = kb_factor(top_length, top_end, material, pack)
     shorter = kb_support if support.length <= top_length else kb_top
@@ -349,22 +350,14 @@ def evaluate(
     return tuple(results), results[index], tuple(uplift)
 
 
-def near_readings(model: Model, pack: ResistancePack) -> tuple[str, str]:
-    """(area-limit reading, KB reading) for near-support checks: the model's choice, else the pack's default."""
-    return (
-        model.project.area_reading or pack.near_area_limit.value,
-        model.project.kb_reading or pack.near_kb_reading.value,
-    )
-
-
 def resist(checklist: CheckList, model: Model, pack: ResistancePack, cpack: CombinationPack) -> tuple[CheckResult, ...]:
     combos = load_combinations(model, cpack)
-    area_reading, kb_reading = near_readings(model, pack)
+    readings = pack.in_force(model.project.readings)
     out = []
     errors = ErrorCollector()
     for check in checklist.checks:
         try:
-            inputs, factors, area_reason = resistance_inputs(check, model, pack, area_reading, kb_reading)
+            inputs, factors, area_reason = resistance_inputs(check, model, pack, readings)
         except InputError as exc:
             errors.extend(exc)
             continue

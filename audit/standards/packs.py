@@ -19,6 +19,15 @@ from audit.core.located_yaml import Node, node_text, read_yaml_file
 from audit.core.units import parse_quantity
 
 DURATIONS = ("permanent", "standard", "short")
+# The two-way readings every resistance pack states, as (section, key); a project selects one
+# by its dotted name "section.key".
+CHOICES = (
+    ("near_support", "area_limit"),
+    ("near_support", "kb_reading"),
+    ("near_support", "opposite_bearings"),
+    ("near_support", "distributed_loads"),
+    ("kzcp", "built_up"),
+)
 SERVICES = ("dry", "wet")
 TIMBER_FAMILIES_ALL = ("sawn_lumber", "timber", "glulam", "engineered")
 ALL_FAMILIES = (*TIMBER_FAMILIES_ALL, "steel", "concrete", "masonry")
@@ -62,6 +71,19 @@ class SpeciesStrength:
 
 
 @dataclass(frozen=True)
+class Choice:
+    """A place where the standard is read two ways: both readings are stated, the default is the conservative one."""
+
+    name: str  # dotted place in the pack, e.g. near_support.area_limit; how a project selects it
+    title: str  # how the memo names it
+    default: Sourced  # value: the id of the default reading
+    readings: dict[str, str]  # reading id -> what it says
+
+    def text(self, reading: str) -> str:
+        return self.readings[reading]
+
+
+@dataclass(frozen=True)
 class ResistancePack:
     id: str
     title: str
@@ -83,14 +105,15 @@ class ResistancePack:
     ksc: dict[str, Sourced]
     near_factor: Sourced
     near_reach: Sourced
-    near_area_limit: Sourced  # value: reading name; readings in extra
     near_area_ratio: float
-    near_area_readings: dict[str, str]
-    near_kb_reading: Sourced
-    near_kb_readings: dict[str, str]
+    choices: dict[str, Choice]  # every two-way reading, by its dotted name
 
     def is_timber(self, family: str) -> bool:
         return family in self.timber_families.value
+
+    def in_force(self, chosen: dict[str, str]) -> dict[str, str]:
+        """The reading in force at every choice: the project's where it chose, else the pack's default."""
+        return {name: chosen.get(name, c.default.value) for name, c in self.choices.items()}
 
     def all_sourced(self) -> list[tuple[str, Sourced]]:
         """Every value with a dotted name, for listing."""
@@ -115,9 +138,8 @@ class ResistancePack:
         out += [
             ("near_support.factor", self.near_factor),
             ("near_support.reach", self.near_reach),
-            ("near_support.area_limit", self.near_area_limit),
-            ("near_support.kb_reading", self.near_kb_reading),
         ]
+        out += [(name, c.default) for name, c in self.choices.items()]
         return out
 
 
@@ -308,7 +330,6 @@ def read_resistance_pack(root: Node, path: str) -> ResistancePack:
     kscp = sub(root, "kscp")
     ksc = get("ksc")
     area = sub(ns, "area_limit")
-    kbr = sub(ns, "kb_reading")
     pack_kwargs: dict[str, Any] = dict(
         phi=r.sourced(get("phi"), lambda n, p: _number(n, 0.0, 1.0)),
         timber_families=r.sourced(sub(root, "timber_families"), _family_list),
@@ -323,9 +344,17 @@ def read_resistance_pack(root: Node, path: str) -> ResistancePack:
         ksc={f: s for f, n in (ksc.value.items() if ksc else []) if (s := r.sourced(n, _service_pair))},
         near_factor=r.sourced(sub(ns, "factor"), lambda n, p: _number(n, 0.0, 1.0)),
         near_reach=r.sourced(sub(ns, "reach"), _number_conv),
-        near_area_limit=r.sourced(area, _reading),
-        near_kb_reading=r.sourced(kbr, _reading),
     )
+    choices = {}
+    for section, key in CHOICES:
+        parent = root.value.get(section)
+        node = parent.value.get(key) if parent is not None and isinstance(parent.value, dict) else None
+        if node is None:
+            errors.add(f"missing '{key}': a reading of the standard every pack states", root.child_loc(section))
+            continue
+        choice = _choice(r, node, f"{section}.{key}")
+        if choice is not None:
+            choices[choice.name] = choice
     ratio = 1.5
     if area is not None and "ratio" in area.value:
         try:
@@ -334,7 +363,7 @@ def read_resistance_pack(root: Node, path: str) -> ResistancePack:
             errors.extend(exc)
     errors.raise_if_any()
     missing = [k for k, v in pack_kwargs.items() if v is None]
-    if missing or area is None or kbr is None:
+    if missing:
         raise InputError(f"rule pack lacks {', '.join(missing)}", root.loc)
     return ResistancePack(
         id=r.text(root, "id"),
@@ -345,10 +374,17 @@ def read_resistance_pack(root: Node, path: str) -> ResistancePack:
         fcp=fcp,
         fc=fc,
         near_area_ratio=ratio,
-        near_area_readings={k: str(v.value) for k, v in area.value["readings"].value.items()},
-        near_kb_readings={k: str(v.value) for k, v in kbr.value["readings"].value.items()},
+        choices=choices,
         **pack_kwargs,
     )
+
+
+def _choice(r: _Reader, node: Node, name: str) -> Choice | None:
+    default = r.sourced(node, _reading)
+    if default is None:
+        return None
+    readings = node.value["readings"].value
+    return Choice(name, r.text(node, "title", name), default, {k: str(v.value) for k, v in readings.items()})
 
 
 def read_combination_pack(root: Node, path: str) -> CombinationPack:

@@ -52,6 +52,51 @@ def roof(seat_on_ridge: dict | None = None, birdsmouth: dict | None = None, bear
     }
 
 
+def beam_with_post_and_joist(joist_at: str = "550 mm", readings: dict | None = None, udl: bool = False) -> dict:
+    """A 130 x 608 glulam beam on a steel post; within d of that support a timber post at 300 mm and a joist."""
+    data: dict = {
+        "project": {"title": "Near-support loads (fictional)", "readings": dict(readings or {})},
+        "materials": {
+            "GL": {"family": "glulam", "species": "D.Fir-L", "grade": "24f-EX"},
+            "SPF": {"family": "sawn_lumber", "species": "S-P-F", "grade": "No.2"},
+            "DF": {"family": "timber", "species": "D.Fir-L", "grade": "No.1"},
+            "STEEL": {"family": "steel"},
+        },
+        "members": [
+            {"id": "B", "material": "GL", "b": "130 mm", "d": "608 mm", "length": "6 m"},
+            {"id": "C1", "material": "STEEL", "b": "152 mm", "d": "152 mm", "length": "3 m", "orientation": "vertical"},
+            {"id": "C2", "material": "STEEL", "b": "152 mm", "d": "152 mm", "length": "3 m", "orientation": "vertical"},
+            {"id": "P", "material": "DF", "b": "140 mm", "d": "140 mm", "length": "3 m", "orientation": "vertical"},
+            {"id": "J", "material": "SPF", "b": "38 mm", "d": "235 mm", "length": "4 m"},
+            {"id": "W", "material": "SPF", "b": "140 mm", "d": "38 mm", "length": "5 m", "support": "continuous"},
+        ],
+        "bearings": [
+            {"id": "B/C1", "upper": {"member": "B", "at": "76 mm"}, "lower": "C1"},
+            {"id": "B/C2", "upper": {"member": "B", "at": "5924 mm"}, "lower": "C2"},
+            {"id": "P/B", "upper": "P", "lower": {"member": "B", "at": "300 mm"}},
+            {"id": "J/B", "upper": {"member": "J", "at": "3935 mm"}, "lower": {"member": "B", "at": joist_at}},
+            {"id": "J/W", "upper": {"member": "J", "at": "65 mm"}, "lower": {"member": "W", "at": "2 m"}},
+        ],
+        "loads": [
+            {"id": "roof", "member": "P", "type": "point", "specified": {"D": "10 kN", "S": "20 kN"}},
+            {"id": "floor", "member": "J", "type": "uniform", "specified": {"D": "1 kN/m", "L": "2 kN/m"}},
+        ],
+    }
+    if udl:
+        data["loads"].append({"id": "wall", "member": "B", "type": "uniform", "specified": {"D": "2 kN/m"}})
+    return data
+
+
+# Qf' by hand: post P 10 kN D + 20 kN S; joist J (4 m, supports 65 and 3935 mm, 1 + 2 kN/m)
+# 2 kN D + 4 kN L. Governing 1.25D + 1.5S + 0.5L = 1.25 x 12 + 1.5 x 20 + 0.5 x 4 = 47 kN.
+QF_POST_AND_JOIST = 1.25 * 12e3 + 1.5 * 20e3 + 0.5 * 4e3
+# Support contact: post C1's 152 mm depth, from the beam end (KB 1.0 on the support face).
+# longest_single: L2 from post P alone (140 mm): L1 = 140, L2 = 152 (<= 1.5 x 140)
+QR_LONGEST_SINGLE = (2 / 3) * 0.8 * 7.0e6 * (0.130 * (0.140 + 0.152) / 2)
+# summed: 140 + 38 = 178 mm: L1 = 152, L2 = 178 (<= 1.5 x 152)
+QR_SUMMED = (2 / 3) * 0.8 * 7.0e6 * (0.130 * (0.152 + 0.178) / 2)
+
+
 def _case(name: str, reference: float, computed: float, note: str = "") -> Case:
     return Case("Details by hand", name, HAND, reference / 1000.0, computed / 1000.0, 1e-3, "1 N", note)
 
@@ -90,5 +135,37 @@ def contact_cases() -> list[Case]:
     ]
 
 
+def near_support_cases() -> list[Case]:
+    longest = review_dict(beam_with_post_and_joist()).result("B/C1:B:near")
+    summed = review_dict(beam_with_post_and_joist(readings={"near_support.opposite_bearings": "summed"}))
+    with_udl = review_dict(beam_with_post_and_joist(udl=True)).result("B/C1:B:near")
+    return [
+        _case(
+            "Qf' (kN), a post and a joist within d",
+            QF_POST_AND_JOIST,
+            longest.governing.qf,
+            "1.25 x (10 + 2) + 1.5 x 20 + 0.5 x 4",
+        ),
+        _case(
+            "Qr' (kN), separate bearings: longest single",
+            QR_LONGEST_SINGLE,
+            longest.governing.qr,
+            "2/3 x 0.8 x 7.0 MPa x 130 x (140 + 152)/2",
+        ),
+        _case(
+            "Qr' (kN), separate bearings: summed reading",
+            QR_SUMMED,
+            summed.result("B/C1:B:near").governing.qr,
+            "2/3 x 0.8 x 7.0 MPa x 130 x (152 + 178)/2",
+        ),
+        _case(
+            "Qf' (kN), with a 2 kN/m wall load over the support",
+            QF_POST_AND_JOIST + 1.25 * 2e3 * (0.076 + 0.608),
+            with_udl.governing.qf,
+            "47 + 1.25 x 2 kN/m x (76 + 608) mm, the wall load from the beam end to d past the support",
+        ),
+    ]
+
+
 def detail_cases() -> list[Case]:
-    return contact_cases()
+    return contact_cases() + near_support_cases()
