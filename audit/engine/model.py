@@ -14,6 +14,7 @@ from audit.core.errors import Location
 
 SPECIFIED_CASES = ("D", "L", "S", "W", "E")
 FACTORED_PREFIX = "factored:"
+PLY_FIT = 0.5e-3  # m: plies times their thickness must make up b or d to this
 
 
 def normalise_label(label: str) -> str:
@@ -48,7 +49,18 @@ class Member:
     continuous: bool = False  # continuously supported (a plate on a wall, a sill on a footing)
     level: str = ""
     label: str = ""
+    plies: int = 1  # a built-up member: the number of plies
+    ply_thickness: float | None = None  # m, stacked through d (laid flat) or side by side across b
     loc: Location = field(default=Location(""), compare=False)
+
+    @property
+    def ply_section(self) -> tuple[float, float] | None:
+        """(b, d) of one ply of a built-up member, or None for a solid one."""
+        if self.plies < 2 or self.ply_thickness is None:
+            return None
+        if abs(self.plies * self.ply_thickness - self.d) <= PLY_FIT:
+            return self.b, self.ply_thickness
+        return self.ply_thickness, self.d
 
 
 @dataclass(frozen=True)

@@ -21,6 +21,7 @@ from audit.core.located_yaml import Node, node_text, read_yaml_file
 from audit.core.units import parse_quantity
 from audit.engine.model import (
     FACTORED_PREFIX,
+    PLY_FIT,
     Bearing,
     FactoredGroup,
     Load,
@@ -70,6 +71,8 @@ MEMBER_KEYS = {
     "support",
     "level",
     "label",
+    "plies",
+    "ply_thickness",
 }
 BEARING_KEYS = {"id", "upper", "lower", "width", "aliases"}
 SIDE_KEYS = {"member", "at", "length", "width", "angle"}
@@ -460,6 +463,7 @@ def _read_members(
         if support == "continuous" and orientation == "vertical":
             errors.add("only a horizontal member can be continuously supported", f.loc("support"))
             f.ok = False
+        plies, ply_thickness = _read_plies(f, b, d)
         if member_id in out:
             errors.add(f"duplicate member id '{member_id}'", f.loc("id"))
             continue
@@ -479,9 +483,39 @@ def _read_members(
             continuous=support == "continuous",
             level=f.text("level", required=False),
             label=f.text("label", required=False),
+            plies=plies,
+            ply_thickness=ply_thickness,
             loc=item.loc,
         )
     return out, frozenset(broken - out.keys())
+
+
+def _read_plies(f: FieldReader, b: float | None, d: float | None) -> tuple[int, float | None]:
+    """A built-up member's ply count and thickness; the plies must make up its depth d or its width b."""
+    count = f.number("plies", 1, 20, 1.0)
+    if count != int(count):
+        f.errors.add(f"plies must be a whole number, got {count:g}", f.loc("plies"))
+        f.ok = False
+        return 1, None
+    thickness = f.quantity("ply_thickness", "length", required=False, positive=True)
+    if count >= 2 and thickness is None and f.ok:
+        f.errors.add(
+            "a built-up member needs 'ply_thickness' (which way the plies run)", f.node.child_loc("ply_thickness")
+        )
+        f.ok = False
+    if count < 2 and thickness is not None:
+        f.errors.add("'ply_thickness' is for built-up members: give 'plies' too", f.loc("ply_thickness"))
+        f.ok = False
+    if count >= 2 and thickness is not None and b is not None and d is not None:
+        made = count * thickness
+        if abs(made - d) > PLY_FIT and abs(made - b) > PLY_FIT:
+            f.errors.add(
+                f"{count:g} plies of {thickness * 1000:.0f} mm make {made * 1000:.0f} mm, neither d "
+                f"({d * 1000:.0f} mm, plies laid flat) nor b ({b * 1000:.0f} mm, plies side by side)",
+                f.loc("ply_thickness"),
+            )
+            f.ok = False
+    return int(count), thickness
 
 
 def _read_side(node: Node, role: str, known: KnownMembers, errors: ErrorCollector) -> Side | None:

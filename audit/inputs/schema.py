@@ -56,6 +56,11 @@ MODEL_SCHEMA: dict[str, Any] = {
                     "date": {"type": "string", "format": "date"},
                     "near_support_area": {"type": "string", "description": "a reading named in the rule pack"},
                     "near_support_kb": {"type": "string", "description": "a reading named in the rule pack"},
+                    "readings": {
+                        "type": "object",
+                        "description": "rule-pack choice -> reading, e.g. {kzcp.built_up: combined}",
+                        "additionalProperties": {"type": "string"},
+                    },
                     "uplift_note_below": {
                         "type": "string",
                         "description": "a force, e.g. '0.5 kN': a smaller calculated uplift (continuity noise at a "
@@ -89,6 +94,8 @@ MODEL_SCHEMA: dict[str, Any] = {
                         "id": {"type": "string"},
                         "material": {"type": "string"},
                         "b": {**LENGTH, "description": "width across the bearing face"},
+                        "plies": {"type": "integer", "minimum": 1, "maximum": 20, "description": "built-up members"},
+                        "ply_thickness": {**LENGTH, "description": "plies make up d (laid flat) or b (side by side)"},
                         "d": {**LENGTH, "description": "depth through which bearing loads pass"},
                         "length": LENGTH,
                         "orientation": {"enum": ["horizontal", "vertical"], "default": "horizontal"},

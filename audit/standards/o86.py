@@ -150,19 +150,34 @@ def kb_factor(length: float, end_distance: float, material: Material, pack: Resi
     )
 
 
-def _kzcp(member: Member, material: Material, pack: ResistancePack) -> Factor:
+def _kzcp(member: Member, material: Material, pack: ResistancePack, reading: str) -> Factor:
     clause = pack.kzcp_table.clause
     applies = (
         "KZcp" in material.applies if material.family == "engineered" else material.family in pack.kzcp_families.value
     )
     if not applies:
         return Factor("KZcp", 1.0, f"KZcp = 1.00: not applied to {material.family.replace('_', ' ')}", clause)
-    ratio = member.b / member.d
-    value = pack.kzcp_table.value.at(ratio)
+    table = pack.kzcp_table.value
+    whole = table.at(member.b / member.d)
+    whole_text = f"width/depth = {member.b * 1000:.0f}/{member.d * 1000:.0f} = {member.b / member.d:.2f}"
+    ply = member.ply_section
+    if ply is None:
+        return Factor("KZcp", whole, f"KZcp = {whole:.3f}: {whole_text}", clause)
+    one = table.at(ply[0] / ply[1])
+    one_text = f"one ply {ply[0] * 1000:.0f}/{ply[1] * 1000:.0f} = {ply[0] / ply[1]:.2f} gives {one:.3f}"
+    if reading == "combined":
+        return Factor(
+            "KZcp",
+            whole,
+            f"KZcp = {whole:.3f}: {member.plies}-ply member, {whole_text} ({one_text}; reading: combined)",
+            clause,
+        )
+    value = min(one, whole)
     return Factor(
         "KZcp",
         value,
-        f"KZcp = {value:.3f}: width/depth = {member.b * 1000:.0f}/{member.d * 1000:.0f} = {ratio:.2f}",
+        f"KZcp = {value:.3f}: {member.plies}-ply member, {one_text}; the whole member {whole_text} gives "
+        f"{whole:.3f} (reading: {reading})",
         clause,
     )
 
@@ -220,7 +235,7 @@ def resistance_inputs(
     kscp = _kscp(member, material, pack)
     kt_value = member.kt if "KT" in material.applies else 1.0
     kt = Factor("KT", kt_value, "KT = 1.00: untreated" if kt_value == 1.0 else f"KT = {kt_value:.2f}: as stated")
-    kzcp = _kzcp(member, material, pack)
+    kzcp = _kzcp(member, material, pack, readings["kzcp.built_up"])
     phi = Factor("phi", pack.phi.value, f"phi = {pack.phi.value:.2f}", pack.phi.clause)
     fcp = Factor("fcp", fcp_value, fcp_reason, fcp_clause)
     if check.kind == LOCAL:

@@ -97,6 +97,31 @@ QR_LONGEST_SINGLE = (2 / 3) * 0.8 * 7.0e6 * (0.130 * (0.140 + 0.152) / 2)
 QR_SUMMED = (2 / 3) * 0.8 * 7.0e6 * (0.130 * (0.152 + 0.178) / 2)
 
 
+def joist_on_built_up_plate(readings: dict | None = None, **plate: str | int) -> dict:
+    """A joist on a 2-ply 38 x 89 plate laid flat (b = 89, d = 76) on a wall."""
+    data = roof(SEAT, BIRDSMOUTH)
+    data["project"]["readings"] = dict(readings or {})
+    data["members"][4] = {
+        "id": "W",
+        "material": "SPF",
+        "b": "89 mm",
+        "d": "76 mm",
+        "length": "5 m",
+        "support": "continuous",
+        "plies": 2,
+        "ply_thickness": "38 mm",
+        **plate,
+    }
+    return data
+
+
+# The plate under the birdsmouth: 38 mm along it x 89 mm across; KB(38) = 1.25 at 2 m from the ends.
+# KZcp per ply: 89/38 = 2.34 >= 2.0 -> 1.00; combined: 89/76 = 1.171 -> 1.15 - 0.15 x 0.171 = 1.1243
+KZCP_COMBINED = 1.15 - 0.15 * (89 / 76 - 1.0)
+QR_PLATE_PER_PLY = 0.8 * 5.3e6 * (0.038 * 0.089) * 1.25 * 1.00
+QR_PLATE_COMBINED = 0.8 * 5.3e6 * (0.038 * 0.089) * 1.25 * KZCP_COMBINED
+
+
 def _case(name: str, reference: float, computed: float, note: str = "") -> Case:
     return Case("Details by hand", name, HAND, reference / 1000.0, computed / 1000.0, 1e-3, "1 N", note)
 
@@ -167,5 +192,24 @@ def near_support_cases() -> list[Case]:
     ]
 
 
+def built_up_cases() -> list[Case]:
+    per_ply = review_dict(joist_on_built_up_plate()).result("R/W:W")
+    combined = review_dict(joist_on_built_up_plate({"kzcp.built_up": "combined"})).result("R/W:W")
+    return [
+        _case(
+            "Qr (kN), 2-ply 38 x 89 plate laid flat, per ply",
+            QR_PLATE_PER_PLY,
+            per_ply.governing.qr,
+            "0.8 x 5.3 MPa x 38 x 89 mm x KB 1.25 x KZcp 1.00 (one ply: 89/38)",
+        ),
+        _case(
+            "Qr (kN), the same plate, combined reading",
+            QR_PLATE_COMBINED,
+            combined.governing.qr,
+            "as above x KZcp 1.124 (whole member: 89/76)",
+        ),
+    ]
+
+
 def detail_cases() -> list[Case]:
-    return contact_cases() + near_support_cases()
+    return contact_cases() + near_support_cases() + built_up_cases()
