@@ -233,6 +233,8 @@ def _shown(name: str, value: object) -> str:
     if hasattr(value, "points"):
         in_mm = name.startswith("kb.")  # KB is tabulated by bearing length; KZcp by a plain ratio
         return ", ".join(f"{x * 1000:g} mm -> {y:.4g}" if in_mm else f"{x:.4g} -> {y:.4g}" for x, y in value.points)
+    if isinstance(value, dict) and name.startswith("fc"):
+        return ", ".join(f"{key} {_shown(name, item)}" for key, item in value.items())
     if isinstance(value, float):
         if name.startswith("fc"):
             return f"{value / 1e6:g} MPa"

@@ -104,3 +104,26 @@ def test_kb_is_one_for_a_bearing_longer_than_150_mm():
     data["bearings"][2]["lower"]["length"] = "160 mm"
     r = review_dict(data).result("J1/B1:B1")
     assert next(f for f in r.factors if f.name == "KB").value == 1.0
+
+
+def test_hankinson_takes_fc_by_grade_for_a_no3_joist():
+    data = base_model()
+    data["materials"]["SPF"]["grade"] = "No.3"
+    data["bearings"][2]["upper"]["angle"] = "60 deg"
+    r = review_dict(data).result("J1/B1:J1")
+    area = 0.038 * 0.130
+    qr = 0.8 * 5.3e6 * area * 1.0 * 1.15  # fcp is the same for every grade of S-P-F
+    pr = 0.8 * 9.0e6 * area  # fc of S-P-F No.3/Stud, 9.0 MPa (pack, from memory: verify), not No.2's 11.5
+    theta = math.radians(60)
+    assert r.governing.qr == pytest.approx(pr * qr / (pr * math.sin(theta) ** 2 + qr * math.cos(theta) ** 2), rel=1e-9)
+
+
+def test_a_bearing_at_an_angle_on_a_grade_without_fc_in_the_pack_is_refused():
+    from audit.core.errors import InputErrors
+
+    data = base_model()
+    data["materials"]["SPF"]["grade"] = "Construction"
+    data["bearings"][2]["upper"]["angle"] = "60 deg"
+    with pytest.raises(InputErrors) as caught:
+        review_dict(data)
+    assert "needs fc" in str(caught.value) and "Construction" in str(caught.value)

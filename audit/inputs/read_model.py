@@ -394,14 +394,13 @@ def _material_of_family(
         if f.has(key):
             errors.add(f"'{key}' is only for engineered products; {family} takes it from the rule pack", f.loc(key))
             return None
-    fc_entry = pack.fc.get(family, {}).get(species)
     return Material(
         mat_id,
         family,
         species,
         grade,
         fcp=strength.fcp.value,
-        fc=fc_entry.value if fc_entry else None,
+        fc=pack.fc_for(family, species, grade),
         source=f.text("source", required=False),
         loc=loc,
     )

@@ -203,7 +203,7 @@ def _fc_parallel(member: Member, material: Material, pack: ResistancePack, angle
     if material.fc is None:
         raise InputError(
             f"bearing at an angle on '{member.id}' needs fc (compression parallel) for material "
-            f"'{material.id}'; the rule pack has none",
+            f"'{material.id}'; the rule pack has none for {material.species} {material.grade}".rstrip(),
             material.loc,
         )
     ksc = 1.0

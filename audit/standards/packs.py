@@ -93,7 +93,15 @@ class ResistancePack:
     phi: Sourced
     timber_families: Sourced
     fcp: dict[str, dict[str, SpeciesStrength]]
-    fc: dict[str, dict[str, Sourced]]
+    fc: dict[str, dict[str, Sourced]]  # value: Pa for every grade, or grade -> Pa
+
+    def fc_for(self, family: str, species: str, grade: str) -> float | None:
+        """Compression parallel to grain for Hankinson's formula, by grade where the pack tabulates it."""
+        entry = self.fc.get(family, {}).get(species)
+        if entry is None:
+            return None
+        return entry.value.get(grade) if isinstance(entry.value, dict) else entry.value
+
     kb_max_length: Sourced  # m
     kb_min_end_distance: Sourced  # m
     kb_table: Sourced  # Table over bearing length in m
@@ -237,6 +245,13 @@ def _stress(node: Node, _parent: Node) -> float:
     return value
 
 
+def _stress_by_grade(node: Node, parent: Node) -> float | dict[str, float]:
+    """One strength for every grade, or a mapping of grade -> strength."""
+    if isinstance(node.value, dict):
+        return {grade: _stress(value, node) for grade, value in node.value.items()}
+    return _stress(node, parent)
+
+
 def _length(node: Node, _parent: Node) -> float:
     value = parse_quantity(node.value, "length", node.loc)
     if value <= 0:
@@ -321,7 +336,7 @@ def read_resistance_pack(root: Node, path: str) -> ResistancePack:
     fc: dict[str, dict[str, Sourced]] = {}
     fc_node = get("fc")
     for fam, fam_node in fc_node.value.items() if fc_node else []:
-        fc[fam] = {sp: s for sp, n in fam_node.value.items() if (s := r.sourced(n, _stress))}
+        fc[fam] = {sp: s for sp, n in fam_node.value.items() if (s := r.sourced(n, _stress_by_grade))}
 
     kb = sub(root, "kb")
     kz = sub(root, "kzcp")

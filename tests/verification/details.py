@@ -211,5 +211,26 @@ def built_up_cases() -> list[Case]:
     ]
 
 
+def hankinson_cases() -> list[Case]:
+    """A No.3 rafter birdsmouthed at 60 degrees to its grain: fc of No.3, not of No.1/No.2."""
+    import math
+
+    data = roof(SEAT, {**BIRDSMOUTH, "angle": "60 deg"})
+    data["materials"]["SPF"]["grade"] = "No.3"
+    r = review_dict(data).result("R/W:R")
+    area = 0.089 * 0.038
+    qr = 0.8 * 5.3e6 * area * 1.0 * 1.15
+    pr = 0.8 * 9.0e6 * area
+    s, c = math.sin(math.radians(60)), math.cos(math.radians(60))
+    return [
+        _case(
+            "Nr (kN), No.3 S-P-F rafter at 60 deg (Hankinson)",
+            pr * qr / (pr * s * s + qr * c * c),
+            r.governing.qr,
+            "Pr = 0.8 x 9.0 MPa (fc No.3) x 89 x 38; Qr = 0.8 x 5.3 MPa x 89 x 38 x 1.15",
+        )
+    ]
+
+
 def detail_cases() -> list[Case]:
-    return contact_cases() + near_support_cases() + built_up_cases()
+    return contact_cases() + near_support_cases() + built_up_cases() + hankinson_cases()
