@@ -28,7 +28,8 @@ class Material:
     family: str
     species: str = ""
     grade: str = ""
-    fcp: float | None = None  # Pa; engineered products state their own
+    fcp: float | None = None  # Pa; engineered products state their own; glulam: compression face
+    fcp_tension_face: float | None = None  # Pa, glulam tension-face laminations; None: fcp for both faces
     fc: float | None = None  # Pa; only for bearing at an angle to grain
     applies: frozenset[str] = frozenset({"KD", "KScp", "KB", "KZcp", "KT"})
     wet_factor: float | None = None  # KScp when wet, for engineered products

@@ -400,6 +400,7 @@ def _material_of_family(
         species,
         grade,
         fcp=strength.fcp.value,
+        fcp_tension_face=strength.tension_face.value if strength.tension_face else None,
         fc=pack.fc_for(family, species, grade),
         source=f.text("source", required=False),
         loc=loc,

@@ -87,6 +87,10 @@ def assumptions(review: Review) -> list[str]:
         "the other member's width for a square crossing, or a post's depth); across its grain, the least of its "
         "own width b, the other member's extent across it (a post's width, or a crossing member's seat along its "
         "own grain) and any stated plate or seat width. A stated plate or seat limits the contact, never widens it.",
+        "Glulam bears on its compression-face laminations where loads land on its top face and on its "
+        "tension-face laminations at its supports, for a layup installed as designed (an inverted layup is not "
+        "modelled); a near-support check loads both faces and takes the lesser fcp. Each family's findings cite "
+        "its own clause from the rule pack.",
         "KD per combination: permanent 0.65, short term 1.15, standard term 1.00 or the long-term formula where "
         "the specified dead load at the check exceeds its L + S load. The governing combination is the one with "
         "the highest Qf/Qr.",

@@ -430,7 +430,7 @@ def _location(result: CheckResult, review: Review) -> str:
 
 def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> CheckOutcome:
     check, g = result.check, result.governing
-    clause = "O86 6.5.6.3" if check.kind == NEAR else "O86 6.5.6.2"
+    clause = review.pack.clause_for(review.model.material_of(check.member).family, check.kind)
     where = _location(result, review)
     page = claim.where.cite() if claim else ""
     common: dict[str, Any] = {

@@ -214,6 +214,30 @@ def _fc_parallel(member: Member, material: Material, pack: ResistancePack, angle
     return material.fc * ksc * (member.kt if "KT" in material.applies else 1.0)
 
 
+def _fcp_on_face(check: RequiredCheck, material: Material) -> tuple[float, str]:
+    """fcp on the face the check bears on, and how it was chosen (glulam has a compression and a tension face).
+
+    For a layup installed as designed a beam's top face, where loads land, is its compression
+    face and its underside, on its supports, its tension face; a near-support check loads both
+    and takes the lesser.
+    """
+    compression = material.fcp if material.fcp is not None else 0.0
+    if material.family != "glulam":
+        return compression, ""
+    tension = material.fcp_tension_face
+    if tension is None:
+        return compression, ", one value for both faces"
+    if check.kind == NEAR:
+        value = min(compression, tension)
+        return value, (
+            f", lesser of the compression face ({compression / 1e6:.2f} MPa) and tension face "
+            f"({tension / 1e6:.2f} MPa): the load passes through both"
+        )
+    if check.face == "top":
+        return compression, ", compression-face laminations (loads on the beam's top face)"
+    return tension, ", tension-face laminations (the beam's underside on its support)"
+
+
 def resistance_inputs(
     check: RequiredCheck,
     model: Model,
@@ -225,9 +249,10 @@ def resistance_inputs(
     material = model.materials[member.material]
     if material.fcp is None:  # the reader fills fcp from the pack or the product; never left empty
         raise InputError(f"material '{material.id}' has no fcp", material.loc)
-    fcp_value = material.fcp
+    fcp_value, face_text = _fcp_on_face(check, material)
     fcp_reason = (
         f"fcp = {fcp_value / 1e6:.2f} MPa: {material.family.replace('_', ' ')} {material.species} {material.grade}"
+        f"{face_text}"
         if material.family != "engineered"
         else f"fcp = {fcp_value / 1e6:.2f} MPa: {material.source}"
     )

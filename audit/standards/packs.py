@@ -66,8 +66,9 @@ class Table:
 
 @dataclass(frozen=True)
 class SpeciesStrength:
-    fcp: Sourced  # Pa
+    fcp: Sourced  # Pa; for glulam, bearing on the compression-face laminations
     grades: tuple[str, ...]
+    tension_face: Sourced | None = None  # Pa, glulam bearing on the tension-face laminations, where it differs
 
 
 @dataclass(frozen=True)
@@ -102,6 +103,7 @@ class ResistancePack:
             return None
         return entry.value.get(grade) if isinstance(entry.value, dict) else entry.value
 
+    clauses: dict[str, Sourced]  # family -> {local: clause, near_support: clause}, as findings cite them
     kb_max_length: Sourced  # m
     kb_min_end_distance: Sourced  # m
     kb_table: Sourced  # Table over bearing length in m
@@ -119,6 +121,10 @@ class ResistancePack:
     def is_timber(self, family: str) -> bool:
         return family in self.timber_families.value
 
+    def clause_for(self, family: str, kind: str) -> str:
+        """The clause a finding on this family cites: local bearing, or loads near a support."""
+        return self.clauses[family].value["near_support" if kind == "near-support" else "local"]
+
     def in_force(self, chosen: dict[str, str]) -> dict[str, str]:
         """The reading in force at every choice: the project's where it chose, else the pack's default."""
         return {name: chosen.get(name, c.default.value) for name, c in self.choices.items()}
@@ -129,6 +135,9 @@ class ResistancePack:
         for fam, species in self.fcp.items():
             for sp, strength in species.items():
                 out.append((f"fcp.{fam}.{sp}", strength.fcp))
+                if strength.tension_face is not None:
+                    out.append((f"fcp.{fam}.{sp}.tension_face", strength.tension_face))
+        out += [(f"clauses.{fam}", clause) for fam, clause in self.clauses.items()]
         for fam, by_species in self.fc.items():
             for sp, val in by_species.items():
                 out.append((f"fc.{fam}.{sp}", val))
@@ -331,8 +340,9 @@ def read_resistance_pack(root: Node, path: str) -> ResistancePack:
             s = r.sourced(sp_node, _stress)
             grades_node = sp_node.value.get("grades") if isinstance(sp_node.value, dict) else None
             grades = tuple(node_text(g) for g in grades_node.value) if grades_node else ()
+            tension = _tension_face(sp_node, s, errors)
             if s is not None:
-                fcp[fam][sp] = SpeciesStrength(s, grades)
+                fcp[fam][sp] = SpeciesStrength(s, grades, tension)
     fc: dict[str, dict[str, Sourced]] = {}
     fc_node = get("fc")
     for fam, fam_node in fc_node.value.items() if fc_node else []:
@@ -345,8 +355,14 @@ def read_resistance_pack(root: Node, path: str) -> ResistancePack:
     kscp = sub(root, "kscp")
     ksc = get("ksc")
     area = sub(ns, "area_limit")
+    clauses_node = sub(root, "clauses")
     pack_kwargs: dict[str, Any] = dict(
         phi=r.sourced(get("phi"), lambda n, p: _number(n, 0.0, 1.0)),
+        clauses={
+            fam: c
+            for fam, n in (clauses_node.value.items() if clauses_node else [])
+            if (c := r.sourced(n, _clause_pair))
+        },
         timber_families=r.sourced(sub(root, "timber_families"), _family_list),
         kb_max_length=r.sourced(sub(kb, "max_length"), _length),
         kb_min_end_distance=r.sourced(sub(kb, "min_end_distance"), _length),
@@ -380,6 +396,9 @@ def read_resistance_pack(root: Node, path: str) -> ResistancePack:
     missing = [k for k, v in pack_kwargs.items() if v is None]
     if missing:
         raise InputError(f"rule pack lacks {', '.join(missing)}", root.loc)
+    uncited = [f for f in pack_kwargs["timber_families"].value if f not in pack_kwargs["clauses"]]
+    if uncited:
+        raise InputError(f"rule pack gives no clauses for {', '.join(uncited)}", root.child_loc("clauses"))
     return ResistancePack(
         id=r.text(root, "id"),
         title=r.text(root, "title", ""),
@@ -392,6 +411,25 @@ def read_resistance_pack(root: Node, path: str) -> ResistancePack:
         choices=choices,
         **pack_kwargs,
     )
+
+
+def _tension_face(node: Node, compression: Sourced | None, errors: ErrorCollector) -> Sourced | None:
+    """A glulam species' fcp on its tension face, under the same provenance as its fcp."""
+    item = node.value.get("tension_face") if isinstance(node.value, dict) else None
+    if item is None or compression is None:
+        return None
+    try:
+        value = _stress(item, node)
+    except InputError as exc:
+        errors.extend(exc)
+        return None
+    return Sourced(value, compression.clause, compression.source + " (tension-face bearing)", compression.status)
+
+
+def _clause_pair(node: Node, _parent: Node) -> dict[str, str]:
+    if not isinstance(node.value, dict) or set(node.value) != {"local", "near_support"}:
+        raise InputError("expected {local: clause, near_support: clause}", node.loc)
+    return {k: node_text(v) for k, v in node.value.items()}
 
 
 def _choice(r: _Reader, node: Node, name: str) -> Choice | None:
