@@ -47,7 +47,8 @@ class Member:
     vertical: bool
     service: str  # dry | wet
     kt: float = 1.0
-    continuous: bool = False  # continuously supported (a plate on a wall, a sill on a footing)
+    continuous: bool = False  # continuously supported (a sill on a footing, or a wall the model does not show)
+    bears_on: str = ""  # continuous members: the material id of what is under them, where given
     level: str = ""
     label: str = ""
     plies: int = 1  # a built-up member: the number of plies

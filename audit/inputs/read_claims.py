@@ -12,7 +12,7 @@ from pathlib import Path
 
 from audit.core.errors import ErrorCollector, Location
 from audit.core.located_yaml import Node, read_yaml_file
-from audit.inputs.read_model import FieldReader, describe_value, list_items
+from audit.inputs.fields import FieldReader, describe_value, list_items
 
 CLAIM_KEYS = {"id", "where", "location", "member", "kind", "Qf", "Qr", "utilisation", "factors", "adequate", "text"}
 WHERE_KEYS = {"page", "sheet", "table", "item", "x", "y"}

@@ -7,18 +7,15 @@ one run. The rule packs are selected here because species and grades are looked 
 from __future__ import annotations
 
 import datetime as dt
-import difflib
 import itertools
 import math
 import unicodedata
-from collections.abc import Callable, Iterable
+from collections.abc import Callable
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Any
 
-from audit.core.errors import ErrorCollector, InputError, Location
+from audit.core.errors import ErrorCollector, Location
 from audit.core.located_yaml import Node, node_text, read_yaml_file
-from audit.core.units import parse_quantity
 from audit.engine.model import (
     FACTORED_PREFIX,
     PLY_FIT,
@@ -32,6 +29,8 @@ from audit.engine.model import (
     Side,
     normalise_label,
 )
+from audit.inputs.fields import FieldReader, describe_value, did_you_mean, list_items
+from audit.inputs.stud_walls import StudWall, place_studs, read_stud_wall
 from audit.standards.packs import (
     ALL_FAMILIES,
     DURATIONS,
@@ -73,6 +72,8 @@ MEMBER_KEYS = {
     "label",
     "plies",
     "ply_thickness",
+    "studs",
+    "bears_on",
 }
 BEARING_KEYS = {"id", "upper", "lower", "width", "aliases"}
 SIDE_KEYS = {"member", "at", "length", "width", "angle"}
@@ -91,101 +92,7 @@ LOAD_KEYS = {
     "label",
 }
 ENGINEERED_FACTORS = ("KD", "KScp", "KB", "KZcp", "KT")
-
-
-class FieldReader:
-    """Reads the fields of one mapping node, collecting errors instead of stopping."""
-
-    def __init__(self, node: Node, allowed: set[str], errors: ErrorCollector, what: str) -> None:
-        self.node = node
-        self.errors = errors
-        self.ok = True
-        if not isinstance(node.value, dict):
-            errors.add(f"expected a mapping for {what}, got {describe_value(node.value)}", node.loc)
-            self.ok = False
-            self.map: dict[str, Node] = {}
-            return
-        self.map = node.value
-        for key in node.value:
-            if key not in allowed:
-                hint = did_you_mean(key, allowed)
-                errors.add(
-                    f"unknown key '{key}' in {what}{hint or ' (allowed: ' + ', '.join(sorted(allowed)) + ')'}",
-                    node.key_loc(key),
-                )
-
-    def has(self, key: str) -> bool:
-        return key in self.map
-
-    def loc(self, key: str) -> Location:
-        return self.map[key].loc if key in self.map else self.node.child_loc(key)
-
-    def _get(self, key: str, required: bool) -> Node | None:
-        node = self.map.get(key)
-        if node is None and required and self.ok:
-            self.errors.add(f"missing field '{key}'", self.node.child_loc(key))
-            self.ok = False
-        return node
-
-    def text(self, key: str, required: bool = True, default: str = "", limit: int = 500) -> str:
-        node = self._get(key, required)
-        if node is None:
-            return default
-        if isinstance(node.value, (dict, list)) or node.value is None:
-            self.errors.add(f"expected text, got {describe_value(node.value)}", node.loc)
-            self.ok = False
-            return default
-        text = node_text(node)
-        if len(text) > limit:
-            self.errors.add(f"text is {len(text)} characters long (limit {limit})", node.loc)
-            self.ok = False
-            return default
-        return text
-
-    def choice(self, key: str, options: tuple[str, ...], required: bool = True, default: str = "") -> str:
-        value = self.text(key, required, default)
-        if value and value not in options:
-            self.errors.add(f"'{value}' is not one of: {', '.join(options)}", self.loc(key))
-            self.ok = False
-            return default
-        return value
-
-    def quantity(self, key: str, dimension: str, required: bool = True, positive: bool = False) -> float | None:
-        node = self._get(key, required)
-        if node is None:
-            return None
-        try:
-            value = parse_quantity(node.value, dimension, node.loc)
-        except InputError as exc:
-            self.errors.extend(exc)
-            self.ok = False
-            return None
-        if positive and value <= 0:
-            self.errors.add(f"{key} must be positive, got '{node.value}'", node.loc)
-            self.ok = False
-            return None
-        return value
-
-    def number(self, key: str, lo: float, hi: float, default: float) -> float:
-        node = self._get(key, False)
-        if node is None:
-            return default
-        v = node.value
-        if isinstance(v, bool) or not isinstance(v, (int, float)) or not math.isfinite(v) or not lo <= v <= hi:
-            self.errors.add(f"expected a number from {lo} to {hi}, got {v!r}", node.loc)
-            self.ok = False
-            return default
-        return float(v)
-
-
-def describe_value(value: Any) -> str:
-    if isinstance(value, dict):
-        return "a mapping"
-    if isinstance(value, list):
-        return "a list"
-    if value is None:
-        return "nothing"
-    return f"'{str(value)[:40]}'"
+SUPPORTS = ("bearings", "continuous", "studs")
 
 
 PackLoader = Callable[[str, str, Location], tuple[ResistancePack, CombinationPack]]
@@ -220,9 +127,15 @@ def build_model(
     _check_readings(project, resistance, top.map["project"], errors)
 
     materials = _read_materials(top.map["materials"], resistance, errors)
-    members, broken = _read_members(top.map["members"], materials, project, errors)
+    members, broken, walls = _read_members(top.map["members"], materials, project, errors)
+    placed = _place_walls(members, walls, errors)
     known = KnownMembers(members, broken)
     bearings = _read_bearings(top.map["bearings"], known, errors)
+    taken = {b.id for b in bearings}
+    for b in placed:
+        if b.id in taken:
+            errors.add(f"bearing id '{b.id}' is also the bearing of a stud placed under '{b.upper.member}'", b.loc)
+    bearings += placed
     loads, groups = _read_loads(top.map["loads"], known, combos, errors) if "loads" in top.map else ((), {})
     errors.raise_if_any()
     _check_support_graph(members, bearings, errors)
@@ -407,15 +320,6 @@ def _material_of_family(
     )
 
 
-def list_items(node: Node, what: str, errors: ErrorCollector) -> list[Node]:
-    if node.value is None:
-        return []
-    if not isinstance(node.value, list):
-        errors.add(f"expected a list of {what}, got {describe_value(node.value)}", node.loc)
-        return []
-    return node.value
-
-
 @dataclass(frozen=True)
 class KnownMembers:
     """The members read, and the ids of those with an error of their own.
@@ -435,17 +339,12 @@ class KnownMembers:
         return None
 
 
-def did_you_mean(word: str, choices: Iterable[str]) -> str:
-    """' (did you mean 'X'?)' for a near miss, else nothing."""
-    close = difflib.get_close_matches(word, list(choices), n=1, cutoff=0.5)
-    return f" (did you mean '{close[0]}'?)" if close else ""
-
-
 def _read_members(
     node: Node, materials: dict[str, Material], project: Project, errors: ErrorCollector
-) -> tuple[dict[str, Member], frozenset[str]]:
+) -> tuple[dict[str, Member], frozenset[str], tuple[StudWall, ...]]:
     out: dict[str, Member] = {}
     broken: set[str] = set()
+    walls: list[StudWall] = []
     for item in list_items(node, "members", errors):
         f = FieldReader(item, MEMBER_KEYS, errors, "member")
         member_id = f.text("id", limit=120)
@@ -459,10 +358,11 @@ def _read_members(
         orientation = f.choice("orientation", ("horizontal", "vertical"), required=False, default="horizontal")
         service = f.choice("service", SERVICES, required=False, default=project.service)
         kt = f.number("KT", 0.01, 1.5, 1.0)
-        support = f.choice("support", ("bearings", "continuous"), required=False, default="bearings")
-        if support == "continuous" and orientation == "vertical":
-            errors.add("only a horizontal member can be continuously supported", f.loc("support"))
+        support = f.choice("support", SUPPORTS, required=False, default="bearings")
+        if support != "bearings" and orientation == "vertical":
+            errors.add(f"only a horizontal member can be supported by '{support}'", f.loc("support"))
             f.ok = False
+        wall = _read_wall_fields(f, support, member_id, material, materials, errors)
         plies, ply_thickness = _read_plies(f, b, d)
         if member_id in out:
             errors.add(f"duplicate member id '{member_id}'", f.loc("id"))
@@ -485,9 +385,60 @@ def _read_members(
             label=f.text("label", required=False),
             plies=plies,
             ply_thickness=ply_thickness,
+            bears_on=f.text("bears_on", required=False),
             loc=item.loc,
         )
-    return out, frozenset(broken - out.keys())
+        if wall is not None:
+            walls.append(wall)
+    return out, frozenset(broken - out.keys()), tuple(walls)
+
+
+def _place_walls(
+    members: dict[str, Member], walls: tuple[StudWall, ...], errors: ErrorCollector
+) -> tuple[Bearing, ...]:
+    """Place each wall's studs and packs as members under its plate (added to ``members``); their bearings."""
+    placed: list[Bearing] = []
+    for wall in walls:
+        studs, bearings = place_studs(members[wall.plate], wall, errors)
+        for stud in studs:
+            if stud.id in members:
+                errors.add(
+                    f"member id '{stud.id}' is also the id of a stud or pack placed under '{wall.plate}'", wall.loc
+                )
+                return tuple(placed)
+            members[stud.id] = stud
+        placed += bearings
+    return tuple(placed)
+
+
+def _read_wall_fields(
+    f: FieldReader, support: str, member_id: str, material: str, materials: dict[str, Material], errors: ErrorCollector
+) -> StudWall | None:
+    """The stud wall under a plate (support: studs), or the material under a continuous member (bears_on)."""
+    if f.has("studs") and support != "studs":
+        errors.add("'studs' describes the wall under a plate: give 'support: studs' too", f.loc("studs"))
+        f.ok = False
+    if f.has("bears_on"):
+        under = f.text("bears_on")
+        if support != "continuous":
+            errors.add(
+                "'bears_on' names what is under a continuous member: give 'support: continuous'", f.loc("bears_on")
+            )
+            f.ok = False
+        elif under not in materials:
+            errors.add(f"unknown material '{under}'{did_you_mean(under, materials)}", f.loc("bears_on"))
+            f.ok = False
+    if support != "studs":
+        return None
+    if not f.has("studs"):
+        errors.add("support: studs needs 'studs' (thickness, spacing, packs)", f.node.child_loc("studs"))
+        f.ok = False
+        return None
+    wall = read_stud_wall(f.map["studs"], member_id, material, errors)
+    if wall is not None and wall.material not in materials:
+        errors.add(f"unknown material '{wall.material}'{did_you_mean(wall.material, materials)}", wall.loc)
+        return None
+    return wall
 
 
 def _read_plies(f: FieldReader, b: float | None, d: float | None) -> tuple[int, float | None]:
@@ -782,9 +733,11 @@ def _id_warnings(members: dict[str, Member], bearings: tuple[Bearing, ...], load
 
 
 def _support_extent(b: Bearing, members: dict[str, Member]) -> tuple[float, float]:
-    """Where a support's contact lies along the member above: its stated length, else the width of the one below."""
+    """Where a support's contact lies along the member above: its stated length, else a post's depth or the width of
+    the member below."""
     at = b.upper.at if b.upper.at is not None else 0.0
-    length = b.upper.length or members[b.lower.member].b
+    lower = members[b.lower.member]
+    length = b.upper.length or (lower.d if lower.vertical else lower.b)
     return at - length / 2, at + length / 2
 
 

@@ -101,7 +101,32 @@ MODEL_SCHEMA: dict[str, Any] = {
                         "orientation": {"enum": ["horizontal", "vertical"], "default": "horizontal"},
                         "service": {"enum": ["dry", "wet"]},
                         "KT": {"type": "number"},
-                        "support": {"enum": ["bearings", "continuous"], "default": "bearings"},
+                        "support": {"enum": ["bearings", "continuous", "studs"], "default": "bearings"},
+                        "bears_on": {"type": "string", "description": "continuous members: the material under them"},
+                        "studs": _obj(
+                            {
+                                "material": {"type": "string", "description": "default: the plate's material"},
+                                "thickness": {**LENGTH, "description": "along the wall, e.g. '38 mm'"},
+                                "depth": {**LENGTH, "description": "across the wall; default the plate's b"},
+                                "spacing": {**LENGTH, "description": "centre to centre, e.g. '406 mm'"},
+                                "first": {**LENGTH, "description": "centre of the first stud; default flush"},
+                                "height": LENGTH,
+                                "packs": {
+                                    "type": "array",
+                                    "items": _obj(
+                                        {
+                                            "id": {"type": "string"},
+                                            "at": LENGTH,
+                                            "studs": {"type": "integer", "minimum": 1, "maximum": 12},
+                                            "width": {**LENGTH, "description": "along the wall, instead of studs"},
+                                        },
+                                        ["at"],
+                                    ),
+                                },
+                            },
+                            ["thickness", "spacing"],
+                            "support: studs: the wall under a plate, placed by the tool",
+                        ),
                         "level": {"type": "string"},
                         "label": {"type": "string"},
                     },

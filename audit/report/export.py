@@ -178,7 +178,7 @@ def summary_line(review: Review) -> str:
     return (
         f"{len(review.results)} required checks ({near} near-support) at {len(review.model.bearings)} bearings; "
         f"{failing} failing; {len(review.checklist.exempt)} members in bearings not checked here; "
-        f"{len(review.engine_findings)} uplift findings."
+        f"{sum(f.kind == 'uplift' for f in review.engine_findings)} uplift findings."
     )
 
 

@@ -81,8 +81,12 @@ def assumptions(review: Review) -> list[str]:
         ),
         "Near-support checks are made where point loads or bearings on the top face have their centres within "
         "the member depth d of the support centre.",
-        "Continuously supported members (plates on walls, sills on footings) get local checks under every "
-        "bearing; a support under them is not modelled as a bearing.",
+        "A plate on a stud wall (support: studs) stands on studs placed at their spacing from the plate's start, "
+        "with an end stud, and on the stud packs the model gives, each replacing the studs it covers; the plate is "
+        "checked over each loaded stud and pack and squeezed where a load above lies within d of one. Members "
+        "continuously supported (support: continuous) get local checks under every bearing on them; their "
+        "underside is checked only where the model shows what is under them, and point loads on one whose support "
+        "is not shown are listed as not checked. A bearing no load passes through needs no check.",
         "Contact area on each member: along its grain, the bearing length on it (where the model gives none, "
         "the other member's width for a square crossing, or a post's depth); across its grain, the least of its "
         "own width b, the other member's extent across it (a post's width, or a crossing member's seat along its "

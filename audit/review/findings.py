@@ -66,6 +66,14 @@ KINDS: dict[str, FindingKind] = {
             "the check stands as claimed",
         ),
         FindingKind(
+            "BA-N1",
+            "not-checked",
+            "minor",
+            "a point load lands on a member modelled as continuously supported on something the model does not show",
+            "the member's underside and the squeeze through it at that spot are not checked; a post or girder on a "
+            "plate over studs is often the governing contact of the detail",
+        ),
+        FindingKind(
             "BA-Z1",
             "uplift",
             "major",

@@ -23,7 +23,7 @@ class Review:
     flow: TakeDown
     checklist: CheckList
     results: tuple[CheckResult, ...]
-    engine_findings: tuple[Finding, ...]  # uplift
+    engine_findings: tuple[Finding, ...]  # uplift, and supports the model does not show
 
     @cached_property
     def combinations(self) -> tuple[LoadCombination, ...]:
@@ -59,9 +59,28 @@ def review_built(model: Model, pack: ResistancePack, cpack: CombinationPack) -> 
     flow = take_down(model)
     checklist = list_checks(model, flow, pack, pack.in_force(model.project.readings))
     results = resist(checklist, model, pack, cpack)
-    return Review(
-        model, pack, cpack, flow, checklist, results, uplift_findings(results, model.project.uplift_note_below)
-    )
+    engine = uplift_findings(results, model.project.uplift_note_below) + unseen_support_findings(checklist)
+    return Review(model, pack, cpack, flow, checklist, results, engine)
+
+
+def unseen_support_findings(checklist: CheckList) -> tuple[Finding, ...]:
+    """One note per continuous member that point loads land on while its support is not in the model."""
+    out = []
+    for item in checklist.unchecked:
+        spots = ", ".join(f"{source} at {at * 1000:.0f} mm" for source, at in item.spots)
+        out.append(
+            Finding(
+                "not-checked",
+                KINDS["not-checked"].severity,
+                f"{item.member} is modelled as continuously supported on something the model does not show, and "
+                f"{spots} land on it: the underside of {item.member} and the squeeze through it at those spots are "
+                f"not checked. Give the wall under it (support: studs, with a stud pack under each concentrated "
+                f"load) or the member below; for a sill on concrete or masonry, name that material with bears_on.",
+                bearing=item.spots[0][0],
+                member=item.member,
+            )
+        )
+    return tuple(out)
 
 
 def uplift_findings(results: tuple[CheckResult, ...], note_below: float = 0.0) -> tuple[Finding, ...]:

@@ -16,7 +16,7 @@ from dataclasses import dataclass, field
 
 from audit.core.errors import ErrorCollector, InputError
 from audit.engine.model import Bearing, Member, Model
-from audit.engine.take_down import AppliedForce, Forces, TakeDown
+from audit.engine.take_down import FORCE_RESOLUTION, AppliedForce, Forces, TakeDown
 from audit.standards.packs import ResistancePack
 
 LOCAL = "local"
@@ -64,9 +64,22 @@ class Exempt:
 
 
 @dataclass(frozen=True)
+class Unchecked:
+    """Point loads on a member continuously supported on something the model does not show.
+
+    Its underside and the squeeze through it at those spots cannot be checked: the support
+    under them is not in the model.
+    """
+
+    member: str
+    spots: tuple[tuple[str, float], ...]  # (bearing or load id, centre along the member in m)
+
+
+@dataclass(frozen=True)
 class CheckList:
     checks: tuple[RequiredCheck, ...]
     exempt: tuple[Exempt, ...]
+    unchecked: tuple[Unchecked, ...] = ()
 
 
 def _least(options: list[tuple[float | None, str]]) -> tuple[float, str]:
@@ -133,8 +146,11 @@ def list_checks(model: Model, flow: TakeDown, pack: ResistancePack, readings: di
         upper = model.members[bearing.upper.member]
         lower = model.members[bearing.lower.member]
         forces = flow.bearing_forces.get(bearing.id, {})
+        unloaded = all(abs(value) <= FORCE_RESOLUTION for value in forces.values())
         for member, other, face in ((lower, upper, "top"), (upper, lower, "bottom")):
-            reason = _no_check_reason(model, member, pack)
+            reason = _no_check_reason(model, member, pack) or (
+                "no load passes through this bearing in any load case" if unloaded else ""
+            )
             if reason:
                 exempt.append(Exempt(bearing.id, member.id, reason))
                 continue
@@ -155,7 +171,24 @@ def list_checks(model: Model, flow: TakeDown, pack: ResistancePack, readings: di
             )
     count_spread = readings["near_support.distributed_loads"] == "within_d"
     checks.extend(_near_support_checks(model, flow, pack, count_spread))
-    return CheckList(tuple(checks), tuple(exempt))
+    return CheckList(tuple(checks), tuple(exempt), _unseen_supports(model, flow, pack))
+
+
+def _unseen_supports(model: Model, flow: TakeDown, pack: ResistancePack) -> tuple[Unchecked, ...]:
+    """Continuous members whose support is not shown, with the point loads that land on them."""
+    out = []
+    for member in model.members.values():
+        if not member.continuous or _no_check_reason(model, member, pack):
+            continue
+        under = model.materials.get(member.bears_on)
+        if under is not None and not pack.is_timber(under.family):
+            continue  # a sill on concrete or masonry is continuously supported in fact
+        spots = tuple(
+            (a.source, a.at) for a in flow.on_top.get(member.id, ()) if a.kind == "point" and a.at is not None
+        )
+        if spots:
+            out.append(Unchecked(member.id, tuple(sorted(spots, key=lambda s: s[1]))))
+    return tuple(out)
 
 
 def _no_check_reason(model: Model, member: Member, pack: ResistancePack) -> str:

@@ -122,6 +122,44 @@ QR_PLATE_PER_PLY = 0.8 * 5.3e6 * (0.038 * 0.089) * 1.25 * 1.00
 QR_PLATE_COMBINED = 0.8 * 5.3e6 * (0.038 * 0.089) * 1.25 * KZCP_COMBINED
 
 
+def post_on_stud_wall(**studs) -> dict:
+    """A timber post on a double top plate (2-ply 38 x 140 flat) over 38 mm studs at 406 mm, a 3-stud pack under it."""
+    return {
+        "project": {"title": "Post on a stud wall (fictional)"},
+        "materials": {
+            "SPF": {"family": "sawn_lumber", "species": "S-P-F", "grade": "No.2"},
+            "DF": {"family": "timber", "species": "D.Fir-L", "grade": "No.1"},
+        },
+        "members": [
+            {
+                "id": "WP",
+                "material": "SPF",
+                "b": "140 mm",
+                "d": "76 mm",
+                "length": "2.4 m",
+                "plies": 2,
+                "ply_thickness": "38 mm",
+                "support": "studs",
+                "studs": {"thickness": "38 mm", "spacing": "406 mm", "packs": [{"at": "1.2 m", "studs": 3}], **studs},
+            },
+            {"id": "P", "material": "DF", "b": "140 mm", "d": "140 mm", "length": "3 m", "orientation": "vertical"},
+        ],
+        "bearings": [{"id": "P/WP", "upper": "P", "lower": {"member": "WP", "at": "1.2 m"}}],
+        "loads": [{"id": "roof", "member": "P", "type": "point", "specified": {"D": "10 kN", "S": "20 kN"}}],
+    }
+
+
+# The post stands over the pack's centre, so the pack takes all of it: 1.25 x 10 + 1.5 x 20 = 42.5 kN.
+QF_POST_ON_WALL = 1.25 * 10e3 + 1.5 * 20e3
+KB_114 = 1.10 - 0.10 * (114 - 100) / 50  # KB table between 100 mm (1.10) and 150 mm (1.00)
+KB_140 = 1.10 - 0.10 * (140 - 100) / 50
+# the plate's underside on the 3-stud pack: 114 mm along x 140 mm across, KZcp 1.00 (one ply 140/38)
+QR_PLATE_ON_PACK = 0.8 * 5.3e6 * (0.114 * 0.140) * KB_114
+# squeezed between post (L2 = 140) and pack (L1 = 114): Ab' = 140 x (114 + 140)/2; both qualify for KB
+QR_PLATE_SQUEEZE = (2 / 3) * 0.8 * 5.3e6 * (0.140 * (0.114 + 0.140) / 2) * KB_114
+QR_POST_ON_PLATE = 0.8 * 5.3e6 * (0.140 * 0.140) * KB_140
+
+
 def _case(name: str, reference: float, computed: float, note: str = "") -> Case:
     return Case("Details by hand", name, HAND, reference / 1000.0, computed / 1000.0, 1e-3, "1 N", note)
 
@@ -232,5 +270,35 @@ def hankinson_cases() -> list[Case]:
     ]
 
 
+def stud_wall_cases() -> list[Case]:
+    review = review_dict(post_on_stud_wall())
+    return [
+        _case(
+            "Qr (kN), post on a double top plate",
+            QR_POST_ON_PLATE,
+            review.result("P/WP:WP").governing.qr,
+            "0.8 x 5.3 MPa x 140 x 140 mm x KB 1.02",
+        ),
+        _case(
+            "Qr (kN), the plate's underside on a 3-stud pack",
+            QR_PLATE_ON_PACK,
+            review.result("WP/WP.pack1:WP").governing.qr,
+            "0.8 x 5.3 MPa x 114 x 140 mm x KB 1.072",
+        ),
+        _case(
+            "Qr' (kN), the plate squeezed between post and pack",
+            QR_PLATE_SQUEEZE,
+            review.result("WP/WP.pack1:WP:near").governing.qr,
+            "2/3 x 0.8 x 5.3 MPa x 140 x (114 + 140)/2 x KB 1.072",
+        ),
+        _case(
+            "Qf' (kN), the whole post load through the plate",
+            QF_POST_ON_WALL,
+            review.result("WP/WP.pack1:WP:near").governing.qf,
+            "1.25 x 10 + 1.5 x 20",
+        ),
+    ]
+
+
 def detail_cases() -> list[Case]:
-    return contact_cases() + near_support_cases() + built_up_cases() + hankinson_cases()
+    return contact_cases() + near_support_cases() + built_up_cases() + hankinson_cases() + stud_wall_cases()
