@@ -147,3 +147,25 @@ def test_uplift_below_the_project_threshold_is_a_minor_note_that_states_it():
     uplift = [f for f in review_dict(_suction_model("10 kN")).engine_findings if f.kind == "uplift"]
     assert uplift and {f.severity for f in uplift} == {"minor"}
     assert all("10.00 kN" in f.message for f in uplift)
+
+
+def test_a_firms_pack_can_set_the_uplift_note_threshold_and_the_memo_states_it(tmp_path):
+    import yaml
+
+    from audit.core.located_yaml import read_yaml_text
+    from audit.inputs.read_model import build_model
+    from audit.report.memo import assumptions
+    from audit.review.review import review_built
+    from audit.standards.packs import builtin_rules_dir
+
+    text = (builtin_rules_dir() / "o86-2019-recalled.yaml").read_text()
+    text = text.replace("id: o86-2019-recalled", "id: firm-uplift").replace("    value: 0 kN\n", "    value: 10 kN\n")
+    (tmp_path / "firm.yaml").write_text(text)
+    data = _suction_model(None)
+    data["project"]["rule_pack"] = "firm-uplift"
+    root = read_yaml_text(yaml.safe_dump(data, sort_keys=False), "model.yaml")
+    review = review_built(*build_model(root, "model.yaml", (tmp_path,)))
+    uplift = [f for f in review.engine_findings if f.kind == "uplift"]
+    assert uplift and {f.severity for f in uplift} == {"minor"}
+    assert all("rule pack firm-uplift" in f.message for f in uplift)
+    assert any("below 10.00 kN" in line for line in assumptions(review))

@@ -127,7 +127,7 @@ class Project:
     tolerance_absolute: float  # N
     date: dt.date | None
     readings: dict[str, str] = field(default_factory=dict)  # choice name -> reading chosen over the pack's default
-    uplift_note_below: float = 0.0  # N; a smaller calculated uplift is a note (continuity), not a finding
+    uplift_note_below: float | None = None  # N; a smaller calculated uplift is a note; None: the pack's threshold
 
 
 @dataclass(frozen=True)

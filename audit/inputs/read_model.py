@@ -187,7 +187,7 @@ def _read_project(node: Node, errors: ErrorCollector) -> Project:
         tolerance_absolute=tol_abs,
         date=date,
         readings=_read_reading_choices(f, errors),
-        uplift_note_below=uplift_note or 0.0,
+        uplift_note_below=uplift_note,
     )
 
 

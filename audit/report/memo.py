@@ -19,7 +19,7 @@ from audit.inputs.read_claims import Claim
 from audit.report.export import check_record, rows_to_csv
 from audit.review.findings import KINDS, SEVERITIES, Finding
 from audit.review.reconcile import Reconciliation
-from audit.review.review import Review
+from audit.review.review import Review, uplift_threshold
 from audit.standards.checks import NEAR
 
 STATUS_WORDS = {
@@ -99,6 +99,13 @@ def assumptions(review: Review) -> list[str]:
         "the specified dead load at the check exceeds its L + S load. The governing combination is the one with "
         "the highest Qf/Qr.",
     ]
+    threshold, whose = uplift_threshold(review.model, pack)
+    out.append(
+        f"Calculated uplift below {threshold / 1000:.2f} kN ({whose}) is a minor note, likely continuity of the "
+        "statics; larger uplift is a major finding."
+        if threshold > 0
+        else "Every calculated uplift is a major finding (no note threshold set by the project or the rule pack)."
+    )
     if review.model.factored_groups:
         out.append(
             "Already-factored loads act in their own groups, each with its stated duration; they are not "

@@ -59,7 +59,8 @@ def review_built(model: Model, pack: ResistancePack, cpack: CombinationPack) -> 
     flow = take_down(model)
     checklist = list_checks(model, flow, pack, pack.in_force(model.project.readings))
     results = resist(checklist, model, pack, cpack)
-    engine = uplift_findings(results, model.project.uplift_note_below) + unseen_support_findings(checklist)
+    threshold, whose = uplift_threshold(model, pack)
+    engine = uplift_findings(results, threshold, whose) + unseen_support_findings(checklist)
     return Review(model, pack, cpack, flow, checklist, results, engine)
 
 
@@ -83,7 +84,16 @@ def unseen_support_findings(checklist: CheckList) -> tuple[Finding, ...]:
     return tuple(out)
 
 
-def uplift_findings(results: tuple[CheckResult, ...], note_below: float = 0.0) -> tuple[Finding, ...]:
+def uplift_threshold(model: Model, pack: ResistancePack) -> tuple[float, str]:
+    """(N, whose) below which uplift is a note: the project's where it sets one, else the pack's."""
+    if model.project.uplift_note_below is not None:
+        return model.project.uplift_note_below, "the project's note threshold (uplift_note_below)"
+    return pack.uplift_note_below.value, f"the note threshold of rule pack {pack.id} (uplift.note_below)"
+
+
+def uplift_findings(
+    results: tuple[CheckResult, ...], note_below: float = 0.0, whose: str = "the note threshold"
+) -> tuple[Finding, ...]:
     """One finding per bearing with uplift; below the project's threshold it is a minor note that says so."""
     seen: set[str] = set()
     out = []
@@ -94,7 +104,7 @@ def uplift_findings(results: tuple[CheckResult, ...], note_below: float = 0.0) -
         worst = min((c for c in r.combinations if c.qf < 0), key=lambda c: c.qf)
         small = -worst.qf < note_below
         advice = (
-            f"below the project's note threshold of {note_below / 1000:.2f} kN (uplift_note_below): likely "
+            f"below {whose} of {note_below / 1000:.2f} kN: likely "
             "continuity of the statics; confirm the fastening holds it."
             if small
             else "a bearing cannot resist uplift, confirm the tie-down."

@@ -115,6 +115,7 @@ class ResistancePack:
     ksc: dict[str, Sourced]
     near_factor: Sourced
     near_reach: Sourced
+    uplift_note_below: Sourced  # N: calculated uplift below this is a note (continuity of the statics)
     near_area_ratio: float
     choices: dict[str, Choice]  # every two-way reading, by its dotted name
 
@@ -150,6 +151,7 @@ class ResistancePack:
         ]
         out += [(f"kd.{k}", v) for k, v in self.kd.items()]
         out.append(("kd.long_term_formula", self.kd_long_term))
+        out.append(("uplift.note_below", self.uplift_note_below))
         out += [(f"kscp.{k}", v) for k, v in self.kscp.items()]
         out += [(f"ksc.{k}", v) for k, v in self.ksc.items()]
         out += [
@@ -268,6 +270,13 @@ def _length(node: Node, _parent: Node) -> float:
     return value
 
 
+def _force_or_zero(node: Node, _parent: Node) -> float:
+    value = parse_quantity(node.value, "force", node.loc)
+    if value < 0:
+        raise InputError("a force threshold must not be negative", node.loc)
+    return value
+
+
 def _number_conv(node: Node, _parent: Node) -> float:
     return _number(node)
 
@@ -375,6 +384,7 @@ def read_resistance_pack(root: Node, path: str) -> ResistancePack:
         ksc={f: s for f, n in (ksc.value.items() if ksc else []) if (s := r.sourced(n, _service_pair))},
         near_factor=r.sourced(sub(ns, "factor"), lambda n, p: _number(n, 0.0, 1.0)),
         near_reach=r.sourced(sub(ns, "reach"), _number_conv),
+        uplift_note_below=r.sourced(sub(sub(root, "uplift"), "note_below"), _force_or_zero),
     )
     choices = {}
     for section, key in CHOICES:
