@@ -25,7 +25,7 @@ def test_separate_bearings_within_d_take_l2_from_the_longest_single_bearing_by_d
     r = review_dict(beam_with_post_and_joist()).result(NEAR)
     assert r.governing.qf == pytest.approx(QF_POST_AND_JOIST, rel=REL)  # both loads, not only the post
     assert r.governing.qr == pytest.approx(QR_LONGEST_SINGLE, rel=REL)
-    assert "(140 + 152)/2" in r.area_reason
+    assert "(140 + 152)/2" in r.area_reason and "L2 from the longest single bearing" in r.area_reason
 
 
 def test_the_summed_reading_adds_the_lengths_of_separate_bearings():

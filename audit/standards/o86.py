@@ -314,6 +314,10 @@ def _near_area(check: RequiredCheck, pack: ResistancePack, readings: dict[str, s
             f"Ab' = b (L1 + L2)/2 = {b * 1000:.0f} x ({l1 * 1000:.0f} + {l2 * 1000:.0f})/2{cap} = "
             f"{area * 1e6:,.0f} mm² (reading: {reading})"
         )
+    if len(check.opposite) > 1:
+        spread = readings["near_support.opposite_bearings"]
+        how = "the longest single bearing" if spread == "longest_single" else "the sum of their lengths"
+        text += f"; {len(check.opposite)} bearings within d, L2 from {how} (reading: {spread})"
     return area, text
 
 
