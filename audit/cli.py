@@ -226,6 +226,11 @@ def rules(rules_dir: list[Path] | None = RulesDir) -> None:
         typer.echo(f"  provenance: {cpack.provenance}")
         for c in cpack.combinations:
             typer.echo(f"  {c.name} ({c.duration} term)  [{c.source.clause}; {c.source.source}; {c.source.status}]")
+        extras = [("counteracting_dead", cpack.counteracting_dead), ("storage_live.companion", cpack.storage_companion)]
+        extras += [(f"patterns.{case}", value) for case, value in cpack.patterns.items()]
+        for name, value in extras:
+            shown = " or ".join(f"{v:g}" for v in value.value) if isinstance(value.value, tuple) else f"{value.value:g}"
+            typer.echo(f"  {name} = {shown}  [{value.clause}; {value.source}; {value.status}]")
 
 
 def _shown(name: str, value: object) -> str:

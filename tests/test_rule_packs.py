@@ -3,6 +3,8 @@ without code changes."""
 
 from __future__ import annotations
 
+import pytest
+
 from audit.standards.packs import builtin_rules_dir, load_all_packs
 from tests.conftest import base_model
 
@@ -63,3 +65,25 @@ def test_rules_listing_prints_lengths_in_mm_and_factors_to_four_figures(run_cli)
     factor_line = next(line for line in out.splitlines() if "near_support.factor =" in line)
     assert "= 0.6667" in factor_line and "0.66666" not in factor_line
     assert "common practice" not in factor_line  # the 2/3 is part of the clause's formula
+
+
+def test_each_code_edition_is_its_own_pack_and_the_project_chooses_it():
+    from tests.conftest import review_dict
+
+    def companion_qf(edition: str) -> dict[str, float]:
+        data = base_model()
+        data["project"]["combinations"] = edition
+        data["loads"][0]["specified"] = {"D": "1 kN/m", "L": "2 kN/m", "S": "1 kN/m"}
+        return {c.combination: c.qf for c in review_dict(data).result("J1/B1:J1").combinations}
+
+    # J1 reaction on B1 (4 m joist, symmetric): D 2 kN, L 4 kN, S 2 kN. As recalled, the live-led
+    # case took 0.5S in NBCC 2010 and 1.0S from 2015 (from memory: verify)
+    assert companion_qf("nbcc-2010-recalled")["1.25D+1.5L+0.5S"] == pytest.approx(1.25 * 2000 + 1.5 * 4000 + 0.5 * 2000)
+    assert companion_qf("nbcc-2015-recalled")["1.25D+1.5L+1.0S"] == pytest.approx(1.25 * 2000 + 1.5 * 4000 + 1.0 * 2000)
+    assert "1.25D+1.5L+1.0S" in companion_qf("nbcc-2020-recalled")
+
+
+def test_a_combination_pack_states_patterns_counteracting_dead_and_storage_companion(run_cli):
+    out = run_cli("rules").stdout
+    assert "counteracting_dead = 0.9" in out and "patterns.L = 0 or 1" in out and "patterns.S = 0.5 or 1" in out
+    assert "storage_live.companion = 1" in out

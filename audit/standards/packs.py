@@ -179,6 +179,9 @@ class CombinationPack:
     path: str
     cases: tuple[str, ...]
     combinations: tuple[Combination, ...]
+    counteracting_dead: Sourced  # dead-load factor where dead load resists (uplift search)
+    patterns: dict[str, Sourced]  # case -> (low, high) factors a span may take on a continuous member
+    storage_companion: Sourced  # companion factor of storage, equipment and service-room live load
 
 
 # ---------------------------------------------------------------- reading
@@ -481,7 +484,21 @@ def read_combination_pack(root: Node, path: str) -> CombinationPack:
         combos.append(Combination(name, factors, duration, src))
     if not combos:
         errors.add("no combinations", root.loc)
+    counteracting = r.sourced(_required(root, "counteracting_dead", errors), lambda n, p: _number(n, 0.0, 2.0))
+    patterns_node = root.value.get("patterns")
+    patterns = {}
+    for case, node in patterns_node.value.items() if patterns_node and isinstance(patterns_node.value, dict) else []:
+        if case not in cases:
+            errors.add(f"unknown load case '{case}'", node.loc)
+            continue
+        if (p := r.sourced(node, _span_factors)) is not None:
+            patterns[case] = p
+    storage_node = _required(root, "storage_live", errors)
+    companion = _required(storage_node, "companion", errors) if storage_node is not None else None
+    storage = r.sourced(companion, lambda n, p: _number(n, 0.0, 2.0))
     errors.raise_if_any()
+    if counteracting is None or storage is None:
+        raise InputError("combination pack lacks counteracting_dead or storage_live", root.loc)
     return CombinationPack(
         id=r.text(root, "id"),
         title=r.text(root, "title", ""),
@@ -490,7 +507,33 @@ def read_combination_pack(root: Node, path: str) -> CombinationPack:
         path=path,
         cases=cases,
         combinations=tuple(combos),
+        counteracting_dead=counteracting,
+        patterns=patterns,
+        storage_companion=storage,
     )
+
+
+def _required(node: Node, key: str, errors: ErrorCollector) -> Node | None:
+    child = node.value.get(key) if isinstance(node.value, dict) else None
+    if child is None:
+        errors.add(f"missing '{key}'", node.child_loc(key))
+    return child
+
+
+def _span_factors(node: Node, _parent: Node) -> tuple[float, float]:
+    """The two factors a span may take, low and high, each from 0 to 1."""
+    if not isinstance(node.value, list) or len(node.value) != 2:
+        raise InputError("expected [low, high] span factors, e.g. [0.0, 1.0]", node.loc)
+    low, high = (_number_or_zero(item) for item in node.value)
+    if not 0.0 <= low < high <= 1.0:
+        raise InputError("span factors must satisfy 0 <= low < high <= 1", node.loc)
+    return low, high
+
+
+def _number_or_zero(node: Node) -> float:
+    if node.value == 0:
+        return 0.0
+    return _number(node, 0.0, 1.0)
 
 
 # ---------------------------------------------------------------- finding packs
