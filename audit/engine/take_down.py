@@ -8,6 +8,7 @@ the force through that bearing, which loads the member below.
 
 from __future__ import annotations
 
+import itertools
 from collections import defaultdict
 from dataclasses import dataclass, field
 
@@ -40,10 +41,26 @@ class AppliedForce:
 
 
 @dataclass(frozen=True)
+class Envelope:
+    """One load case at one support of a member on three or more supports, placed span by span.
+
+    Each span (and overhang) takes the case at its high or its low factor, whichever is worse
+    at this support; reactions are linear in the loads, so the worst of every pattern is the
+    sum of each span's worse share.
+    """
+
+    high: float  # N, the most downward force through the bearing
+    low: float  # N, the least (most upward)
+    high_spans: str  # the pattern giving ``high``, e.g. "spans 1, 3" ("" when that is every span)
+    low_spans: str
+
+
+@dataclass(frozen=True)
 class TakeDown:
     order: tuple[str, ...]  # members from the top down
-    bearing_forces: dict[str, Forces]  # bearing id -> force through it, per case
+    bearing_forces: dict[str, Forces]  # bearing id -> force through it, per case, every span loaded
     on_top: dict[str, tuple[AppliedForce, ...]]  # member id -> what presses on its top face
+    envelopes: dict[str, dict[str, Envelope]] = field(default_factory=dict)  # bearing id -> case -> envelope
 
 
 def support_order(model: Model) -> tuple[str, ...]:
@@ -67,7 +84,13 @@ def support_order(model: Model) -> tuple[str, ...]:
     return tuple(order)
 
 
-def take_down(model: Model) -> TakeDown:
+def take_down(model: Model, patterns: dict[str, tuple[float, float]] | None = None) -> TakeDown:
+    """Forces through every bearing per load case; ``patterns``: case -> (low, high) span factors.
+
+    Loads pass down with every span loaded; the patterns give each support of a member on
+    three or more supports its envelope, which that bearing's checks use.
+    """
+    patterns = patterns or {}
     order = support_order(model)
     supports_of: dict[str, list] = defaultdict(list)
     carried_by: dict[str, list] = defaultdict(list)
@@ -80,6 +103,7 @@ def take_down(model: Model) -> TakeDown:
 
     bearing_forces: dict[str, Forces] = {}
     on_top: dict[str, tuple[AppliedForce, ...]] = {}
+    envelopes: dict[str, dict[str, Envelope]] = {}
     for member_id in order:
         member = model.members[member_id]
         applied = _applied_forces(member_id, carried_by[member_id], own_loads[member_id], bearing_forces)
@@ -99,7 +123,110 @@ def take_down(model: Model) -> TakeDown:
         per_support = _reactions_by_case(positions, applied)
         for bearing, forces in zip(below, per_support, strict=True):
             bearing_forces[bearing.id] = forces
-    return TakeDown(order, bearing_forces, on_top)
+        if len(below) >= 3 and patterns:
+            for bearing, by_case in zip(
+                below, _pattern_envelopes(positions, member.length, applied, patterns), strict=True
+            ):
+                if by_case:
+                    envelopes[bearing.id] = by_case
+    return TakeDown(order, bearing_forces, on_top, envelopes)
+
+
+def pattern_case(case: str) -> str:
+    """The case whose pattern a load case follows: storage live load is live load."""
+    return case.split(":", 1)[0]
+
+
+def span_pieces(positions: list[float], length: float) -> list[tuple[float, float, str]]:
+    """The member cut at its supports: (start, end, name); overhangs only where they exist."""
+    cuts = [0.0, *positions, length]
+    out = []
+    for i, (a, b) in enumerate(itertools.pairwise(cuts)):
+        if b - a <= 1e-9:
+            continue
+        if i == 0:
+            name = "the left overhang"
+        elif i == len(cuts) - 2:
+            name = "the right overhang"
+        else:
+            name = f"span {i}"
+        out.append((a, b, name))
+    return out
+
+
+def _pattern_envelopes(
+    positions: list[float], length: float, applied: tuple[AppliedForce, ...], patterns: dict[str, tuple[float, float]]
+) -> list[dict[str, Envelope]]:
+    pieces = span_pieces(positions, length)
+    out: list[dict[str, Envelope]] = [{} for _ in positions]
+    cases = sorted({c for item in applied for c in item.forces if pattern_case(c) in patterns})
+    for case in cases:
+        low_factor, high_factor = patterns[pattern_case(case)]
+        shares = [_piece_reactions(positions, applied, case, pieces, k) for k in range(len(pieces))]
+        total = sum(abs(r) for share in shares for r in share) or 1.0
+        for i in range(len(positions)):
+            high = low = 0.0
+            high_names: list[str] = []
+            low_names: list[str] = []
+            for (_, _, name), share in zip(pieces, shares, strict=True):
+                r = share[i]
+                if abs(r) <= NOISE_SHARE * total:
+                    continue
+                high += max(high_factor * r, low_factor * r)
+                low += min(high_factor * r, low_factor * r)
+                (high_names if r > 0 else low_names).append(name)
+            loaded = {name for *_, name in pieces}
+            out[i][case] = Envelope(
+                high, low, "" if set(high_names) == loaded else spans_text(high_names), spans_text(low_names)
+            )
+    return out
+
+
+def spans_text(names: list[str]) -> str:
+    """'spans 1 and 3', 'span 2 and the left overhang': how a pattern reads in the memo."""
+    spans = [n.split()[1] for n in names if n.startswith("span ")]
+    others = [n for n in names if not n.startswith("span ")]
+    parts = []
+    if spans:
+        parts.append(
+            ("span " if len(spans) == 1 else "spans ")
+            + ", ".join(spans[:-1])
+            + (" and " if len(spans) > 1 else "")
+            + spans[-1]
+        )
+    parts += others
+    return " and ".join(parts)
+
+
+def _piece_of(x: float, pieces: list[tuple[float, float, str]]) -> int:
+    """The piece a point load belongs to: the last one starting at or before it (a load on a support goes left)."""
+    index = 0
+    for i, (a, _, _) in enumerate(pieces):
+        if a < x - 1e-12:
+            index = i
+    return index
+
+
+def _piece_reactions(
+    positions: list[float], applied: tuple[AppliedForce, ...], case: str, pieces: list[tuple[float, float, str]], k: int
+) -> list[float]:
+    """Reactions from the part of one load case that lies on piece ``k``."""
+    a, b, _ = pieces[k]
+    points, uniforms = [], []
+    for item in applied:
+        value = item.forces.get(case)
+        if value is None:
+            continue
+        if item.kind == "point" and item.at is not None:
+            if _piece_of(item.at, pieces) == k:
+                points.append((item.at, value))
+        elif item.start is not None and item.end is not None:
+            lo, hi = max(a, item.start), min(b, item.end)
+            if hi > lo:
+                uniforms.append((lo, hi, value))
+    if not points and not uniforms:
+        return [0.0] * len(positions)
+    return reactions(positions, points, uniforms)
 
 
 def _applied_forces(member_id, carried, own, bearing_forces) -> tuple[AppliedForce, ...]:

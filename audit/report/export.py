@@ -15,7 +15,7 @@ from typing import Any
 from audit import __version__
 from audit.review.review import Review
 from audit.standards.checks import Contact
-from audit.standards.o86 import CheckResult, load_duration_factor
+from audit.standards.o86 import CheckResult, load_duration_factor, placed_forces
 
 
 def _contact(c: Contact) -> dict[str, Any]:
@@ -63,6 +63,10 @@ def check_record(r: CheckResult) -> dict[str, Any]:
             for x in r.combinations
         ],
         "governing": g.combination,
+        "governing_pattern": g.pattern,
+        "pattern_envelope_kN": {
+            case: [round(e.low / 1000, 3), round(e.high / 1000, 3)] for case, e in sorted(c.envelope.items())
+        },
         "KD_reason": g.kd_reason,
         "Qf_kN": round(g.qf / 1000, 3),
         "Qr_kN": round(g.qr / 1000, 3),
@@ -205,11 +209,17 @@ def explain(review: Review, check_id: str) -> str:
         "Forces through the check (specified, per case): "
         + ", ".join(f"{case} = {v / 1000:.2f} kN" for case, v in sorted(c.forces.items()))
     )
+    for case, e in sorted(c.envelope.items()):
+        lines.append(
+            f"Pattern loading of {case} on {c.member}'s spans: {e.low / 1000:.2f} to {e.high / 1000:.2f} kN "
+            f"(most with {e.high_spans or 'every span'} loaded; least with {e.low_spans or 'no span'})"
+        )
     combos = {c.name: c for c in review.combinations}
     for x in r.combinations:
         mark = "  <- governs" if x is r.governing else ""
+        placed = placed_forces(c.forces, c.envelope, combos[x.combination])[0] if x.combination in combos else c.forces
         reason = x.kd_reason or (
-            load_duration_factor(c.forces, combos[x.combination], review.pack)[1]
+            load_duration_factor(placed, combos[x.combination], review.pack)[1]
             if r.inputs.uses_kd and x.combination in combos
             else f"KD = {x.kd:.2f}"
         )
@@ -217,6 +227,8 @@ def explain(review: Review, check_id: str) -> str:
             f"  {x.combination:28s} Qf = {x.qf / 1000:8.2f} kN  {reason:60.60s}  Fcp = {_fcp(r, x.kd) / 1e6:5.2f} MPa  "
             f"Qr = {x.qr / 1000:8.2f} kN  Qf/Qr = {x.utilisation:.3f}{mark}"
         )
+        if x.pattern:
+            lines.append(f"      placed: {x.pattern}")
     verdict = "passes" if r.passes else "FAILS"
     lines.append(f"Result: {verdict} (Qf/Qr = {r.governing.utilisation:.3f} under {r.governing.combination})")
     if r.uplift:

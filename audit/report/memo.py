@@ -74,6 +74,7 @@ def assumptions(review: Review) -> list[str]:
     out = [
         "Members on two supports are solved by statics; members on three or more supports by the stiffness "
         "method for a continuous beam of constant EI on unyielding supports.",
+        *_pattern_lines(review),
         "Spans run between bearing centres; loads beyond an end support act on an overhang.",
         *(
             f"{choice.title}: {choice.text(review.readings[name])} [reading {review.readings[name]}]."
@@ -112,6 +113,24 @@ def assumptions(review: Review) -> list[str]:
             "combined with specified loads."
         )
     return out
+
+
+def _pattern_lines(review: Review) -> list[str]:
+    cpack = review.cpack
+    if not cpack.patterns:
+        return ["Every span of a continuous member carries the whole of each load case (no pattern loading)."]
+    placed = "; ".join(
+        f"{case} at {low:g} or {high:g} of its value on each span [{p.clause}]"
+        for case, p in sorted(cpack.patterns.items())
+        for low, high in [p.value]
+    )
+    return [
+        f"Pattern loading at the supports of members on three or more supports: {placed}, whichever is worse at each "
+        "check; the check names its governing pattern. Loads pass down to the members below with every span "
+        "loaded.",
+        f"Uplift is looked for under every combination with dead load at {cpack.counteracting_dead.value:g}D where it "
+        "counteracts and every patterned case at its least favourable placing.",
+    ]
 
 
 def _finding_view(f: Finding, review: Review, reconciliation: Reconciliation | None, claims: dict[str, Claim]):

@@ -56,11 +56,12 @@ def review_model(model_path: Path | str, rules_dirs: tuple[Path, ...] = (), rule
 
 
 def review_built(model: Model, pack: ResistancePack, cpack: CombinationPack) -> Review:
-    flow = take_down(model)
+    flow = take_down(model, {case: p.value for case, p in cpack.patterns.items()})
     checklist = list_checks(model, flow, pack, pack.in_force(model.project.readings))
     results = resist(checklist, model, pack, cpack)
     threshold, whose = uplift_threshold(model, pack)
-    engine = uplift_findings(results, threshold, whose) + unseen_support_findings(checklist)
+    factors = {c.name: c.factors for c in load_combinations(model, cpack)}
+    engine = uplift_findings(results, threshold, whose, factors) + unseen_support_findings(checklist)
     return Review(model, pack, cpack, flow, checklist, results, engine)
 
 
@@ -84,6 +85,16 @@ def unseen_support_findings(checklist: CheckList) -> tuple[Finding, ...]:
     return tuple(out)
 
 
+def _as_placed(combination: str, result: CheckResult, factors: dict[str, float]) -> str:
+    """The combination as uplift is looked for: the dead load counteracting, patterned cases at their least."""
+    placed = [
+        f"{case} on {env.low_spans or 'no span'}"
+        for case, env in sorted(result.check.envelope.items())
+        if factors.get(case, 0.0) > 0
+    ]
+    return f"{combination} (dead load counteracting" + (f"; {'; '.join(placed)})" if placed else ")")
+
+
 def uplift_threshold(model: Model, pack: ResistancePack) -> tuple[float, str]:
     """(N, whose) below which uplift is a note: the project's where it sets one, else the pack's."""
     if model.project.uplift_note_below is not None:
@@ -92,17 +103,22 @@ def uplift_threshold(model: Model, pack: ResistancePack) -> tuple[float, str]:
 
 
 def uplift_findings(
-    results: tuple[CheckResult, ...], note_below: float = 0.0, whose: str = "the note threshold"
+    results: tuple[CheckResult, ...],
+    note_below: float = 0.0,
+    whose: str = "the note threshold",
+    factors: dict[str, dict[str, float]] | None = None,
 ) -> tuple[Finding, ...]:
     """One finding per bearing with uplift; below the project's threshold it is a minor note that says so."""
+    factors = factors or {}
     seen: set[str] = set()
     out = []
     for r in results:
         if not r.uplift or r.check.bearing in seen or r.check.kind != "local":
             continue
         seen.add(r.check.bearing)
-        worst = min((c for c in r.combinations if c.qf < 0), key=lambda c: c.qf)
-        small = -worst.qf < note_below
+        worst = min(r.combinations, key=lambda c: c.qf_low)
+        placed = _as_placed(worst.combination, r, factors.get(worst.combination, {}))
+        small = -worst.qf_low < note_below
         advice = (
             f"below {whose} of {note_below / 1000:.2f} kN: likely "
             "continuity of the statics; confirm the fastening holds it."
@@ -113,11 +129,10 @@ def uplift_findings(
             Finding(
                 "uplift",
                 "minor" if small else KINDS["uplift"].severity,
-                f"Bearing {r.check.bearing}: {worst.combination} gives an upward force of "
-                f"{-worst.qf / 1000:.2f} kN; {advice}",
+                f"Bearing {r.check.bearing}: {placed} gives an upward force of {-worst.qf_low / 1000:.2f} kN; {advice}",
                 bearing=r.check.bearing,
                 member=r.check.member,
-                numbers={"qf": worst.qf},
+                numbers={"qf": worst.qf_low},
             )
         )
     return tuple(out)

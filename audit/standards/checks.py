@@ -16,7 +16,7 @@ from dataclasses import dataclass, field
 
 from audit.core.errors import ErrorCollector, InputError
 from audit.engine.model import Bearing, Member, Model
-from audit.engine.take_down import FORCE_RESOLUTION, AppliedForce, Forces, TakeDown
+from audit.engine.take_down import FORCE_RESOLUTION, AppliedForce, Envelope, Forces, TakeDown
 from audit.standards.packs import ResistancePack
 
 LOCAL = "local"
@@ -52,6 +52,7 @@ class RequiredCheck:
     why: str  # why the check is required
     spread: tuple[tuple[str, float], ...] = ()  # near-support: distributed loads counted, (load id, m within d)
     spread_forces: Forces = field(default_factory=dict)  # the part of ``forces`` that is their share
+    envelope: dict[str, Envelope] = field(default_factory=dict)  # patterned cases at a continuous member's support
 
 
 @dataclass(frozen=True)
@@ -146,7 +147,9 @@ def list_checks(model: Model, flow: TakeDown, pack: ResistancePack, readings: di
         upper = model.members[bearing.upper.member]
         lower = model.members[bearing.lower.member]
         forces = flow.bearing_forces.get(bearing.id, {})
-        unloaded = all(abs(value) <= FORCE_RESOLUTION for value in forces.values())
+        unloaded = all(abs(value) <= FORCE_RESOLUTION for value in forces.values()) and not any(
+            abs(e.low) > FORCE_RESOLUTION for e in flow.envelopes.get(bearing.id, {}).values()
+        )
         for member, other, face in ((lower, upper, "top"), (upper, lower, "bottom")):
             reason = _no_check_reason(model, member, pack) or (
                 "no load passes through this bearing in any load case" if unloaded else ""
@@ -167,6 +170,7 @@ def list_checks(model: Model, flow: TakeDown, pack: ResistancePack, readings: di
                     angle=bearing.side_of(member.id).angle,
                     other_member=other.id,
                     why=_local_why(member, other, face),
+                    envelope=flow.envelopes.get(bearing.id, {}),
                 )
             )
     count_spread = readings["near_support.distributed_loads"] == "within_d"

@@ -68,6 +68,38 @@ class CombinationResult:
     kd_reason: str
     qr: float  # N
     utilisation: float
+    pattern: str = ""  # how the patterned cases were placed for this Qf ("" : every span loaded)
+    qf_low: float = 0.0  # N, the least force under this combination: counteracting dead load, worst patterns
+
+
+def placed_forces(forces: Forces, envelope: dict, combo: LoadCombination) -> tuple[Forces, str]:
+    """The forces of each case as the combination places it worst: patterned cases at their envelope."""
+    placed = dict(forces)
+    notes = []
+    for case, env in envelope.items():
+        factor = combo.factors.get(case, 0.0)
+        if factor == 0.0:
+            continue
+        value, spans = (env.high, env.high_spans) if factor > 0 else (env.low, env.low_spans)
+        placed[case] = value
+        if abs(value - forces.get(case, 0.0)) > FORCE_RESOLUTION:
+            notes.append(f"{case} on {spans or 'no span'}")
+    return placed, "; ".join(notes)
+
+
+def least_force(forces: Forces, envelope: dict, combo: LoadCombination, counteracting: float) -> float:
+    """The least force through the bearing under a combination: dead load at its counteracting factor where
+    that is lower, every patterned case at its least favourable placing (uplift is looked for here)."""
+    total = []
+    for case, factor in combo.factors.items():
+        if case == LONG_TERM_CASE:
+            factor = min(factor, counteracting) if forces.get(case, 0.0) > 0 else factor
+        env = envelope.get(case)
+        if env is None:
+            total.append(factor * forces.get(case, 0.0))
+        else:
+            total.append(factor * (env.low if factor > 0 else env.high))
+    return math.fsum(total)
 
 
 @dataclass(frozen=True)
@@ -368,22 +400,31 @@ def evaluate(
     combos: tuple[LoadCombination, ...],
     pack: ResistancePack,
     forces: Forces | None = None,
+    counteracting: float = 1.0,
+    patterned: bool = True,
 ) -> tuple[tuple[CombinationResult, ...], CombinationResult, tuple[str, ...]]:
+    """Every combination's Qf, KD and Qr at the check; the governing one; the combinations with uplift.
+
+    ``forces`` replaces the check's own (diagnosis); ``patterned`` False ignores pattern loading.
+    """
     forces = check.forces if forces is None else forces
+    envelope = check.envelope if patterned else {}
     results = []
     reasons = []  # kept aside: only the governing combination's reason is stored (memory on large buildings)
     uplift = []
     for combo in combos:
         if not _principal_present(combo, forces):
             continue
-        qf = factored_force(forces, combo)
-        kd, kd_reason = load_duration_factor(forces, combo, pack)
+        placed, pattern = placed_forces(forces, envelope, combo)
+        qf = factored_force(placed, combo)
+        low = least_force(forces, envelope, combo, counteracting)
+        kd, kd_reason = load_duration_factor(placed, combo, pack)
         if not inputs.uses_kd:
             kd, kd_reason = 1.0, "KD = 1.00: the product's evaluation report does not apply KD"
         qr = resistance(inputs, kd)
-        if qf < -FORCE_RESOLUTION:
+        if low < -FORCE_RESOLUTION:
             uplift.append(combo.name)
-        results.append(CombinationResult(combo.name, combo.duration, qf, kd, "", qr, max(qf, 0.0) / qr))
+        results.append(CombinationResult(combo.name, combo.duration, qf, kd, "", qr, max(qf, 0.0) / qr, pattern, low))
         reasons.append(kd_reason)
     if not results:
         qr = resistance(inputs, pack.kd["standard"].value)
@@ -405,7 +446,7 @@ def resist(checklist: CheckList, model: Model, pack: ResistancePack, cpack: Comb
         except InputError as exc:
             errors.extend(exc)
             continue
-        results, governing, uplift = evaluate(check, inputs, combos, pack)
+        results, governing, uplift = evaluate(check, inputs, combos, pack, counteracting=cpack.counteracting_dead.value)
         out.append(
             CheckResult(
                 check=check,

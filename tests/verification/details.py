@@ -160,6 +160,38 @@ QR_PLATE_SQUEEZE = (2 / 3) * 0.8 * 5.3e6 * (0.140 * (0.114 + 0.140) / 2) * KB_11
 QR_POST_ON_PLATE = 0.8 * 5.3e6 * (0.140 * 0.140) * KB_140
 
 
+def beam_on_posts(spans_m: list[float], live: str = "2 kN/m", dead: str = "1 kN/m", overhang_m: float = 0.0) -> dict:
+    """A glulam floor beam continuous over steel posts (centres at the span ends), uniform D and L."""
+    supports = [overhang_m]
+    for span in spans_m:
+        supports.append(supports[-1] + span)
+    length = supports[-1] + overhang_m
+    members = [{"id": "B", "material": "GL", "b": "130 mm", "d": "380 mm", "length": f"{length} m"}]
+    bearings = []
+    for i, x in enumerate(supports, start=1):
+        members.append(
+            {
+                "id": f"C{i}",
+                "material": "STEEL",
+                "b": "152 mm",
+                "d": "152 mm",
+                "length": "3 m",
+                "orientation": "vertical",
+            }
+        )
+        bearings.append({"id": f"B/C{i}", "upper": {"member": "B", "at": f"{x} m"}, "lower": f"C{i}"})
+    return {
+        "project": {"title": "Continuous floor beam (fictional)"},
+        "materials": {
+            "GL": {"family": "glulam", "species": "D.Fir-L", "grade": "24f-EX"},
+            "STEEL": {"family": "steel"},
+        },
+        "members": members,
+        "bearings": bearings,
+        "loads": [{"id": "floor", "member": "B", "type": "uniform", "specified": {"D": dead, "L": live}}],
+    }
+
+
 def _case(name: str, reference: float, computed: float, note: str = "") -> Case:
     return Case("Details by hand", name, HAND, reference / 1000.0, computed / 1000.0, 1e-3, "1 N", note)
 
@@ -300,5 +332,40 @@ def stud_wall_cases() -> list[Case]:
     ]
 
 
+def pattern_cases() -> list[Case]:
+    """Three equal 4 m spans, L = 2 kN/m: the live part of each reaction at its worst pattern.
+
+    Continuous-beam coefficients for three equal spans (standard beam tables; from memory, and
+    checked against anastruct in tests/test_pattern_loading.py): end reaction 0.400 wL with every
+    span loaded, 0.450 wL with spans 1 and 3; first interior 1.100 wL, 1.200 wL with spans 1 and 2.
+    """
+    flow = review_dict(beam_on_posts([4.0, 4.0, 4.0])).flow
+    w_l = 2.0e3 * 4.0
+    return [
+        Case(
+            "Details by hand",
+            "L reaction (kN), end support of three equal spans, worst pattern",
+            "continuous-beam coefficients, three equal spans (beam tables, from memory)",
+            0.450 * w_l / 1000,
+            flow.envelopes["B/C1"]["L"].high / 1000,
+            1e-3,
+            "1 N",
+            "0.450 wL with spans 1 and 3 loaded (0.400 wL with all)",
+        ),
+        Case(
+            "Details by hand",
+            "L reaction (kN), first interior support, worst pattern",
+            "continuous-beam coefficients, three equal spans (beam tables, from memory)",
+            1.200 * w_l / 1000,
+            flow.envelopes["B/C2"]["L"].high / 1000,
+            1e-3,
+            "1 N",
+            "1.200 wL with spans 1 and 2 loaded (1.100 wL with all)",
+        ),
+    ]
+
+
 def detail_cases() -> list[Case]:
-    return contact_cases() + near_support_cases() + built_up_cases() + hankinson_cases() + stud_wall_cases()
+    return (
+        contact_cases() + near_support_cases() + built_up_cases() + hankinson_cases() + stud_wall_cases()
+    ) + pattern_cases()
