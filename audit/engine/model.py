@@ -13,6 +13,18 @@ from functools import cached_property
 from audit.core.errors import Location
 
 SPECIFIED_CASES = ("D", "L", "S", "W", "E")
+# Load cases a load may split into: wind as pressure and as suction, live load of storage,
+# equipment or service rooms (another companion factor and, in O86, long-term duration).
+WIND_PRESSURE = "W:pressure"
+WIND_SUCTION = "W:suction"
+STORAGE_LIVE = "L:storage"
+
+
+def base_case(case: str) -> str:
+    """The load case a split case belongs to: W:suction is wind, L:storage is live load."""
+    return case.split(":", 1)[0]
+
+
 FACTORED_PREFIX = "factored:"
 PLY_FIT = 0.5e-3  # m: plies times their thickness must make up b or d to this
 

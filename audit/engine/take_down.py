@@ -13,7 +13,7 @@ from collections import defaultdict
 from dataclasses import dataclass, field
 
 from audit.engine.beam_statics import reactions
-from audit.engine.model import Model
+from audit.engine.model import Model, base_case
 
 Forces = dict[str, float]  # load case (or factored group key) -> force, N, downward positive
 
@@ -132,11 +132,6 @@ def take_down(model: Model, patterns: dict[str, tuple[float, float]] | None = No
     return TakeDown(order, bearing_forces, on_top, envelopes)
 
 
-def pattern_case(case: str) -> str:
-    """The case whose pattern a load case follows: storage live load is live load."""
-    return case.split(":", 1)[0]
-
-
 def span_pieces(positions: list[float], length: float) -> list[tuple[float, float, str]]:
     """The member cut at its supports: (start, end, name); overhangs only where they exist."""
     cuts = [0.0, *positions, length]
@@ -159,9 +154,9 @@ def _pattern_envelopes(
 ) -> list[dict[str, Envelope]]:
     pieces = span_pieces(positions, length)
     out: list[dict[str, Envelope]] = [{} for _ in positions]
-    cases = sorted({c for item in applied for c in item.forces if pattern_case(c) in patterns})
+    cases = sorted({c for item in applied for c in item.forces if base_case(c) in patterns})
     for case in cases:
-        low_factor, high_factor = patterns[pattern_case(case)]
+        low_factor, high_factor = patterns[base_case(case)]
         shares = [_piece_reactions(positions, applied, case, pieces, k) for k in range(len(pieces))]
         total = sum(abs(r) for share in shares for r in share) or 1.0
         for i in range(len(positions)):

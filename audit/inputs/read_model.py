@@ -19,6 +19,9 @@ from audit.core.located_yaml import Node, node_text, read_yaml_file
 from audit.engine.model import (
     FACTORED_PREFIX,
     PLY_FIT,
+    STORAGE_LIVE,
+    WIND_PRESSURE,
+    WIND_SUCTION,
     Bearing,
     FactoredGroup,
     Load,
@@ -90,7 +93,9 @@ LOAD_KEYS = {
     "factored",
     "duration",
     "label",
+    "live",
 }
+LIVE_KINDS = ("occupancy", "storage")  # storage: storage, equipment and service-room live load
 ENGINEERED_FACTORS = ("KD", "KScp", "KB", "KZcp", "KT")
 SUPPORTS = ("bearings", "continuous", "studs")
 
@@ -634,13 +639,18 @@ def _read_loads(
             errors.add("give either 'specified' (loads by case) or 'factored' (with 'duration')", item.loc)
             continue
         entries: list[tuple[str, float]] = []
+        live_kind = f.choice("live", LIVE_KINDS, required=False, default="occupancy")
         if has_specified:
             s = FieldReader(f.map["specified"], set(combos.cases), errors, "specified loads")
             for case in s.map:
-                if case in combos.cases:
+                if case == "W" and isinstance(s.map[case].value, dict):
+                    entries += _wind_both_ways(s.map[case], dimension, errors)
+                elif case in combos.cases:
                     value = s.quantity(case, dimension)
                     if value is not None:
-                        entries.append((case, value))
+                        entries.append((STORAGE_LIVE if case == "L" and live_kind == "storage" else case, value))
+            if f.has("live") and "L" not in s.map:
+                errors.add("'live' says what kind of live load this is: give an L load too", f.loc("live"))
             if not s.map and s.ok:
                 errors.add("no load cases given", f.loc("specified"))
             if not s.ok:
@@ -666,6 +676,20 @@ def _read_loads(
         for case, value in entries:
             out.append(Load(load_id, member_id, kind, case, value, at, start, end, length, width, item.loc))
     return tuple(out), groups
+
+
+def _wind_both_ways(node: Node, dimension: str, errors: ErrorCollector) -> list[tuple[str, float]]:
+    """W given as {pressure, suction}: each a size; pressure acts down, suction up."""
+    w = FieldReader(node, {"pressure", "suction"}, errors, "wind both ways")
+    out = []
+    for key, case, sign in (("pressure", WIND_PRESSURE, 1.0), ("suction", WIND_SUCTION, -1.0)):
+        if w.has(key):
+            value = w.quantity(key, dimension)
+            if value is not None:
+                out.append((case, sign * abs(value)))
+    if not w.map and w.ok:
+        errors.add("give W as pressure, suction or both, e.g. {pressure: 0.4 kN/m, suction: 0.9 kN/m}", node.loc)
+    return out
 
 
 def _load_geometry(

@@ -160,8 +160,23 @@ MODEL_SCHEMA: dict[str, Any] = {
                         "width": LENGTH,
                         "specified": {
                             "type": "object",
+                            "description": "specified loads by case; S, W and E must already include their "
+                            "importance factors",
                             "propertyNames": {"enum": CASES},
-                            "additionalProperties": QUANTITY,
+                            "additionalProperties": {
+                                "oneOf": [
+                                    QUANTITY,
+                                    _obj(
+                                        {"pressure": QUANTITY, "suction": QUANTITY},
+                                        [],
+                                        "W both ways: pressure acts down, suction up (each a size)",
+                                    ),
+                                ]
+                            },
+                        },
+                        "live": {
+                            "enum": ["occupancy", "storage"],
+                            "description": "storage: storage, equipment or service-room live load",
                         },
                         "factored": QUANTITY,
                         "duration": {"enum": ["permanent", "standard", "short"]},

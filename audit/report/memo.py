@@ -96,6 +96,10 @@ def assumptions(review: Review) -> list[str]:
         "tension-face laminations at its supports, for a layup installed as designed (an inverted layup is not "
         "modelled); a near-support check loads both faces and takes the lesser fcp. Each family's findings cite "
         "its own clause from the rule pack.",
+        "Specified loads are taken as given: snow, wind and earthquake loads must already include their "
+        "importance factors (the tool applies none). Wind given as pressure and suction is taken each way in every "
+        "combination with wind; live load marked storage takes the pack's storage companion factor and counts as "
+        "long-term load in the KD formula where the rule pack says so.",
         "KD per combination: permanent 0.65, short term 1.15, standard term 1.00 or the long-term formula where "
         "the specified dead load at the check exceeds its L + S load. The governing combination is the one with "
         "the highest Qf/Qr.",

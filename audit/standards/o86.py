@@ -15,7 +15,16 @@ import math
 from dataclasses import dataclass, replace
 
 from audit.core.errors import ErrorCollector, InputError
-from audit.engine.model import FACTORED_PREFIX, Material, Member, Model
+from audit.engine.model import (
+    FACTORED_PREFIX,
+    STORAGE_LIVE,
+    WIND_PRESSURE,
+    WIND_SUCTION,
+    Material,
+    Member,
+    Model,
+    base_case,
+)
 from audit.engine.take_down import FORCE_RESOLUTION, Forces
 from audit.standards.checks import LOCAL, NEAR, CheckList, RequiredCheck, near_support_geometry, top_bearing
 from audit.standards.packs import CombinationPack, ResistancePack
@@ -119,8 +128,30 @@ class CheckResult:
 
 
 def load_combinations(model: Model, cpack: CombinationPack) -> tuple[LoadCombination, ...]:
-    """The pack's combinations for specified loads, plus one per group of factored loads."""
-    out = [LoadCombination(c.name, c.factors, c.duration, c.source.clause) for c in cpack.combinations]
+    """The pack's combinations for specified loads, plus one per group of factored loads.
+
+    Where the model gives wind as pressure and suction, a combination with wind is taken once
+    each way; storage live load takes the live-load factor where live load leads and the pack's
+    storage companion factor where it accompanies.
+    """
+    cases = {load.case for load in model.loads}
+    out = []
+    for c in cpack.combinations:
+        factors = dict(c.factors)
+        live = factors.get("L", 0.0)
+        if STORAGE_LIVE in cases and live:
+            leads = live >= max(f for case, f in factors.items() if case != LONG_TERM_CASE)
+            factors[STORAGE_LIVE] = live if leads else cpack.storage_companion.value
+        wind = factors.get("W", 0.0)
+        directions = [d for d in (WIND_PRESSURE, WIND_SUCTION) if d in cases]
+        if wind and directions:
+            for direction in directions:
+                way = direction.split(":")[1]
+                out.append(
+                    LoadCombination(f"{c.name} (wind {way})", {**factors, direction: wind}, c.duration, c.source.clause)
+                )
+            continue
+        out.append(LoadCombination(c.name, factors, c.duration, c.source.clause))
     for group in sorted(model.factored_groups.values(), key=lambda g: g.label):
         out.append(LoadCombination(group.label, {FACTORED_PREFIX + group.label: 1.0}, group.duration, "", True))
     return tuple(out)
@@ -138,14 +169,22 @@ def load_duration_factor(forces: Forces, combo: LoadCombination, pack: Resistanc
     standard_value = pack.kd["standard"].value
     if combo.factored:
         return standard_value, f"KD = {standard_value:.2f}: factored loads stated as standard term"
-    long_term = max(forces.get(LONG_TERM_CASE, 0.0), 0.0)
-    standard = math.fsum(max(forces.get(c, 0.0), 0.0) for c in STANDARD_TERM_CASES if combo.factors.get(c, 0.0) != 0.0)
+    long_term = math.fsum(
+        max(forces.get(c, 0.0), 0.0) for c in (LONG_TERM_CASE, *pack.long_term_live) if c in combo.factors
+    )
+    standard = math.fsum(
+        max(forces.get(c, 0.0), 0.0)
+        for c in (*STANDARD_TERM_CASES, STORAGE_LIVE)
+        if combo.factors.get(c, 0.0) != 0.0 and c not in pack.long_term_live
+    )
     if long_term <= standard or long_term == 0.0:
         return standard_value, f"KD = {standard_value:.2f}: standard-term combination {combo.name}"
     rule = pack.kd_long_term.value
     floor = rule["floor"]
     if standard <= 0.0:
-        return floor, f"KD = {floor:.2f}: {combo.name} has no L or S at this bearing, dead load alone"
+        return floor, (
+            f"KD = {floor:.2f}: {combo.name} has no standard-term L or S at this bearing, long-term load alone"
+        )
     value = max(floor, rule["intercept"] - rule["slope"] * math.log10(long_term / standard))
     return value, (
         f"KD = {value:.3f}: dead load PL = {long_term / 1000:.2f} kN exceeds PS = {standard / 1000:.2f} kN, "
@@ -390,8 +429,10 @@ def _principal_present(combo: LoadCombination, forces: Forces) -> bool:
     live = {case: f for case, f in combo.factors.items() if case != LONG_TERM_CASE}
     if not live:
         return abs(forces.get(LONG_TERM_CASE, 0.0)) > FORCE_RESOLUTION
-    principal = max(live, key=lambda case: live[case])
-    return abs(forces.get(principal, 0.0)) > FORCE_RESOLUTION
+    principal = base_case(max(live, key=lambda case: live[case]))
+    return any(
+        abs(value) > FORCE_RESOLUTION for case, value in forces.items() if base_case(case) == principal and case in live
+    )
 
 
 def evaluate(

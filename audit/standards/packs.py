@@ -111,6 +111,7 @@ class ResistancePack:
     kzcp_table: Sourced  # Table over b/d
     kd: dict[str, Sourced]
     kd_long_term: Sourced  # dict intercept/slope/floor
+    kd_long_term_live: Sourced  # live-load kinds counted as long-term in the KD formula, e.g. [storage]
     kscp: dict[str, Sourced]  # family -> {dry, wet}
     ksc: dict[str, Sourced]
     near_factor: Sourced
@@ -125,6 +126,11 @@ class ResistancePack:
     def clause_for(self, family: str, kind: str) -> str:
         """The clause a finding on this family cites: local bearing, or loads near a support."""
         return self.clauses[family].value["near_support" if kind == "near-support" else "local"]
+
+    @property
+    def long_term_live(self) -> tuple[str, ...]:
+        """The load cases of live load the KD formula counts as long-term, e.g. ('L:storage',)."""
+        return tuple(f"L:{kind}" for kind in self.kd_long_term_live.value)
 
     def in_force(self, chosen: dict[str, str]) -> dict[str, str]:
         """The reading in force at every choice: the project's where it chose, else the pack's default."""
@@ -151,6 +157,7 @@ class ResistancePack:
         ]
         out += [(f"kd.{k}", v) for k, v in self.kd.items()]
         out.append(("kd.long_term_formula", self.kd_long_term))
+        out.append(("kd.long_term_live", self.kd_long_term_live))
         out.append(("uplift.note_below", self.uplift_note_below))
         out += [(f"kscp.{k}", v) for k, v in self.kscp.items()]
         out += [(f"ksc.{k}", v) for k, v in self.ksc.items()]
@@ -327,6 +334,12 @@ def _reading(node: Node, parent: Node) -> str:
     return str(node.value)
 
 
+def _live_kinds(node: Node, _parent: Node) -> tuple[str, ...]:
+    if not isinstance(node.value, list) or any(item.value not in ("storage",) for item in node.value):
+        raise InputError("expected a list of live-load kinds: [storage] or []", node.loc)
+    return tuple(str(item.value) for item in node.value)
+
+
 def _long_term(node: Node, _parent: Node) -> dict[str, float]:
     if not isinstance(node.value, dict) or set(node.value) != {"intercept", "slope", "floor"}:
         raise InputError("expected {intercept, slope, floor}", node.loc)
@@ -383,6 +396,7 @@ def read_resistance_pack(root: Node, path: str) -> ResistancePack:
         kzcp_table=r.sourced(sub(kz, "table"), _table),
         kd={d: s for d in DURATIONS if (s := r.sourced(sub(kd, d), _number_conv))},
         kd_long_term=r.sourced(sub(kd, "long_term_formula"), _long_term),
+        kd_long_term_live=r.sourced(sub(kd, "long_term_live"), _live_kinds),
         kscp={f: s for f, n in (kscp.value.items() if kscp else []) if (s := r.sourced(n, _service_pair))},
         ksc={f: s for f, n in (ksc.value.items() if ksc else []) if (s := r.sourced(n, _service_pair))},
         near_factor=r.sourced(sub(ns, "factor"), lambda n, p: _number(n, 0.0, 1.0)),
