@@ -131,3 +131,29 @@ def _solve_symmetric_tridiagonal(diag: list[float], off: list[float], rhs: list[
     for i in range(n - 2, -1, -1):
         x[i] = d[i] - c[i] * x[i + 1]
     return x
+
+
+def simple_span_reactions(
+    supports: Sequence[float],
+    points: Sequence[tuple[float, float]],
+    uniforms: Sequence[tuple[float, float, float]] = (),
+) -> list[float]:
+    """Reactions as if the beam were cut over every interior support: each span simply supported.
+
+    What a calc gives when it ignores continuity; overhangs go to their end span's statics.
+    """
+    n = len(supports)
+    out = [0.0] * n
+    for i in range(n - 1):
+        a, b = supports[i], supports[i + 1]
+        first, last = i == 0, i == n - 2
+        lo = -math.inf if first else a
+        hi = math.inf if last else b
+        span_points = [(x, p) for x, p in points if lo <= x < hi or (last and x == hi)]
+        span_uniforms = [(max(x1, lo), min(x2, hi), w) for x1, x2, w in uniforms if min(x2, hi) > max(x1, lo)]
+        if not span_points and not span_uniforms:
+            continue
+        left, right = _two_supports(a, b, list(span_points) + equivalent_point_loads([a, b], span_uniforms))
+        out[i] += left
+        out[i + 1] += right
+    return out

@@ -10,10 +10,11 @@ from __future__ import annotations
 
 import difflib
 import math
-from dataclasses import dataclass, replace
+from dataclasses import dataclass, field, replace
 from functools import cached_property
 from typing import Any
 
+from audit.engine.beam_statics import simple_span_reactions
 from audit.engine.model import normalise_label
 from audit.inputs.read_claims import Claim
 from audit.review.findings import KINDS, Finding, severity_rank
@@ -22,6 +23,7 @@ from audit.standards.checks import LOCAL, NEAR, RequiredCheck, top_bearing
 from audit.standards.o86 import CheckResult, evaluate, factored_force, resistance, resistance_inputs
 
 FACTOR_REL_TOL = 0.01
+KEY_OF = {"kb": "KB", "kzcp": "KZcp", "kscp": "KScp", "fcp": "fcp"}  # ResistanceInputs field -> claim factor
 
 
 @dataclass(frozen=True)
@@ -29,6 +31,25 @@ class Slip:
     name: str
     text: str
     value: float  # the number this slip gives (N)
+    implies: dict[str, float] = field(default_factory=dict, compare=False)  # factor values the slip would print
+
+
+def fits_claim(slip: Slip, claimed: dict[str, float]) -> bool | None:
+    """Does the claim's own factor list agree with the slip? True, False, or None where it lists none of them."""
+    shared = [name for name in slip.implies if name in claimed]
+    if not shared:
+        return None
+    return all(abs(claimed[n] - slip.implies[n]) <= FACTOR_REL_TOL * max(abs(slip.implies[n]), 1e-12) for n in shared)
+
+
+def choose_slips(slips: list[Slip], claimed: dict[str, float]) -> tuple[Slip, ...]:
+    """Of the slips that reproduce a number, those the claim's own factors do not rule out; where the factors
+    confirm one or more, only those."""
+    verdicts = [(slip, fits_claim(slip, claimed)) for slip in slips]
+    confirmed = [slip for slip, fit in verdicts if fit is True]
+    if confirmed:
+        return tuple(confirmed)
+    return tuple(slip for slip, fit in verdicts if fit is None)
 
 
 @dataclass(frozen=True)
@@ -200,14 +221,19 @@ def _compare_utilisation(claimed: float, recomputed: float, review: Review) -> C
     return Comparison("Qf/Qr", claimed, recomputed, False, direction, ())
 
 
-def _compare(quantity: str, claimed: float, recomputed: float, slips, review: Review) -> Comparison:
-    """Compare one number; only when it differs are the slips (a callable giving them) recomputed."""
+def _compare(
+    quantity: str, claimed: float, recomputed: float, slips, review: Review, factors: dict[str, float] | None = None
+) -> Comparison:
+    """Compare one number; only when it differs are the slips (a callable giving them) recomputed.
+
+    ``factors``: the claim's own factor list, which rules slips in or out where it names theirs.
+    """
     within = _within(claimed, recomputed, review)
     if within:
         return Comparison(quantity, claimed, recomputed, True, "", ())
     too_low = claimed < recomputed
     unconservative = too_low if quantity == "Qf" else not too_low
-    reproducing = tuple(s for s in slips() if _within(claimed, s.value, review))
+    reproducing = choose_slips([s for s in slips() if _within(claimed, s.value, review)], factors or {})
     return Comparison(
         quantity, claimed, recomputed, False, "unconservative" if unconservative else "conservative", reproducing
     )
@@ -244,6 +270,25 @@ def qf_slips(result: CheckResult, review: Review) -> list[Slip]:
                     _without_spread(partner, review),
                 )
             )
+    combo = next((c for c in review.combinations if c.name == g.combination), None)
+    if combo is not None and g.pattern:
+        out.append(
+            Slip(
+                "pattern-loading-ignored",
+                f"every span loaded only: pattern loading ignored (the worst here is {g.pattern})",
+                factored_force(check.forces, combo),
+            )
+        )
+    simple = simple_span_forces(check, review)
+    if combo is not None and simple is not None:
+        out.append(
+            Slip(
+                "simple-span-reactions",
+                f"simple-span reactions used for {review.model.bearings_by_id[check.bearing].upper.member}, which is "
+                "continuous over its supports (continuity ignored)",
+                factored_force(simple, combo),
+            )
+        )
     if check.kind == NEAR and check.spread_forces:
         out.append(
             Slip(
@@ -258,6 +303,31 @@ def qf_slips(result: CheckResult, review: Review) -> list[Slip]:
     if combo is not None:
         unfactored = math.fsum(check.forces.get(case, 0.0) for case in combo.factors)
         out.append(Slip("unfactored-loads", "specified (unfactored) loads were used as Qf", unfactored))
+    return out
+
+
+def simple_span_forces(check: RequiredCheck, review: Review) -> dict[str, float] | None:
+    """The force per case at a support of a member on three or more supports, as if each span were simple."""
+    if check.kind != LOCAL:
+        return None
+    bearing = review.model.bearings_by_id[check.bearing]
+    upper = review.model.members[bearing.upper.member]
+    supports = [b for b in review.model.bearings if b.upper.member == upper.id]
+    if upper.vertical or len(supports) < 3:
+        return None
+    positions = sorted(b.upper.at or 0.0 for b in supports)
+    index = positions.index(bearing.upper.at or 0.0)
+    out: dict[str, float] = {}
+    for item in review.flow.on_top.get(upper.id, ()):
+        for case, value in item.forces.items():
+            points = [(item.at, value)] if item.kind == "point" and item.at is not None else []
+            uniforms = (
+                [(item.start, item.end, value)]
+                if item.kind == "uniform" and item.start is not None and item.end is not None
+                else []
+            )
+            share = simple_span_reactions(positions, points, uniforms)[index]
+            out[case] = out.get(case, 0.0) + share
     return out
 
 
@@ -284,8 +354,14 @@ def qr_slips(result: CheckResult, review: Review) -> list[Slip]:
     material = model.materials[member.material]
     out: list[Slip] = []
 
-    def variant(name: str, text: str, kd: float | None = None, **changes) -> None:
-        out.append(Slip(name, text, resistance(replace(inputs, **changes), g.kd if kd is None else kd)))
+    def variant(
+        name: str, text: str, kd: float | None = None, implies: dict[str, float] | None = None, **changes
+    ) -> None:
+        implied = dict(implies or {})
+        implied.update({KEY_OF.get(k, k): v for k, v in changes.items() if k in KEY_OF})
+        if kd is not None:
+            implied["KD"] = kd
+        out.append(Slip(name, text, resistance(replace(inputs, **changes), g.kd if kd is None else kd), implied))
 
     if inputs.kb == 1.0 and ("KB" in material.applies):
         length = (
@@ -317,6 +393,32 @@ def qr_slips(result: CheckResult, review: Review) -> list[Slip]:
         variant("short-term-kd", f"KD = {short:.2f} (short term) used for a snow or occupancy combination", kd=short)
     if check.kind == NEAR:
         variant("two-thirds-left-out", "the 2/3 factor was left out of Qr'", coefficient=1.0)
+    standard_kd = pack.kd["standard"].value
+    if g.duration == "standard" and inputs.uses_kd and g.kd < standard_kd - 1e-9:
+        variant(
+            "long-term-kd-ignored",
+            f"KD = {standard_kd:.2f} taken although the dead load exceeds the standard-term load here "
+            f"(the long-term formula gives {g.kd:.2f})",
+            kd=standard_kd,
+        )
+    if inputs.angle is not None and inputs.fc_parallel is not None:
+        slope = math.pi / 2 - inputs.angle
+        if slope > 1e-6:
+            variant(
+                "hankinson-roof-slope",
+                f"Hankinson's angle taken as the roof slope ({math.degrees(slope):.1f} deg) instead of the angle "
+                f"between load and grain ({math.degrees(inputs.angle):.1f} deg)",
+                angle=slope,
+            )
+    if material.family in pack.fcp:
+        for species, strength in sorted(pack.fcp[material.family].items()):
+            if species != material.species and abs(strength.fcp.value - inputs.fcp) > 1.0:
+                variant(
+                    "wrong-species-fcp",
+                    f"fcp of {species} ({strength.fcp.value / 1e6:.2f} MPa) used instead of {material.species} "
+                    f"({inputs.fcp / 1e6:.2f} MPa)",
+                    fcp=strength.fcp.value,
+                )
     return out
 
 
@@ -481,11 +583,11 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
 
     qf_cmp = None
     if claim.qf is not None:
-        qf_cmp = _compare("Qf", claim.qf, g.qf, lambda: qf_slips(result, review), review)
+        qf_cmp = _compare("Qf", claim.qf, g.qf, lambda: qf_slips(result, review), review, claim.factors)
     claimed_qr = claim.claimed_qr
     qr_cmp = None
     if claimed_qr is not None:
-        qr_cmp = _compare("Qr", claimed_qr, g.qr, lambda: qr_slips(result, review), review)
+        qr_cmp = _compare("Qr", claimed_qr, g.qr, lambda: qr_slips(result, review), review, claim.factors)
     if qf_cmp is None and qr_cmp is None and claim.utilisation is not None:
         # a claim that states only Qf/Qr confirms nothing unless that ratio agrees
         util_cmp = _compare_utilisation(claim.utilisation, g.utilisation, review)

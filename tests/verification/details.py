@@ -365,7 +365,35 @@ def pattern_cases() -> list[Case]:
     ]
 
 
+def slip_cases() -> list[Case]:
+    """The numbers two slips of a continuous beam give, as a calc that made them would print them."""
+    from audit.review.reconcile import qf_slips
+
+    review = review_dict(beam_on_posts([4.0, 4.0, 4.0]))
+    slips = {s.name: s.value for s in qf_slips(review.result("B/C2:B"), review)}
+    return [
+        _case(
+            "Qf (kN), interior support taken as simple spans (slip)",
+            1.25 * 4e3 + 1.5 * 8e3,
+            slips["simple-span-reactions"],
+            "1.25 x (1 kN/m x 4 m) + 1.5 x (2 kN/m x 4 m)",
+        ),
+        _case(
+            "Qf (kN), interior support with every span loaded only (slip)",
+            1.25 * 1.1 * 4e3 + 1.5 * 1.1 * 8e3,
+            slips["pattern-loading-ignored"],
+            "1.25 x 1.1 wD L + 1.5 x 1.1 wL L (beam tables: 1.10 wL)",
+        ),
+        _case(
+            "Qf (kN), interior support, worst pattern (recomputed)",
+            1.25 * 1.1 * 4e3 + 1.5 * 1.2 * 8e3,
+            review.result("B/C2:B").governing.qf,
+            "1.25 x 1.1 wD L + 1.5 x 1.2 wL L, L on spans 1 and 2",
+        ),
+    ]
+
+
 def detail_cases() -> list[Case]:
-    return (
-        contact_cases() + near_support_cases() + built_up_cases() + hankinson_cases() + stud_wall_cases()
-    ) + pattern_cases()
+    return (contact_cases() + near_support_cases() + built_up_cases() + hankinson_cases() + stud_wall_cases()) + (
+        pattern_cases() + slip_cases()
+    )
