@@ -75,3 +75,34 @@ def test_take_down_delivers_every_case_to_the_posts(dead, live, where):
     assert to_posts_d == _approx(dead * 4000 + dead * 1000)
     to_posts_l = forces["B1/C1"].get("L", 0.0) + forces["B1/C2"].get("L", 0.0) + forces["J1/W1"].get("L", 0.0)
     assert to_posts_l == _approx(live * 4000)
+
+
+@settings(max_examples=60, deadline=None)
+@given(beams())
+def test_every_pattern_of_loaded_spans_is_in_equilibrium(beam):
+    from audit.engine.take_down import AppliedForce, _piece_reactions, span_pieces
+
+    supports, points, uniforms = beam
+    if len(supports) < 3:
+        return
+    length = max([supports[-1], *(x for x, _ in points), *(b for _, b, _ in uniforms)]) + 0.5
+    applied = tuple(
+        AppliedForce(f"p{i}", False, "point", x, forces={"L": p}) for i, (x, p) in enumerate(points)
+    ) + tuple(AppliedForce(f"u{i}", False, "uniform", None, a, b, {"L": w}) for i, (a, b, w) in enumerate(uniforms))
+    pieces = span_pieces(supports, length)
+    shares = [_piece_reactions(supports, applied, "L", pieces, k) for k in range(len(pieces))]
+    for mask in range(1, 2 ** len(pieces)):
+        loaded = [k for k in range(len(pieces)) if mask >> k & 1]
+        placed = math.fsum(p for x, p in points if any(_owns(pieces, k, x) for k in loaded))
+        placed += math.fsum(
+            w * max(0.0, min(b, pieces[k][1]) - max(a, pieces[k][0])) for a, b, w in uniforms for k in loaded
+        )
+        total = math.fsum(math.fsum(shares[k]) for k in loaded)
+        scale = 1.0 + sum(abs(p) for _, p in points) + sum(abs(w) * (b - a) for a, b, w in uniforms)
+        assert abs(total - placed) <= 1e-9 * scale
+
+
+def _owns(pieces, k: int, x: float) -> bool:
+    from audit.engine.take_down import _piece_of
+
+    return _piece_of(x, pieces) == k
