@@ -96,6 +96,7 @@ class Bearing:
     lower: Side
     width: float | None  # contact width, when a plate or seat states it (m)
     aliases: tuple[str, ...] = ()
+    typical: tuple[str, ...] = ()  # labels several bearings share, as a calc's typical claim names them
     loc: Location = field(default=Location(""), compare=False)
 
     def side_of(self, member_id: str) -> Side:

@@ -11,7 +11,7 @@ from dataclasses import dataclass, field, replace
 from pathlib import Path
 
 from audit.core.errors import ErrorCollector, Location
-from audit.core.located_yaml import Node, read_yaml_file
+from audit.core.located_yaml import Node, node_text, read_yaml_file
 from audit.inputs.fields import FieldReader, describe_value, list_items
 
 CLAIM_KEYS = {"id", "where", "location", "member", "kind", "Qf", "Qr", "utilisation", "factors", "adequate", "text"}
@@ -68,6 +68,7 @@ class Claim:
     text: str = ""  # raw text it came from, when extracted
     loc: Location = field(default=Location(""), compare=False)
     kind_stated: bool = True  # False when the claims file left 'kind' to its default
+    labels: tuple[str, ...] = ()  # a typical claim given as a list of locations
 
     @property
     def claimed_qr(self) -> float | None:
@@ -109,7 +110,15 @@ def _read_claim(item: Node, index: int, errors: ErrorCollector) -> Claim | None:
     if not f.ok:
         return None
     claim_id = f.text("id", required=False, limit=120) or f"claim{index + 1}"
-    label = f.text("location", limit=300)
+    labels: tuple[str, ...] = ()
+    if f.has("location") and isinstance(f.map["location"].value, list):
+        labels = tuple(node_text(n).strip() for n in f.map["location"].value if not isinstance(n.value, (dict, list)))
+        if not labels or len(labels) != len(f.map["location"].value):
+            errors.add("a list of locations must hold labels only", f.loc("location"))
+            return None
+        label = "; ".join(labels)
+    else:
+        label = f.text("location", limit=300)
     kind = f.choice("kind", KINDS, required=False, default="local")
     qf = f.quantity("Qf", "force", required=False)
     qr = f.quantity("Qr", "force", required=False, positive=True)
@@ -142,6 +151,7 @@ def _read_claim(item: Node, index: int, errors: ErrorCollector) -> Claim | None:
         adequate=adequate,
         text=f.text("text", required=False, limit=2000),
         loc=item.loc,
+        labels=labels,
     )
 
 

@@ -78,7 +78,7 @@ MEMBER_KEYS = {
     "studs",
     "bears_on",
 }
-BEARING_KEYS = {"id", "upper", "lower", "width", "aliases"}
+BEARING_KEYS = {"id", "upper", "lower", "width", "aliases", "typical"}
 SIDE_KEYS = {"member", "at", "length", "width", "angle"}
 LOAD_KEYS = {
     "id",
@@ -544,6 +544,13 @@ def _read_bearings(node: Node, known: KnownMembers, errors: ErrorCollector) -> t
                 errors.add("aliases must be a list of labels", a_node.loc)
                 continue
             aliases = _read_aliases(a_node, errors)
+        typical: tuple[str, ...] = ()
+        if f.has("typical"):
+            t_node = f.map["typical"]
+            if not isinstance(t_node.value, list):
+                errors.add("typical must be a list of labels that several bearings share", t_node.loc)
+                continue
+            typical = _read_aliases(t_node, errors)
         if upper is None or lower is None or not f.ok:
             continue
         if upper.member == lower.member:
@@ -562,8 +569,18 @@ def _read_bearings(node: Node, known: KnownMembers, errors: ErrorCollector) -> t
             if other is not None and other != bearing_id:
                 errors.add(f"alias '{alias}' is already used by bearing '{other}'", f.loc("aliases"))
             aliases_seen[normalise_label(alias)] = bearing_id
-        out.append(Bearing(bearing_id, upper, lower, width, aliases, item.loc))
+        out.append(Bearing(bearing_id, upper, lower, width, aliases, typical, item.loc))
     ids = {normalise_label(b.id): b.id for b in out}
+    own = {normalise_label(a): b.id for b in out for a in b.aliases} | ids
+    for b in out:
+        for label in b.typical:
+            owner = own.get(normalise_label(label))
+            if owner is not None:
+                errors.add(
+                    f"typical label '{label}' of bearing '{b.id}' is the id or alias of bearing '{owner}': a shared "
+                    "label must differ from every single bearing's",
+                    b.loc,
+                )
     for b in out:
         for alias in b.aliases:
             owner = ids.get(normalise_label(alias))

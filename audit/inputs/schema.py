@@ -142,6 +142,11 @@ MODEL_SCHEMA: dict[str, Any] = {
                         "lower": SIDE,
                         "width": {**LENGTH, "description": "a plate or seat between the members: limits, never widens"},
                         "aliases": {"type": "array", "items": {"type": "string"}},
+                        "typical": {
+                            "type": "array",
+                            "items": {"type": "string"},
+                            "description": "labels several bearings share, as a calc's typical claim names them",
+                        },
                     },
                     ["upper", "lower"],
                 ),
@@ -219,7 +224,16 @@ CLAIMS_SCHEMA: dict[str, Any] = {
                                 ),
                             ]
                         },
-                        "location": {"type": "string", "description": "the calc's label: a bearing id or alias"},
+                        "location": {
+                            "oneOf": [
+                                {
+                                    "type": "string",
+                                    "description": "the calc's label: a bearing id, alias, shared "
+                                    "typical label, pattern (J*/B1) or range (J1-J4/B1)",
+                                },
+                                {"type": "array", "items": {"type": "string"}, "description": "a typical claim"},
+                            ]
+                        },
                         "member": {"type": "string"},
                         "kind": {"enum": ["local", "near-support"], "default": "local"},
                         "Qf": FORCE,

@@ -28,6 +28,8 @@ STATUS_WORDS = {
     "mis-loaded": "MIS-LOADED",
     "resistance-differs": "QR DIFFERS",
     "confirmed": "CONFIRMED",
+    "covered": "COVERED (TYP.)",
+    "not-covered": "NOT COVERED",
     "computed": "PASSES",
 }
 SKETCH_LIMIT = 400  # members drawn; a larger building lists the rest in the table only

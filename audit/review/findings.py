@@ -59,6 +59,20 @@ KINDS: dict[str, FindingKind] = {
             "the claim may name a location the model lacks, or a check made at the wrong place",
         ),
         FindingKind(
+            "BA-T1",
+            "not-covered",
+            "major",
+            "a check that a typical claim covers is worse than the claim: higher Qf, lower Qr, or failing",
+            "a typical check proves only the spots no worse than the one it shows",
+        ),
+        FindingKind(
+            "BA-T2",
+            "covered",
+            "info",
+            "a check that a typical claim covers, no worse than the claim",
+            "the typical claim stands for this spot",
+        ),
+        FindingKind(
             "BA-C1",
             "confirmed",
             "info",

@@ -9,7 +9,9 @@ would make them pass.
 from __future__ import annotations
 
 import difflib
+import fnmatch
 import math
+import re
 from dataclasses import dataclass, field, replace
 from functools import cached_property
 from typing import Any
@@ -130,18 +132,125 @@ def label_index(review: Review) -> dict[str, str]:
     return index
 
 
+TYPICAL_MARK = re.compile(r"[\s,;(\[-]*\b(typ\.?|typical)\b[)\].]*\s*$", re.IGNORECASE)
+GLOB_CHARS = set("*?[")
+RANGE = re.compile(r"\b([A-Za-z]+)(\d+)\s*(?:-|\u2013|\bto\b|\.\.)\s*(?:\1)?(\d+)\b")
+MAX_RANGE = 200
+
+
+def expand_range(label: str) -> list[str]:
+    """'J1-J4 on B1' -> ['J1 on B1', ..., 'J4 on B1'] (also 'J1 to J4', 'J1..4'); [] when no range."""
+    m = RANGE.search(label)
+    if not m:
+        return []
+    first, last = int(m.group(2)), int(m.group(3))
+    if not first < last or last - first > MAX_RANGE:
+        return []
+    return [label[: m.start()] + f"{m.group(1)}{n}" + label[m.end() :] for n in range(first, last + 1)]
+
+
+def typical_index(review: Review) -> dict[str, list[str]]:
+    """Normalised shared label -> the bearings that share it (bearing ``typical`` labels)."""
+    out: dict[str, list[str]] = {}
+    for b in review.model.bearings:
+        for label in b.typical:
+            out.setdefault(normalise_label(label), []).append(b.id)
+    return out
+
+
+def group_bearings(claim: Claim, review: Review, index: dict[str, str], shared: dict[str, list[str]]):
+    """The bearings a typical claim covers, or None for a claim of one spot.
+
+    A claim is typical when its location is a list of labels, a pattern of ids (``J*/GB1``), a
+    label the model gives several bearings, or a label marked typical (``typ.``) that one of
+    those maps. Returns (bearing ids, reason): an empty list with a reason when it cannot map.
+    """
+    if claim.labels:
+        found, unknown = [], []
+        for label in claim.labels:
+            key = normalise_label(label)
+            if key in index:
+                found.append(index[key])
+            elif key in shared:
+                found += shared[key]
+            else:
+                unknown.append(label)
+        if unknown:
+            return [], f"no bearing is labelled {', '.join(repr(u) for u in unknown)}"
+        return list(dict.fromkeys(found)), ""
+    key = normalise_label(claim.label)
+    if key in shared:
+        return shared[key], ""
+    if GLOB_CHARS & set(claim.label):
+        pattern = normalise_label(claim.label)
+        hits = [
+            b.id
+            for b in review.model.bearings
+            if any(fnmatch.fnmatchcase(normalise_label(name), pattern) for name in (b.id, *b.aliases))
+        ]
+        return (hits, "") if hits else ([], f"the pattern '{claim.label}' names no bearing")
+    stripped = normalise_label(TYPICAL_MARK.sub("", claim.label))
+    if stripped != key and stripped in shared:
+        return shared[stripped], ""
+    expanded = [normalise_label(x) for x in expand_range(TYPICAL_MARK.sub("", claim.label))]
+    if expanded and key not in index and all(x in index for x in expanded):
+        return list(dict.fromkeys(index[x] for x in expanded)), ""
+    return None
+
+
+def _role_checks(claim: Claim, bearings: list[str], review: Review, by_bearing) -> tuple[list[RequiredCheck], str]:
+    """The checks of the claim's kind at each bearing of a group, the member taken in the same role at each."""
+    role = ""
+    if claim.member:
+        for bid in bearings:
+            b = review.model.bearings_by_id[bid]
+            if claim.member in (b.upper.member, b.lower.member):
+                role = "upper" if claim.member == b.upper.member else "lower"
+                break
+        if not role:
+            return [], f"member '{claim.member}' is in none of the bearings it names"
+    out = []
+    for bid in bearings:
+        b = review.model.bearings_by_id[bid]
+        here = [c for c in by_bearing.get(bid, []) if c.kind == claim.kind]
+        if role:
+            member = b.upper.member if role == "upper" else b.lower.member
+            here = [c for c in here if c.member == member]
+        if len(here) > 1:
+            return [], f"bearing {bid} has checks of {', '.join(c.member for c in here)}; say which member"
+        out += here
+    return out, ""
+
+
 def match_claims(
     review: Review, claims: tuple[Claim, ...]
-) -> tuple[dict[str, Claim], list[tuple[Claim, str, tuple[str, ...]]]]:
-    """(check id -> claim, [(unmatched claim, reason, candidate check ids)])."""
+) -> tuple[dict[str, Claim], list[tuple[Claim, str, tuple[str, ...]]], dict[str, Claim]]:
+    """(check id -> claim, [(unmatched claim, reason, candidate check ids)], check id -> typical claim covering it).
+
+    A typical claim is matched to the governing check of its group (the highest Qf/Qr) and
+    covers the others; a check another claim names is left to that claim.
+    """
     index = label_index(review)
+    shared = typical_index(review)
     by_bearing: dict[str, list[RequiredCheck]] = {}
     check_ids = {r.check.id for r in review.results}
     for r in review.results:
         by_bearing.setdefault(r.check.bearing, []).append(r.check)
     matched: dict[str, Claim] = {}
+    covered: dict[str, Claim] = {}
     unmatched: list[tuple[Claim, str, tuple[str, ...]]] = []
+    groups: list[tuple[Claim, list[RequiredCheck]]] = []
     for claim in claims:
+        group = None if claim.label in check_ids else group_bearings(claim, review, index, shared)
+        if group is not None:
+            bearings, reason = group
+            checks, why = _role_checks(claim, bearings, review, by_bearing) if bearings else ([], reason)
+            if not checks:
+                near = tuple(c.id for bid in bearings for c in by_bearing.get(bid, []))[:6]
+                unmatched.append((claim, why or f"its bearings have no {claim.kind} check", near))
+                continue
+            groups.append((claim, checks))
+            continue
         key = normalise_label(claim.label)
         if claim.label in check_ids:
             named = review.result(claim.label).check
@@ -176,7 +285,17 @@ def match_claims(
             unmatched.append((claim, f"claim {matched[check.id].id} already covers check {check.id}", (check.id,)))
             continue
         matched[check.id] = claim
-    return matched, unmatched
+    for claim, checks in groups:  # after the single claims: a check named on its own is its own claim's
+        free = [c for c in checks if c.id not in matched and c.id not in covered]
+        if not free:
+            unmatched.append((claim, "every check it covers is claimed on its own", tuple(c.id for c in checks)))
+            continue
+        governing = max(free, key=lambda c: review.result(c.id).governing.utilisation)
+        matched[governing.id] = claim
+        for c in free:
+            if c.id != governing.id:
+                covered[c.id] = claim
+    return matched, unmatched, covered
 
 
 def _contradiction(claim: Claim, check: RequiredCheck) -> str:
@@ -496,8 +615,14 @@ def remedy_text(result: CheckResult, review: Review) -> str:
 
 
 def reconcile(review: Review, claims: tuple[Claim, ...]) -> Reconciliation:
-    matched, unmatched = match_claims(review, claims)
-    check_outcomes = [_check_outcome(r, matched.get(r.check.id), review) for r in review.results]
+    matched, unmatched, covered = match_claims(review, claims)
+    governing_of = {claim.id: check_id for check_id, claim in matched.items()}
+    check_outcomes = [
+        _covered_outcome(r, covered[r.check.id], governing_of[covered[r.check.id].id], review)
+        if r.check.id in covered
+        else _check_outcome(r, matched.get(r.check.id), review)
+        for r in review.results
+    ]
     claim_check = {claim.id: check_id for check_id, claim in matched.items()}
     claim_outcomes = []
     unmatched_by_id = {claim.id: (reason, cands) for claim, reason, cands in unmatched}
@@ -522,6 +647,62 @@ def reconcile(review: Review, claims: tuple[Claim, ...]) -> Reconciliation:
     findings += list(review.engine_findings)
     findings.sort(key=lambda f: (severity_rank(f.severity), f.kind, f.check_id, f.claim_id, f.bearing))
     return Reconciliation(tuple(check_outcomes), tuple(claim_outcomes), tuple(findings))
+
+
+def _covered_outcome(result: CheckResult, claim: Claim, governing_id: str, review: Review) -> CheckOutcome:
+    """A check a typical claim covers: covered when the claim's Qf and Qr bound its own (within tolerance)."""
+    check, g = result.check, result.governing
+    p = review.model.project
+    slack_qf = max(p.tolerance_absolute, p.tolerance_relative * abs(g.qf))
+    slack_qr = max(p.tolerance_absolute, p.tolerance_relative * abs(g.qr))
+    reasons = []
+    if claim.qf is not None and g.qf > claim.qf + slack_qf:
+        reasons.append(f"its Qf = {g.qf / 1000:.2f} kN exceeds the claim's {claim.qf / 1000:.2f} kN")
+    claimed_qr = claim.claimed_qr
+    if claimed_qr is not None and g.qr < claimed_qr - slack_qr:
+        reasons.append(f"its Qr = {g.qr / 1000:.2f} kN is below the claim's {claimed_qr / 1000:.2f} kN")
+    if (
+        claim.qf is None
+        and claimed_qr is None
+        and claim.utilisation is not None
+        and g.utilisation > claim.utilisation + UTILISATION_ABS_TOL
+    ):
+        reasons.append(f"its Qf/Qr = {g.utilisation:.2f} exceeds the claim's {claim.utilisation:.2f}")
+    if not result.passes:
+        reasons.append(f"it fails: Qf/Qr = {g.utilisation:.2f}")
+    where = _location(result, review)
+    common: dict[str, Any] = {
+        "check_id": check.id,
+        "bearing": check.bearing,
+        "member": check.member,
+        "claim_id": claim.id,
+        "page": claim.where.cite(),
+        "clause": review.pack.clause_for(review.model.material_of(check.member).family, check.kind),
+    }
+    if not reasons:
+        finding = Finding(
+            "covered",
+            KINDS["covered"].severity,
+            f"{_kind_word(check)} of {check.member} at {where}: covered by typical claim '{claim.label}' "
+            f"({claim.where.cite()}), whose governing check is {governing_id}.",
+            numbers={"qf": g.qf, "qr": g.qr},
+            **common,
+        )
+        return CheckOutcome(check.id, claim.id, "covered", (finding,))
+    severity = "critical" if not result.passes else KINDS["not-covered"].severity
+    finding = Finding(
+        "not-covered",
+        severity,
+        f"{_kind_word(check)} of {check.member} at {where} is not covered by typical claim '{claim.label}' "
+        f"({claim.where.cite()}): {'; '.join(reasons)}.",
+        numbers={"qf": g.qf, "qr": g.qr},
+        **common,
+    )
+    return CheckOutcome(check.id, claim.id, "not-covered", (finding,))
+
+
+def _kind_word(check: RequiredCheck) -> str:
+    return "Near-support check" if check.kind == NEAR else "Local check"
 
 
 def _location(result: CheckResult, review: Review) -> str:
