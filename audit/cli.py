@@ -13,12 +13,33 @@ from audit.core.errors import InputError, InputErrors, Location
 
 app = typer.Typer(
     add_completion=False,
+    rich_markup_mode=None,
+    pretty_exceptions_enable=False,
     no_args_is_help=True,
     help="Peer-review the timber bearing checks (CSA O86, compression perpendicular to grain) of a calc package.",
 )
 
-RulesDir = typer.Option(None, "--rules-dir", help="A folder of your own rule packs (searched before the bundled ones).")
-RulePack = typer.Option(None, "--rule-pack", help="Rule pack id; overrides project.rule_pack.")
+RulesDir = typer.Option(
+    None, "--rules-dir", metavar="DIR", help="A folder of your own rule packs (searched before the bundled ones)."
+)
+RulePack = typer.Option(None, "--rule-pack", metavar="ID", help="Rule pack id; overrides project.rule_pack.")
+
+
+def _version(value: bool) -> None:
+    if value:
+        from audit import __version__
+
+        typer.echo(f"bearing-audit {__version__}")
+        raise typer.Exit(0)
+
+
+@app.callback()
+def _main(
+    version: bool = typer.Option(
+        False, "--version", callback=_version, is_eager=True, help="Print the version and exit."
+    ),
+) -> None:
+    """Peer-review the timber bearing checks (CSA O86, compression perpendicular to grain) of a calc package."""
 
 
 def _fail(error: InputError) -> NoReturn:
@@ -36,15 +57,25 @@ def _dirs(rules_dir: list[Path] | None) -> tuple[Path, ...]:
 
 @app.command()
 def review(
-    model: Path = typer.Argument(..., help="The review model (YAML)."),
-    claims: Path | None = typer.Option(None, "--claims", help="What the calc claims (YAML), to reconcile."),
-    calc_pdf: Path | None = typer.Option(None, "--calc-pdf", help="Extract the claims from the calc's PDF."),
-    pages: str | None = typer.Option(None, "--pages", help="With --calc-pdf: pages to read, e.g. 12-30,35."),
-    column_map: Path | None = typer.Option(None, "--map", help="With --calc-pdf: a column map (YAML)."),
-    memo: Path | None = typer.Option(None, "--memo", help="Write the HTML review memo here."),
-    json_out: Path | None = typer.Option(None, "--json", help="Write every check and finding as JSON."),
-    csv_out: Path | None = typer.Option(None, "--csv", help="Write the findings as CSV, for a comment log."),
-    date: str | None = typer.Option(None, "--date", help="Memo date (YYYY-MM-DD); default project.date."),
+    model: Path = typer.Argument(..., help="The review model (YAML).", metavar="MODEL"),
+    claims: Path | None = typer.Option(
+        None, "--claims", help="What the calc claims (YAML), to reconcile.", metavar="FILE"
+    ),
+    calc_pdf: Path | None = typer.Option(
+        None, "--calc-pdf", help="Extract the claims from the calc's PDF.", metavar="FILE"
+    ),
+    pages: str | None = typer.Option(
+        None, "--pages", help="With --calc-pdf: pages to read, e.g. 12-30,35.", metavar="PAGES"
+    ),
+    column_map: Path | None = typer.Option(None, "--map", help="With --calc-pdf: a column map (YAML).", metavar="FILE"),
+    memo: Path | None = typer.Option(None, "--memo", help="Write the HTML review memo here.", metavar="FILE"),
+    json_out: Path | None = typer.Option(None, "--json", help="Write every check and finding as JSON.", metavar="FILE"),
+    csv_out: Path | None = typer.Option(
+        None, "--csv", help="Write the findings as CSV, for a comment log.", metavar="FILE"
+    ),
+    date: str | None = typer.Option(
+        None, "--date", help="Memo date (YYYY-MM-DD); default project.date.", metavar="YYYY-MM-DD"
+    ),
     rules_dir: list[Path] | None = RulesDir,
     rule_pack: str | None = RulePack,
 ) -> None:
@@ -157,10 +188,12 @@ def _extract(pdf: Path, pages: str | None, column_map: Path | None):
 
 @app.command()
 def extract(
-    pdf: Path = typer.Argument(..., help="The calc package (PDF)."),
-    output: Path = typer.Option(..., "-o", "--output", help="Write the claims (YAML) here."),
-    pages: str | None = typer.Option(None, "--pages", help="Pages to read, e.g. 12-30,35."),
-    column_map: Path | None = typer.Option(None, "--map", help="A column map (YAML) for unusual tables."),
+    pdf: Path = typer.Argument(..., help="The calc package (PDF).", metavar="PDF"),
+    output: Path = typer.Option(..., "-o", "--output", help="Write the claims (YAML) here.", metavar="FILE"),
+    pages: str | None = typer.Option(None, "--pages", help="Pages to read, e.g. 12-30,35.", metavar="PAGES"),
+    column_map: Path | None = typer.Option(
+        None, "--map", help="A column map (YAML) for unusual tables.", metavar="FILE"
+    ),
 ) -> None:
     """Pull the claimed bearing checks out of a calc package PDF into a claims file."""
     from audit.core.outfiles import write_atomic
@@ -172,7 +205,8 @@ def extract(
         write_atomic(output, claims_yaml(result, pdf.name), "--output")
     except InputError as exc:
         _fail(exc)
-    typer.echo(f"wrote {output}: {len(result.claims)} claims from pages {_page_list(result.pages_parsed)}")
+    count = len(result.claims)
+    typer.echo(f"wrote {output}: {count} claim{'' if count == 1 else 's'} from pages {_page_list(result.pages_parsed)}")
 
 
 def _page_list(pages: tuple[int, ...]) -> str:
@@ -181,8 +215,10 @@ def _page_list(pages: tuple[int, ...]) -> str:
 
 @app.command()
 def explain(
-    model: Path = typer.Argument(..., help="The review model (YAML)."),
-    check_id: str = typer.Argument(..., help="A check id as printed by 'review'."),
+    model: Path = typer.Argument(..., help="The review model (YAML).", metavar="MODEL"),
+    check_id: str = typer.Argument(
+        ..., help="A check id as printed by 'review', or the calc's label for a bearing.", metavar="CHECK_ID"
+    ),
     rules_dir: list[Path] | None = RulesDir,
     rule_pack: str | None = RulePack,
 ) -> None:
@@ -196,10 +232,23 @@ def explain(
         _fail(exc)
     ids = [r.check.id for r in result.results]
     if check_id not in ids:
-        close = [i for i in ids if check_id.split(":")[0] in i][:5]
-        hint = f" (did you mean: {', '.join(close)})" if close else ""
-        typer.echo(f"error: {model}: no check '{check_id}'{hint}", err=True)
-        raise typer.Exit(2)
+        from audit.engine.model import normalise_label
+        from audit.review.reconcile import label_index
+
+        bearing = label_index(result).get(normalise_label(check_id))
+        at = [i for i in ids if bearing is not None and i.split(":")[0] == bearing]
+        if len(at) == 1:
+            check_id = at[0]
+        else:
+            close = at or [i for i in ids if check_id.split(":")[0] in i][:5]
+            what = f"'{check_id}' is bearing {bearing}, which has {len(at)} checks" if at else f"no check '{check_id}'"
+            hint = (
+                f" (choose one of: {', '.join(close)})"
+                if at
+                else (f" (did you mean: {', '.join(close)})" if close else "")
+            )
+            typer.echo(f"error: {model}: {what}{hint}", err=True)
+            raise typer.Exit(2)
     typer.echo(explain_text(result, check_id))
 
 
@@ -250,7 +299,7 @@ def _shown(name: str, value: object) -> str:
 
 
 @app.command()
-def schema(which: str = typer.Argument("model", help="Which input file: model or claims.")) -> None:
+def schema(which: str = typer.Argument("model", help="Which input file: model or claims.", metavar="WHICH")) -> None:
     """Print the JSON Schema of an input file, for editors that validate and complete YAML."""
     import json
 

@@ -56,9 +56,11 @@ def test_explain_prints_the_full_derivation(run_cli):
 
 
 def test_explain_unknown_check_suggests_close_ids(run_cli):
-    result = run_cli("explain", DEMO, "GB2/P1")
+    result = run_cli("explain", DEMO, "GB2/P1:P1")
     assert result.exit_code == 2
-    assert "did you mean" in result.stderr
+    assert "did you mean" in result.stderr and "GB2/P1:GB2" in result.stderr
+    several = run_cli("explain", DEMO, "GB2/P1")  # a bearing id with two checks
+    assert several.exit_code == 2 and "choose one of" in several.stderr
 
 
 def test_rules_lists_values_with_provenance(run_cli):
@@ -102,3 +104,40 @@ def test_claims_schema_validates_the_demo_claims_and_an_extracted_file(run_cli, 
     out = tmp_path / "x.yaml"
     assert run_cli("extract", ROOT / "fixtures/demo/calc.pdf", "-o", out).exit_code == 0
     jsonschema.validate(yaml.safe_load(out.read_text()), schema)
+
+
+def test_version_prints_the_version(run_cli):
+    from audit import __version__
+
+    result = run_cli("--version")
+    assert result.exit_code == 0 and __version__ in result.output
+
+
+def test_a_bad_rule_pack_option_is_blamed_on_the_option_not_the_model(run_cli, write_model):
+    result = run_cli("review", write_model(base_model()), "--rule-pack", "no-such-pack")
+    assert result.exit_code == 2
+    assert result.stderr.startswith("error: --rule-pack:") and "model.yaml" not in result.stderr
+
+
+def test_explain_accepts_the_calcs_label_for_a_bearing_with_one_check(run_cli, write_model):
+    data = base_model()
+    data["bearings"][0]["aliases"] = ["B1 at C1"]
+    result = run_cli("explain", write_model(data), "B1 at C1")
+    assert result.exit_code == 0 and "Check B1/C1:B1" in result.output
+
+
+def test_explain_lists_the_checks_where_a_label_names_several(run_cli, write_model):
+    data = base_model()
+    data["bearings"][2]["aliases"] = ["J1 on B1"]
+    result = run_cli("explain", write_model(data), "J1 on B1")
+    assert result.exit_code == 2 and "J1/B1:B1" in result.stderr and "J1/B1:J1" in result.stderr
+
+
+def test_grades_and_species_are_read_whatever_their_case():
+    from tests.conftest import review_dict
+
+    data = base_model()
+    data["materials"]["GL"]["grade"] = "24F-EX"
+    data["materials"]["SPF"]["species"] = "s-p-f"
+    review = review_dict(data)
+    assert review.model.materials["GL"].grade == "24f-EX" and review.model.materials["SPF"].species == "S-P-F"

@@ -128,7 +128,8 @@ def build_model(
     project = _read_project(top.map["project"], errors)
     errors.raise_if_any()
     pack_id = rule_pack or project.rule_pack
-    resistance, combos = select_packs(pack_id, project.combinations, rules_dirs, top.map["project"].loc)
+    where = Location("--rule-pack") if rule_pack else top.map["project"].loc
+    resistance, combos = select_packs(pack_id, project.combinations, rules_dirs, where)
     _check_readings(project, resistance, top.map["project"], errors)
 
     materials = _read_materials(top.map["materials"], resistance, errors)
@@ -294,6 +295,7 @@ def _material_of_family(
     if not f.ok:
         return None
     table = pack.fcp.get(family, {})
+    species = next((name for name in table if name.casefold() == species.casefold()), species)
     if species not in table:
         errors.add(
             f"species '{species}' is not in rule pack {pack.id} for {family} (known: {', '.join(table) or 'none'})",
@@ -301,6 +303,7 @@ def _material_of_family(
         )
         return None
     strength = table[species]
+    grade = next((name for name in strength.grades if name.casefold() == grade.casefold()), grade)
     if strength.grades and grade not in strength.grades:
         errors.add(
             f"grade '{grade}' is not listed for {family} {species} in rule pack {pack.id} "
