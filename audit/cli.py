@@ -69,9 +69,15 @@ def review(
     ),
     column_map: Path | None = typer.Option(None, "--map", help="With --calc-pdf: a column map (YAML).", metavar="FILE"),
     memo: Path | None = typer.Option(None, "--memo", help="Write the HTML review memo here.", metavar="FILE"),
+    all_derivations: bool = typer.Option(
+        False, "--all-derivations", help="In the memo, derive confirmed and covered checks too."
+    ),
     json_out: Path | None = typer.Option(None, "--json", help="Write every check and finding as JSON.", metavar="FILE"),
     csv_out: Path | None = typer.Option(
-        None, "--csv", help="Write the findings as CSV, for a comment log.", metavar="FILE"
+        None, "--csv", help="Write the comment log as CSV (one row per place, a reply column).", metavar="FILE"
+    ),
+    xlsx_out: Path | None = typer.Option(
+        None, "--xlsx", help="Write the comment log as a workbook, with a sheet of every check.", metavar="FILE"
     ),
     date: str | None = typer.Option(
         None, "--date", help="Memo date (YYYY-MM-DD); default project.date.", metavar="YYYY-MM-DD"
@@ -84,8 +90,10 @@ def review(
 
     from audit.core.outfiles import Output, output_limit, write_outputs
     from audit.inputs.read_claims import merge_claim_sources, read_claims
+    from audit.report.comment_log import comments_csv, comments_xlsx
     from audit.report.export import check_table, summary_line
-    from audit.report.memo import MemoOptions, findings_csv, findings_json_chunks, memo_chunks
+    from audit.report.memo import MemoOptions, findings_json_chunks, memo_chunks
+    from audit.review.comments import build_comments
     from audit.review.reconcile import reconcile
     from audit.review.review import review_model
 
@@ -97,7 +105,7 @@ def review(
     try:
         input_bytes = _check_files(
             {"MODEL": model, "--claims": claims, "--calc-pdf": calc_pdf, "--map": column_map},
-            {"--memo": memo, "--json": json_out, "--csv": csv_out},
+            {"--memo": memo, "--json": json_out, "--csv": csv_out, "--xlsx": xlsx_out},
         )
         result = review_model(model, _dirs(rules_dir), rule_pack)
         claim_list = read_claims(claims) if claims else ()
@@ -109,10 +117,11 @@ def review(
         typer.echo(f"warning: {warning}", err=True)
     rec = reconcile(result, claim_list) if (claims or calc_pdf) else None
     findings = rec.findings if rec else result.engine_findings
+    comments = build_comments(result, rec, claim_list)
     typer.echo(check_table(result))
-    for finding in findings:
-        if finding.kind != "confirmed":
-            typer.echo(f"{finding.code} {finding.severity:8s} {finding.kind}: {finding.message}")
+    for comment in comments:
+        if not comment.quiet:
+            typer.echo(f"{comment.number:>3}. [{comment.weight_word}] {comment.code}: {comment.title}")
     typer.echo(summary_line(result))
     if rec is not None:
         counts = rec.counts()
@@ -120,12 +129,20 @@ def review(
     outputs = []
     if memo:
         outputs.append(
-            Output("--memo", memo, lambda: memo_chunks(result, rec, claim_list, MemoOptions(date=memo_date)))
+            Output(
+                "--memo",
+                memo,
+                lambda: memo_chunks(
+                    result, rec, claim_list, MemoOptions(date=memo_date, all_derivations=all_derivations)
+                ),
+            )
         )
     if json_out:
-        outputs.append(Output("--json", json_out, lambda: findings_json_chunks(result, rec, findings)))
+        outputs.append(Output("--json", json_out, lambda: findings_json_chunks(result, rec, findings, comments)))
     if csv_out:
-        outputs.append(Output("--csv", csv_out, lambda: findings_csv(findings)))
+        outputs.append(Output("--csv", csv_out, lambda: comments_csv(comments)))
+    if xlsx_out:
+        outputs.append(Output("--xlsx", xlsx_out, lambda: [comments_xlsx(result, rec, comments)]))
     try:
         write_outputs(outputs, output_limit(input_bytes))
     except InputError as exc:

@@ -80,13 +80,17 @@ def test_markup_in_labels_is_escaped_in_the_memo():
     assert "&lt;script&gt;alert(1)&lt;/script&gt;" in html
 
 
-def test_findings_csv_has_one_row_per_finding_and_neutralises_formulas(run_cli, tmp_path):
+def test_comment_log_csv_has_a_row_per_number_compared_and_neutralises_formulas(run_cli, tmp_path):
     _run_demo(run_cli, tmp_path)
     rows = list(csv.DictReader(io.StringIO((tmp_path / "demo-findings.csv").read_text())))
     data = json.loads((tmp_path / "demo-findings.json").read_text())
-    assert len(rows) == len(data["findings"]) > 0
-    assert {r["kind"] for r in rows} >= {"failing", "missing", "mis-loaded", "resistance-differs", "unmatched-claim"}
+    assert len(rows) == sum(len(c["places"]) for c in data["comments"]) > 0
+    assert {r["code"] for r in rows} >= {"CRUSH", "ABSENT", "LOAD", "CAPACITY", "ORPHAN"}
+    assert all(r["designer_response"] == "" for r in rows)
     assert not any(v.startswith(("=", "+", "@")) for r in rows for v in r.values())
+    claimed = [r for r in rows if r["code"] == "LOAD"]
+    assert claimed and all(r["claim"] and r["calc_reference"] and r["quantity"] in ("Qf", "Qr") for r in claimed)
+    assert {r["comment"] for r in claimed} == {r["comment"] for r in claimed if r["quantity"] == "Qf"}
 
 
 def test_exit_status_is_0_when_nothing_is_above_minor(write_model, run_cli, tmp_path):

@@ -103,3 +103,17 @@ def test_network_check_detects_a_page_that_does_request(tmp_path):
     netlog = tmp_path / "net.json"
     browser.dump_dom(page, tmp_path / "profile", netlog)
     assert browser.page_requests(netlog) == {"http://127.0.0.1:9/probe.png"}
+
+
+def test_the_comment_part_of_the_demo_memo_prints_on_a_few_pages(tmp_path):
+    # the memo before its appendix (summary, comments, assumptions, cautions): at most 9 Letter
+    # pages, a third of the 27 the whole memo took when every check was derived in the body
+    review = review_model(DEMO)
+    claims = read_claims(CLAIMS)
+    page = tmp_path / "memo.html"
+    page.write_text(render_memo(review, reconcile(review, claims), claims, MemoOptions()), encoding="utf-8")
+    pdf_path = browser.print_pdf(page, tmp_path / "memo.pdf", tmp_path / "profile")
+    with pdfplumber.open(pdf_path) as pdf:
+        starts = [p.page_number for p in pdf.pages if (p.extract_text() or "").lstrip().startswith("Appendix")]
+        assert starts, "the appendix starts on a page of its own"
+        assert starts[0] - 1 <= 9, f"the comment part takes {starts[0] - 1} pages"

@@ -20,7 +20,7 @@ from pathlib import Path
 
 from audit.core.errors import InputError, Location
 
-Chunks = str | Iterable[str]
+Chunks = str | bytes | Iterable[str] | Iterable[bytes]  # text is written as UTF-8
 
 
 class OutputError(InputError):
@@ -152,9 +152,10 @@ def _write_temporary(path: Path, text: Chunks, option: str, limit: int | None = 
         raise OutputError(f"cannot write here: {exc.strerror or exc}; nothing was written", where) from None
     try:
         os.chmod(tmp, 0o666 & ~_umask())
-        with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as handle:
+        with os.fdopen(fd, "wb") as handle:
             written = 0
-            for chunk in [text] if isinstance(text, str) else text:
+            for piece in [text] if isinstance(text, (str, bytes)) else text:
+                chunk = piece.encode("utf-8") if isinstance(piece, str) else piece
                 written += len(chunk)
                 if limit is not None and written > limit:
                     raise OutputError(

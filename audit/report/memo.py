@@ -17,6 +17,7 @@ import jinja2
 from audit import __version__
 from audit.inputs.read_claims import Claim
 from audit.report.export import check_record, rows_to_csv
+from audit.review.comments import WEIGHT_WORDS, Comment, build_comments
 from audit.review.findings import KINDS, SEVERITIES, Finding
 from audit.review.reconcile import Reconciliation
 from audit.review.review import Review, uplift_threshold
@@ -52,6 +53,7 @@ CAUTIONS = (
 class MemoOptions:
     date: dt.date | None = None
     title: str = "Bearing review memo"
+    all_derivations: bool = False  # derivations of confirmed and covered checks too (they are in the JSON)
 
 
 def _env() -> jinja2.Environment:
@@ -139,47 +141,35 @@ def _pattern_lines(review: Review) -> list[str]:
     ]
 
 
-def _finding_view(f: Finding, review: Review, reconciliation: Reconciliation | None, claims: dict[str, Claim]):
-    outcome = reconciliation.outcome(f.check_id) if reconciliation and f.check_id else None
-    claim = claims.get(outcome.claim_id) if outcome and outcome.claim_id else claims.get(f.claim_id)
-    result = review.result(f.check_id) if f.check_id else None
-    rows = []
-    if result is not None and claim is not None:  # a missing check's numbers are in its message
-        g = result.governing
-        cmp_qf = outcome.qf if outcome else None
-        cmp_qr = outcome.qr if outcome else None
-        rows.append(
-            ("Qf (kN)", kn(claim.qf) if claim else "not claimed", kn(g.qf), kn(cmp_qf.difference) if cmp_qf else "")
-        )
-        rows.append(
+def _comment_view(c: Comment) -> dict[str, Any]:
+    places = []
+    for p in c.places:
+        numbers = [
             (
-                "Qr (kN)",
-                kn(claim.claimed_qr) if claim else "not claimed",
-                kn(g.qr),
-                kn(cmp_qr.difference) if cmp_qr else "",
+                n.quantity,
+                n.unit,
+                "not claimed" if n.claimed is None else f"{n.claimed:.2f}",
+                "" if n.recomputed is None else f"{n.recomputed:.2f}",
             )
-        )
-        rows.append(
-            (
-                "Qf/Qr",
-                f"{claim.qf / claim.claimed_qr:.2f}" if claim and claim.qf and claim.claimed_qr else "",
-                f"{g.utilisation:.2f}",
-                "",
-            )
+            for n in p.compared
+        ]
+        places.append(
+            {
+                "where": p.calc_label or p.bearing or p.claim_id,
+                "id": p.check_id or p.bearing,
+                "page": p.page,
+                "numbers": numbers,
+                "points": p.points,
+            }
         )
     return {
-        "code": f.code,
-        "kind": f.kind,
-        "severity": f.severity,
-        "message": f.message,
-        "check_id": f.check_id,
-        "bearing": f.bearing,
-        "member": f.member,
-        "page": f.page or (claim.where.cite() if claim else ""),
-        "clause": f.clause,
-        "rows": rows,
-        "governing": result.governing.combination if result else "",
-        "claim_text": claim.text if claim else "",
+        "number": c.number,
+        "weight": c.weight,
+        "weight_word": c.weight_word,
+        "code": c.code,
+        "title": c.title,
+        "clause": c.clause,
+        "places": places,
     }
 
 
@@ -204,18 +194,28 @@ def _check_rows(review: Review, reconciliation: Reconciliation | None, claims: d
             }
         )
     out = []
-    for level in sorted({k[0] for k in groups}):
-        members = [{"id": m, "rows": groups[(lv, m)]} for lv, m in sorted(groups) if lv == level]
-        out.append({"level": level, "members": members})
+    rank = {m: i for i, m in enumerate(review.flow.order)}  # the take-down order: the top of the building first
+    top_of_level: dict[str, int] = {}
+    for level, m in groups:
+        top_of_level[level] = min(top_of_level.get(level, len(rank)), rank.get(m, len(rank)))
+    for level in sorted(top_of_level, key=lambda lv: (top_of_level[lv], lv)):
+        members = sorted((m for lv, m in groups if lv == level), key=lambda m: (rank.get(m, len(rank)), m))
+        out.append({"level": level, "members": [{"id": m, "rows": groups[(level, m)]} for m in members]})
     return out
 
 
-def _derivations(review: Review, status_of: dict[str, str]) -> tuple[list[dict[str, Any]], bool]:
-    """Derivations of every check, or on a large building of the first failing ones."""
+QUIET_STATUSES = ("confirmed", "covered", "computed")
+
+
+def _derivations(review: Review, status_of: dict[str, str], every: bool = False) -> tuple[list[dict[str, Any]], bool]:
+    """Derivations of the checks with findings (of every check on request), or on a large building of the
+    first failing ones."""
     out: list[dict[str, Any]] = []
     all_checks = len(review.results) <= DERIVATION_LIMIT
     for r in review.results:
         if not all_checks and (status_of.get(r.check.id) != "failing" or len(out) >= LARGE_DERIVATIONS):
+            continue
+        if all_checks and not every and status_of.get(r.check.id) in QUIET_STATUSES:
             continue
         rec = check_record(r)
         out.append(
@@ -247,18 +247,17 @@ def build_view(
     p = review.model.project
     claims_by_id = {c.id: c for c in claims}
     findings = reconciliation.findings if reconciliation else review.engine_findings
-    shown = [f for f in findings if f.kind != "confirmed"]
     counts = {k: 0 for k in KINDS}
     for f in findings:
         counts[f.kind] += 1
-    by_severity = {s: sum(1 for f in shown if f.severity == s) for s in SEVERITIES}
     date = options.date or p.date
     status_of = (
         {o.check_id: o.status for o in reconciliation.checks}
         if reconciliation
         else {r.check.id: ("failing" if not r.passes else "computed") for r in review.results}
     )
-    derivations, all_derivations = _derivations(review, status_of)
+    derivations, all_derivations = _derivations(review, status_of, options.all_derivations)
+    comments = build_comments(review, reconciliation, claims)
     sketch_limit = SKETCH_LIMIT if all_derivations else LARGE_SKETCHES
     return {
         "title": options.title,
@@ -269,8 +268,10 @@ def build_view(
         "cpack": review.cpack,
         "summary": _summary(review, reconciliation, counts, claims),
         "counts": [(KINDS[k].code, k, n) for k, n in counts.items()],
-        "by_severity": by_severity,
-        "findings": [_finding_view(f, review, reconciliation, claims_by_id) for f in shown],
+        "by_weight": {WEIGHT_WORDS[w]: sum(c.weight == w and not c.quiet for c in comments) for w in SEVERITIES[:3]},
+        "comments": [_comment_view(c) for c in comments if not c.quiet],
+        "for_record": [_comment_view(c) for c in comments if c.quiet],
+        "every_derivation": options.all_derivations,
         "groups": _check_rows(review, reconciliation, claims_by_id),
         "exempt": review.checklist.exempt,
         "sketches": member_sketches(review, status_of, STATUS_WORDS, sketch_limit),
@@ -283,6 +284,7 @@ def build_view(
         "assumptions": assumptions(review),
         "cautions": CAUTIONS,
         "kinds": list(KINDS.values()),
+        "weight_words": WEIGHT_WORDS,
         "has_claims": reconciliation is not None,
     }
 
@@ -365,10 +367,14 @@ def findings_json(review: Review, rec: Reconciliation | None, findings: tuple[Fi
     return "".join(findings_json_chunks(review, rec, findings))
 
 
-def findings_json_chunks(review: Review, rec: Reconciliation | None, findings: tuple[Finding, ...]) -> Iterator[str]:
+def findings_json_chunks(
+    review: Review, rec: Reconciliation | None, findings: tuple[Finding, ...], comments: tuple = ()
+) -> Iterator[str]:
+    from audit.report.comment_log import comment_records
     from audit.report.export import json_chunks, review_record
 
     data = review_record(review)
+    data["comments"] = comment_records(comments)
     data["findings"] = (dict(zip(FINDING_COLUMNS, row, strict=True)) for row in finding_rows(findings))
     if rec is not None:
         data["check_outcomes"] = [

@@ -722,6 +722,7 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
         "member": check.member,
         "clause": clause,
         "page": page,
+        "claim_id": claim.id if claim else "",
     }
     findings: list[Finding] = []
     remedy = ""
@@ -781,6 +782,7 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
                     f"Qf/Qr = {claim.utilisation:.2f}; recomputed Qf/Qr = {g.utilisation:.2f} ({util_cmp.direction}; "
                     f"recomputed Qf = {g.qf / 1000:.2f} kN, Qr = {g.qr / 1000:.2f} kN, {g.combination}).",
                     numbers={"claimed": claim.utilisation, "recomputed": g.utilisation},
+                    quantity="Qf/Qr",
                     **common,
                 )
             )
@@ -795,6 +797,7 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
                 severity,
                 _difference_message(cmp, check, where, diffs if kind == "resistance-differs" else ()),
                 numbers={"claimed": cmp.claimed, "recomputed": cmp.recomputed},
+                quantity=cmp.quantity,
                 **common,
             )
         )
