@@ -1,12 +1,15 @@
 """Elevation sketches of members as neutral drawing descriptors (plain dicts of shapes).
 
-The memo template turns the descriptors into inline SVG; nothing here knows about SVG
-syntax or escaping. Each check on the member gets a numbered marker and a legend line with
-its status in words.
+The memo template turns the descriptors into inline SVG; nothing here knows about SVG syntax
+or escaping. Every load is labelled with its size; labels are laid out in rows away from the
+member so that no two overlap and no load's leader line crosses a label; check markers are
+numbered from left to right. Members that would be drawn alike (same size, supports, loads
+and check statuses) are drawn once, named as typical.
 """
 
 from __future__ import annotations
 
+from dataclasses import dataclass, field
 from typing import Any
 
 from audit.review.review import Review
@@ -15,15 +18,74 @@ from audit.standards.checks import NEAR
 WIDTH = 720.0
 LEFT = 40.0
 RIGHT = 40.0
-BEAM_Y = 96.0
-BEAM_H = 22.0
-
+BEAM_H = 20.0
+ROW_H = 15.0
+GAP = 6.0  # px kept clear between labels in a row
+FONT = 8.5  # px, labels
+CHAR_W = 0.6  # a character's width as a share of the font size (a generous estimate for the fonts used)
+MARK_R = 7.0
+BOLD = 1.2  # bold words run wider
 
 MAX_CHECKS_DRAWN = 60  # a member with more checks than this is left to the table: a sketch would be a blur
 
 
+def text_width(text: str, size: float = FONT) -> float:
+    return CHAR_W * size * len(text)
+
+
+@dataclass
+class _Item:
+    """Something to place in a row: a box [x0, x1] and, for a load, the x of its leader line."""
+
+    x0: float
+    x1: float
+    leader: float | None = None
+    row: int = 0
+    payload: dict[str, Any] = field(default_factory=dict)
+
+
+def place_in_rows(items: list[_Item]) -> int:
+    """Give each item the row nearest the member where it overlaps no other label, and where it can, no
+    leader line crosses it (a leader runs from its label's row to the member). Returns the rows used.
+
+    Labels never overlap. A leader crossing a label is avoided where some row allows it; where
+    none does (loads a few pixels apart), the nearest row without overlap is taken.
+    """
+    placed: list[_Item] = []
+
+    def overlaps(item: _Item, row: int) -> bool:
+        return any(o.row == row and item.x0 < o.x1 + GAP and o.x0 < item.x1 + GAP for o in placed)
+
+    def crosses(item: _Item, row: int) -> bool:
+        for o in placed:
+            if o.row > row and o.leader is not None and item.x0 - GAP < o.leader < item.x1 + GAP:
+                return True  # a leader from farther out would cross this label
+            if o.row < row and item.leader is not None and o.x0 - GAP < item.leader < o.x1 + GAP:
+                return True  # this leader would cross a label nearer the member
+        return False
+
+    for item in sorted(items, key=lambda i: -(i.leader if i.leader is not None else i.x0)):
+        limit = 1 + max((o.row for o in placed), default=0)
+        clean = next((r for r in range(limit + 1) if not overlaps(item, r) and not crosses(item, r)), None)
+        if clean is None:
+            clean = next(r for r in range(limit + 2) if not overlaps(item, r))
+        item.row = clean
+        placed.append(item)
+    return 1 + max((i.row for i in placed), default=-1)
+
+
+def _force_text(forces: dict[str, float], unit: str, scale: float) -> str:
+    parts = []
+    for case, value in sorted(forces.items()):
+        if abs(value) * scale < 0.005:
+            continue
+        name = "factored" if case.startswith("factored:") else case
+        parts.append(f"{name} {value * scale:.2f}")
+    return (" + ".join(parts) or "0") + f" {unit}"
+
+
 def member_sketches(review: Review, status_of: dict[str, str], words: dict[str, str], limit: int) -> list[dict]:
-    """Sketches of up to ``limit`` members, those with failing checks first."""
+    """Sketches of up to ``limit`` members, those with failing checks first; alike members drawn once."""
     checks_by_member: dict[str, list] = {}
     for r in review.results:
         checks_by_member.setdefault(r.check.member, []).append(r)
@@ -36,11 +98,47 @@ def member_sketches(review: Review, status_of: dict[str, str], words: dict[str, 
         for m in checks_by_member
         if not review.model.members[m].vertical and len(checks_by_member[m]) <= MAX_CHECKS_DRAWN
     ]
-    chosen = sorted(drawable, key=failing_first)[:limit]
-    return [_sketch(review, m, checks_by_member[m], status_of, words) for m in sorted(chosen)]
+    alike: dict[tuple, list[str]] = {}
+    for m in sorted(drawable):
+        alike.setdefault(_signature(review, m, checks_by_member[m], status_of), []).append(m)
+    firsts = {ms[0]: ms for ms in alike.values()}
+    chosen = sorted(firsts, key=failing_first)[:limit]
+    return [_sketch(review, m, firsts[m], checks_by_member[m], status_of, words) for m in sorted(chosen)]
 
 
-def _sketch(review: Review, member_id: str, results, status_of, words) -> dict[str, Any]:
+def _signature(review: Review, member_id: str, results, status_of) -> tuple:
+    """What a sketch shows, without the member's own name: members with one signature look the same."""
+    model = review.model
+    member = model.members[member_id]
+    supports = tuple(
+        sorted(
+            (round(b.upper.at or 0.0, 4), model.members[b.lower.member].id)
+            for b in model.bearings
+            if b.upper.member == member_id
+        )
+    )
+    loads = tuple(
+        sorted(
+            (
+                a.kind,
+                round(a.at or 0.0, 4),
+                round(a.start or 0.0, 4),
+                round(a.end or 0.0, 4),
+                tuple(sorted((c, round(v, 1)) for c, v in a.forces.items())),
+            )
+            for a in review.flow.on_top.get(member_id, ())
+        )
+    )
+    checks = tuple(
+        sorted(
+            (r.check.kind, r.check.face, round(r.check.contact.centre or 0.0, 4), status_of.get(r.check.id, "computed"))
+            for r in results
+        )
+    )
+    return (member.length, member.b, member.d, member.material, supports, loads, checks)
+
+
+def _sketch(review: Review, member_id: str, same: list[str], results, status_of, words) -> dict[str, Any]:
     model = review.model
     member = model.members[member_id]
     span = WIDTH - LEFT - RIGHT
@@ -48,71 +146,113 @@ def _sketch(review: Review, member_id: str, results, status_of, words) -> dict[s
     def px(x: float) -> float:
         return round(LEFT + span * x / member.length, 1)
 
-    supports = []
-    zones = []
+    top: list[_Item] = []
+    bottom: list[_Item] = []
+    for force in review.flow.on_top.get(member_id, ()):
+        if force.kind == "point" and force.at is not None:
+            text = f"{force.source}: {_force_text(force.forces, 'kN', 1e-3)}"
+            x = px(force.at)
+            w = text_width(text)
+            x0 = min(max(x - 2.0, 2.0), WIDTH - 2.0 - w)  # the label starts at its leader
+            top.append(_Item(x0, x0 + w, x, payload={"kind": "load", "x": x, "text": text}))
+        elif force.start is not None and force.end is not None:
+            text = f"{force.source}: {_force_text(force.forces, 'kN/m', 1e-3)}"
+            x1, x2 = px(force.start), px(force.end)
+            w = text_width(text)
+            x0 = min(max(x1 + 2.0, 2.0), WIDTH - 2.0 - w)
+            top.append(_Item(x0, x0 + w, None, payload={"kind": "uniform", "x1": x1, "x2": x2, "text": text}))
+    zones, supports = [], []
     for b in model.bearings:
-        if b.upper.member != member_id:
+        if b.upper.member != member_id or b.upper.at is None:
             continue
-        x = b.upper.at
-        if x is None:
-            continue
-        supports.append({"x": px(x), "label": model.members[b.lower.member].id})
-        zones.append({"x1": px(max(0.0, x - member.d)), "x2": px(min(member.length, x + member.d))})
-    loads = []
-    for item in review.flow.on_top.get(member_id, ()):
-        if item.kind == "point" and item.at is not None:
-            loads.append({"x": px(item.at), "label": item.source})
-    uniforms = []
-    for item in review.flow.on_top.get(member_id, ()):
-        if item.kind == "uniform" and item.start is not None and item.end is not None:
-            uniforms.append({"x1": px(item.start), "x2": px(item.end), "label": item.source})
-    supports_line = {"x1": px(0.0), "x2": px(member.length)} if member.continuous else None
-    marks = []
+        x = px(b.upper.at)
+        label = model.members[b.lower.member].id
+        supports.append({"x": x})
+        w = text_width(label)
+        bottom.append(_Item(x - w / 2, x + w / 2, None, payload={"kind": "support", "x": x, "text": label}))
+        z1, z2 = px(max(0.0, b.upper.at - member.d)), px(min(member.length, b.upper.at + member.d))
+        zones.append({"x1": z1, "x2": z2})
+        words_d = "within d"
+        wz = text_width(words_d)
+        cz = (z1 + z2) / 2
+        bottom.append(_Item(cz - wz / 2, cz + wz / 2, None, payload={"kind": "zone", "x": cz, "text": words_d}))
+    ordered = sorted(
+        results, key=lambda r: (r.check.contact.centre if r.check.contact.centre is not None else 0.0, r.check.id)
+    )
     legend = []
-    for number, r in enumerate(sorted(results, key=lambda r: r.check.id), start=1):
+    for number, r in enumerate(ordered, start=1):
         c = r.check
-        x = c.contact.centre if c.contact.centre is not None else 0.0
-        below = c.face == "bottom" or c.kind == NEAR
+        x = px(c.contact.centre if c.contact.centre is not None else 0.0)
         status = status_of.get(c.id, "computed")
-        row = (number - 1) % 2
-        y = BEAM_Y + BEAM_H + 44 + 16 * row if below else BEAM_Y - 58 - 16 * row
-        at = px(x)
-        # words read to the right of the marker, or to its left near the right-hand end
-        left = at > WIDTH - RIGHT - 70
-        marks.append(
-            {
-                "x": at,
-                "y": y,
-                "n": number,
-                "status": status,
-                "word": words[status],
-                "tx": at - 10 if left else at + 10,
-                "anchor": "end" if left else "start",
-            }
-        )
+        word = words[status]
+        w = 2 * MARK_R + 4 + text_width(word, 8.0) * BOLD
+        x0 = min(max(x - MARK_R, 2.0), WIDTH - 2.0 - w)
+        target = bottom if (c.face == "bottom" or c.kind == NEAR) else top
+        target.append(_Item(x0, x0 + w, None, payload={"kind": "mark", "n": number, "status": status, "word": word}))
         legend.append(
             {
                 "n": number,
                 "id": c.id,
                 "kind": c.kind,
-                "word": words[status],
+                "word": word,
                 "status": status,
                 "util": f"{r.governing.utilisation:.2f}",
             }
         )
+    top_rows = place_in_rows(top)
+    bottom_rows = place_in_rows(bottom)
+    beam_y = 12.0 + ROW_H * top_rows + 10.0
+    below = beam_y + BEAM_H + 16.0  # under the support blocks
+    labels, leaders, uniforms, marks = [], [], [], []
+    for item in top:
+        y = beam_y - 12.0 - ROW_H * item.row
+        p = item.payload
+        if p["kind"] == "load":
+            labels.append({"x": item.x0, "y": y, "text": p["text"], "size": FONT, "muted": False})
+            leaders.append({"x": p["x"], "y1": y + 3.0, "y2": beam_y - 2.0})
+        elif p["kind"] == "uniform":
+            labels.append({"x": item.x0, "y": y, "text": p["text"], "size": FONT, "muted": False})
+            uniforms.append({"x1": p["x1"], "x2": p["x2"], "y": beam_y - 7.0})
+        else:
+            marks.append(_mark(item, y))
+    for item in bottom:
+        y = below + 12.0 + ROW_H * item.row
+        p = item.payload
+        if p["kind"] == "mark":
+            marks.append(_mark(item, y))
+        else:
+            labels.append({"x": item.x0, "y": y, "text": p["text"], "size": FONT, "muted": p["kind"] == "zone"})
+    height = below + 12.0 + ROW_H * bottom_rows + 6.0
+    others = [m for m in same if m != member_id]
     return {
-        "member": member_id,
+        "member": member_id if not others else f"{', '.join(same)} (typical)",
         "label": member.label,
+        "alike": others,
         "length_mm": f"{member.length * 1000:.0f}",
         "d_mm": f"{member.d * 1000:.0f}",
         "width": WIDTH,
-        "height": 214.0,
-        "beam": {"x": px(0.0), "y": BEAM_Y, "w": round(span, 1), "h": BEAM_H},
+        "height": round(height, 1),
+        "beam": {"x": px(0.0), "y": round(beam_y, 1), "w": round(span, 1), "h": BEAM_H},
         "supports": supports,
-        "continuous": supports_line,
+        "continuous": {"x1": px(0.0), "x2": px(member.length)} if member.continuous else None,
         "zones": zones,
-        "loads": loads,
+        "labels": labels,
+        "leaders": leaders,
         "uniforms": uniforms,
         "marks": marks,
         "legend": legend,
+    }
+
+
+def _mark(item: _Item, y: float) -> dict[str, Any]:
+    p = item.payload
+    cx = item.x0 + MARK_R
+    return {
+        "x": round(cx, 1),
+        "y": round(y - 3.0, 1),
+        "n": p["n"],
+        "status": p["status"],
+        "word": p["word"],
+        "tx": round(cx + MARK_R + 4, 1),
+        "ty": round(y, 1),
     }
