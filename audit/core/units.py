@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import math
 import re
+from dataclasses import dataclass
 from functools import lru_cache
 from typing import Any
 
@@ -131,3 +132,44 @@ def parse_quantity(value: object, dimension: str, loc: Location) -> float:
     if abs(result) > LIMITS[dimension]:
         raise InputError(f"'{value}' is implausibly large for a {dimension}", loc)
     return result
+
+
+# ---------------------------------------------------------------- display
+
+LBF = 4.4482216152605  # N, exactly (the pound-force by definition)
+FORCE_UNITS = {"kN": 1000.0, "N": 1.0, "lbf": LBF, "kip": 1000.0 * LBF}
+DECIMALS = {"kN": 2, "N": 0, "lbf": 0, "kip": 2}
+PROJECT_UNITS = {"SI": "kN", "US": "kip"}  # how a project shows forces
+
+
+def force_unit_of(text: object) -> str:
+    """The display unit a force was written in ('kN', 'N', 'lbf', 'kip'), or '' when it is none of those."""
+    if not isinstance(text, str):
+        return ""
+    match = _SIMPLE.match(text.strip())
+    if match is None:
+        return ""
+    try:
+        factor = _unit_factor(match[2].strip(), "force")
+    except UnitProblem:
+        return ""
+    return next((name for name, f in FORCE_UNITS.items() if abs(f - factor) <= 1e-9 * f), "")
+
+
+@dataclass(frozen=True)
+class Display:
+    """How numbers are shown: forces in one unit, with its usual decimals."""
+
+    force_unit: str = "kN"
+
+    def value(self, newtons: float) -> float:
+        return newtons / FORCE_UNITS[self.force_unit]
+
+    def force(self, newtons: float) -> str:
+        """'12.34 kN', '2,775 lbf', '2.78 kip'."""
+        digits = DECIMALS[self.force_unit]
+        return f"{self.value(newtons):,.{digits}f} {self.force_unit}"
+
+    def number(self, newtons: float) -> str:
+        digits = DECIMALS[self.force_unit]
+        return f"{self.value(newtons):,.{digits}f}"

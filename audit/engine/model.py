@@ -140,6 +140,7 @@ class Project:
     tolerance_absolute: float  # N
     date: dt.date | None
     readings: dict[str, str] = field(default_factory=dict)  # choice name -> reading chosen over the pack's default
+    units: str = "SI"  # how the memo and logs show forces: SI (kN) or US (kip)
     uplift_note_below: float | None = None  # N; a smaller calculated uplift is a note; None: the pack's threshold
 
 

@@ -12,6 +12,7 @@ from pathlib import Path
 
 from audit.core.errors import ErrorCollector, Location
 from audit.core.located_yaml import Node, node_text, read_yaml_file
+from audit.core.units import force_unit_of
 from audit.inputs.fields import FieldReader, describe_value, list_items
 
 CLAIM_KEYS = {"id", "where", "location", "member", "kind", "Qf", "Qr", "utilisation", "factors", "adequate", "text"}
@@ -69,6 +70,7 @@ class Claim:
     loc: Location = field(default=Location(""), compare=False)
     kind_stated: bool = True  # False when the claims file left 'kind' to its default
     labels: tuple[str, ...] = ()  # a typical claim given as a list of locations
+    unit: str = ""  # the force unit the claim was written in (kN, lbf, kip), shown back in it; "" unknown
 
     @property
     def claimed_qr(self) -> float | None:
@@ -152,6 +154,7 @@ def _read_claim(item: Node, index: int, errors: ErrorCollector) -> Claim | None:
         text=f.text("text", required=False, limit=2000),
         loc=item.loc,
         labels=labels,
+        unit=next((u for k in ("Qf", "Qr") if f.has(k) and (u := force_unit_of(f.map[k].value))), ""),
     )
 
 

@@ -57,6 +57,7 @@ PROJECT_KEYS = {
     "near_support_kb",
     "uplift_note_below",
     "readings",
+    "units",
 }
 # The older project keys for two readings, kept: each names a choice of the rule pack.
 READING_KEYS = {"near_support_area": "near_support.area_limit", "near_support_kb": "near_support.kb_reading"}
@@ -193,6 +194,7 @@ def _read_project(node: Node, errors: ErrorCollector) -> Project:
         tolerance_absolute=tol_abs,
         date=date,
         readings=_read_reading_choices(f, errors),
+        units=f.choice("units", ("SI", "US"), required=False, default="SI"),
         uplift_note_below=uplift_note,
     )
 

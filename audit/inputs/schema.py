@@ -56,6 +56,7 @@ MODEL_SCHEMA: dict[str, Any] = {
                     "date": {"type": "string", "format": "date"},
                     "near_support_area": {"type": "string", "description": "a reading named in the rule pack"},
                     "near_support_kb": {"type": "string", "description": "a reading named in the rule pack"},
+                    "units": {"enum": ["SI", "US"], "default": "SI", "description": "how forces are shown"},
                     "readings": {
                         "type": "object",
                         "description": "rule-pack choice -> reading, e.g. {kzcp.built_up: combined}",

@@ -15,6 +15,7 @@ from typing import Any
 import jinja2
 
 from audit import __version__
+from audit.core.units import PROJECT_UNITS, Display
 from audit.inputs.read_claims import Claim
 from audit.report.export import check_record, rows_to_csv
 from audit.review.comments import WEIGHT_WORDS, Comment, build_comments
@@ -66,11 +67,12 @@ def _env() -> jinja2.Environment:
     )
 
 
-def kn(value: float | None) -> str:
+def kn(value: float | None, display: Display | None = None) -> str:
+    """A force as a number in the display unit (kN unless the project says otherwise)."""
     if value is None:
         return "—"
-    text = f"{value / 1000:.2f}"
-    return "0.00" if text == "-0.00" else text
+    text = (display or Display()).number(value)
+    return text[1:] if text.startswith("-") and not text.strip("-0.,") else text
 
 
 def assumptions(review: Review) -> list[str]:
@@ -141,6 +143,10 @@ def _pattern_lines(review: Review) -> list[str]:
     ]
 
 
+def project_display(review: Review) -> Display:
+    return Display(PROJECT_UNITS[review.model.project.units])
+
+
 def _comment_view(c: Comment) -> dict[str, Any]:
     places = []
     for p in c.places:
@@ -174,6 +180,7 @@ def _comment_view(c: Comment) -> dict[str, Any]:
 
 
 def _check_rows(review: Review, reconciliation: Reconciliation | None, claims: dict[str, Claim]):
+    display = project_display(review)
     groups: dict[tuple[str, str], list[dict[str, Any]]] = {}
     for r in review.results:
         member = review.model.members[r.check.member]
@@ -184,8 +191,8 @@ def _check_rows(review: Review, reconciliation: Reconciliation | None, claims: d
             {
                 "id": r.check.id,
                 "kind": r.check.kind,
-                "qf": kn(r.governing.qf),
-                "qr": kn(r.governing.qr),
+                "qf": kn(r.governing.qf, display),
+                "qr": kn(r.governing.qr, display),
                 "util": f"{r.governing.utilisation:.2f}",
                 "governing": r.governing.combination,
                 "claim": f"{claim.id} ({claim.where.cite()})" if claim else "—",
@@ -210,6 +217,7 @@ QUIET_STATUSES = ("confirmed", "covered", "computed")
 def _derivations(review: Review, status_of: dict[str, str], every: bool = False) -> tuple[list[dict[str, Any]], bool]:
     """Derivations of the checks with findings (of every check on request), or on a large building of the
     first failing ones."""
+    display = project_display(review)
     out: list[dict[str, Any]] = []
     all_checks = len(review.results) <= DERIVATION_LIMIT
     for r in review.results:
@@ -228,11 +236,12 @@ def _derivations(review: Review, status_of: dict[str, str], every: bool = False)
                     (f.name, f"{f.value:.3f}" if f.name != "fcp" else f"{f.value / 1e6:.2f} MPa", f.reason, f.clause)
                     for f in r.factors
                 ],
-                "forces": ", ".join(f"{case} {v:.2f} kN" for case, v in rec["forces_kN"].items()) or "none",
+                "forces": ", ".join(f"{case} {display.force(v * 1000)}" for case, v in rec["forces_kN"].items())
+                or "none",
                 "governing": r.governing,
                 "kd_reason": r.governing.kd_reason,
-                "qf": kn(r.governing.qf),
-                "qr": kn(r.governing.qr),
+                "qf": kn(r.governing.qf, display),
+                "qr": kn(r.governing.qr, display),
                 "util": f"{r.governing.utilisation:.3f}",
             }
         )
@@ -285,6 +294,7 @@ def build_view(
         "cautions": CAUTIONS,
         "kinds": list(KINDS.values()),
         "weight_words": WEIGHT_WORDS,
+        "force_unit": project_display(review).force_unit,
         "has_claims": reconciliation is not None,
     }
 

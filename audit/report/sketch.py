@@ -12,6 +12,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any
 
+from audit.core.units import FORCE_UNITS, PROJECT_UNITS
 from audit.review.review import Review
 from audit.standards.checks import NEAR
 
@@ -146,17 +147,18 @@ def _sketch(review: Review, member_id: str, same: list[str], results, status_of,
     def px(x: float) -> float:
         return round(LEFT + span * x / member.length, 1)
 
+    unit = PROJECT_UNITS[model.project.units]
     top: list[_Item] = []
     bottom: list[_Item] = []
     for force in review.flow.on_top.get(member_id, ()):
         if force.kind == "point" and force.at is not None:
-            text = f"{force.source}: {_force_text(force.forces, 'kN', 1e-3)}"
+            text = f"{force.source}: {_force_text(force.forces, unit, 1.0 / FORCE_UNITS[unit])}"
             x = px(force.at)
             w = text_width(text)
             x0 = min(max(x - 2.0, 2.0), WIDTH - 2.0 - w)  # the label starts at its leader
             top.append(_Item(x0, x0 + w, x, payload={"kind": "load", "x": x, "text": text}))
         elif force.start is not None and force.end is not None:
-            text = f"{force.source}: {_force_text(force.forces, 'kN/m', 1e-3)}"
+            text = f"{force.source}: {_force_text(force.forces, unit + '/m', 1.0 / FORCE_UNITS[unit])}"
             x1, x2 = px(force.start), px(force.end)
             w = text_width(text)
             x0 = min(max(x1 + 2.0, 2.0), WIDTH - 2.0 - w)

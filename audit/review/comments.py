@@ -11,6 +11,7 @@ from __future__ import annotations
 from collections import defaultdict
 from dataclasses import dataclass, replace
 
+from audit.core.units import PROJECT_UNITS, Display
 from audit.inputs.read_claims import Claim
 from audit.review.findings import KINDS, Finding, severity_rank
 from audit.review.reconcile import Reconciliation
@@ -103,24 +104,31 @@ def _where(place: Place) -> str:
     return f"{place.calc_label} ({place.bearing})" if place.calc_label else place.bearing
 
 
-def _place(findings: list[Finding], review: Review) -> Place:
+def _place(findings: list[Finding], review: Review, units: dict[str, str] | None = None) -> Place:
+    """One spot; forces in the unit of the claim there (``units``: claim id -> unit), else the project's."""
     lead = min(findings, key=lambda f: severity_rank(f.severity))
+    claim_id = next((f.claim_id for f in findings if f.claim_id), "")
+    unit = (units or {}).get(claim_id) or PROJECT_UNITS[review.model.project.units]
+    d = Display(unit)
     compared = []
     for f in findings:
         if "claimed" in f.numbers and f.quantity:
-            scale = 1.0 if f.quantity == "Qf/Qr" else 1000.0
-            unit = "" if f.quantity == "Qf/Qr" else "kN"
-            compared.append(Compared(f.quantity, unit, f.numbers["claimed"] / scale, f.numbers["recomputed"] / scale))
+            if f.quantity == "Qf/Qr":
+                compared.append(Compared(f.quantity, "", f.numbers["claimed"], f.numbers["recomputed"]))
+            else:
+                compared.append(
+                    Compared(f.quantity, unit, d.value(f.numbers["claimed"]), d.value(f.numbers["recomputed"]))
+                )
     if not compared and "qf" in lead.numbers and lead.check_id:
-        compared.append(Compared("Qf", "kN", None, lead.numbers["qf"] / 1000))
+        compared.append(Compared("Qf", unit, None, d.value(lead.numbers["qf"])))
         if "qr" in lead.numbers:
-            compared.append(Compared("Qr", "kN", None, lead.numbers["qr"] / 1000))
+            compared.append(Compared("Qr", unit, None, d.value(lead.numbers["qr"])))
     return Place(
         check_id=lead.check_id,
         bearing=lead.bearing,
         calc_label=_calc_label(review, lead.bearing),
         member=lead.member,
-        claim_id=next((f.claim_id for f in findings if f.claim_id), ""),
+        claim_id=claim_id,
         page=next((f.page for f in findings if f.page), ""),
         compared=tuple(sorted(compared, key=lambda c: ("Qf", "Qr", "Qf/Qr").index(c.quantity))),
         points=tuple(f.message for f in sorted(findings, key=lambda f: severity_rank(f.severity))),
@@ -138,6 +146,7 @@ def _title(kind: str, what: str, places: list[Place]) -> str:
 def build_comments(review: Review, rec: Reconciliation | None, claims: tuple[Claim, ...] = ()) -> tuple[Comment, ...]:
     """Every comment of the review, numbered; alike check comments grouped."""
     labels = {c.id: c.label for c in claims}
+    units = {c.id: c.unit for c in claims if c.unit}
     findings = rec.findings if rec is not None else review.engine_findings
     by_check: dict[str, list[Finding]] = defaultdict(list)
     loose: list[Finding] = []
@@ -158,14 +167,14 @@ def build_comments(review: Review, rec: Reconciliation | None, claims: tuple[Cla
     for key, members in groups.items():
         members.sort(key=lambda m: m[0].id)
         lead_kind, weight = key[0], key[1]
-        places = [_place(fs, review) for _, fs in members]
+        places = [_place(fs, review, units) for _, fs in members]
         what = _group_words([c for c, _ in members])
         what = what[:1].upper() + what[1:]
         clause = next((f.clause for _, fs in members for f in fs if f.clause), "")
         comment = Comment(0, lead_kind, weight, _title(lead_kind, what, places), tuple(places), clause)
         drafts.append(((lead_kind in QUIET, severity_rank(weight), lead_kind, members[0][0].id), comment))
     for f in loose:
-        place = _place([f], review)
+        place = _place([f], review, units)
         if f.claim_id:
             place = replace(place, calc_label=labels.get(f.claim_id, f.claim_id))
             head = KINDS[f.kind].title.format(what=f"the calc's check '{place.calc_label}' ({f.page or f.claim_id})")

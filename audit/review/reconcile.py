@@ -16,9 +16,11 @@ from dataclasses import dataclass, field, replace
 from functools import cached_property
 from typing import Any
 
+from audit.core.units import PROJECT_UNITS, Display
 from audit.engine.beam_statics import simple_span_reactions
 from audit.engine.model import normalise_label
 from audit.inputs.read_claims import Claim
+from audit.review import wording
 from audit.review.findings import KINDS, Finding, severity_rank
 from audit.review.review import Review
 from audit.standards.checks import LOCAL, NEAR, RequiredCheck, top_bearing
@@ -635,7 +637,7 @@ def reconcile(review: Review, claims: tuple[Claim, ...]) -> Reconciliation:
         finding = Finding(
             "unmatched-claim",
             KINDS["unmatched-claim"].severity,
-            f"Claim '{claim.label}' ({claim.where.cite()}) matches no required check: {reason}; {hint}.",
+            wording.unmatched(claim.label, claim.where.cite(), reason, hint),
             claim_id=claim.id,
             member=claim.member,
             page=claim.where.cite(),
@@ -655,12 +657,13 @@ def _covered_outcome(result: CheckResult, claim: Claim, governing_id: str, revie
     p = review.model.project
     slack_qf = max(p.tolerance_absolute, p.tolerance_relative * abs(g.qf))
     slack_qr = max(p.tolerance_absolute, p.tolerance_relative * abs(g.qr))
+    d = display_for(review, claim)
     reasons = []
     if claim.qf is not None and g.qf > claim.qf + slack_qf:
-        reasons.append(f"its Qf = {g.qf / 1000:.2f} kN exceeds the claim's {claim.qf / 1000:.2f} kN")
+        reasons.append(wording.exceeds("Qf", g.qf, claim.qf, d))
     claimed_qr = claim.claimed_qr
     if claimed_qr is not None and g.qr < claimed_qr - slack_qr:
-        reasons.append(f"its Qr = {g.qr / 1000:.2f} kN is below the claim's {claimed_qr / 1000:.2f} kN")
+        reasons.append(wording.below("Qr", g.qr, claimed_qr, d))
     if (
         claim.qf is None
         and claimed_qr is None
@@ -683,8 +686,7 @@ def _covered_outcome(result: CheckResult, claim: Claim, governing_id: str, revie
         finding = Finding(
             "covered",
             KINDS["covered"].severity,
-            f"{_kind_word(check)} of {check.member} at {where}: covered by typical claim '{claim.label}' "
-            f"({claim.where.cite()}), whose governing check is {governing_id}.",
+            wording.covered(_kind_word(check), check.member, where, claim.label, claim.where.cite(), governing_id),
             numbers={"qf": g.qf, "qr": g.qr},
             **common,
         )
@@ -693,12 +695,18 @@ def _covered_outcome(result: CheckResult, claim: Claim, governing_id: str, revie
     finding = Finding(
         "not-covered",
         severity,
-        f"{_kind_word(check)} of {check.member} at {where} is not covered by typical claim '{claim.label}' "
-        f"({claim.where.cite()}): {'; '.join(reasons)}.",
+        wording.not_covered(_kind_word(check), check.member, where, claim.label, claim.where.cite(), reasons),
         numbers={"qf": g.qf, "qr": g.qr},
         **common,
     )
     return CheckOutcome(check.id, claim.id, "not-covered", (finding,))
+
+
+def display_for(review: Review, claim: Claim | None = None) -> Display:
+    """Forces in the claim's own unit where it has one, else in the project's."""
+    if claim is not None and claim.unit:
+        return Display(claim.unit)
+    return Display(PROJECT_UNITS[review.model.project.units])
 
 
 def _kind_word(check: RequiredCheck) -> str:
@@ -726,6 +734,7 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
     }
     findings: list[Finding] = []
     remedy = ""
+    d = display_for(review, claim)
     if not result.passes:
         remedy = remedy_text(result, review)
         said_ok = claim is None or claim.adequate is not False
@@ -741,9 +750,9 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
             Finding(
                 "failing",
                 severity,
-                f"{check.kind.capitalize()} bearing of {check.member} at {where} fails: recomputed Qf = "
-                f"{g.qf / 1000:.2f} kN > Qr = {g.qr / 1000:.2f} kN (Qf/Qr = {g.utilisation:.2f}, {g.combination}); "
-                f"{stance}. {remedy}",
+                wording.failing(
+                    check.kind, check.member, where, g.qf, g.qr, g.utilisation, g.combination, stance, remedy, d
+                ),
                 hint=remedy,
                 numbers={"qf": g.qf, "qr": g.qr},
                 **common,
@@ -754,8 +763,7 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
             Finding(
                 "missing",
                 KINDS["missing"].severity,
-                f"Missing {check.kind} check of {check.member} at {where}: required because {check.why}. "
-                f"Recomputed Qf = {g.qf / 1000:.2f} kN, Qr = {g.qr / 1000:.2f} kN ({g.combination}).",
+                wording.missing(check.kind, check.member, where, check.why, g.qf, g.qr, g.combination, d),
                 numbers={"qf": g.qf, "qr": g.qr},
                 **common,
             )
@@ -778,9 +786,18 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
                 Finding(
                     "resistance-differs",
                     "major" if util_cmp.direction == "unconservative" else "minor",
-                    f"{check.kind.capitalize()} check of {check.member} at {where}: the calc states only "
-                    f"Qf/Qr = {claim.utilisation:.2f}; recomputed Qf/Qr = {g.utilisation:.2f} ({util_cmp.direction}; "
-                    f"recomputed Qf = {g.qf / 1000:.2f} kN, Qr = {g.qr / 1000:.2f} kN, {g.combination}).",
+                    wording.ratio_only(
+                        check.kind,
+                        check.member,
+                        where,
+                        claim.utilisation,
+                        g.utilisation,
+                        util_cmp.direction,
+                        g.qf,
+                        g.qr,
+                        g.combination,
+                        d,
+                    ),
                     numbers={"claimed": claim.utilisation, "recomputed": g.utilisation},
                     quantity="Qf/Qr",
                     **common,
@@ -795,7 +812,7 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
             Finding(
                 kind,
                 severity,
-                _difference_message(cmp, check, where, diffs if kind == "resistance-differs" else ()),
+                _difference_message(cmp, check, where, diffs if kind == "resistance-differs" else (), d),
                 numbers={"claimed": cmp.claimed, "recomputed": cmp.recomputed},
                 quantity=cmp.quantity,
                 **common,
@@ -811,35 +828,31 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
             Finding(
                 "confirmed",
                 "info",
-                f"{check.kind.capitalize()} check of {check.member} at {where} confirmed: claimed and recomputed agree "
-                f"within tolerance (Qf = {g.qf / 1000:.2f} kN, Qr = {g.qr / 1000:.2f} kN).",
+                wording.confirmed(check.kind, check.member, where, g.qf, g.qr, d),
                 **common,
             )
         )
     return CheckOutcome(check.id, claim.id, status, tuple(findings), qf_cmp, qr_cmp, diffs, remedy)
 
 
-def _difference_message(cmp: Comparison, check: RequiredCheck, where: str, diffs) -> str:
-    what = "factored load" if cmp.quantity == "Qf" else "resistance"
-    text = (
-        f"{check.kind.capitalize()} check of {check.member} at {where}: claimed {cmp.quantity} = "
-        f"{cmp.claimed / 1000:.2f} kN, recomputed {cmp.recomputed / 1000:.2f} kN "
-        f"({cmp.relative:+.0%}, {cmp.direction}). "
+def _difference_message(cmp: Comparison, check: RequiredCheck, where: str, diffs, d: Display) -> str:
+    notes = [
+        f"{x.name} claimed {_fmt_factor(x.name, x.claimed)}, recomputed {_fmt_factor(x.name, x.recomputed)}"
+        for x in diffs
+    ]
+    return wording.differs(
+        check.kind,
+        check.member,
+        where,
+        cmp.quantity,
+        cmp.claimed,
+        cmp.recomputed,
+        cmp.relative,
+        cmp.direction,
+        notes,
+        [s.text for s in cmp.slips],
+        d,
     )
-    if diffs:
-        text += (
-            "Factors that differ: "
-            + "; ".join(
-                f"{d.name} claimed {_fmt_factor(d.name, d.claimed)}, recomputed {_fmt_factor(d.name, d.recomputed)}"
-                for d in diffs
-            )
-            + ". "
-        )
-    if cmp.slips:
-        text += "Likely cause: " + "; or ".join(s.text for s in cmp.slips) + "."
-    else:
-        text += f"No single common slip reproduces the claimed {what}."
-    return text
 
 
 def _fmt_factor(name: str, value: float) -> str:

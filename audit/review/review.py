@@ -6,9 +6,11 @@ from dataclasses import dataclass
 from functools import cached_property
 from pathlib import Path
 
+from audit.core.units import PROJECT_UNITS, Display
 from audit.engine.model import Model
 from audit.engine.take_down import TakeDown, take_down
 from audit.inputs.read_model import read_model
+from audit.review import wording
 from audit.review.findings import KINDS, Finding
 from audit.standards.checks import CheckList, list_checks
 from audit.standards.o86 import CheckResult, LoadCombination, load_combinations, resist
@@ -61,7 +63,8 @@ def review_built(model: Model, pack: ResistancePack, cpack: CombinationPack) -> 
     results = resist(checklist, model, pack, cpack)
     threshold, whose = uplift_threshold(model, pack)
     factors = {c.name: c.factors for c in load_combinations(model, cpack)}
-    engine = uplift_findings(results, threshold, whose, factors) + unseen_support_findings(checklist)
+    display = Display(PROJECT_UNITS[model.project.units])
+    engine = uplift_findings(results, threshold, whose, factors, display) + unseen_support_findings(checklist)
     return Review(model, pack, cpack, flow, checklist, results, engine)
 
 
@@ -74,10 +77,7 @@ def unseen_support_findings(checklist: CheckList) -> tuple[Finding, ...]:
             Finding(
                 "not-checked",
                 KINDS["not-checked"].severity,
-                f"{item.member} is modelled as continuously supported on something the model does not show, and "
-                f"{spots} land on it: the underside of {item.member} and the squeeze through it at those spots are "
-                f"not checked. Give the wall under it (support: studs, with a stud pack under each concentrated "
-                f"load) or the member below; for a sill on concrete or masonry, name that material with bears_on.",
+                wording.unseen_support(item.member, spots),
                 bearing=item.spots[0][0],
                 member=item.member,
             )
@@ -107,9 +107,11 @@ def uplift_findings(
     note_below: float = 0.0,
     whose: str = "the note threshold",
     factors: dict[str, dict[str, float]] | None = None,
+    display: Display | None = None,
 ) -> tuple[Finding, ...]:
     """One finding per bearing with uplift; below the project's threshold it is a minor note that says so."""
     factors = factors or {}
+    display = display or Display()
     seen: set[str] = set()
     out = []
     for r in results:
@@ -119,17 +121,11 @@ def uplift_findings(
         worst = min(r.combinations, key=lambda c: c.qf_low)
         placed = _as_placed(worst.combination, r, factors.get(worst.combination, {}))
         small = -worst.qf_low < note_below
-        advice = (
-            f"below {whose} of {note_below / 1000:.2f} kN: likely "
-            "continuity of the statics; confirm the fastening holds it."
-            if small
-            else "a bearing cannot resist uplift, confirm the tie-down."
-        )
         out.append(
             Finding(
                 "uplift",
                 "minor" if small else KINDS["uplift"].severity,
-                f"Bearing {r.check.bearing}: {placed} gives an upward force of {-worst.qf_low / 1000:.2f} kN; {advice}",
+                wording.uplift(r.check.bearing, placed, -worst.qf_low, small, note_below, whose, display),
                 bearing=r.check.bearing,
                 member=r.check.member,
                 numbers={"qf": worst.qf_low},
