@@ -1,0 +1,94 @@
+"""The column map: which header text names which field of a claim, the default and the reviewer's own."""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass, field
+from pathlib import Path
+
+from audit.core.errors import ErrorCollector, InputError
+from audit.core.located_yaml import read_yaml_file
+
+# Order matters: the first field whose pattern matches a header cell takes it.
+DEFAULT_HEADERS: dict[str, str] = {
+    "length": r"^(bearing\s+length|length|l\s*b)\b",
+    "utilisation": r"^(util|q\s*f\s*/\s*q\s*r|ratio|usage)",
+    "Qf": r"^q\s*'?\s*f\s*'?(?![a-z])",
+    "Qr": r"^q\s*'?\s*r\s*'?(?![a-z])",
+    "KB": r"^k\s*b$",
+    "KZcp": r"^k\s*zcp$",
+    "KD": r"^k\s*d$",
+    "KScp": r"^k\s*scp$",
+    "fcp": r"^f\s*cp\b",
+    "Ab": r"^a\s*b\s*'?(?![a-z])",
+    "member": r"^(member|checked)\b",
+    "kind": r"^(kind|check\s+type|type)\b",
+    "adequate": r"^(ok\??|status|result|adequate|pass|check)\b",
+    "location": r"^(location|bearing|label|mark|grid|at)\b",
+}
+NUMERIC_FIELDS = ("Qf", "Qr", "utilisation")
+FIELD_DIMENSION = {"Qf": "force", "Qr": "force", "fcp": "stress", "Ab": "area", "length": "length"}
+FACTOR_FIELDS = ("KB", "KZcp", "KD", "KScp", "fcp", "Ab", "length")
+UNIT_ALIASES = {
+    "kips": "kip",
+    "k": "kip",
+    "lbs": "lbf",
+    "lb": "lbf",
+    "#": "lbf",
+    "kn": "kN",
+    "mpa": "MPa",
+    "mm2": "mm**2",
+    "mm²": "mm**2",
+    "in2": "in**2",
+    "in²": "in**2",
+}
+CANDIDATE = re.compile(r"Q\s?'?\s?[fr]\b|Q[fr]'|F\s?cp|K\s?ZCP|KZcp|Qf|Qr", re.IGNORECASE)
+
+
+@dataclass(frozen=True)
+class ColumnMap:
+    headers: dict[str, re.Pattern[str]]
+    units: dict[str, str] = field(default_factory=dict)
+    pages: str | None = None
+    kind: str = ""  # a kind for every claim read with this map
+
+
+def default_map() -> ColumnMap:
+    return ColumnMap({k: re.compile(v, re.IGNORECASE) for k, v in DEFAULT_HEADERS.items()})
+
+
+def read_column_map(path: Path | str) -> ColumnMap:
+    root = read_yaml_file(path)
+    errors = ErrorCollector()
+    if not isinstance(root.value, dict):
+        raise InputError("a column map must be a mapping", root.loc)
+    unknown = set(root.value) - {"columns", "pages", "kind"}
+    for key in sorted(unknown):
+        errors.add(f"unknown key '{key}' (allowed: columns, pages, kind)", root.key_loc(key))
+    headers = dict(default_map().headers)
+    units: dict[str, str] = {}
+    columns = root.value.get("columns")
+    for name, node in columns.value.items() if columns and isinstance(columns.value, dict) else []:
+        if name not in DEFAULT_HEADERS:
+            errors.add(f"unknown field '{name}' (known: {', '.join(DEFAULT_HEADERS)})", node.loc)
+            continue
+        spec = node.value if isinstance(node.value, dict) else {"header": node}
+        pattern = spec.get("header")
+        if pattern is not None:
+            try:
+                headers[name] = re.compile(str(pattern.value), re.IGNORECASE)
+            except re.error as exc:
+                errors.add(f"header pattern is not a valid regular expression: {exc}", pattern.loc)
+        unit = spec.get("unit")
+        if unit is not None:
+            units[name] = str(unit.value)
+    # fields named in the map are tried first, in the map's order
+    if columns and isinstance(columns.value, dict):
+        order = [k for k in columns.value if k in headers] + [k for k in headers if k not in columns.value]
+        headers = {k: headers[k] for k in order}
+    pages = root.value.get("pages")
+    kind = root.value.get("kind")
+    if kind is not None and kind.value not in ("local", "near-support"):
+        errors.add("kind must be local or near-support", kind.loc)
+    errors.raise_if_any()
+    return ColumnMap(headers, units, str(pages.value) if pages else None, str(kind.value) if kind else "")

@@ -1,0 +1,147 @@
+"""Pages: which to read, the cheap text scan (pdfium) for candidates, and word positions and rulings
+(pdfplumber) of the candidates, in parallel over the cores."""
+
+from __future__ import annotations
+
+import re
+from collections.abc import Callable
+from concurrent.futures import ProcessPoolExecutor
+from pathlib import Path
+
+from audit.core.errors import InputError, Location
+from audit.inputs.pdf.columns import CANDIDATE
+from audit.inputs.pdf.settings import SETTINGS
+
+
+def parse_pages(spec: str | None, count: int, where: Location) -> list[int]:
+    """'12-30,35' -> [12..30, 35] (1-based), within the document."""
+    if not spec:
+        return list(range(1, count + 1))
+    out: list[int] = []
+    for part in str(spec).split(","):
+        m = re.fullmatch(r"\s*(\d+)\s*(?:-\s*(\d+)\s*)?", part)
+        if not m:
+            raise InputError(f"pages '{spec}' must look like 12-30,35", where)
+        a, b = int(m[1]), int(m[2] or m[1])
+        if a < 1 or b < a:
+            raise InputError(f"page range '{part.strip()}' is empty or starts below 1", where)
+        if a > count:
+            raise InputError(f"page {a} is beyond the document's {count} pages", where)
+        out += range(a, min(b, count) + 1)
+    return sorted(set(out))
+
+
+def open_document(path: Path):
+    """Open with pdfium, turning every failure into a one-line InputError."""
+    import pypdfium2 as pdfium
+
+    where = Location(str(path), 1, 1, "(document)")
+    try:
+        with path.open("rb") as handle:
+            head = handle.read(1024)
+    except OSError as exc:
+        raise InputError(f"cannot read file: {exc.strerror or exc}", where) from None
+    if b"%PDF-" not in head:
+        raise InputError("not a PDF file (no %PDF- header)", where)
+    try:
+        return pdfium.PdfDocument(str(path))
+    except pdfium.PdfiumError as exc:
+        text = str(exc).lower()
+        if "password" in text:
+            raise InputError(
+                "the PDF is encrypted: open it with its password and save an unprotected copy", where
+            ) from None
+        raise InputError(f"the PDF is damaged or truncated and cannot be read ({exc})", where) from None
+
+
+def scan_pages(path: Path, pages: list[int], any_text: bool = False) -> tuple[list[int], list[int], list[str]]:
+    """Cheap pass: (candidate pages, pages with no text layer, warnings).
+
+    A candidate page carries the trade's symbols; with ``any_text`` (a column map of the
+    reviewer's own headers) every page with text is a candidate.
+    """
+    import pypdfium2.raw as pdfium_raw
+
+    doc = open_document(path)
+    candidates, empty, warnings = [], [], []
+    try:
+        for number in pages:
+            try:
+                page = doc[number - 1]
+                objects = pdfium_raw.FPDFPage_CountObjects(page.raw)
+                if objects > SETTINGS.max_page_objects:
+                    warnings.append(f"page {number}: {objects} drawing objects, too many to read; skipped")
+                    page.close()
+                    continue
+                textpage = page.get_textpage()
+                count = textpage.count_chars()
+                if count > SETTINGS.max_page_text:
+                    warnings.append(f"page {number}: {count} characters, too many to read; skipped")
+                    continue
+                text = textpage.get_text_range() if count else ""
+                textpage.close()
+                page.close()
+            except Exception as exc:  # a damaged page must not stop the others
+                warnings.append(f"page {number}: cannot be read ({type(exc).__name__}); skipped")
+                continue
+            if not text.strip():
+                empty.append(number)
+            elif any_text or CANDIDATE.search(text):
+                candidates.append(number)
+    finally:
+        doc.close()
+    return candidates, empty, warnings
+
+
+# A page's words as plain tuples (cheap to send between processes): (text, x0, x1, top, bottom)
+WordT = tuple[str, float, float, float, float]
+# A vertical ruling segment: (x, top, bottom)
+EdgeT = tuple[float, float, float]
+PageData = tuple[list[WordT], list[EdgeT], str]
+
+
+def _words_of_pages(args: tuple[str, list[int]]) -> list[tuple[int, list[WordT], list[EdgeT], str]]:
+    import pdfplumber
+
+    path, pages = args
+    out = []
+    with pdfplumber.open(path) as pdf:
+        for number in pages:
+            try:
+                page = pdf.pages[number - 1]
+                words = page.extract_words(
+                    keep_blank_chars=False, x_tolerance=SETTINGS.word_x, y_tolerance=SETTINGS.word_y
+                )
+                edges = [
+                    (round(e["x0"], 1), e["top"], e["bottom"])
+                    for e in page.edges
+                    if e["orientation"] == "v" and e["bottom"] - e["top"] > SETTINGS.min_ruling
+                ]
+                out.append((number, [(w["text"], w["x0"], w["x1"], w["top"], w["bottom"]) for w in words], edges, ""))
+                page.flush_cache()
+            except Exception as exc:
+                out.append((number, [], [], f"page {number}: cannot be parsed ({type(exc).__name__}); skipped"))
+    return out
+
+
+def page_words(
+    path: Path, pages: list[int], workers: int, progress: Callable[[int], None] | None = None
+) -> dict[int, PageData]:
+    """Word positions of the given pages, in parallel over ``workers`` processes."""
+    if not pages:
+        return {}
+    if workers <= 1 or len(pages) < 8:
+        results = _words_of_pages((str(path), pages))
+        if progress:
+            progress(len(pages))
+        return {n: (w, e, p) for n, w, e, p in results}
+    chunk = max(2, len(pages) // (workers * 4))
+    chunks = [pages[i : i + chunk] for i in range(0, len(pages), chunk)]
+    out: dict[int, PageData] = {}
+    with ProcessPoolExecutor(max_workers=workers) as pool:
+        for results in pool.map(_words_of_pages, [(str(path), c) for c in chunks]):
+            for n, w, e, p in results:
+                out[n] = (w, e, p)
+            if progress:
+                progress(len(results))
+    return out

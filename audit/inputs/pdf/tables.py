@@ -1,0 +1,121 @@
+"""Lines of words, cells, and tables found by their headers (ruled or aligned by position only)."""
+
+from __future__ import annotations
+
+import re
+from collections.abc import Iterable
+from dataclasses import dataclass
+
+from audit.inputs.pdf.columns import NUMERIC_FIELDS, ColumnMap
+from audit.inputs.pdf.pages import EdgeT, WordT
+from audit.inputs.pdf.settings import SETTINGS
+
+
+@dataclass(frozen=True)
+class Line:
+    page: int
+    top: float
+    words: tuple[WordT, ...]
+
+    @property
+    def text(self) -> str:
+        return " ".join(w[0] for w in self.words)
+
+
+def group_lines(page: int, words: Iterable[WordT], tolerance: float = SETTINGS.line) -> list[Line]:
+    rows: list[list[WordT]] = []
+    for w in sorted(words, key=lambda w: (round(w[3], 1), w[1])):
+        if rows and abs(rows[-1][0][3] - w[3]) <= tolerance:
+            rows[-1].append(w)
+        else:
+            rows.append([w])
+    return [Line(page, r[0][3], tuple(sorted(r, key=lambda w: w[1]))) for r in rows]
+
+
+def cells_of(line: Line, gap: float = SETTINGS.cell_gap) -> list[tuple[str, float, float]]:
+    """Words joined into cells where the horizontal gap is small: (text, x0, x1)."""
+    cells: list[list] = []
+    for text, x0, x1, _, _ in line.words:
+        if cells and x0 - cells[-1][2] <= gap:
+            cells[-1][0] += " " + text
+            cells[-1][2] = x1
+        else:
+            cells.append([text, x0, x1])
+    return [(c[0], c[1], c[2]) for c in cells]
+
+
+@dataclass(frozen=True)
+class Table:
+    fields: tuple[str, ...]
+    bounds: tuple[tuple[float, float], ...]  # x range of each column
+    units: dict[str, str]
+    name: str
+    kind: str  # near-support when the header says Qr' or Qf'
+
+
+def _rulings_across(line: Line, edges: list[EdgeT]) -> list[float]:
+    """x positions of vertical rules that run through the line (a ruled table's cell walls)."""
+    top = line.top
+    bottom = max(w[4] for w in line.words)
+    xs = sorted(x for x, t, b in edges if t <= top + 1 and b >= bottom - 1)
+    merged: list[float] = []
+    for x in xs:
+        if not merged or x - merged[-1] > 1.5:
+            merged.append(x)
+    return merged
+
+
+def _column_bounds(found: list[tuple[str, float, float, str]], rulings: list[float]) -> list[tuple[float, float]]:
+    """Each header cell's column: between the rules around it in a ruled table; otherwise from its
+    left edge to the next header's left edge (left-aligned headers, numbers aligned either way)."""
+    if len(rulings) >= 3:
+        bounds = []
+        for _, x0, x1, _ in found:
+            centre = (x0 + x1) / 2
+            left = max((x for x in rulings if x <= centre), default=-1e9)
+            right = min((x for x in rulings if x > centre), default=1e9)
+            bounds.append((left, right))
+        return bounds
+    starts = [f[1] - 2 for f in found]
+    return [(-1e9 if i == 0 else starts[i], 1e9 if i == len(found) - 1 else starts[i + 1]) for i in range(len(found))]
+
+
+def header_of(line: Line, cmap: ColumnMap, edges: list[EdgeT] | None = None) -> Table | None:
+    cells = cells_of(line)
+    found: list[tuple[str, float, float, str]] = []
+    used: set[str] = set()
+    for text, x0, x1 in cells:
+        label = re.sub(r"[\(\[].*?[\)\]]", "", text).strip()
+        for name, pattern in cmap.headers.items():
+            if name not in used and pattern.search(label):
+                used.add(name)
+                found.append((name, x0, x1, text))
+                break
+        else:
+            found.append(("", x0, x1, text))
+    named = [f for f in found if f[0]]
+    if len(named) < 2 or not any(f[0] in NUMERIC_FIELDS for f in named):
+        return None
+    bounds = _column_bounds(found, _rulings_across(line, edges or []))
+    units = dict(cmap.units)
+    for name, _, _, text in named:
+        m = re.search(r"[\(\[]\s*([^\)\]]+?)\s*[\)\]]", text)
+        if m and name not in units:
+            units[name] = m[1]
+    near = any(f[0] in ("Qf", "Qr") and "'" in f[3] for f in named)
+    return Table(tuple(f[0] for f in found), tuple(bounds), units, "", "near-support" if near else "")
+
+
+def row_cells(line: Line, table: Table) -> dict[str, str] | None:
+    """Words placed in the table's columns, or None when a word straddles columns (running text)."""
+    texts: dict[int, list[str]] = {}
+    for text, x0, x1, _, _ in line.words:
+        centre = (x0 + x1) / 2
+        index = next((i for i, (a, b) in enumerate(table.bounds) if a <= centre < b), None)
+        if index is None:
+            return None
+        a, b = table.bounds[index]
+        if x0 < a - SETTINGS.cell_slack or x1 > b + SETTINGS.cell_slack:
+            return None
+        texts.setdefault(index, []).append(text)
+    return {table.fields[i]: " ".join(t) for i, t in texts.items() if table.fields[i]}
