@@ -193,8 +193,18 @@ def _extract(pdf: Path, pages: str | None, column_map: Path | None):
         listed = ", ".join(str(p) for p in result.no_text_pages[:30])
         more = " ..." if len(result.no_text_pages) > 30 else ""
         typer.echo(f"warning: {pdf}: pages {listed}{more} have no text layer: they need OCR first", err=True)
+    for item in result.unread:
+        typer.echo(f"warning: {pdf}: {item.line()}", err=True)
+    typer.echo(f"{pdf}: {result.coverage()}", err=True)
     if not result.claims:
         where = f"pages {pages}" if pages else f"{result.pages_scanned} pages"
+        if result.candidate_pages:
+            listed = ", ".join(str(p) for p in result.candidate_pages[:20])
+            raise InputError(
+                f"bearing-check symbols on pages {listed}, but no check could be read there: look at those pages "
+                "and give a --map naming their column headers (see the README, Claims from the calc's PDF)",
+                Location(str(pdf), 1, 1, "(document)"),
+            )
         raise InputError(
             f"no bearing checks found in {where} (no table headed Qf/Qr and no line such as 'Qr = 45.2 kN >= "
             "Qf = 31.0 kN'); give a --map for unusual headers",

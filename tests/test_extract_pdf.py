@@ -179,3 +179,51 @@ def test_review_from_the_calc_pdf_matches_review_from_typed_claims(run_cli, tmp_
     b = json.loads((tmp_path / "b.json").read_text())
     assert sorted(f["kind"] for f in a["findings"]) == sorted(f["kind"] for f in b["findings"])
     assert "p. 2" in (tmp_path / "m.html").read_text()  # the memo cites the calc's pages
+
+
+def test_a_browser_printed_calc_sheet_reads_claim_for_claim_and_reports_what_it_cannot(tmp_path):
+    # A second PDF maker: headless Chromium printing an HTML calc sheet (centred headers over
+    # right-aligned numbers, a unit row, group rows, a Qf | Qr | Qf' | Qr' pair on one row)
+    import yaml
+
+    from tests import browser
+
+    html = ROOT / "fixtures" / "pdf" / "html-tables.html"
+    pdf = browser.print_pdf(html, tmp_path / "html.pdf", tmp_path / "profile")
+    result = extract(pdf, workers=1)
+    expected = yaml.safe_load((ROOT / "fixtures" / "pdf" / "html-tables.expected.yaml").read_text())
+    got = [
+        {
+            "location": c.label,
+            "member": c.member,
+            "kind": c.kind,
+            "Qf": round(c.qf / 1000, 2),
+            "Qr": round(c.qr / 1000, 2),
+            **({"adequate": c.adequate} if c.adequate is not None else {}),
+        }
+        for c in result.claims
+    ]
+    assert got == expected["claims"]
+    assert sorted({u.page for u in result.unread}) == expected["not_read_pages"]
+    assert "5 claims" in result.coverage() and "1 table rows" in result.coverage()
+
+
+def test_a_package_with_check_symbols_but_nothing_readable_exits_2_saying_where_to_look(tmp_path, run_cli):
+    from fixtures.make_calc_pdfs import Calc, draw_table
+
+    pdf = Calc("Unreadable bearing table (fictional)")
+    pdf.add_page()
+    pdf.multi_cell(0, 5, "Plate crushing under posts: Qf and Qr per the tabulated resistance.")
+    draw_table(
+        pdf,
+        ["Where", "Load on plate", "Plate capacity"],
+        [["P1 on sill", "60.08 kN", "111.96 kN"]],
+        [50, 50, 50],
+        ruled=True,
+    )
+    path = tmp_path / "calc.pdf"
+    pdf.output(str(path))
+    result = run_cli("extract", path, "-o", tmp_path / "claims.yaml")
+    assert result.exit_code == 2
+    assert "bearing-check symbols on pages 1" in result.stderr and "--map" in result.stderr
+    assert "gave no claim" in result.stderr  # the page itself is named, with its text

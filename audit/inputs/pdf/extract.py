@@ -11,12 +11,14 @@ claim keeps its page, its position and the raw text it came from.
 from __future__ import annotations
 
 import os
+import re
 from collections.abc import Callable
 from dataclasses import dataclass, replace
 from pathlib import Path
 
 from audit.core.errors import InputError, Location
 from audit.inputs.pdf.columns import (
+    CANDIDATE,
     FACTOR_FIELDS,
     NUMERIC_FIELDS,
     ColumnMap,
@@ -26,7 +28,7 @@ from audit.inputs.pdf.columns import (
 from audit.inputs.pdf.equations import EQUATION, claim_from_equation
 from audit.inputs.pdf.pages import EdgeT, open_document, page_words, parse_pages, scan_pages
 from audit.inputs.pdf.settings import SETTINGS
-from audit.inputs.pdf.tables import Line, Table, group_lines, header_of, row_cells
+from audit.inputs.pdf.tables import Line, Table, group_lines, header_of, row_cells, unit_row
 from audit.inputs.pdf.values import STARTS_NUMERIC, parse_adequate, parse_value
 from audit.inputs.read_claims import Claim, Where
 
@@ -50,6 +52,16 @@ class Extraction:
     pages_scanned: int
     pages_parsed: tuple[int, ...]
     no_text_pages: tuple[int, ...]
+    candidate_pages: tuple[int, ...] = ()  # pages carrying the trade's vocabulary
+    unread: tuple[Unread, ...] = ()  # rows and pages that look like checks and gave no claim
+
+    def coverage(self) -> str:
+        rows = sum(1 for u in self.unread if u.what.startswith("table row"))
+        pages = sum(1 for u in self.unread if u.what.startswith("page"))
+        return (
+            f"{self.pages_scanned} pages read, {len(self.candidate_pages)} with bearing-check vocabulary, "
+            f"{len(self.claims)} claims, {rows} table rows and {pages} pages with vocabulary not read"
+        )
 
 
 def _claim_from_row(
@@ -70,6 +82,27 @@ def _claim_from_row(
     kind = cmap.kind or (
         "near-support" if ("near" in kind_text or "squeez" in kind_text or "'" in kind_text) else table.kind or "local"
     )
+    return _row_claim(cells, values, table, line, location, kind, where)
+
+
+def pair_claims(
+    cells: dict[str, str], table: Table, line: Line, state: _State, cmap: ColumnMap, name: str
+) -> list[Claim]:
+    """A row's claims: one, or a local and a near-support one where the row carries Qf | Qr | Qf' | Qr'."""
+    first = _claim_from_row(cells, table, line, state, cmap, name)
+    if not any(cells.get(f, "").strip() for f in ("Qf'", "Qr'")):
+        return [first]
+    where = Location(name, line.page, int(line.words[0][1]), "row")
+    near = {
+        f: parse_value(cells[f"{f}'"], f, {f: table.units.get(f"{f}'", table.units.get(f, ""))}, where)
+        for f in ("Qf", "Qr")
+        if cells.get(f"{f}'", "").strip()
+    }
+    second = replace(first, kind="near-support", qf=near.get("Qf"), qr=near.get("Qr"), utilisation=None, factors={})
+    return [first, second]
+
+
+def _row_claim(cells, values, table: Table, line: Line, location: str, kind: str, where: Location) -> Claim:
     return Claim(
         id="",
         where=Where(page=line.page, table=table.name, x=round(line.words[0][1], 1), y=round(line.top, 1)),
@@ -93,19 +126,23 @@ def claims_of_page(
     name: str,
     warnings: list[str],
     edges: list[EdgeT] | None = None,
+    unread: list[Unread] | None = None,
 ) -> list[Claim]:
+    """The page's claims. Rows inside a table that carry numbers but yield no claim go to ``unread``."""
     out: list[Claim] = []
+    unread = unread if unread is not None else []
     table = state.table if state.open_at_end else None
     continuing = table is not None  # lines above the first row (a running header) do not end it
     row_table: Table | None = None
     last_row_index = -1
+    just_headed = False
     for i, line in enumerate(lines):
         header = header_of(line, cmap, edges)
         if header is not None:
             state.table_count += 1
             table = replace(header, name=f"table {state.table_count} (p. {line.page})")
             state.last_location = ""
-            row_table, continuing = None, False
+            row_table, continuing, just_headed = None, False, True
             continue
         eq = EQUATION.search(line.text)
         if eq:
@@ -119,21 +156,59 @@ def claims_of_page(
             continue
         if table is None:
             continue
+        if just_headed and (units := unit_row(line, table)):
+            table = replace(table, units={**table.units, **units})  # a row of units under the header
+            just_headed = False
+            continue
+        just_headed = False
         cells = row_cells(line, table)
         if cells is None or not any(STARTS_NUMERIC.match(cells.get(f, "")) for f in NUMERIC_FIELDS):
-            if not (continuing and i < SETTINGS.running_lines):
-                table = None  # running text or a new block ends the table
+            if continuing and i < SETTINGS.running_lines:
+                continue
+            if cells is not None and set(cells) <= LABEL_FIELDS and i + 1 < len(lines) and _is_row(lines[i + 1], table):
+                continue  # a group row (a level or member heading) between rows: the table goes on
+            if (
+                row_table is not None
+                and HAS_DIGIT.search(line.text)
+                and i + 1 < len(lines)
+                and _is_row(lines[i + 1], table)
+            ):
+                unread.append(Unread(line.page, "table row not read", line.text[:160]))
+                continue
+            table = None  # running text or a new block ends the table
             continue
         continuing = False
         try:
-            out.append(_claim_from_row(cells, table, line, state, cmap, name))
+            out += pair_claims(cells, table, line, state, cmap, name)
             row_table, last_row_index = table, i
         except InputError as exc:
             warnings.append(f"{exc.one_line()} (text: '{line.text[:120]}')")
+            unread.append(Unread(line.page, f"table row not read: {exc.message}", line.text[:160]))
     # a table whose last row stands at the foot of the page (only a footer below) may go on
     state.open_at_end = row_table is not None and last_row_index >= len(lines) - SETTINGS.footer_lines
     state.table = row_table
     return out
+
+
+HAS_DIGIT = re.compile(r"\d")
+LABEL_FIELDS = {"location", "member", "kind"}
+
+
+def _is_row(line: Line, table: Table) -> bool:
+    cells = row_cells(line, table)
+    return cells is not None and any(STARTS_NUMERIC.match(cells.get(f, "")) for f in NUMERIC_FIELDS)
+
+
+@dataclass(frozen=True)
+class Unread:
+    """Something that looks like a bearing check and yielded no claim: reported, never dropped."""
+
+    page: int
+    what: str
+    text: str
+
+    def line(self) -> str:
+        return f"page {self.page}: {self.what}: '{self.text}'"
 
 
 def extract(
@@ -156,6 +231,8 @@ def extract(
     parsed = page_words(path, candidates, workers, progress)
     state = _State()
     claims: list[Claim] = []
+    unread: list[Unread] = []
+    per_page: dict[int, int] = {}
     wanted_set = set(wanted)
     queue = sorted(parsed)
     done: set[int] = set()
@@ -171,12 +248,32 @@ def extract(
             warnings.append(problem)
         if state.open_at_end and number - 1 not in done:
             state.open_at_end = False
-        claims += claims_of_page(group_lines(number, words), state, cmap, str(path), warnings, edges)
+        found = claims_of_page(group_lines(number, words), state, cmap, str(path), warnings, edges, unread)
+        per_page[number] = len(found)
+        claims += found
         following = number + 1
         if state.open_at_end and following in wanted_set and following not in done and following not in queue:
             queue.insert(0, following)  # the table may go on over the page without a header
     numbered = tuple(replace(c, id=f"p{c.where.page}-{i + 1}") for i, c in enumerate(claims))
-    return Extraction(numbered, tuple(warnings), len(wanted), tuple(sorted(done)), tuple(empty))
+    with_rows = {u.page for u in unread}
+    for number in candidates:
+        if per_page.get(number, 0) == 0 and number not in with_rows:
+            unread.append(
+                Unread(number, "page with bearing-check vocabulary gave no claim", _vocabulary(parsed, number))
+            )
+    unread.sort(key=lambda u: (u.page, u.what))
+    return Extraction(
+        numbered, tuple(warnings), len(wanted), tuple(sorted(done)), tuple(empty), tuple(candidates), tuple(unread)
+    )
+
+
+def _vocabulary(parsed: dict, number: int) -> str:
+    """The page's first line with the trade's symbols, to say where to look."""
+    words = parsed.get(number, ([], [], ""))[0]
+    for line in group_lines(number, words):
+        if CANDIDATE.search(line.text):
+            return line.text[:160]
+    return ""
 
 
 # ---------------------------------------------------------------- writing the claims file
@@ -214,8 +311,11 @@ def claims_yaml(extraction: Extraction, source: str) -> str:
     header = (
         f"# Claims extracted by bearing-audit from {source}\n"
         f"# {len(items)} claims from {len(extraction.pages_parsed)} of {extraction.pages_scanned} pages read.\n"
+        f"# coverage: {extraction.coverage()}\n"
         "# Confirm each against the calc (page, position and raw text are given) before relying on it.\n"
     )
+    for u in extraction.unread:
+        header += f"# not read: {u.line()}\n"
     for w in extraction.warnings:
         header += f"# warning: {w}\n"
     return header + yaml.safe_dump({"claims": items}, sort_keys=False, allow_unicode=True, width=120)

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import itertools
 import re
 from collections.abc import Iterable
 from dataclasses import dataclass
@@ -51,6 +52,7 @@ class Table:
     units: dict[str, str]
     name: str
     kind: str  # near-support when the header says Qr' or Qf'
+    alt_bounds: tuple[tuple[float, float], ...] = ()  # borderless tables: columns split midway between headers
 
 
 def _rulings_across(line: Line, edges: list[EdgeT]) -> list[float]:
@@ -103,19 +105,67 @@ def header_of(line: Line, cmap: ColumnMap, edges: list[EdgeT] | None = None) -> 
         if m and name not in units:
             units[name] = m[1]
     near = any(f[0] in ("Qf", "Qr") and "'" in f[3] for f in named)
-    return Table(tuple(f[0] for f in found), tuple(bounds), units, "", "near-support" if near else "")
+    fields = [f[0] for f in found]
+    if not near:  # a local and a near-support pair on one row: Qf | Qr | Qf' | Qr'
+        for i, (name, _, _, text) in enumerate(found):
+            primed = PRIMED.match(re.sub(r"[\(\[].*?[\)\]]", "", text).strip())
+            if not name and primed:
+                fields[i] = f"Q{(primed[1] or primed[2]).lower()}'"
+                m = re.search(r"[\(\[]\s*([^\)\]]+?)\s*[\)\]]", text)
+                if m:
+                    units[fields[i]] = m[1]
+    rulings = _rulings_across(line, edges or [])
+    alt = () if len(rulings) >= 3 else tuple(_midway_bounds(found))
+    return Table(tuple(fields), tuple(bounds), units, "", "near-support" if near else "", alt)
+
+
+def _midway_bounds(found: list[tuple[str, float, float, str]]) -> list[tuple[float, float]]:
+    """Columns split midway across the gaps between header cells: centred headers over numbers aligned
+    right (or left) wider than the header itself."""
+    cuts = [(a[2] + b[1]) / 2 for a, b in itertools.pairwise(found)]
+    return [(-1e9 if i == 0 else cuts[i - 1], 1e9 if i == len(found) - 1 else cuts[i]) for i in range(len(found))]
+
+
+PRIMED = re.compile(r"^q\s*(?:'\s*([fr])|([fr])\s*')(?![a-z])", re.IGNORECASE)
+UNIT_CELL = re.compile(
+    r"^[\(\[]?\s*(kN|N|lbf|lbs?|kips?|k|MPa|psi|mm|in|mm2|mm²|in2|in²|mm\*\*2|-)\s*[\)\]]?$", re.IGNORECASE
+)
+
+
+def unit_row(line: Line, table: Table) -> dict[str, str] | None:
+    """A row of units under a header ('(kN)', 'mm', ...): field -> unit, or None when the line is not one."""
+    cells = row_cells(line, table)
+    if not cells:
+        return None
+    found = {name: UNIT_CELL.match(text.strip()) for name, text in cells.items()}
+    if not all(found.values()):
+        return None
+    return {name: m[1] for name, m in found.items() if m is not None and m[1] != "-"}
 
 
 def row_cells(line: Line, table: Table) -> dict[str, str] | None:
-    """Words placed in the table's columns, or None when a word straddles columns (running text)."""
+    """Words placed in the table's columns, or None when a word straddles columns (running text).
+
+    Columns run from each header's left edge; where a row does not fit those (numbers aligned
+    right under centred headers), a borderless table tries columns split midway between headers.
+    """
+    for bounds in (table.bounds, table.alt_bounds):
+        if bounds:
+            cells = _placed(line, table.fields, bounds)
+            if cells is not None:
+                return cells
+    return None
+
+
+def _placed(line: Line, fields: tuple[str, ...], bounds) -> dict[str, str] | None:
     texts: dict[int, list[str]] = {}
     for text, x0, x1, _, _ in line.words:
         centre = (x0 + x1) / 2
-        index = next((i for i, (a, b) in enumerate(table.bounds) if a <= centre < b), None)
+        index = next((i for i, (a, b) in enumerate(bounds) if a <= centre < b), None)
         if index is None:
             return None
-        a, b = table.bounds[index]
+        a, b = bounds[index]
         if x0 < a - SETTINGS.cell_slack or x1 > b + SETTINGS.cell_slack:
             return None
         texts.setdefault(index, []).append(text)
-    return {table.fields[i]: " ".join(t) for i, t in texts.items() if table.fields[i]}
+    return {fields[i]: " ".join(t) for i, t in texts.items() if fields[i]}
