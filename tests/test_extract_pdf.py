@@ -227,3 +227,28 @@ def test_a_package_with_check_symbols_but_nothing_readable_exits_2_saying_where_
     assert result.exit_code == 2
     assert "bearing-check symbols on pages 1" in result.stderr and "--map" in result.stderr
     assert "gave no claim" in result.stderr  # the page itself is named, with its text
+
+
+def _as_expected(result) -> list[dict]:
+    return [
+        {
+            "location": c.label,
+            "member": c.member,
+            "kind": c.kind,
+            "Qf": round(c.qf / 1000, 2),
+            "Qr": round(c.qr / 1000, 2),
+            "adequate": c.adequate,
+        }
+        for c in result.claims
+    ]
+
+
+def test_a_reportlab_drawn_sheet_reads_two_line_headers_subscripts_kip_and_a_split_equation(tmp_path):
+    # A third PDF maker: reportlab (test-only). Header over two lines with Q and a lowered f drawn as
+    # separate text, kip, an OK / N.G. column of no known name, an equation over two lines
+    from fixtures.make_reportlab_calc import write
+
+    result = extract(write(tmp_path / "sheet.pdf"), workers=1)
+    expected = yaml.safe_load((ROOT / "fixtures" / "pdf" / "reportlab.expected.yaml").read_text())
+    assert _as_expected(result) == expected["claims"]
+    assert not result.unread

@@ -10,11 +10,41 @@ from audit.inputs.pdf.tables import Line
 from audit.inputs.pdf.values import parse_adequate, parse_number, unit_name
 from audit.inputs.read_claims import Claim, Where
 
+FORMULA = r"(?:[^=<>≥≤\n]*?=\s*)?"  # the formula written out before the result: 'Qr = 0.8 x 7.0 x Ab = 45.2 kN'
 EQUATION = re.compile(
-    r"(?P<a>Q\s?'?\s?[rf]\s?'?)\s*=\s*(?P<av>[-\d,]*\.?\d+)\s*(?P<au>[A-Za-z]+)?\s*"
+    rf"(?P<a>Q\s?'?\s?[rf]\s?'?)\s*=\s*{FORMULA}(?P<av>[-\d,]*\.?\d+)\s*(?P<au>[A-Za-z]+)?\s*"
     r"(?P<op>>=|≥|=>|>|<=|≤|=<|<)\s*"
-    r"(?P<b>Q\s?'?\s?[rf]\s?'?)\s*=\s*(?P<bv>[-\d,]*\.?\d+)\s*(?P<bu>[A-Za-z]+)?",
+    rf"(?P<b>Q\s?'?\s?[rf]\s?'?)\s*=\s*{FORMULA}(?P<bv>[-\d,]*\.?\d+)\s*(?P<bu>[A-Za-z]+)?",
 )
+# One side of a worked equation on a line of its own (an equation written over several lines).
+HALF = re.compile(rf"^(?P<s>Q\s?'?\s?[rf]\s?'?)\s*=\s*{FORMULA}(?P<v>[-\d,]*\.?\d+)\s*(?P<u>[A-Za-z]+)\b")
+
+
+def joined_equation(lines: list[Line], i: int) -> tuple[re.Match, Line, int] | None:
+    """An equation written over two or three lines ('Qr = ... = 45.2 kN' / 'Qf = 31.0 kN  Qr >= Qf'), read
+    as one line; None when the lines at ``i`` are not one."""
+    first = HALF.match(lines[i].text)
+    if first is None:
+        return None
+    for j in (i + 1, i + 2):
+        if j >= len(lines):
+            break
+        second = HALF.match(lines[j].text)
+        if second and second["s"].replace(" ", "").lower()[:2] != first["s"].replace(" ", "").lower()[:2]:
+            rest = lines[j].text[second.end() :]
+            text = f"{first[0]} >= {second[0]}{rest}"
+            match = EQUATION.search(text)
+            if match is not None:
+                return match, _with_text(lines[i], text), j
+    return None
+
+
+def _with_text(line: Line, text: str) -> Line:
+    """The equation as one line, placed where its first line stands."""
+    first = line.words[0]
+    return Line(line.page, line.top, ((text, first[1], first[2], first[3], first[4]),))
+
+
 LABEL_LINE = re.compile(r"^(location|bearing|at|check at)\s*[:=\-–]\s*(?P<label>.+?)\s*$", re.IGNORECASE)
 MEMBER_LINE = re.compile(r"member(\s+checked)?\s*[:=\-–]\s*(?P<member>[^\s,;]+)", re.IGNORECASE)
 

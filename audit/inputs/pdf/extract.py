@@ -25,10 +25,10 @@ from audit.inputs.pdf.columns import (
     default_map,
     read_column_map,
 )
-from audit.inputs.pdf.equations import EQUATION, claim_from_equation
+from audit.inputs.pdf.equations import EQUATION, claim_from_equation, joined_equation
 from audit.inputs.pdf.pages import EdgeT, open_document, page_words, parse_pages, scan_pages
 from audit.inputs.pdf.settings import SETTINGS
-from audit.inputs.pdf.tables import Line, Table, group_lines, header_of, row_cells, unit_row
+from audit.inputs.pdf.tables import Line, Table, group_lines, header_of, row_cells, stacked, unit_row
 from audit.inputs.pdf.values import STARTS_NUMERIC, parse_adequate, parse_value
 from audit.inputs.read_claims import Claim, Where
 
@@ -113,7 +113,7 @@ def _row_claim(cells, values, table: Table, line: Line, location: str, kind: str
         qr=values.get("Qr"),
         utilisation=values.get("utilisation"),
         factors={k: v for k, v in values.items() if k in FACTOR_FIELDS},
-        adequate=parse_adequate(cells["adequate"]) if "adequate" in cells else None,
+        adequate=parse_adequate(cells["adequate"]) if "adequate" in cells else parse_adequate(line.words[-1][0]),
         text=line.text,
         loc=where,
     )
@@ -136,8 +136,15 @@ def claims_of_page(
     row_table: Table | None = None
     last_row_index = -1
     just_headed = False
+    skip = -1
     for i, line in enumerate(lines):
+        if i == skip:
+            continue  # the second line of a header read with the line above
         header = header_of(line, cmap, edges)
+        if header is None and i + 1 < len(lines) and header_of(lines[i + 1], cmap, edges) is None:
+            header = header_of(stacked(line, lines[i + 1]), cmap, edges)
+            if header is not None:
+                skip = i + 1
         if header is not None:
             state.table_count += 1
             table = replace(header, name=f"table {state.table_count} (p. {line.page})")
@@ -145,9 +152,12 @@ def claims_of_page(
             row_table, continuing, just_headed = None, False, True
             continue
         eq = EQUATION.search(line.text)
+        eq_line = line
+        if eq is None and (joined := joined_equation(lines, i)) is not None:
+            eq, eq_line, skip = joined  # an equation over several lines; its later line is read with it
         if eq:
             try:
-                claim = claim_from_equation(eq, line, lines[:i], name)
+                claim = claim_from_equation(eq, eq_line, lines[:i], name)
                 if claim:
                     out.append(claim)
             except InputError as exc:

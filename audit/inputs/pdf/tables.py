@@ -143,6 +143,22 @@ def unit_row(line: Line, table: Table) -> dict[str, str] | None:
     return {name: m[1] for name, m in found.items() if m is not None and m[1] != "-"}
 
 
+def stacked(upper: Line, lower: Line) -> Line:
+    """Two lines read as one header: words of the lower line under a word of the upper join it (a header
+    split over two lines, a subscript drawn lower than its letter, a unit under its symbol)."""
+    words: list[WordT] = list(upper.words)
+    loose: list[WordT] = []
+    for w in lower.words:
+        index = next((i for i, u in enumerate(words) if w[1] < u[2] + 1.0 and u[1] < w[2] + 1.0), None)
+        if index is None:
+            loose.append(w)
+            continue
+        u = words[index]
+        glue = "" if len(w[0]) <= 2 and w[1] - u[2] < 1.5 else " "  # a subscript sits right against its letter
+        words[index] = (f"{u[0]}{glue}{w[0]}", min(u[1], w[1]), max(u[2], w[2]), u[3], max(u[4], w[4]))
+    return Line(upper.page, upper.top, tuple(sorted(words + loose, key=lambda w: w[1])))
+
+
 def row_cells(line: Line, table: Table) -> dict[str, str] | None:
     """Words placed in the table's columns, or None when a word straddles columns (running text).
 
