@@ -243,9 +243,10 @@ def _as_expected(result) -> list[dict]:
     ]
 
 
-def test_a_reportlab_drawn_sheet_reads_two_line_headers_subscripts_kip_and_a_split_equation(tmp_path):
+def test_a_reportlab_drawn_sheet_reads_two_line_headers_subscripts_kip_split_equations_and_sideways_text(tmp_path):
     # A third PDF maker: reportlab (test-only). Header over two lines with Q and a lowered f drawn as
-    # separate text, kip, an OK / N.G. column of no known name, an equation over two lines
+    # separate text, kip, an OK / N.G. column of no known name, an equation over two lines, and a
+    # table turned sideways on page 2
     from fixtures.make_reportlab_calc import write
 
     result = extract(write(tmp_path / "sheet.pdf"), workers=1)

@@ -109,19 +109,45 @@ def _words_of_pages(args: tuple[str, list[int]]) -> list[tuple[int, list[WordT],
         for number in pages:
             try:
                 page = pdf.pages[number - 1]
-                words = page.extract_words(
-                    keep_blank_chars=False, x_tolerance=SETTINGS.word_x, y_tolerance=SETTINGS.word_y
-                )
-                edges = [
-                    (round(e["x0"], 1), e["top"], e["bottom"])
-                    for e in page.edges
-                    if e["orientation"] == "v" and e["bottom"] - e["top"] > SETTINGS.min_ruling
-                ]
-                out.append((number, [(w["text"], w["x0"], w["x1"], w["top"], w["bottom"]) for w in words], edges, ""))
+                words, edges = _upright_words(page)
+                out.append((number, words, edges, ""))
                 page.flush_cache()
             except Exception as exc:
                 out.append((number, [], [], f"page {number}: cannot be parsed ({type(exc).__name__}); skipped"))
     return out
+
+
+def _upright_words(page) -> tuple[list[WordT], list[EdgeT]]:
+    """Words and vertical rules in the frame the text reads in: as printed, or turned back where most of the
+    page's text runs sideways (a table drawn turned on a page that is not rotated)."""
+    chars = page.chars
+    sideways = [c for c in chars if not c.get("upright", True)]
+    tolerances = {"keep_blank_chars": False, "x_tolerance": SETTINGS.word_x, "y_tolerance": SETTINGS.word_y}
+    if len(sideways) * 2 <= len(chars):
+        words = page.extract_words(**tolerances)
+        edges = [
+            (round(e["x0"], 1), e["top"], e["bottom"])
+            for e in page.edges
+            if e["orientation"] == "v" and e["bottom"] - e["top"] > SETTINGS.min_ruling
+        ]
+        return [(w["text"], w["x0"], w["x1"], w["top"], w["bottom"]) for w in words], edges
+    upward = sum(1 for c in sideways if c["matrix"][1] > 0) * 2 >= len(sideways)  # turned a quarter anticlockwise
+    words = page.extract_words(line_dir_rotated="ltr", char_dir_rotated="btt" if upward else "ttb", **tolerances)
+    h, w_ = float(page.height), float(page.width)
+    turned: list[WordT] = []
+    for w in words:
+        if upward:  # reading up the page; the next line lies to the right
+            turned.append((w["text"], h - w["bottom"], h - w["top"], w["x0"], w["x1"]))
+        else:  # reading down the page; the next line lies to the left
+            turned.append((w["text"], w["top"], w["bottom"], w_ - w["x1"], w_ - w["x0"]))
+    rules: list[EdgeT] = []
+    for e in page.edges:
+        if e["orientation"] == "h" and e["x1"] - e["x0"] > SETTINGS.min_ruling:
+            if upward:
+                rules.append((round(h - e["top"], 1), e["x0"], e["x1"]))
+            else:
+                rules.append((round(e["top"], 1), w_ - e["x1"], w_ - e["x0"]))
+    return turned, rules
 
 
 def page_words(
