@@ -1,7 +1,7 @@
 """Stage 5 (from a PDF): pull the claimed bearing checks out of a calc package.
 
-A cheap text scan (pdfium) finds the pages that carry the trade's symbols; only those are
-parsed for word positions (pdfplumber), in parallel over the cores. Lines of words become
+One pdfium pass finds the pages that carry the trade's symbols and reads their characters and
+rules (pdfplumber where pdfium cannot, such as sideways text). Lines of words become
 tables by their headers (Qf, Qr, KB, ...), whether the table is ruled or aligned by position
 only, and tables continue onto following pages with or without repeated headers. Worked
 equations ("Qr = 45.2 kN >= Qf = 31.0 kN") are read with the location label above them. Every
@@ -141,7 +141,12 @@ def claims_of_page(
         if i == skip:
             continue  # the second line of a header read with the line above
         header = header_of(line, cmap, edges)
-        if header is None and i + 1 < len(lines) and header_of(lines[i + 1], cmap, edges) is None:
+        if (
+            header is None
+            and i + 1 < len(lines)
+            and MAYBE_HEADER.search(line.text)
+            and header_of(lines[i + 1], cmap, edges) is None
+        ):
             header = header_of(stacked(line, lines[i + 1]), cmap, edges)
             if header is not None:
                 skip = i + 1
@@ -151,9 +156,10 @@ def claims_of_page(
             state.last_location = ""
             row_table, continuing, just_headed = None, False, True
             continue
-        eq = EQUATION.search(line.text)
+        has_q = "Q" in line.text  # every equation names Qf or Qr: most lines need no search
+        eq = EQUATION.search(line.text) if has_q else None
         eq_line = line
-        if eq is None and (joined := joined_equation(lines, i)) is not None:
+        if eq is None and has_q and (joined := joined_equation(lines, i)) is not None:
             eq, eq_line, skip = joined  # an equation over several lines; its later line is read with it
         if eq:
             try:
@@ -201,6 +207,7 @@ def claims_of_page(
 
 
 HAS_DIGIT = re.compile(r"\d")
+MAYBE_HEADER = re.compile(r"(?<![A-Za-z])Q(?![a-eg-qs-z])")  # a line that may be the top half of a Q_f / Q_r header
 LABEL_FIELDS = {"location", "member", "kind"}
 
 
@@ -236,9 +243,12 @@ def extract(
     doc.close()
     wanted = parse_pages(pages or cmap.pages, count, Location(str(path), 0, 0, "pages"))
     custom_headers = cmap.headers != default_map().headers
-    candidates, empty, warnings = scan_pages(path, wanted, any_text=custom_headers)
+    read: dict = {}
+    candidates, empty, warnings = scan_pages(path, wanted, any_text=custom_headers, read=read)
     workers = workers if workers is not None else max(1, min(os.cpu_count() or 1, 8))
-    parsed = page_words(path, candidates, workers, progress)
+    parsed = {**read, **page_words(path, [n for n in candidates if n not in read], workers, progress)}
+    if progress and read:
+        progress(len(read))
     state = _State()
     claims: list[Claim] = []
     unread: list[Unread] = []

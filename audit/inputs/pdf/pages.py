@@ -3,6 +3,7 @@
 
 from __future__ import annotations
 
+import contextlib
 import re
 from collections.abc import Callable
 from concurrent.futures import ProcessPoolExecutor
@@ -10,6 +11,7 @@ from pathlib import Path
 
 from audit.core.errors import InputError, Location
 from audit.inputs.pdf.columns import CANDIDATE
+from audit.inputs.pdf.pdfium_words import page_words_pdfium
 from audit.inputs.pdf.settings import SETTINGS
 
 
@@ -54,11 +56,15 @@ def open_document(path: Path):
         raise InputError(f"the PDF is damaged or truncated and cannot be read ({exc})", where) from None
 
 
-def scan_pages(path: Path, pages: list[int], any_text: bool = False) -> tuple[list[int], list[int], list[str]]:
+def scan_pages(
+    path: Path, pages: list[int], any_text: bool = False, read: dict | None = None
+) -> tuple[list[int], list[int], list[str]]:
     """Cheap pass: (candidate pages, pages with no text layer, warnings).
 
     A candidate page carries the trade's symbols; with ``any_text`` (a column map of the
-    reviewer's own headers) every page with text is a candidate.
+    reviewer's own headers) every page with text is a candidate. Given ``read``, the words and
+    rules of each candidate are read in the same pass (from pdfium) into it; a candidate that
+    pdfium cannot read that way is left for ``page_words``.
     """
     import pypdfium2.raw as pdfium_raw
 
@@ -79,6 +85,10 @@ def scan_pages(path: Path, pages: list[int], any_text: bool = False) -> tuple[li
                     warnings.append(f"page {number}: {count} characters, too many to read; skipped")
                     continue
                 text = textpage.get_text_range() if count else ""
+                candidate = bool(text.strip()) and (any_text or CANDIDATE.search(text) is not None)
+                if candidate and read is not None:
+                    with contextlib.suppress(Exception):  # sideways text or the like: page_words reads it
+                        read[number] = (*page_words_pdfium(page, textpage), "")
                 textpage.close()
                 page.close()
             except Exception as exc:  # a damaged page must not stop the others
@@ -86,7 +96,7 @@ def scan_pages(path: Path, pages: list[int], any_text: bool = False) -> tuple[li
                 continue
             if not text.strip():
                 empty.append(number)
-            elif any_text or CANDIDATE.search(text):
+            elif candidate:
                 candidates.append(number)
     finally:
         doc.close()
@@ -101,19 +111,41 @@ PageData = tuple[list[WordT], list[EdgeT], str]
 
 
 def _words_of_pages(args: tuple[str, list[int]]) -> list[tuple[int, list[WordT], list[EdgeT], str]]:
-    import pdfplumber
+    """Words and rules of each page: from pdfium's characters and paths; from pdfplumber where the text runs
+    sideways or pdfium cannot read the page."""
+    import pypdfium2 as pdfium
 
     path, pages = args
     out = []
-    with pdfplumber.open(path) as pdf:
+    plumber = None
+    doc = pdfium.PdfDocument(path)
+    try:
         for number in pages:
             try:
-                page = pdf.pages[number - 1]
-                words, edges = _upright_words(page)
+                page = doc[number - 1]
+                try:
+                    words, edges = page_words_pdfium(page)
+                finally:
+                    page.close()
                 out.append((number, words, edges, ""))
-                page.flush_cache()
+                continue
+            except Exception:  # sideways text, or objects pdfium will not give: the full layout parse reads it
+                pass
+            try:
+                if plumber is None:
+                    import pdfplumber
+
+                    plumber = pdfplumber.open(path)
+                ppage = plumber.pages[number - 1]
+                words, edges = _upright_words(ppage)
+                out.append((number, words, edges, ""))
+                ppage.flush_cache()
             except Exception as exc:
                 out.append((number, [], [], f"page {number}: cannot be parsed ({type(exc).__name__}); skipped"))
+    finally:
+        doc.close()
+        if plumber is not None:
+            plumber.close()
     return out
 
 
