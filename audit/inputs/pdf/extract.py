@@ -254,7 +254,7 @@ def extract(
     unread: list[Unread] = []
     per_page: dict[int, int] = {}
     wanted_set = set(wanted)
-    queue = sorted(parsed)
+    queue = sorted(candidates)  # pages read ahead (the page after a candidate) wait until a table goes on
     done: set[int] = set()
     while queue:
         number = queue.pop(0)

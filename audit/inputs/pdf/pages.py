@@ -86,7 +86,8 @@ def scan_pages(
                     continue
                 text = textpage.get_text_range() if count else ""
                 candidate = bool(text.strip()) and (any_text or CANDIDATE.search(text) is not None)
-                if candidate and read is not None:
+                # the page after a candidate too: a table may go on over the page without a header
+                if (candidate or number - 1 in candidates) and read is not None and text.strip():
                     with contextlib.suppress(Exception):  # sideways text or the like: page_words reads it
                         read[number] = (*page_words_pdfium(page, textpage), "")
                 textpage.close()
