@@ -186,9 +186,11 @@ def test_a_browser_printed_calc_sheet_reads_claim_for_claim_and_reports_what_it_
     # right-aligned numbers, a unit row, group rows, a Qf | Qr | Qf' | Qr' pair on one row)
     import yaml
 
+    from fixtures.make_html_calc import PAGE
     from tests import browser
 
-    html = ROOT / "fixtures" / "pdf" / "html-tables.html"
+    html = tmp_path / "html-tables.html"
+    html.write_text(PAGE.format(), encoding="utf-8")
     pdf = browser.print_pdf(html, tmp_path / "html.pdf", tmp_path / "profile")
     result = extract(pdf, workers=1)
     expected = yaml.safe_load((ROOT / "fixtures" / "pdf" / "html-tables.expected.yaml").read_text())

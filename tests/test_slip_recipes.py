@@ -13,22 +13,22 @@ from tests.test_reconcile import QR_J1, claim, outcome
 from tests.verification.details import beam_on_posts
 
 
-def _qf_slips(model, claimed_qf: float, check_id: str, location: str, member: str, factors=None) -> list[str]:
-    c = claim(location, member, Qf=claimed_qf)
+def _slips(quantity: str, model, claimed: float, check_id: str, location: str, member: str, factors=None):
+    c = claim(location, member, **{quantity: claimed})
     if factors:
         c["factors"] = factors
     out, _ = outcome(model, [c], check_id)
-    assert out.qf is not None and not out.qf.within
-    return [s.name for s in out.qf.slips]
+    compared = out.qf if quantity == "Qf" else out.qr
+    assert compared is not None and not compared.within
+    return [s.name for s in compared.slips]
 
 
-def _qr_slips(model, claimed_qr: float, check_id: str, location: str, member: str, factors=None) -> list[str]:
-    c = claim(location, member, Qr=claimed_qr)
-    if factors:
-        c["factors"] = factors
-    out, _ = outcome(model, [c], check_id)
-    assert out.qr is not None and not out.qr.within
-    return [s.name for s in out.qr.slips]
+def _qf_slips(*args, **kwargs) -> list[str]:
+    return _slips("Qf", *args, **kwargs)
+
+
+def _qr_slips(*args, **kwargs) -> list[str]:
+    return _slips("Qr", *args, **kwargs)
 
 
 def test_simple_span_reactions_for_a_continuous_beam_are_named():

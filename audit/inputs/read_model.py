@@ -542,20 +542,10 @@ def _read_bearings(node: Node, known: KnownMembers, errors: ErrorCollector) -> t
         upper = _read_side(f.map["upper"], "upper", known, errors)
         lower = _read_side(f.map["lower"], "lower", known, errors)
         width = f.quantity("width", "length", required=False, positive=True)
-        aliases: tuple[str, ...] = ()
-        if f.has("aliases"):
-            a_node = f.map["aliases"]
-            if not isinstance(a_node.value, list):
-                errors.add("aliases must be a list of labels", a_node.loc)
-                continue
-            aliases = _read_aliases(a_node, errors)
-        typical: tuple[str, ...] = ()
-        if f.has("typical"):
-            t_node = f.map["typical"]
-            if not isinstance(t_node.value, list):
-                errors.add("typical must be a list of labels that several bearings share", t_node.loc)
-                continue
-            typical = _read_aliases(t_node, errors)
+        aliases = _label_list(f, "aliases", "aliases must be a list of labels", errors)
+        typical = _label_list(f, "typical", "typical must be a list of labels that several bearings share", errors)
+        if aliases is None or typical is None:
+            continue
         if upper is None or lower is None or not f.ok:
             continue
         if upper.member == lower.member:
@@ -611,6 +601,17 @@ def _crossing_fits(upper: Side, lower: Side, f: FieldReader, known: KnownMembers
             )
             ok = False
     return ok
+
+
+def _label_list(f: FieldReader, key: str, wrong: str, errors: ErrorCollector) -> tuple[str, ...] | None:
+    """A bearing's list of labels (aliases, typical labels); None, with the error, when it is not a list."""
+    if not f.has(key):
+        return ()
+    node = f.map[key]
+    if not isinstance(node.value, list):
+        errors.add(wrong, node.loc)
+        return None
+    return _read_aliases(node, errors)
 
 
 def _read_aliases(node: Node, errors: ErrorCollector) -> tuple[str, ...]:
