@@ -133,7 +133,10 @@ def review(
                 "--memo",
                 memo,
                 lambda: memo_chunks(
-                    result, rec, claim_list, MemoOptions(date=memo_date, all_derivations=all_derivations)
+                    result,
+                    rec,
+                    claim_list,
+                    MemoOptions(date=memo_date, all_derivations=all_derivations, comments=comments),
                 ),
             )
         )

@@ -17,6 +17,7 @@ from collections.abc import Callable, Iterable, Iterator
 from contextlib import contextmanager
 from dataclasses import dataclass
 from pathlib import Path
+from typing import IO, Any
 
 from audit.core.errors import InputError, Location
 
@@ -152,10 +153,12 @@ def _write_temporary(path: Path, text: Chunks, option: str, limit: int | None = 
         raise OutputError(f"cannot write here: {exc.strerror or exc}; nothing was written", where) from None
     try:
         os.chmod(tmp, 0o666 & ~_umask())
-        with os.fdopen(fd, "wb") as handle:
+        pieces = [text] if isinstance(text, (str, bytes)) else text
+        binary = isinstance(text, bytes) or (isinstance(pieces, list) and bool(pieces) and isinstance(pieces[0], bytes))
+        handle: IO[Any] = os.fdopen(fd, "wb") if binary else os.fdopen(fd, "w", encoding="utf-8", newline="\n")
+        with handle:
             written = 0
-            for piece in [text] if isinstance(text, (str, bytes)) else text:
-                chunk = piece.encode("utf-8") if isinstance(piece, str) else piece
+            for chunk in pieces:
                 written += len(chunk)
                 if limit is not None and written > limit:
                     raise OutputError(

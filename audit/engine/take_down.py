@@ -155,9 +155,10 @@ def _pattern_envelopes(
     pieces = span_pieces(positions, length)
     out: list[dict[str, Envelope]] = [{} for _ in positions]
     cases = sorted({c for item in applied for c in item.forces if base_case(c) in patterns})
+    owner = {id(item): _piece_of(item.at, pieces) for item in applied if item.kind == "point" and item.at is not None}
     for case in cases:
         low_factor, high_factor = patterns[base_case(case)]
-        shares = [_piece_reactions(positions, applied, case, pieces, k) for k in range(len(pieces))]
+        shares = _case_shares(positions, applied, case, pieces, owner)
         total = sum(abs(r) for share in shares for r in share) or 1.0
         for i in range(len(positions)):
             high = low = 0.0
@@ -200,6 +201,33 @@ def _piece_of(x: float, pieces: list[tuple[float, float, str]]) -> int:
         if a < x - 1e-12:
             index = i
     return index
+
+
+def _case_shares(
+    positions: list[float],
+    applied: tuple[AppliedForce, ...],
+    case: str,
+    pieces: list[tuple[float, float, str]],
+    owner: dict[int, int],
+) -> list[list[float]]:
+    """Each piece's reactions from the part of one load case on it, the loads sorted to pieces once."""
+    points: list[list[tuple[float, float]]] = [[] for _ in pieces]
+    uniforms: list[list[tuple[float, float, float]]] = [[] for _ in pieces]
+    for item in applied:
+        value = item.forces.get(case)
+        if value is None:
+            continue
+        if item.kind == "point" and item.at is not None:
+            points[owner[id(item)]].append((item.at, value))
+        elif item.start is not None and item.end is not None:
+            for k, (a, b, _) in enumerate(pieces):
+                lo, hi = max(a, item.start), min(b, item.end)
+                if hi > lo:
+                    uniforms[k].append((lo, hi, value))
+    return [
+        reactions(positions, points[k], uniforms[k]) if points[k] or uniforms[k] else [0.0] * len(positions)
+        for k in range(len(pieces))
+    ]
 
 
 def _piece_reactions(

@@ -39,10 +39,13 @@ def _number(value: float | None) -> Any:
     return "" if value is None else round(value, 3)
 
 
-def comment_rows(comments: tuple[Comment, ...]) -> list[list[Any]]:
-    """One row per number compared at each place (one row for a place with none)."""
+def comment_rows(comments: tuple[Comment, ...], record: bool = True) -> list[list[Any]]:
+    """One row per number compared at each place (one row for a place with none); ``record`` False leaves
+    out the comments kept for the record (confirmed, covered), which ask the designer for nothing."""
     rows = []
     for c in comments:
+        if c.quiet and not record:
+            continue
         for p in c.places:
             for n in p.compared or (None,):
                 rows.append(
@@ -70,7 +73,8 @@ def comment_rows(comments: tuple[Comment, ...]) -> list[list[Any]]:
 
 
 def comments_csv(comments: tuple[Comment, ...]) -> str:
-    return rows_to_csv(COLUMNS, comment_rows(comments))
+    """The log to send: every comment that asks for something (the record ones are in the JSON and the memo)."""
+    return rows_to_csv(COLUMNS, comment_rows(comments, record=False))
 
 
 def comment_records(comments: tuple[Comment, ...]) -> list[dict[str, Any]]:
@@ -125,7 +129,7 @@ def comments_xlsx(review: Review, rec: Reconciliation | None, comments: tuple[Co
         "Designer's response",
     ]
     sheet.append(head)
-    for c in comments:
+    for c in (c for c in comments if not c.quiet):
         pages = "; ".join(dict.fromkeys(p.page for p in c.places if p.page))
         points = "\n".join(dict.fromkeys(point for p in c.places for point in p.points))
         sheet.append(

@@ -55,6 +55,7 @@ class MemoOptions:
     date: dt.date | None = None
     title: str = "Bearing review memo"
     all_derivations: bool = False  # derivations of confirmed and covered checks too (they are in the JSON)
+    comments: tuple[Comment, ...] | None = None  # the review's comments, where the caller has built them already
 
 
 def _env() -> jinja2.Environment:
@@ -266,7 +267,7 @@ def build_view(
         else {r.check.id: ("failing" if not r.passes else "computed") for r in review.results}
     )
     derivations, all_derivations = _derivations(review, status_of, options.all_derivations)
-    comments = build_comments(review, reconciliation, claims)
+    comments = options.comments if options.comments is not None else build_comments(review, reconciliation, claims)
     sketch_limit = SKETCH_LIMIT if all_derivations else LARGE_SKETCHES
     return {
         "title": options.title,

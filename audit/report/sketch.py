@@ -99,25 +99,25 @@ def member_sketches(review: Review, status_of: dict[str, str], words: dict[str, 
         for m in checks_by_member
         if not review.model.members[m].vertical and len(checks_by_member[m]) <= MAX_CHECKS_DRAWN
     ]
+    supports_of: dict[str, list] = {}
+    for b in review.model.bearings:
+        supports_of.setdefault(b.upper.member, []).append(b)
     alike: dict[tuple, list[str]] = {}
     for m in sorted(drawable):
-        alike.setdefault(_signature(review, m, checks_by_member[m], status_of), []).append(m)
+        alike.setdefault(_signature(review, m, checks_by_member[m], status_of, supports_of.get(m, [])), []).append(m)
     firsts = {ms[0]: ms for ms in alike.values()}
     chosen = sorted(firsts, key=failing_first)[:limit]
-    return [_sketch(review, m, firsts[m], checks_by_member[m], status_of, words) for m in sorted(chosen)]
+    return [
+        _sketch(review, m, firsts[m], checks_by_member[m], status_of, words, supports_of.get(m, []))
+        for m in sorted(chosen)
+    ]
 
 
-def _signature(review: Review, member_id: str, results, status_of) -> tuple:
+def _signature(review: Review, member_id: str, results, status_of, supports_below) -> tuple:
     """What a sketch shows, without the member's own name: members with one signature look the same."""
     model = review.model
     member = model.members[member_id]
-    supports = tuple(
-        sorted(
-            (round(b.upper.at or 0.0, 4), model.members[b.lower.member].id)
-            for b in model.bearings
-            if b.upper.member == member_id
-        )
-    )
+    supports = tuple(sorted((round(b.upper.at or 0.0, 4), model.members[b.lower.member].id) for b in supports_below))
     loads = tuple(
         sorted(
             (
@@ -139,7 +139,9 @@ def _signature(review: Review, member_id: str, results, status_of) -> tuple:
     return (member.length, member.b, member.d, member.material, supports, loads, checks)
 
 
-def _sketch(review: Review, member_id: str, same: list[str], results, status_of, words) -> dict[str, Any]:
+def _sketch(
+    review: Review, member_id: str, same: list[str], results, status_of, words, supports_below
+) -> dict[str, Any]:
     model = review.model
     member = model.members[member_id]
     span = WIDTH - LEFT - RIGHT
@@ -164,8 +166,8 @@ def _sketch(review: Review, member_id: str, same: list[str], results, status_of,
             x0 = min(max(x1 + 2.0, 2.0), WIDTH - 2.0 - w)
             top.append(_Item(x0, x0 + w, None, payload={"kind": "uniform", "x1": x1, "x2": x2, "text": text}))
     zones, supports = [], []
-    for b in model.bearings:
-        if b.upper.member != member_id or b.upper.at is None:
+    for b in supports_below:
+        if b.upper.at is None:
             continue
         x = px(b.upper.at)
         label = model.members[b.lower.member].id

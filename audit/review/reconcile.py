@@ -433,7 +433,7 @@ def simple_span_forces(check: RequiredCheck, review: Review) -> dict[str, float]
         return None
     bearing = review.model.bearings_by_id[check.bearing]
     upper = review.model.members[bearing.upper.member]
-    supports = [b for b in review.model.bearings if b.upper.member == upper.id]
+    supports = review.supports_of.get(upper.id, [])
     if upper.vertical or len(supports) < 3:
         return None
     positions = sorted(b.upper.at or 0.0 for b in supports)

@@ -7,7 +7,7 @@ from functools import cached_property
 from pathlib import Path
 
 from audit.core.units import PROJECT_UNITS, Display
-from audit.engine.model import Model
+from audit.engine.model import Bearing, Model
 from audit.engine.take_down import TakeDown, take_down
 from audit.inputs.read_model import read_model
 from audit.review import wording
@@ -45,6 +45,14 @@ class Review:
     def result_at(self, bearing: str, member: str, kind: str) -> CheckResult | None:
         """The check of ``member`` of that kind at ``bearing``, if the design requires one."""
         return self._by_place.get((bearing, member, kind))
+
+    @cached_property
+    def supports_of(self) -> dict[str, list[Bearing]]:
+        """Member id -> the bearings it sits on."""
+        out: dict[str, list[Bearing]] = {}
+        for b in self.model.bearings:
+            out.setdefault(b.upper.member, []).append(b)
+        return out
 
     @cached_property
     def readings(self) -> dict[str, str]:

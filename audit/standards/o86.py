@@ -13,6 +13,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, replace
+from functools import cached_property
 
 from audit.core.errors import ErrorCollector, InputError
 from audit.engine.model import (
@@ -41,6 +42,16 @@ class LoadCombination:
     duration: str  # permanent | standard | short
     clause: str = ""
     factored: bool = False  # a group of already-factored loads
+
+    @cached_property
+    def principal_cases(self) -> tuple[str, ...]:
+        """The cases of the principal load (the largest factor but dead load's; dead load for a dead-only one),
+        with the cases split from it (W:suction, L:storage)."""
+        live = {case: f for case, f in self.factors.items() if case != LONG_TERM_CASE}
+        if not live:
+            return (LONG_TERM_CASE,)
+        principal = base_case(max(live, key=lambda case: live[case]))
+        return tuple(case for case in live if base_case(case) == principal)
 
 
 @dataclass(frozen=True)
@@ -426,13 +437,7 @@ def _principal_present(combo: LoadCombination, forces: Forces) -> bool:
     The principal is the case with the largest load factor other than dead load (dead load
     itself for a dead-only combination).
     """
-    live = {case: f for case, f in combo.factors.items() if case != LONG_TERM_CASE}
-    if not live:
-        return abs(forces.get(LONG_TERM_CASE, 0.0)) > FORCE_RESOLUTION
-    principal = base_case(max(live, key=lambda case: live[case]))
-    return any(
-        abs(value) > FORCE_RESOLUTION for case, value in forces.items() if base_case(case) == principal and case in live
-    )
+    return any(abs(forces.get(case, 0.0)) > FORCE_RESOLUTION for case in combo.principal_cases)
 
 
 def evaluate(

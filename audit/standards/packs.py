@@ -10,6 +10,7 @@ from __future__ import annotations
 import itertools
 import math
 from dataclasses import dataclass
+from functools import cached_property
 from importlib import resources
 from pathlib import Path
 from typing import Any
@@ -127,7 +128,7 @@ class ResistancePack:
         """The clause a finding on this family cites: local bearing, or loads near a support."""
         return self.clauses[family].value["near_support" if kind == "near-support" else "local"]
 
-    @property
+    @cached_property
     def long_term_live(self) -> tuple[str, ...]:
         """The load cases of live load the KD formula counts as long-term, e.g. ('L:storage',)."""
         return tuple(f"L:{kind}" for kind in self.kd_long_term_live.value)
