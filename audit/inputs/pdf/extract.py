@@ -28,7 +28,16 @@ from audit.inputs.pdf.columns import (
 from audit.inputs.pdf.equations import EQUATION, claim_from_equation, joined_equation
 from audit.inputs.pdf.pages import EdgeT, open_document, page_words, parse_pages, scan_pages
 from audit.inputs.pdf.settings import SETTINGS
-from audit.inputs.pdf.tables import Line, Table, group_lines, header_of, row_cells, stacked, unit_row
+from audit.inputs.pdf.tables import (
+    Line,
+    Table,
+    group_lines,
+    header_of,
+    primed_under_groups,
+    row_cells,
+    stacked,
+    unit_row,
+)
 from audit.inputs.pdf.values import STARTS_NUMERIC, parse_adequate, parse_value
 from audit.inputs.read_claims import Claim, Where
 
@@ -150,6 +159,8 @@ def claims_of_page(
             header = header_of(stacked(line, lines[i + 1]), cmap, edges)
             if header is not None:
                 skip = i + 1
+        if header is not None and i > 0 and (primed := primed_under_groups(lines[i - 1], line)) is not None:
+            header = header_of(primed, cmap, edges) or header  # a near-support group over some columns
         if header is not None:
             state.table_count += 1
             table = replace(header, name=f"table {state.table_count} (p. {line.page})")
@@ -194,6 +205,9 @@ def claims_of_page(
             table = None  # running text or a new block ends the table
             continue
         continuing = False
+        if SUBTOTAL.match(cells.get("location", "")):
+            unread.append(Unread(line.page, "table row not read: a total, not a check", line.text[:160]))
+            continue
         try:
             out += pair_claims(cells, table, line, state, cmap, name)
             row_table, last_row_index = table, i
@@ -209,6 +223,7 @@ def claims_of_page(
 HAS_DIGIT = re.compile(r"\d")
 MAYBE_HEADER = re.compile(r"(?<![A-Za-z])Q(?![a-eg-qs-z])")  # a line that may be the top half of a Q_f / Q_r header
 LABEL_FIELDS = {"location", "member", "kind"}
+SUBTOTAL = re.compile(r"^\s*(sub-?\s*)?totals?\b|^\s*sum\b", re.IGNORECASE)
 
 
 def _is_row(line: Line, table: Table) -> bool:

@@ -159,6 +159,28 @@ def stacked(upper: Line, lower: Line) -> Line:
     return Line(upper.page, upper.top, tuple(sorted(words + loose, key=lambda w: w[1])))
 
 
+NEAR_GROUP = re.compile(r"near|squeez|within\s*d|effect of loads", re.IGNORECASE)
+
+
+def primed_under_groups(above: Line, header: Line) -> Line | None:
+    """A header under group labels ('Local bearing' over Qf | Qr, 'Near support' over Qf | Qr): the header
+    with its symbols under a near-support group primed (Qf -> Qf'); None when no near group spans it."""
+    changed = False
+    words = list(header.words)
+    groups = cells_of(above)
+    for k, (cell, x0, _) in enumerate(groups):
+        end = groups[k + 1][1] - 4.0 if k + 1 < len(groups) else 1e9  # a group runs to the next group's start
+        under = [i for i, w in enumerate(words) if x0 - 4.0 <= (w[1] + w[2]) / 2 < end]
+        if len(under) < 2 or not NEAR_GROUP.search(cell):
+            continue
+        for i in under:
+            w = words[i]
+            if re.match(r"^q\s*[fr]$", w[0], re.IGNORECASE):
+                words[i] = (w[0] + "'", *w[1:])
+                changed = True
+    return Line(header.page, header.top, tuple(words)) if changed else None
+
+
 def row_cells(line: Line, table: Table) -> dict[str, str] | None:
     """Words placed in the table's columns, or None when a word straddles columns (running text).
 
