@@ -255,3 +255,13 @@ def test_a_reportlab_drawn_sheet_reads_two_line_headers_subscripts_kip_split_equ
     expected = yaml.safe_load((ROOT / "fixtures" / "pdf" / "reportlab.expected.yaml").read_text())
     assert _as_expected(result) == expected["claims"]
     assert sorted({u.page for u in result.unread}) == expected["not_read_pages"]
+
+
+def test_a_matplotlib_drawn_results_table_reads_claim_for_claim(tmp_path):
+    # A fourth PDF maker: matplotlib's PDF backend (test-only), a ruled table of centred headers
+    from fixtures.make_matplotlib_calc import write
+
+    result = extract(write(tmp_path / "plot.pdf"), workers=1)
+    expected = yaml.safe_load((ROOT / "fixtures" / "pdf" / "matplotlib.expected.yaml").read_text())
+    assert _as_expected(result) == expected["claims"]
+    assert not result.unread
