@@ -190,3 +190,70 @@ def test_byte_flipped_models_end_in_0_1_or_2(flips):
 @given(st.text(max_size=400))
 def test_arbitrary_text_as_claims_ends_in_0_1_or_2(text):
     _run(yaml.safe_dump(base_model()).encode(), text)
+
+
+def _rich_model() -> dict:
+    """The base frame with this project's other forms: a plate on studs with a pack, plies, readings,
+    display units, shared typical labels, wind both ways and storage live load."""
+    data = base_model()
+    data["project"]["readings"] = {"near_support.opposite_bearings": "summed", "kzcp.built_up": "combined"}
+    data["project"]["units"] = "US"
+    data["materials"]["DF"] = {"family": "timber", "species": "D.Fir-L", "grade": "No.1"}
+    data["members"].append(
+        {
+            "id": "WP",
+            "material": "SPF",
+            "b": "140 mm",
+            "d": "76 mm",
+            "length": "2.4 m",
+            "plies": 2,
+            "ply_thickness": "38 mm",
+            "support": "studs",
+            "studs": {"thickness": "38 mm", "spacing": "406 mm", "packs": [{"at": "1.2 m", "studs": 3}]},
+        }
+    )
+    data["members"].append(
+        {"id": "P", "material": "DF", "b": "140 mm", "d": "140 mm", "length": "3 m", "orientation": "vertical"}
+    )
+    data["bearings"].append({"id": "P/WP", "upper": "P", "lower": {"member": "WP", "at": "1.2 m", "width": "120 mm"}})
+    data["bearings"][2]["typical"] = ["joist on beam"]
+    data["loads"].append(
+        {
+            "id": "roof",
+            "member": "P",
+            "type": "point",
+            "specified": {"D": "10 kN", "W": {"pressure": "2 kN", "suction": "5 kN"}},
+        }
+    )
+    data["loads"].append(
+        {"id": "store", "member": "B1", "type": "uniform", "live": "storage", "specified": {"L": "1 kN/m"}}
+    )
+    return data
+
+
+@SETTINGS
+@given(mutations, mutations)
+def test_mutated_models_with_every_short_form_end_in_0_1_or_2_with_everything_accounted_for(
+    model_mutations, claim_mutations
+):
+    data = _rich_model()
+    for choice, junk, action in model_mutations:
+        data = _mutate(data, choice, junk, action)
+    claims = {
+        "claims": [
+            {"id": "t1", "location": ["J1/B1", "joist on beam"], "member": "J1", "Qf": "8 kN", "Qr": "24 kN"},
+            {"id": "t2", "location": "J*/B1", "member": "B1", "Qf": "1,900 lbf"},
+            {"id": "t3", "location": "P/WP", "kind": "near-support", "Qf": "30 kN", "Qr": "50 kN"},
+        ]
+    }
+    for choice, junk, action in claim_mutations:
+        claims = _mutate(claims, choice, junk, action)
+    _run(yaml.safe_dump(data, allow_unicode=True).encode(), claims)
+
+
+def test_the_rich_base_model_itself_reviews_cleanly():
+    # the mutations above start from a valid model: it reviews without an input error
+    from tests.conftest import review_dict
+
+    review = review_dict(_rich_model())
+    assert review.result("WP/WP.pack1:WP:near") and review.model.project.units == "US"
