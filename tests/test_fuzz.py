@@ -21,6 +21,7 @@ from hypothesis import strategies as st
 
 from audit import cli
 from tests.conftest import base_model
+from tests.verification.details import post_on_stud_wall
 
 EXAMPLES = int(os.environ.get("FUZZ_EXAMPLES", "40"))
 SETTINGS = settings(max_examples=EXAMPLES, deadline=None, suppress_health_check=list(HealthCheck))
@@ -199,19 +200,7 @@ def _rich_model() -> dict:
     data["project"]["readings"] = {"near_support.opposite_bearings": "summed", "kzcp.built_up": "combined"}
     data["project"]["units"] = "US"
     data["materials"]["DF"] = {"family": "timber", "species": "D.Fir-L", "grade": "No.1"}
-    data["members"].append(
-        {
-            "id": "WP",
-            "material": "SPF",
-            "b": "140 mm",
-            "d": "76 mm",
-            "length": "2.4 m",
-            "plies": 2,
-            "ply_thickness": "38 mm",
-            "support": "studs",
-            "studs": {"thickness": "38 mm", "spacing": "406 mm", "packs": [{"at": "1.2 m", "studs": 3}]},
-        }
-    )
+    data["members"].append(post_on_stud_wall()["members"][0])  # the double top plate on studs, with its pack
     data["members"].append(
         {"id": "P", "material": "DF", "b": "140 mm", "d": "140 mm", "length": "3 m", "orientation": "vertical"}
     )

@@ -19,7 +19,7 @@ import pdfplumber
 
 from audit.inputs.pdf.extract import extract
 from fixtures.make_calc_pdfs import Calc, draw_table
-from tests.benchmarks.report import machine, write_section
+from tests.benchmarks.report import best_of, machine, write_section
 
 NARRATIVE = (
     "The floor framing spans between the glulam beams and the bearing walls. Loads are taken from the "
@@ -61,15 +61,6 @@ def plain_loop(path: Path) -> int:
             tables += len(page.extract_tables())
             page.flush_cache()
     return tables
-
-
-def best_of(repeat: int, run) -> float:
-    times = []
-    for _ in range(repeat):
-        start = time.perf_counter()
-        run()
-        times.append(time.perf_counter() - start)
-    return min(times)
 
 
 def pdfium_text_pass(path: Path) -> int:

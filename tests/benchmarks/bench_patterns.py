@@ -14,7 +14,6 @@ from __future__ import annotations
 import argparse
 import sys
 import tempfile
-import time
 from pathlib import Path
 
 import yaml
@@ -22,16 +21,7 @@ import yaml
 from audit.engine.take_down import take_down
 from audit.inputs.read_model import read_model
 from tests.benchmarks.make_building import building
-from tests.benchmarks.report import machine, write_section
-
-
-def best_of(repeat: int, run) -> float:
-    times = []
-    for _ in range(repeat):
-        start = time.perf_counter()
-        run()
-        times.append(time.perf_counter() - start)
-    return min(times)
+from tests.benchmarks.report import best_of, machine, write_section
 
 
 def measure(bearings: int, repeat: int) -> dict:

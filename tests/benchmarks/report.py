@@ -6,6 +6,7 @@ import datetime as dt
 import os
 import platform
 import re
+import time
 from pathlib import Path
 
 REPORT = Path(__file__).resolve().parents[2] / "reports" / "benchmarks.md"
@@ -38,3 +39,13 @@ def write_section(name: str, body: str) -> None:
         text = text.rstrip() + "\n\n" + block + "\n"
     REPORT.parent.mkdir(parents=True, exist_ok=True)
     REPORT.write_text(text, encoding="utf-8")
+
+
+def best_of(repeat: int, run) -> float:
+    """The shortest of ``repeat`` runs, in seconds: the least disturbed by the rest of the machine."""
+    times = []
+    for _ in range(repeat):
+        start = time.perf_counter()
+        run()
+        times.append(time.perf_counter() - start)
+    return min(times)
