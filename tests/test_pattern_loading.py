@@ -42,14 +42,14 @@ def test_live_envelope_is_the_worst_of_every_pattern_solved_by_anastruct(spans, 
 
 def test_every_pattern_is_in_equilibrium_with_its_loaded_spans():
     # Property: for any set of loaded spans, the supports' shares add up to the load placed there
-    from audit.engine.take_down import _piece_reactions, span_pieces
+    from audit.engine.take_down import case_shares, piece_owners, span_pieces
 
     review = review_dict(beam_on_posts([3.0, 4.5, 3.5], overhang_m=0.8))
     member = review.model.members["B"]
     supports = sorted(b.upper.at for b in review.model.bearings if b.upper.member == "B")
     pieces = span_pieces(supports, member.length)
     applied = review.flow.on_top["B"]
-    shares = [_piece_reactions(supports, applied, "L", pieces, k) for k in range(len(pieces))]
+    shares = case_shares(supports, applied, "L", pieces, piece_owners(applied, pieces))
     for loaded in _subsets(len(pieces)):
         placed = sum(2000.0 * (pieces[k][1] - pieces[k][0]) for k in loaded)
         assert sum(sum(shares[k]) for k in loaded) == pytest.approx(placed, rel=1e-9)
@@ -81,7 +81,6 @@ def test_uplift_is_looked_for_under_every_pattern_with_counteracting_dead_load()
     # span loaded, M2 = -w L2^3 / (8 (L1 + L2)) with span 2 alone; R1 = w L1 / 2 + M2 / L1
     dead = 500.0 * 2.0 / 2 - 500.0 * (2.0**3 + 4.0**3) / (8 * 6.0) / 2.0  # 500 - 375 = 125 N
     live = -6000.0 * 4.0**3 / (8 * 6.0) / 2.0  # -4000 N
-    assert dead == pytest.approx(125.0) and live == pytest.approx(-4000.0)
     assert _anastruct_reactions([0.0, 2.0, 6.0], [], [(2.0, 6.0, 6000.0)])[0] == pytest.approx(live, rel=1e-6)
     # the worst is 1.25D + 1.5L (or its companions) with D at the counteracting 0.9
     assert uplift[0].numbers["qf"] == pytest.approx(0.9 * dead + 1.5 * live, rel=1e-6)

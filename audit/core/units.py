@@ -162,6 +162,11 @@ class Display:
 
     force_unit: str = "kN"
 
+    @classmethod
+    def for_project(cls, units: str) -> Display:
+        """The display of a project's units (SI or US)."""
+        return cls(PROJECT_UNITS[units])
+
     def value(self, newtons: float) -> float:
         return newtons / FORCE_UNITS[self.force_unit]
 

@@ -155,10 +155,10 @@ def _pattern_envelopes(
     pieces = span_pieces(positions, length)
     out: list[dict[str, Envelope]] = [{} for _ in positions]
     cases = sorted({c for item in applied for c in item.forces if base_case(c) in patterns})
-    owner = {id(item): _piece_of(item.at, pieces) for item in applied if item.kind == "point" and item.at is not None}
+    owner = piece_owners(applied, pieces)
     for case in cases:
         low_factor, high_factor = patterns[base_case(case)]
-        shares = _case_shares(positions, applied, case, pieces, owner)
+        shares = case_shares(positions, applied, case, pieces, owner)
         total = sum(abs(r) for share in shares for r in share) or 1.0
         for i in range(len(positions)):
             high = low = 0.0
@@ -203,7 +203,12 @@ def _piece_of(x: float, pieces: list[tuple[float, float, str]]) -> int:
     return index
 
 
-def _case_shares(
+def piece_owners(applied: tuple[AppliedForce, ...], pieces: list[tuple[float, float, str]]) -> dict[int, int]:
+    """The piece each point load stands on (by the load's identity), found once for every case."""
+    return {id(item): _piece_of(item.at, pieces) for item in applied if item.kind == "point" and item.at is not None}
+
+
+def case_shares(
     positions: list[float],
     applied: tuple[AppliedForce, ...],
     case: str,
@@ -228,28 +233,6 @@ def _case_shares(
         reactions(positions, points[k], uniforms[k]) if points[k] or uniforms[k] else [0.0] * len(positions)
         for k in range(len(pieces))
     ]
-
-
-def _piece_reactions(
-    positions: list[float], applied: tuple[AppliedForce, ...], case: str, pieces: list[tuple[float, float, str]], k: int
-) -> list[float]:
-    """Reactions from the part of one load case that lies on piece ``k``."""
-    a, b, _ = pieces[k]
-    points, uniforms = [], []
-    for item in applied:
-        value = item.forces.get(case)
-        if value is None:
-            continue
-        if item.kind == "point" and item.at is not None:
-            if _piece_of(item.at, pieces) == k:
-                points.append((item.at, value))
-        elif item.start is not None and item.end is not None:
-            lo, hi = max(a, item.start), min(b, item.end)
-            if hi > lo:
-                uniforms.append((lo, hi, value))
-    if not points and not uniforms:
-        return [0.0] * len(positions)
-    return reactions(positions, points, uniforms)
 
 
 def _applied_forces(member_id, carried, own, bearing_forces) -> tuple[AppliedForce, ...]:

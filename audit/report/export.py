@@ -105,10 +105,6 @@ def review_record(review: Review) -> dict[str, Any]:
     }
 
 
-def to_json(data: dict[str, Any]) -> str:
-    return "".join(json_chunks(data))
-
-
 def json_chunks(data: dict[str, Any]) -> Iterator[str]:
     """JSON with one line per item of each list: readable, diff-friendly, written by the C
     encoder (an indented dump goes through the slow pure-Python encoder), and produced in

@@ -15,9 +15,9 @@ from typing import Any
 import jinja2
 
 from audit import __version__
-from audit.core.units import PROJECT_UNITS, Display
+from audit.core.units import Display
 from audit.inputs.read_claims import Claim
-from audit.report.export import check_record, rows_to_csv
+from audit.report.export import check_record
 from audit.review.comments import WEIGHT_WORDS, Comment, build_comments
 from audit.review.findings import KINDS, SEVERITIES, Finding
 from audit.review.reconcile import Reconciliation
@@ -144,10 +144,6 @@ def _pattern_lines(review: Review) -> list[str]:
     ]
 
 
-def project_display(review: Review) -> Display:
-    return Display(PROJECT_UNITS[review.model.project.units])
-
-
 def _comment_view(c: Comment) -> dict[str, Any]:
     places = []
     for p in c.places:
@@ -181,7 +177,7 @@ def _comment_view(c: Comment) -> dict[str, Any]:
 
 
 def _check_rows(review: Review, reconciliation: Reconciliation | None, claims: dict[str, Claim]):
-    display = project_display(review)
+    display = review.display
     groups: dict[tuple[str, str], list[dict[str, Any]]] = {}
     for r in review.results:
         member = review.model.members[r.check.member]
@@ -218,7 +214,7 @@ QUIET_STATUSES = ("confirmed", "covered", "computed")
 def _derivations(review: Review, status_of: dict[str, str], every: bool = False) -> tuple[list[dict[str, Any]], bool]:
     """Derivations of the checks with findings (of every check on request), or on a large building of the
     first failing ones."""
-    display = project_display(review)
+    display = review.display
     out: list[dict[str, Any]] = []
     all_checks = len(review.results) <= DERIVATION_LIMIT
     for r in review.results:
@@ -295,7 +291,7 @@ def build_view(
         "cautions": CAUTIONS,
         "kinds": list(KINDS.values()),
         "weight_words": WEIGHT_WORDS,
-        "force_unit": project_display(review).force_unit,
+        "force_unit": review.display.force_unit,
         "has_claims": reconciliation is not None,
     }
 
@@ -368,14 +364,6 @@ def finding_rows(findings: tuple[Finding, ...]) -> list[list[Any]]:
             ]
         )
     return rows
-
-
-def findings_csv(findings: tuple[Finding, ...]) -> str:
-    return rows_to_csv(FINDING_COLUMNS, finding_rows(findings))
-
-
-def findings_json(review: Review, rec: Reconciliation | None, findings: tuple[Finding, ...]) -> str:
-    return "".join(findings_json_chunks(review, rec, findings))
 
 
 def findings_json_chunks(

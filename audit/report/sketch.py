@@ -12,7 +12,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any
 
-from audit.core.units import FORCE_UNITS, PROJECT_UNITS
+from audit.core.units import FORCE_UNITS
 from audit.review.review import Review
 from audit.standards.checks import NEAR
 
@@ -99,9 +99,7 @@ def member_sketches(review: Review, status_of: dict[str, str], words: dict[str, 
         for m in checks_by_member
         if not review.model.members[m].vertical and len(checks_by_member[m]) <= MAX_CHECKS_DRAWN
     ]
-    supports_of: dict[str, list] = {}
-    for b in review.model.bearings:
-        supports_of.setdefault(b.upper.member, []).append(b)
+    supports_of = review.supports_of
     alike: dict[tuple, list[str]] = {}
     for m in sorted(drawable):
         alike.setdefault(_signature(review, m, checks_by_member[m], status_of, supports_of.get(m, [])), []).append(m)
@@ -149,7 +147,7 @@ def _sketch(
     def px(x: float) -> float:
         return round(LEFT + span * x / member.length, 1)
 
-    unit = PROJECT_UNITS[model.project.units]
+    unit = review.display.force_unit
     top: list[_Item] = []
     bottom: list[_Item] = []
     for force in review.flow.on_top.get(member_id, ()):

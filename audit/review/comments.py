@@ -11,7 +11,7 @@ from __future__ import annotations
 from collections import defaultdict
 from dataclasses import dataclass, replace
 
-from audit.core.units import PROJECT_UNITS, Display
+from audit.core.units import Display
 from audit.inputs.read_claims import Claim
 from audit.review.findings import KINDS, Finding, severity_rank
 from audit.review.reconcile import Reconciliation
@@ -108,7 +108,7 @@ def _place(findings: list[Finding], review: Review, units: dict[str, str] | None
     """One spot; forces in the unit of the claim there (``units``: claim id -> unit), else the project's."""
     lead = min(findings, key=lambda f: severity_rank(f.severity))
     claim_id = next((f.claim_id for f in findings if f.claim_id), "")
-    unit = (units or {}).get(claim_id) or PROJECT_UNITS[review.model.project.units]
+    unit = (units or {}).get(claim_id) or review.display.force_unit
     d = Display(unit)
     compared = []
     for f in findings:

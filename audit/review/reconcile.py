@@ -16,7 +16,7 @@ from dataclasses import dataclass, field, replace
 from functools import cached_property
 from typing import Any
 
-from audit.core.units import PROJECT_UNITS, Display
+from audit.core.units import Display
 from audit.engine.beam_statics import simple_span_reactions
 from audit.engine.model import normalise_label
 from audit.inputs.read_claims import Claim
@@ -391,7 +391,7 @@ def qf_slips(result: CheckResult, review: Review) -> list[Slip]:
                     _without_spread(partner, review),
                 )
             )
-    combo = next((c for c in review.combinations if c.name == g.combination), None)
+    combo = review.combination(g.combination)
     if combo is not None and g.pattern:
         out.append(
             Slip(
@@ -420,7 +420,7 @@ def qf_slips(result: CheckResult, review: Review) -> list[Slip]:
                 _without_spread(result, review),
             )
         )
-    combo = next((c for c in review.combinations if c.name == g.combination), None)
+    combo = review.combination(g.combination)
     if combo is not None:
         unfactored = math.fsum(check.forces.get(case, 0.0) for case in combo.factors)
         out.append(Slip("unfactored-loads", "specified (unfactored) loads were used as Qf", unfactored))
@@ -455,7 +455,7 @@ def simple_span_forces(check: RequiredCheck, review: Review) -> dict[str, float]
 def _without_spread(result: CheckResult, review: Review) -> float:
     """Qf' of a near-support check in its governing combination without the distributed loads within d."""
     check = result.check
-    combo = next((c for c in review.combinations if c.name == result.governing.combination), None)
+    combo = review.combination(result.governing.combination)
     if combo is None:  # no load reaches the check
         return 0.0
     points = {case: value - check.spread_forces.get(case, 0.0) for case, value in check.forces.items()}
@@ -706,7 +706,7 @@ def display_for(review: Review, claim: Claim | None = None) -> Display:
     """Forces in the claim's own unit where it has one, else in the project's."""
     if claim is not None and claim.unit:
         return Display(claim.unit)
-    return Display(PROJECT_UNITS[review.model.project.units])
+    return review.display
 
 
 def _kind_word(check: RequiredCheck) -> str:

@@ -6,7 +6,7 @@ from dataclasses import dataclass
 from functools import cached_property
 from pathlib import Path
 
-from audit.core.units import PROJECT_UNITS, Display
+from audit.core.units import Display
 from audit.engine.model import Bearing, Model
 from audit.engine.take_down import TakeDown, take_down
 from audit.inputs.read_model import read_model
@@ -47,6 +47,19 @@ class Review:
         return self._by_place.get((bearing, member, kind))
 
     @cached_property
+    def display(self) -> Display:
+        """How the project shows forces."""
+        return Display.for_project(self.model.project.units)
+
+    @cached_property
+    def _combinations_by_name(self) -> dict[str, LoadCombination]:
+        return {c.name: c for c in self.combinations}
+
+    def combination(self, name: str) -> LoadCombination | None:
+        """The load combination of that name ('no load' has none)."""
+        return self._combinations_by_name.get(name)
+
+    @cached_property
     def supports_of(self) -> dict[str, list[Bearing]]:
         """Member id -> the bearings it sits on."""
         out: dict[str, list[Bearing]] = {}
@@ -71,7 +84,7 @@ def review_built(model: Model, pack: ResistancePack, cpack: CombinationPack) -> 
     results = resist(checklist, model, pack, cpack)
     threshold, whose = uplift_threshold(model, pack)
     factors = {c.name: c.factors for c in load_combinations(model, cpack)}
-    display = Display(PROJECT_UNITS[model.project.units])
+    display = Display.for_project(model.project.units)
     engine = uplift_findings(results, threshold, whose, factors, display) + unseen_support_findings(checklist)
     return Review(model, pack, cpack, flow, checklist, results, engine)
 
