@@ -217,6 +217,26 @@ def _extract(pdf: Path, pages: str | None, column_map: Path | None):
 
 
 @app.command()
+def expand(
+    model: Path = typer.Argument(..., help="A review model with a layout section (YAML).", metavar="MODEL"),
+    out: Path = typer.Option(..., "-o", "--out", metavar="FILE", help="Where to write the explicit model (YAML)."),
+    rules_dir: list[Path] | None = RulesDir,
+    rule_pack: str | None = RulePack,
+) -> None:
+    """Write the model with its layout expanded: every member, bearing and load, each with where it came from."""
+    from audit.core.outfiles import Output, output_limit, write_outputs
+    from audit.inputs.expand_layout import explicit_model_file
+
+    try:
+        input_bytes = _check_files({"MODEL": model}, {"--out": out})
+        text = explicit_model_file(model, _dirs(rules_dir), rule_pack)
+        write_outputs([Output("--out", out, lambda: [text])], output_limit(input_bytes))
+    except InputError as exc:
+        _fail(exc)
+    typer.echo(f"wrote {out}")
+
+
+@app.command()
 def extract(
     pdf: Path = typer.Argument(..., help="The calc package (PDF).", metavar="PDF"),
     output: Path = typer.Option(..., "-o", "--output", help="Write the claims (YAML) here.", metavar="FILE"),

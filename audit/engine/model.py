@@ -50,6 +50,26 @@ class Material:
 
 
 @dataclass(frozen=True)
+class Place:
+    """Where a member stands in plan and elevation (m), when the model says; a layout always does."""
+
+    start: tuple[float, float]  # a horizontal member's start; a post's centre
+    end: tuple[float, float]  # a horizontal member's end; a post's centre again
+    top: float  # elevation of the top face (a post: of its top end)
+    base: float  # elevation of the underside (a post: of its foot)
+    d_along: str = "x"  # a post: the plan direction its d lies along
+
+
+@dataclass(frozen=True)
+class Frame:
+    """A layout's levels and grid lines (m), kept so the memo can draw each level's plan."""
+
+    levels: dict[str, float]
+    grid_x: dict[str, float]  # lines of constant x, by name
+    grid_y: dict[str, float]
+
+
+@dataclass(frozen=True)
 class Member:
     id: str
     material: str
@@ -65,6 +85,8 @@ class Member:
     label: str = ""
     plies: int = 1  # a built-up member: the number of plies
     ply_thickness: float | None = None  # m, stacked through d (laid flat) or side by side across b
+    place: Place | None = field(default=None, compare=False)
+    note: str = field(default="", compare=False)  # where a placed member came from
     loc: Location = field(default=Location(""), compare=False)
 
     @property
@@ -97,6 +119,7 @@ class Bearing:
     width: float | None  # contact width, when a plate or seat states it (m)
     aliases: tuple[str, ...] = ()
     typical: tuple[str, ...] = ()  # labels several bearings share, as a calc's typical claim names them
+    note: str = field(default="", compare=False)  # how a found bearing was found
     loc: Location = field(default=Location(""), compare=False)
 
     def side_of(self, member_id: str) -> Side:
@@ -117,6 +140,7 @@ class Load:
     end: float | None = None
     length: float | None = None  # bearing length of a point load along the member (m)
     width: float | None = None
+    note: str = field(default="", compare=False)  # how a shared load was made
     loc: Location = field(default=Location(""), compare=False)
 
 
@@ -154,6 +178,7 @@ class Model:
     loads: tuple[Load, ...]
     factored_groups: dict[str, FactoredGroup]
     warnings: tuple[str, ...] = ()  # located, one line each: printed, never fatal
+    frame: Frame | None = None  # the layout's levels and grids, where the model has a layout
 
     def material_of(self, member_id: str) -> Material:
         return self.materials[self.members[member_id].material]

@@ -14,8 +14,9 @@ from collections.abc import Callable
 from dataclasses import dataclass
 from pathlib import Path
 
-from audit.core.errors import ErrorCollector, Location
+from audit.core.errors import ErrorCollector, InputError, Location
 from audit.core.located_yaml import Node, node_text, read_yaml_file
+from audit.core.units import parse_quantity
 from audit.engine.model import (
     FACTORED_PREFIX,
     PLY_FIT,
@@ -24,14 +25,17 @@ from audit.engine.model import (
     WIND_SUCTION,
     Bearing,
     FactoredGroup,
+    Frame,
     Load,
     Material,
     Member,
     Model,
+    Place,
     Project,
     Side,
     normalise_label,
 )
+from audit.inputs.expand_layout import model_sections
 from audit.inputs.fields import FieldReader, describe_value, did_you_mean, list_items
 from audit.inputs.stud_walls import StudWall, place_studs, read_stud_wall
 from audit.standards.packs import (
@@ -43,7 +47,7 @@ from audit.standards.packs import (
     select_packs,
 )
 
-TOP_KEYS = {"project", "materials", "members", "bearings", "loads"}
+TOP_KEYS = {"project", "materials", "layout", "members", "bearings", "loads"}
 PROJECT_KEYS = {
     "title",
     "calc",
@@ -78,8 +82,10 @@ MEMBER_KEYS = {
     "ply_thickness",
     "studs",
     "bears_on",
+    "place",
+    "note",
 }
-BEARING_KEYS = {"id", "upper", "lower", "width", "aliases", "typical"}
+BEARING_KEYS = {"id", "upper", "lower", "width", "aliases", "typical", "note"}
 SIDE_KEYS = {"member", "at", "length", "width", "angle"}
 LOAD_KEYS = {
     "id",
@@ -95,6 +101,7 @@ LOAD_KEYS = {
     "duration",
     "label",
     "live",
+    "note",
 }
 LIVE_KINDS = ("occupancy", "storage")  # storage: storage, equipment and service-room live load
 ENGINEERED_FACTORS = ("KD", "KScp", "KB", "KZcp", "KT")
@@ -121,9 +128,13 @@ def build_model(
     top = FieldReader(root, TOP_KEYS, errors, "the model")
     if not top.ok:
         errors.raise_if_any()
-    for key in ("project", "materials", "members", "bearings"):
+    required = ("project", "materials") if "layout" in top.map else ("project", "materials", "members", "bearings")
+    for key in required:
         if key not in top.map:
             errors.add(f"missing section '{key}'", root.child_loc(key))
+    for key in ("members", "bearings", "loads"):
+        if key in top.map and top.map[key].value is not None and not isinstance(top.map[key].value, list):
+            errors.add(f"expected a list of {key}, got {describe_value(top.map[key].value)}", top.map[key].loc)
     errors.raise_if_any()
 
     project = _read_project(top.map["project"], errors)
@@ -134,23 +145,36 @@ def build_model(
     _check_readings(project, resistance, top.map["project"], errors)
 
     materials = _read_materials(top.map["materials"], resistance, errors)
-    members, broken, walls = _read_members(top.map["members"], materials, project, errors)
+    sections = model_sections(top.map, root, errors)
+    errors.raise_if_any()  # the layout's own errors first: what it would have placed is not there to read
+    members, broken, walls = _read_members(_listed(sections.members, root, "members"), materials, project, errors)
     placed = _place_walls(members, walls, errors)
     known = KnownMembers(members, broken)
-    bearings = _read_bearings(top.map["bearings"], known, errors)
+    bearings = _read_bearings(_listed(sections.bearings, root, "bearings"), known, errors)
     taken = {b.id for b in bearings}
     for b in placed:
         if b.id in taken:
             errors.add(f"bearing id '{b.id}' is also the bearing of a stud placed under '{b.upper.member}'", b.loc)
     bearings += placed
-    loads, groups = _read_loads(top.map["loads"], known, combos, errors) if "loads" in top.map else ((), {})
+    loads, groups = _read_loads(_listed(sections.loads, root, "loads"), known, combos, errors)
     errors.raise_if_any()
     _check_support_graph(members, bearings, errors)
     _check_loads_within_members(members, loads, errors)
     errors.raise_if_any()
-    warnings = tuple(_id_warnings(members, bearings, loads))
-    model = Model(name, project, materials, members, bearings, loads, groups, warnings)
+    warnings = sections.warnings + tuple(_id_warnings(members, bearings, loads))
+    frame = None
+    if sections.layout is not None:
+        frame = Frame(dict(sections.layout.levels), dict(sections.layout.grids.x), dict(sections.layout.grids.y))
+    model = Model(name, project, materials, members, bearings, loads, groups, warnings, frame)
     return model, resistance, combos
+
+
+def _listed(items: list[Node], root: Node, key: str) -> Node:
+    """The entries of one section, typed and placed, as one list node."""
+    node = root.value.get(key) if isinstance(root.value, dict) else None
+    if node is not None:
+        return Node(items, node.file, node.line, node.column, node.key)
+    return Node(items, root.file, root.line, root.column, key)
 
 
 # ---------------------------------------------------------------- sections
@@ -374,6 +398,7 @@ def _read_members(
             f.ok = False
         wall = _read_wall_fields(f, support, member_id, material, materials, errors)
         plies, ply_thickness = _read_plies(f, b, d)
+        place = _read_place(f, orientation == "vertical", length) if f.has("place") else None
         if member_id in out:
             errors.add(f"duplicate member id '{member_id}'", f.loc("id"))
             continue
@@ -396,11 +421,68 @@ def _read_members(
             plies=plies,
             ply_thickness=ply_thickness,
             bears_on=f.text("bears_on", required=False),
+            place=place,
+            note=f.text("note", required=False),
             loc=item.loc,
         )
         if wall is not None:
             walls.append(wall)
     return out, frozenset(broken - out.keys()), tuple(walls)
+
+
+PLACE_FIT = 1e-3  # m: a stated place must agree with the stated length to this
+
+
+def _read_place(f: FieldReader, vertical: bool, length: float | None) -> Place | None:
+    """Where the member stands: {from: [x, y], to: [x, y], top} or, for a post, {at: [x, y], base, top, d_along}."""
+    keys = {"at", "base", "top", "d_along"} if vertical else {"from", "to", "top"}
+    p = FieldReader(f.map["place"], keys, f.errors, "place")
+    if not p.ok:
+        f.ok = False
+        return None
+    points = {}
+    for key in ("at",) if vertical else ("from", "to"):
+        node = p.map.get(key)
+        if node is None:
+            f.errors.add(f"missing field '{key}'", p.node.child_loc(key))
+            f.ok = False
+            return None
+        if not isinstance(node.value, list) or len(node.value) != 2:
+            f.errors.add(f"{key} must be [x, y], two lengths", node.loc)
+            f.ok = False
+            return None
+        xy = []
+        for item in node.value:
+            try:
+                xy.append(parse_quantity(item.value, "length", item.loc))
+            except InputError as exc:
+                f.errors.extend(exc)
+                f.ok = False
+                return None
+        points[key] = (xy[0], xy[1])
+    top = p.quantity("top", "length")
+    base = p.quantity("base", "length") if vertical else None
+    d_along = p.choice("d_along", ("x", "y"), required=False, default="x")
+    if top is None or not p.ok or length is None or f.map.get("d") is None:
+        f.ok = False
+        return None
+    if vertical:
+        assert base is not None
+        start = end = points["at"]
+        stated = top - base
+    else:
+        start, end = points["from"], points["to"]
+        stated = math.hypot(end[0] - start[0], end[1] - start[1])
+        d = parse_quantity(f.map["d"].value, "length", f.map["d"].loc)
+        base = top - d
+    if abs(stated - length) > PLACE_FIT:
+        f.errors.add(
+            f"the place gives a length of {stated * 1000:.0f} mm, the member's length is {length * 1000:.0f} mm",
+            p.node.loc,
+        )
+        f.ok = False
+        return None
+    return Place(start, end, top, base, d_along)
 
 
 def _place_walls(
@@ -564,7 +646,8 @@ def _read_bearings(node: Node, known: KnownMembers, errors: ErrorCollector) -> t
             if other is not None and other != bearing_id:
                 errors.add(f"alias '{alias}' is already used by bearing '{other}'", f.loc("aliases"))
             aliases_seen[normalise_label(alias)] = bearing_id
-        out.append(Bearing(bearing_id, upper, lower, width, aliases, typical, item.loc))
+        note = f.text("note", required=False)
+        out.append(Bearing(bearing_id, upper, lower, width, aliases, typical, note, item.loc))
     ids = {normalise_label(b.id): b.id for b in out}
     own = {normalise_label(a): b.id for b in out for a in b.aliases} | ids
     for b in out:
@@ -657,6 +740,7 @@ def _read_loads(
         if geometry is None:
             continue
         at, start, end, length, width = geometry
+        note = f.text("note", required=False)
         has_specified, has_factored = f.has("specified"), f.has("factored")
         if has_specified == has_factored:
             errors.add("give either 'specified' (loads by case) or 'factored' (with 'duration')", item.loc)
@@ -697,7 +781,7 @@ def _read_loads(
             groups[label] = FactoredGroup(label, duration)
             entries.append((FACTORED_PREFIX + label, value))
         for case, value in entries:
-            out.append(Load(load_id, member_id, kind, case, value, at, start, end, length, width, item.loc))
+            out.append(Load(load_id, member_id, kind, case, value, at, start, end, length, width, note, item.loc))
     return tuple(out), groups
 
 

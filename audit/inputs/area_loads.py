@@ -1,0 +1,273 @@
+"""Floor and roof loads in kPa (or psf) on an area, shared among the members that span it.
+
+Each member spanning the area's way takes the strip of floor half way to its neighbours on
+either side (an edge member out to the area's edge), as a line load over the part of it that
+lies in the area; an opening takes its strip away where it crosses. What the members take adds
+up to the whole area's load; a part of the area no member reaches is a warning, never dropped
+in silence. Each load says how its width was made.
+"""
+
+from __future__ import annotations
+
+import itertools
+from dataclasses import dataclass
+
+from audit.core.errors import ErrorCollector, InputError
+from audit.core.located_yaml import Node
+from audit.core.units import parse_quantity
+from audit.inputs.fields import FieldReader, describe_value, did_you_mean, list_items
+from audit.inputs.layout import ROUND, Layout, Placed, Placer, metres, synth
+from audit.inputs.layout_contacts import SQUARE
+
+AREA_KEYS = {"id", "level", "corners", "span", "loads", "live", "openings", "on"}
+Rect = tuple[float, float, float, float]  # x0, y0, x1, y1
+
+
+@dataclass(frozen=True)
+class Share:
+    """One member's share of an area: a line load over ``start``..``end`` along it, per case."""
+
+    member: str
+    start: float  # m along the member
+    end: float
+    width: float  # tributary width (m)
+    per_case: tuple[tuple[str, float], ...]  # case -> N/m (W:pressure and W:suction for wind both ways)
+    how: str
+
+
+def area_shares(layout: Layout, placed: tuple[Placed, ...], errors: ErrorCollector, warnings: list[str]):
+    """(area entry, its shares) for every area of the layout."""
+    if layout.areas is None:
+        return []
+    placer = Placer(layout.levels, layout.grids, errors)
+    out = []
+    seen: set[str] = set()
+    for item in list_items(layout.areas, "layout areas", errors):
+        read = _read_area(item, placer, errors)
+        if read is None:
+            continue
+        area_id = read[0]
+        if area_id in seen:
+            errors.add(f"duplicate area id '{area_id}'", item.loc)
+            continue
+        seen.add(area_id)
+        out.append((item, _shares(item, read, placed, errors, warnings)))
+    return out
+
+
+def _read_area(item: Node, placer: Placer, errors: ErrorCollector):
+    f = FieldReader(item, AREA_KEYS, errors, "layout area")
+    area_id = f.text("id", limit=60)
+    level = placer.level(f, "level")
+    span = f.choice("span", ("x", "y"))
+    corners = _rect(f.map["corners"], placer, errors) if f.has("corners") else None
+    if not f.has("corners"):
+        errors.add("missing field 'corners' (two opposite corners, e.g. [A/1, B/3])", item.child_loc("corners"))
+    openings = []
+    if f.has("openings"):
+        for o in list_items(f.map["openings"], "openings", errors):
+            rect = _rect(o, placer, errors)
+            if rect is None:
+                return None
+            openings.append(rect)
+    cases = _pressures(f, errors)
+    on: tuple[str, ...] | None = None
+    if f.has("on"):
+        node = f.map["on"]
+        if not isinstance(node.value, list):
+            errors.add("on lists the members or runs that carry the area, e.g. [J, GB1]", node.loc)
+            return None
+        on = tuple(str(n.value) for n in node.value)
+    if not f.ok or level is None or corners is None or cases is None:
+        return None
+    return area_id, level, span, corners, tuple(openings), cases, on
+
+
+def _rect(node: Node, placer: Placer, errors: ErrorCollector) -> Rect | None:
+    if not isinstance(node.value, list) or len(node.value) != 2:
+        errors.add(f"expected two opposite corners such as [A/1, B/3], got {describe_value(node.value)}", node.loc)
+        return None
+    p, q = placer.point(node.value[0]), placer.point(node.value[1])
+    if p is None or q is None:
+        return None
+    rect = (min(p[0], q[0]), min(p[1], q[1]), max(p[0], q[0]), max(p[1], q[1]))
+    if rect[2] - rect[0] < 1e-6 or rect[3] - rect[1] < 1e-6:
+        errors.add("the corners do not enclose an area", node.loc)
+        return None
+    return rect
+
+
+def _pressures(f: FieldReader, errors: ErrorCollector) -> tuple[tuple[str, object], ...] | None:
+    """Case -> pressure (Pa), or for wind both ways case -> {pressure, suction}."""
+    if not f.has("loads"):
+        errors.add("missing field 'loads' (by case, e.g. {D: 1.2 kPa, L: 1.9 kPa})", f.node.child_loc("loads"))
+        return None
+    node = f.map["loads"]
+    if not isinstance(node.value, dict) or not node.value:
+        errors.add("loads must map a load case to a pressure, e.g. {D: 1.2 kPa}", node.loc)
+        return None
+    out: list[tuple[str, object]] = []
+    for case, item in node.value.items():
+        try:
+            if case == "W" and isinstance(item.value, dict):
+                w = FieldReader(item, {"pressure", "suction"}, errors, "wind both ways")
+                both = {k: w.quantity(k, "stress") for k in ("pressure", "suction") if w.has(k)}
+                if not w.ok or not both:
+                    return None
+                out.append((case, both))
+            else:
+                out.append((str(case), parse_quantity(item.value, "stress", item.loc)))
+        except InputError as exc:
+            errors.extend(exc)
+            return None
+    return tuple(out)
+
+
+def _carriers(item: Node, read, placed: tuple[Placed, ...], errors: ErrorCollector) -> list[Placed]:
+    _, level, span, (x0, y0, x1, y1), _, _, on = read
+    lo, hi = (y0, y1) if span == "x" else (x0, x1)
+    groups = {p.group for p in placed if p.group} | {p.id for p in placed}
+    if on is not None:
+        for name in on:
+            if name not in groups:
+                errors.add(f"unknown member or run '{name}'{did_you_mean(name, groups)}", item.child_loc("on"))
+    out = []
+    for p in placed:
+        if p.axis is None or p.kind == "wall":
+            continue
+        if on is not None and p.id not in on and p.group not in on:
+            continue
+        if on is None and (p.level != level[0] or abs(p.drop) > 1e-9):
+            continue
+        along_span = abs(p.axis.ux) if span == "x" else abs(p.axis.uy)
+        if along_span < 1 - SQUARE * SQUARE:
+            continue
+        c = p.axis.start[1] if span == "x" else p.axis.start[0]
+        if lo - 1e-6 <= c <= hi + 1e-6:
+            out.append(p)
+    return sorted(out, key=lambda p: (p.axis.start[1] if span == "x" else p.axis.start[0]) if p.axis else 0.0)
+
+
+def _shares(item: Node, read, placed: tuple[Placed, ...], errors: ErrorCollector, warnings: list[str]) -> list[Share]:
+    area_id, _, span, rect, openings, cases, _ = read
+    x0, y0, x1, y1 = rect
+    (s_lo, s_hi), (c_lo, c_hi) = ((x0, x1), (y0, y1)) if span == "x" else ((y0, y1), (x0, x1))
+    carriers = _carriers(item, read, placed, errors)
+    whole = (x1 - x0) * (y1 - y0) - sum(_overlap_area(o, rect) for o in openings)
+    if not carriers:
+        errors.add(f"area '{area_id}': no member spans it the {span} way", item.loc)
+        return []
+    cs = [(p.axis.start[1] if span == "x" else p.axis.start[0]) if p.axis else 0.0 for p in carriers]
+    out: list[Share] = []
+    taken = 0.0
+    for n, p in enumerate(carriers):
+        left = c_lo if n == 0 else (cs[n - 1] + cs[n]) / 2
+        right = c_hi if n == len(carriers) - 1 else (cs[n] + cs[n + 1]) / 2
+        how = _width_words(n, carriers, left, right, c_lo, c_hi)
+        for start, end, width in _pieces(p, span, (s_lo, s_hi), (left, right), openings):
+            taken += width * (end - start)
+            per_case = _line_loads(cases, width)
+            out.append(Share(p.id, start, end, width, per_case, f"area {area_id}: {how}"))
+    if whole - taken > 1e-6 * max(1.0, whole):
+        warnings.append(
+            f"{item.loc}: area '{area_id}': {whole - taken:.3f} m2 of its {whole:.3f} m2 reach no member "
+            "(the members spanning it stop short of its edges)"
+        )
+    return out
+
+
+def _width_words(n: int, carriers: list[Placed], left: float, right: float, c_lo: float, c_hi: float) -> str:
+    sides = []
+    for _bound, edge, k in ((left, c_lo, n - 1), (right, c_hi, n + 1)):
+        if 0 <= k < len(carriers):
+            sides.append(f"half way to {carriers[k].id}")
+        else:
+            sides.append(f"to the area's edge at {edge:g} m")
+    return f"tributary width {(right - left) * 1000:.0f} mm ({sides[0]}; {sides[1]})"
+
+
+def _pieces(p: Placed, span: str, s_range: tuple[float, float], strip: tuple[float, float], openings):
+    """(start, end, width) along the member: its strip of the area, less the openings it crosses."""
+    axis = p.axis
+    assert axis is not None
+    ends = sorted(
+        (axis.start[0], axis.point(axis.length)[0]) if span == "x" else (axis.start[1], axis.point(axis.length)[1])
+    )
+    a, b = max(ends[0], s_range[0]), min(ends[1], s_range[1])
+    if b - a <= 1e-9:
+        return []
+    cuts = {a, b}
+    for o in openings:
+        os0, os1 = (o[0], o[2]) if span == "x" else (o[1], o[3])
+        cuts.update(v for v in (os0, os1) if a < v < b)
+    points = sorted(cuts)
+    pieces: list[tuple[float, float, float]] = []
+    for s0, s1 in itertools.pairwise(points):
+        mid = (s0 + s1) / 2
+        width = strip[1] - strip[0]
+        for o in openings:
+            os0, os1, oc0, oc1 = (o[0], o[2], o[1], o[3]) if span == "x" else (o[1], o[3], o[0], o[2])
+            if os0 <= mid <= os1:
+                width -= max(0.0, min(oc1, strip[1]) - max(oc0, strip[0]))
+        if width <= 1e-9:
+            continue
+        if pieces and abs(pieces[-1][2] - width) < 1e-9 and abs(pieces[-1][1] - s0) < 1e-9:
+            pieces[-1] = (pieces[-1][0], s1, width)
+        else:
+            pieces.append((s0, s1, width))
+    out = []
+    for s0, s1, width in pieces:
+        u = axis.ux if span == "x" else axis.uy
+        start_s = axis.start[0] if span == "x" else axis.start[1]
+        q0, q1 = sorted(((s0 - start_s) * u, (s1 - start_s) * u))
+        out.append((round(max(q0, 0.0), ROUND), round(min(q1, axis.length), ROUND), width))
+    return out
+
+
+def _line_loads(cases, width: float) -> tuple[tuple[str, float], ...]:
+    out: list[tuple[str, float]] = []
+    for case, value in cases:
+        if isinstance(value, dict):
+            out += [(f"W:{k}", round(v * width, 3)) for k, v in value.items()]
+        else:
+            out.append((case, round(float(value) * width, 3)))
+    return tuple(out)
+
+
+def _overlap_area(o: tuple[float, float, float, float], rect: tuple[float, float, float, float]) -> float:
+    w = max(0.0, min(o[2], rect[2]) - max(o[0], rect[0]))
+    h = max(0.0, min(o[3], rect[3]) - max(o[1], rect[1]))
+    return w * h
+
+
+def share_entries(item: Node, shares: list[Share], live: Node | None) -> list[Node]:
+    """The shares as the loads section of the explicit model would give them."""
+    area_id = item.value["id"].value if isinstance(item.value, dict) and "id" in item.value else "area"
+    counts: dict[str, int] = {}
+    for s in shares:
+        counts[s.member] = counts.get(s.member, 0) + 1
+    seen: dict[str, int] = {}
+    out = []
+    for s in shares:
+        seen[s.member] = seen.get(s.member, 0) + 1
+        suffix = f":{seen[s.member]}" if counts[s.member] > 1 else ""
+        specified: dict[str, object] = {}
+        wind = {k.split(":", 1)[1]: f"{abs(v)!r} N/m" for k, v in s.per_case if k.startswith("W:")}
+        for case, value in s.per_case:
+            if not case.startswith("W:"):
+                specified[case] = f"{value!r} N/m"
+        if wind:
+            specified["W"] = wind
+        entry: dict[str, object] = {
+            "id": f"{area_id}:{s.member}{suffix}",
+            "member": s.member,
+            "type": "uniform",
+            "from": metres(s.start),
+            "to": metres(s.end),
+            "specified": specified,
+        }
+        if live is not None:
+            entry["live"] = live
+        entry["note"] = f"{s.how}, over {s.start:g} m to {s.end:g} m"
+        out.append(synth(entry, item, ""))
+    return out

@@ -1,0 +1,239 @@
+"""A model's layout, expanded into the entries of the explicit model, and the explicit model written out.
+
+``model_sections`` joins what the reviewer typed (members, bearings, loads) with what the
+layout places, finds and shares, as nodes located at the layout entries they came from; the
+model reader reads the join and cannot tell the two apart. ``explicit_model_text`` writes the
+join as a model file of today's format, one entry per line with a comment saying where it came
+from: reviewing that file gives the same outputs as reviewing the layout.
+"""
+
+from __future__ import annotations
+
+import json
+import re
+from dataclasses import dataclass, field
+from functools import lru_cache
+from pathlib import Path
+
+import yaml
+
+from audit.core.errors import ErrorCollector
+from audit.core.located_yaml import Node, node_text, read_yaml_file
+from audit.inputs.area_loads import area_shares, share_entries
+from audit.inputs.layout import Layout, Placed, metres, read_layout, synth
+from audit.inputs.layout_contacts import Found, find_contacts, reach_up
+
+
+@dataclass(frozen=True)
+class Sections:
+    """The model's entries, typed and placed together; ``origin`` says where each placed one came from."""
+
+    members: list[Node]
+    bearings: list[Node]
+    loads: list[Node]
+    frame: Node | None  # the layout's levels and grids, kept for the plans
+    origin: dict[int, str] = field(default_factory=dict)  # id(node) -> where it came from
+    warnings: tuple[str, ...] = ()
+    layout: Layout | None = None
+
+
+def model_sections(top: dict[str, Node], root: Node, errors: ErrorCollector) -> Sections:
+    """The members, bearings and loads of a model, its layout expanded; errors collected."""
+    typed = {key: _items(top.get(key)) for key in ("members", "bearings", "loads")}
+    if "layout" not in top:
+        return Sections(typed["members"], typed["bearings"], typed["loads"], None)
+    warnings: list[str] = []
+    layout = read_layout(top["layout"], errors)
+    if layout is None or errors.errors:
+        return Sections(typed["members"], typed["bearings"], typed["loads"], None)
+    placed = reach_up(layout.placed, errors)
+    found = find_contacts(placed, errors, warnings)
+    shares = area_shares(layout, placed, errors, warnings)
+    origin: dict[int, str] = {}
+    members = []
+    for p in placed:
+        node = member_entry(p)
+        origin[id(node)] = f"{p.loc}: {p.origin}"
+        members.append(node)
+    stated = {_pair(n) for n in typed["bearings"]}
+    bearings = []
+    for c in found:
+        if (c.upper.id, c.lower.id) in stated:
+            continue  # a bearing the reviewer gave overrides the one the geometry shows
+        node = bearing_entry(c)
+        origin[id(node)] = f"{c.upper.loc}: found where {c.upper.id} meets {c.lower.id} at ({c.x:.3f}, {c.y:.3f})"
+        bearings.append(node)
+    loads = []
+    for item, area_list in shares:
+        live = item.value.get("live") if isinstance(item.value, dict) else None
+        for node in share_entries(item, area_list, live):
+            origin[id(node)] = f"{item.loc}: share of area {item.value['id'].value}"
+            loads.append(node)
+    frame = synth(
+        {k: top["layout"].value[k] for k in ("levels", "grids") if k in top["layout"].value}, top["layout"], ""
+    )
+    return Sections(
+        typed["members"] + members,
+        typed["bearings"] + bearings,
+        typed["loads"] + loads,
+        frame,
+        origin,
+        tuple(warnings),
+        layout,
+    )
+
+
+def _items(node: Node | None) -> list[Node]:
+    return list(node.value) if node is not None and isinstance(node.value, list) else []
+
+
+def _pair(node: Node) -> tuple[str, str]:
+    """(upper, lower) member ids of a typed bearing, as far as they can be read; broken ones are the reader's."""
+    if not isinstance(node.value, dict):
+        return "", ""
+    out = []
+    for role in ("upper", "lower"):
+        side = node.value.get(role)
+        if side is not None and isinstance(side.value, dict) and "member" in side.value:
+            side = side.value["member"]
+        out.append(node_text(side) if side is not None and not isinstance(side.value, (dict, list)) else "")
+    return out[0], out[1]
+
+
+def member_entry(p: Placed) -> Node:
+    entry: dict[str, object] = {"id": p.id}
+    for key in ("material", "b", "d"):
+        if key in p.fields:
+            entry[key] = p.fields[key]
+    if p.vertical:
+        assert p.point is not None
+        entry["length"] = metres((p.top or 0.0) - (p.base or 0.0))
+        entry["orientation"] = "vertical"
+    else:
+        assert p.axis is not None
+        entry["length"] = metres(p.axis.length)
+    entry["level"] = p.level
+    entry.update({k: v for k, v in p.fields.items() if k not in entry})
+    entry["place"] = _place(p)
+    entry["note"] = p.origin
+    return synth(entry, p.source, "")
+
+
+def _place(p: Placed) -> dict[str, object]:
+    if p.vertical:
+        assert p.point is not None
+        return {
+            "at": [metres(p.point[0]), metres(p.point[1])],
+            "base": metres(p.base or 0.0),
+            "top": metres(p.top or 0.0),
+            "d_along": p.d_along,
+        }
+    assert p.axis is not None
+    end = p.axis.point(p.axis.length)
+    return {
+        "from": [metres(p.axis.start[0]), metres(p.axis.start[1])],
+        "to": [metres(end[0]), metres(end[1])],
+        "top": metres(p.top or 0.0),
+    }
+
+
+def bearing_entry(c: Found) -> Node:
+    sides: dict[str, object] = {}
+    for role, p, s in (("upper", c.upper, c.upper_side), ("lower", c.lower, c.lower_side)):
+        side: dict[str, object] = {"member": p.id}
+        if s.at is not None and s.length is not None:
+            side["at"] = metres(s.at)
+            side["length"] = metres(s.length)
+        sides[role] = side
+    entry: dict[str, object] = {"id": c.id, **sides}
+    if c.width is not None:
+        entry["width"] = metres(c.width)
+    typical = _typical(c)
+    if typical:
+        entry["typical"] = list(typical)
+    lengths = ", ".join(
+        f"{s.length * 1000:.0f} mm along {p.id}"
+        for p, s in ((c.upper, c.upper_side), (c.lower, c.lower_side))
+        if s.length is not None
+    )
+    entry["note"] = f"found from the layout: {c.upper.id} on {c.lower.id}" + (f", {lengths}" if lengths else "")
+    return synth(entry, c.upper.source, "")
+
+
+def _typical(c: Found) -> tuple[str, ...]:
+    """A run's bearings share labels a typical claim can name: the run's, and the run's on its support."""
+    if not c.upper.typical and not c.lower.typical:
+        return ()
+    upper = c.upper.typical[0] if c.upper.typical else c.upper.id
+    lower = c.lower.typical[0] if c.lower.typical else c.lower.id
+    return ((upper,) if c.upper.typical else ()) + (f"{upper} on {lower}",)
+
+
+# ---------------------------------------------------------------- writing the explicit model
+
+_PLAIN = re.compile(r"^[A-Za-z0-9_][A-Za-z0-9_ .\-/+()'*]*$")
+
+
+@lru_cache(maxsize=65536)
+def _plain_ok(text: str) -> bool:
+    if not _PLAIN.match(text) or text != text.strip() or "  " in text:
+        return False
+    try:
+        return yaml.safe_load(text) == text
+    except yaml.YAMLError:
+        return False
+
+
+def flow(node: Node) -> str:
+    """A node as one line of YAML flow style, reading back to the same values and text."""
+    value = node.value
+    if isinstance(value, dict):
+        return "{" + ", ".join(f"{_key(k)}: {flow(v)}" for k, v in value.items()) + "}"
+    if isinstance(value, list):
+        return "[" + ", ".join(flow(v) for v in value) + "]"
+    if value is None:
+        return "null"
+    if isinstance(value, str):
+        return value if _plain_ok(value) else json.dumps(value, ensure_ascii=False)
+    return node.raw or str(value)
+
+
+def _key(key: str) -> str:
+    return key if _plain_ok(key) else json.dumps(key, ensure_ascii=False)
+
+
+def explicit_model_text(root: Node, sections: Sections, source: str) -> str:
+    """The model with its layout expanded, as a model file of the explicit format."""
+    top = root.value
+    lines = [
+        f"# The explicit model of {source}, written by bearing-audit expand.",
+        "# Every member, bearing and load the layout placed, found or shared is written out, each after",
+        "# a comment saying where it came from; reviewing this file gives the same outputs as the layout.",
+    ]
+    for key in ("project", "materials"):
+        if key in top:
+            lines.append(f"{key}:")
+            lines += [f"  {_key(k)}: {flow(v)}" for k, v in top[key].value.items()]
+    if sections.frame is not None:
+        lines.append("layout:  # levels and grids only, for the plans; everything else is written out below")
+        lines += [f"  {_key(k)}: {flow(v)}" for k, v in sections.frame.value.items()]
+    for key, items in (("members", sections.members), ("bearings", sections.bearings), ("loads", sections.loads)):
+        lines.append(f"{key}:" if items else f"{key}: []")
+        for item in items:
+            where = sections.origin.get(id(item))
+            if where:
+                lines.append(f"  # {where}")
+            lines.append(f"  - {flow(item)}")
+    return "\n".join(lines) + "\n"
+
+
+def explicit_model_file(path: Path, rules_dirs: tuple[Path, ...] = (), rule_pack: str | None = None) -> str:
+    """Read and check a model (every error it would give a review), then write it out explicit."""
+    from audit.inputs.read_model import build_model
+
+    root = read_yaml_file(path)
+    build_model(root, str(path), rules_dirs, rule_pack)
+    errors = ErrorCollector()
+    sections = model_sections(root.value, root, errors)
+    errors.raise_if_any()
+    return explicit_model_text(root, sections, path.name)

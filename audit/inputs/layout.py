@@ -1,0 +1,533 @@
+"""A framing layout, read: levels, grid lines, and members placed by their ends.
+
+The reviewer describes the framing as the drawings show it; this module places every member,
+run of repeated members, post and wall in plan and in elevation. ``layout_contacts`` then
+finds where they bear on each other and ``area_loads`` shares floor and roof loads among
+them; ``expand_layout`` joins the three into the entries of the explicit model (members,
+bearings, loads), which the model reader reads as if the reviewer had typed them.
+
+Conventions (in the README): grid lines named under ``x`` stand at constant x, those under
+``y`` at constant y; a point is a grid intersection ``A/1``, coordinates ``[x, y]``, or
+``{grid: A/1, dx: .., dy: ..}``. A horizontal member's top is at its level, less its ``drop``;
+its ends are its ``from`` and ``to`` points, moved out by ``extend``. Posts and walls stand on
+their ``base`` level and reach up to the underside of what is over them, at most their ``top``
+level.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+from audit.core.errors import ErrorCollector, InputError, Location
+from audit.core.located_yaml import Node, node_text
+from audit.core.units import parse_quantity
+from audit.engine.plan_geometry import Axis, Point, Polygon, box, strip
+from audit.inputs.fields import FieldReader, describe_value, did_you_mean, list_items
+
+LAYOUT_KEYS = {"levels", "grids", "members", "runs", "posts", "walls", "areas"}
+# Fields a placed member passes to the member reader as written, so their errors point at the layout line.
+PASSED = ("material", "b", "d", "service", "KT", "support", "bears_on", "plies", "ply_thickness", "label", "studs")
+MEMBER_KEYS = {"id", "from", "to", "level", "drop", "extend", "free_ends", *PASSED}
+RUN_KEYS = {"id", "prefix", "between", "span", "spacing", "first", "level", "drop", "extend", "typical", *PASSED} - {
+    "support",
+    "bears_on",
+    "studs",
+}
+POST_KEYS = {"id", "at", "base", "top", "d_along", "material", "b", "d", "service", "KT", "label"}
+WALL_KEYS = {"id", "from", "to", "base", "top", "extend", *PASSED} - {"support", "bears_on"}
+ROUND = 6  # decimals of a metre (a micrometre) for every placed coordinate: the explicit model reads back exactly
+
+
+def metres(value: float) -> str:
+    """A length as the explicit model writes it: metres, shortest text that reads back to the same float."""
+    return f"{round(value, ROUND) + 0.0!r} m"
+
+
+@dataclass(frozen=True)
+class Grids:
+    x: dict[str, float]  # name -> x of a line of constant x
+    y: dict[str, float]
+
+    def line(self, name: str) -> tuple[str, float] | None:
+        if name in self.x:
+            return "x", self.x[name]
+        if name in self.y:
+            return "y", self.y[name]
+        return None
+
+
+@dataclass(frozen=True)
+class Placed:
+    """A member placed in space, with the entry the model reader will read for it."""
+
+    id: str
+    kind: str  # member | run | post | wall
+    fields: dict[str, Node]  # the member's own fields, as written, for the model reader
+    b: float
+    d: float
+    level: str
+    loc: Location
+    source: Node
+    origin: str  # how it was placed, for the explicit model's note
+    axis: Axis | None = None  # horizontal members
+    point: Point | None = None  # posts
+    top: float | None = None  # elevation of the top face (m); posts and walls: found from what is over them
+    base: float | None = None  # posts and walls: elevation of the foot
+    ceiling: float | None = None  # posts and walls: the elevation of their top level, the most they reach
+    drop: float = 0.0
+    d_along: str = "x"  # posts: which plan direction the post's d lies along
+    free_ends: frozenset[str] = frozenset()
+    typical: tuple[str, ...] = ()
+    group: str = ""  # the run a member belongs to
+    footprint: Polygon = field(default=(), compare=False)
+
+    @property
+    def vertical(self) -> bool:
+        return self.point is not None
+
+    @property
+    def bottom(self) -> float:
+        if self.vertical:
+            return self.base if self.base is not None else 0.0
+        return (self.top if self.top is not None else 0.0) - self.d
+
+
+@dataclass(frozen=True)
+class Layout:
+    levels: dict[str, float]
+    grids: Grids
+    placed: tuple[Placed, ...]
+    areas: Node | None  # read by area_loads, which knows the placed members
+    node: Node
+
+
+def synth(value: object, at: Node, key: str) -> Node:
+    """A node the layout made, located at the layout entry it came from."""
+    path = f"{at.key}.{key}" if key else at.key
+    if isinstance(value, Node):
+        return value
+    if isinstance(value, dict):
+        return Node({k: synth(v, at, k) for k, v in value.items()}, at.file, at.line, at.column, path)
+    if isinstance(value, list):
+        return Node([synth(v, at, key) for v in value], at.file, at.line, at.column, path)
+    return Node(value, at.file, at.line, at.column, path)
+
+
+# ---------------------------------------------------------------- reading
+
+
+def read_layout(node: Node, errors: ErrorCollector) -> Layout | None:
+    f = FieldReader(node, LAYOUT_KEYS, errors, "layout")
+    if not f.ok:
+        return None
+    levels = _read_levels(f, errors)
+    grids = _read_grids(f, errors)
+    if levels is None or grids is None:
+        return None
+    reader = Placer(levels, grids, errors)
+    placed: list[Placed] = []
+    for key, read in (
+        ("members", reader.member),
+        ("runs", reader.run),
+        ("posts", reader.post),
+        ("walls", reader.wall),
+    ):
+        if f.has(key):
+            for item in list_items(f.map[key], f"layout {key}", errors):
+                placed += read(item)
+    seen: dict[str, Location] = {}
+    for p in placed:
+        if p.id in seen:
+            errors.add(f"duplicate member id '{p.id}' in the layout (also at {seen[p.id]})", p.loc)
+        seen.setdefault(p.id, p.loc)
+    return Layout(levels, grids, tuple(placed), f.map.get("areas"), node)
+
+
+def _read_levels(f: FieldReader, errors: ErrorCollector) -> dict[str, float] | None:
+    if not f.has("levels"):
+        errors.add("missing field 'levels' (e.g. {L1: 0 m, L2: 3.2 m})", f.node.child_loc("levels"))
+        return None
+    node = f.map["levels"]
+    if not isinstance(node.value, dict) or not node.value:
+        errors.add(f"levels must map a level name to its elevation, got {describe_value(node.value)}", node.loc)
+        return None
+    out: dict[str, float] = {}
+    for name, item in node.value.items():
+        try:
+            out[str(name)] = parse_quantity(item.value, "length", item.loc)
+        except InputError as exc:
+            errors.extend(exc)
+    return out if len(out) == len(node.value) else None
+
+
+def _read_grids(f: FieldReader, errors: ErrorCollector) -> Grids | None:
+    lines: dict[str, dict[str, float]] = {"x": {}, "y": {}}
+    if not f.has("grids"):
+        return Grids({}, {})
+    g = FieldReader(f.map["grids"], {"x", "y"}, errors, "layout grids")
+    ok = g.ok
+    for axis in ("x", "y"):
+        if not g.has(axis):
+            continue
+        node = g.map[axis]
+        if not isinstance(node.value, dict):
+            errors.add(f"grids.{axis} must map a line name to its {axis} coordinate, e.g. {{A: 0 m}}", node.loc)
+            ok = False
+            continue
+        for name, item in node.value.items():
+            try:
+                lines[axis][str(name)] = parse_quantity(item.value, "length", item.loc)
+            except InputError as exc:
+                errors.extend(exc)
+                ok = False
+    both = lines["x"].keys() & lines["y"].keys()
+    if both:
+        errors.add(f"grid line '{sorted(both)[0]}' is named under both x and y", f.map["grids"].loc)
+        ok = False
+    for axis in ("x", "y"):
+        for name in lines[axis]:
+            if "/" in name:
+                errors.add(f"grid line name '{name}' holds '/', which joins two lines into a point", f.map["grids"].loc)
+                ok = False
+    return Grids(lines["x"], lines["y"]) if ok else None
+
+
+class Placer:
+    """Reads layout entries into placed members; every error located, none fatal on its own."""
+
+    def __init__(self, levels: dict[str, float], grids: Grids, errors: ErrorCollector) -> None:
+        self.levels = levels
+        self.grids = grids
+        self.errors = errors
+
+    # ---- values
+
+    def point(self, node: Node) -> Point | None:
+        """A grid intersection 'A/1', coordinates [x, y], or {grid: A/1, dx: .., dy: ..}."""
+        value = node.value
+        if isinstance(value, list):
+            if len(value) != 2:
+                self.errors.add("coordinates must be [x, y], two lengths", node.loc)
+                return None
+            try:
+                return (
+                    parse_quantity(value[0].value, "length", value[0].loc),
+                    parse_quantity(value[1].value, "length", value[1].loc),
+                )
+            except InputError as exc:
+                self.errors.extend(exc)
+                return None
+        if isinstance(value, dict):
+            f = FieldReader(node, {"grid", "dx", "dy"}, self.errors, "point")
+            base = self.point(f.map["grid"]) if f.has("grid") else None
+            if not f.has("grid"):
+                self.errors.add("missing field 'grid' (the grid point the offset is from)", node.child_loc("grid"))
+            dx = f.quantity("dx", "length", required=False) or 0.0
+            dy = f.quantity("dy", "length", required=False) or 0.0
+            return None if base is None or not f.ok else (base[0] + dx, base[1] + dy)
+        if value is None or isinstance(value, (dict, list)):
+            self.errors.add(f"expected a point such as A/1 or [3 m, 4 m], got {describe_value(value)}", node.loc)
+            return None
+        return self.grid_point(node_text(node), node.loc)
+
+    def grid_point(self, text: str, loc: Location) -> Point | None:
+        names = [part.strip() for part in text.split("/")]
+        if len(names) != 2:
+            self.errors.add(f"'{text}' is not a grid point: name two grid lines, e.g. A/1", loc)
+            return None
+        found = {}
+        for name in names:
+            line = self.grids.line(name)
+            if line is None:
+                known = [*self.grids.x, *self.grids.y]
+                self.errors.add(f"unknown grid line '{name}'{did_you_mean(name, known)}", loc)
+                return None
+            found[line[0]] = line[1]
+        if len(found) != 2:
+            self.errors.add(f"grid lines {names[0]} and {names[1]} are parallel: they do not meet at a point", loc)
+            return None
+        return found["x"], found["y"]
+
+    def line(self, node: Node) -> tuple[str, float, str] | None:
+        """A grid line by name, or {x: ..} / {y: ..}: (axis, coordinate, name)."""
+        if isinstance(node.value, dict):
+            f = FieldReader(node, {"x", "y"}, self.errors, "line")
+            if len(f.map) != 1:
+                self.errors.add("give a line as a grid name or one of {x: ..} or {y: ..}", node.loc)
+                return None
+            axis = next(iter(f.map))
+            value = f.quantity(axis, "length")
+            return None if value is None else (axis, value, f"{axis}={value:g}")
+        if node.value is None or isinstance(node.value, list):
+            self.errors.add(f"expected a grid line name, got {describe_value(node.value)}", node.loc)
+            return None
+        name = node_text(node)
+        line = self.grids.line(name)
+        if line is None:
+            known = [*self.grids.x, *self.grids.y]
+            self.errors.add(f"unknown grid line '{name}'{did_you_mean(name, known)}", node.loc)
+            return None
+        return line[0], line[1], name
+
+    def level(self, f: FieldReader, key: str) -> tuple[str, float] | None:
+        name = f.text(key)
+        if not name:
+            return None
+        if name not in self.levels:
+            self.errors.add(f"unknown level '{name}'{did_you_mean(name, self.levels)}", f.loc(key))
+            f.ok = False
+            return None
+        return name, self.levels[name]
+
+    def ends_extension(self, f: FieldReader) -> tuple[float, float]:
+        """``extend``: one length for both ends, or [start, end]."""
+        if not f.has("extend"):
+            return 0.0, 0.0
+        node = f.map["extend"]
+        items = node.value if isinstance(node.value, list) else [node, node]
+        if len(items) != 2:
+            self.errors.add("extend is one length, or [start, end]", node.loc)
+            f.ok = False
+            return 0.0, 0.0
+        out = []
+        for item in items:
+            try:
+                value = parse_quantity(item.value, "length", item.loc)
+            except InputError as exc:
+                self.errors.extend(exc)
+                f.ok = False
+                return 0.0, 0.0
+            out.append(value)
+        return out[0], out[1]
+
+    def section(self, f: FieldReader) -> tuple[float, float] | None:
+        b = f.quantity("b", "length", positive=True)
+        d = f.quantity("d", "length", positive=True)
+        return None if b is None or d is None else (b, d)
+
+    def horizontal_axis(self, f: FieldReader, start: Point, end: Point, what: str) -> Axis | None:
+        if math.hypot(end[0] - start[0], end[1] - start[1]) < 1e-6:
+            self.errors.add(f"{what} starts and ends at the same point ({start[0]:g} m, {start[1]:g} m)", f.node.loc)
+            return None
+        e0, e1 = self.ends_extension(f)
+        axis = Axis.between(start, end)
+        moved = Axis.between(axis.point(-e0), axis.point(axis.length + e1))
+        if moved.length <= 1e-6 or moved.ux * axis.ux + moved.uy * axis.uy < 0:
+            self.errors.add(f"{what} is shortened to nothing by its negative extend", f.loc("extend"))
+            return None
+        return moved
+
+    def passed(self, f: FieldReader, keys: tuple[str, ...] = PASSED) -> dict[str, Node]:
+        return {k: f.map[k] for k in keys if k in f.map}
+
+    # ---- entries
+
+    def member(self, item: Node) -> list[Placed]:
+        f = FieldReader(item, MEMBER_KEYS, self.errors, "layout member")
+        member_id = f.text("id", limit=120)
+        level = self.level(f, "level")
+        section = self.section(f)
+        start = self.point(f.map["from"]) if f.has("from") else None
+        end = self.point(f.map["to"]) if f.has("to") else None
+        for key in ("from", "to"):
+            if not f.has(key):
+                self.errors.add(f"missing field '{key}'", item.child_loc(key))
+        drop = f.quantity("drop", "length", required=False) or 0.0
+        free = self.free_ends(f)
+        if not f.ok or level is None or section is None or start is None or end is None or free is None:
+            return []
+        axis = self.horizontal_axis(f, start, end, f"member '{member_id}'")
+        if axis is None:
+            return []
+        b, d = section
+        return [
+            Placed(
+                member_id,
+                "member",
+                self.passed(f),
+                b,
+                d,
+                level[0],
+                item.loc,
+                item,
+                f"placed from layout member {member_id}",
+                axis=axis,
+                top=level[1] - drop,
+                drop=drop,
+                free_ends=free,
+                footprint=strip(axis, b),
+            )
+        ]
+
+    def free_ends(self, f: FieldReader) -> frozenset[str] | None:
+        if not f.has("free_ends"):
+            return frozenset()
+        node = f.map["free_ends"]
+        items = node.value if isinstance(node.value, list) else [node]
+        out = set()
+        for it in items:
+            text = node_text(it) if not isinstance(it.value, (dict, list)) else ""
+            if text not in ("start", "end"):
+                self.errors.add("free_ends lists the cantilevered ends: start, end or both", it.loc)
+                return None
+            out.add(text)
+        return frozenset(out)
+
+    def run(self, item: Node) -> list[Placed]:
+        f = FieldReader(item, RUN_KEYS, self.errors, "layout run")
+        run_id = f.text("id", limit=60)
+        level = self.level(f, "level")
+        section = self.section(f)
+        spacing = f.quantity("spacing", "length", positive=True)
+        first = f.quantity("first", "length", required=False) or 0.0
+        drop = f.quantity("drop", "length", required=False) or 0.0
+        prefix = f.text("prefix", required=False, limit=60)
+        typical = f.text("typical", required=False, limit=100) or run_id
+        lines = {}
+        for key in ("between", "span"):
+            node = f.map.get(key)
+            if node is None:
+                self.errors.add(f"missing field '{key}' (two grid lines, e.g. [1, 3])", item.child_loc(key))
+                f.ok = False
+                continue
+            if not isinstance(node.value, list) or len(node.value) != 2:
+                self.errors.add(f"{key} must be two grid lines, e.g. [A, B]", node.loc)
+                f.ok = False
+                continue
+            pair = [self.line(n) for n in node.value]
+            if pair[0] is None or pair[1] is None:
+                f.ok = False
+                continue
+            if pair[0][0] != pair[1][0]:
+                self.errors.add(f"the two lines of {key} must be parallel (both x or both y lines)", node.loc)
+                f.ok = False
+                continue
+            lines[key] = (pair[0], pair[1])
+        if not f.ok or level is None or section is None or spacing is None or len(lines) != 2:
+            return []
+        (a0, a1), (s0, s1) = lines["between"], lines["span"]
+        if a0[0] == s0[0]:
+            self.errors.add("a run's 'between' and 'span' lines must cross (x lines and y lines)", item.loc)
+            return []
+        b, d = section
+        if spacing < b - 1e-9:
+            self.errors.add(f"spacing {spacing * 1000:.0f} mm is less than b = {b * 1000:.0f} mm", f.loc("spacing"))
+            return []
+        lo, hi = a0[1], a1[1]
+        sign, total = (1.0 if hi >= lo else -1.0), abs(hi - lo)
+        if not 0.0 <= first <= total + 1e-9:
+            self.errors.add("first must lie between the run's two lines", f.loc("first"))
+            return []
+        if (total - first) / spacing > 20000:
+            self.errors.add(f"run '{run_id}' would place more than 20000 members", item.loc)
+            return []
+        offsets = [first + k * spacing for k in range(math.floor((total - first) / spacing + 1e-9) + 1)]
+        if total - offsets[-1] >= b - 1e-9:
+            offsets.append(total)  # the last member of the run, on its far line
+        centres = [lo + sign * o for o in offsets]
+        out = []
+        name = prefix if prefix else f"{run_id}-{s0[2]}-{s1[2]}-"
+        for n, c in enumerate(centres, start=1):
+            if a0[0] == "x":
+                start, end = (c, s0[1]), (c, s1[1])
+            else:
+                start, end = (s0[1], c), (s1[1], c)
+            axis = self.horizontal_axis(f, start, end, f"run '{run_id}'")
+            if axis is None:
+                return []
+            member_id = f"{name}{n}"
+            out.append(
+                Placed(
+                    member_id,
+                    "run",
+                    self.passed(f, tuple(k for k in PASSED if k in RUN_KEYS)),
+                    b,
+                    d,
+                    level[0],
+                    item.loc,
+                    item,
+                    f"member {n} of {len(centres)} of layout run {run_id}, at {a0[0]} = {round(c, ROUND):g} m",
+                    axis=axis,
+                    top=level[1] - drop,
+                    drop=drop,
+                    typical=(typical,),
+                    group=run_id,
+                    footprint=strip(axis, b),
+                )
+            )
+        return out
+
+    def post(self, item: Node) -> list[Placed]:
+        f = FieldReader(item, POST_KEYS, self.errors, "layout post")
+        post_id = f.text("id", limit=120)
+        section = self.section(f)
+        at = self.point(f.map["at"]) if f.has("at") else None
+        if not f.has("at"):
+            self.errors.add("missing field 'at'", item.child_loc("at"))
+        base, top = self.level(f, "base"), self.level(f, "top")
+        d_along = f.choice("d_along", ("x", "y"), required=False, default="x")
+        if not f.ok or section is None or at is None or base is None or top is None:
+            return []
+        if top[1] <= base[1]:
+            self.errors.add(f"post '{post_id}': top level {top[0]} is not above base level {base[0]}", f.loc("top"))
+            return []
+        b, d = section
+        footprint = box(at, d, b) if d_along == "x" else box(at, b, d)
+        return [
+            Placed(
+                post_id,
+                "post",
+                self.passed(f, ("material", "b", "d", "service", "KT", "label")),
+                b,
+                d,
+                base[0],
+                item.loc,
+                item,
+                f"placed from layout post {post_id}",
+                point=at,
+                base=base[1],
+                ceiling=top[1],
+                d_along=d_along,
+                footprint=footprint,
+            )
+        ]
+
+    def wall(self, item: Node) -> list[Placed]:
+        f = FieldReader(item, WALL_KEYS, self.errors, "layout wall")
+        wall_id = f.text("id", limit=120)
+        section = self.section(f)
+        start = self.point(f.map["from"]) if f.has("from") else None
+        end = self.point(f.map["to"]) if f.has("to") else None
+        for key in ("from", "to"):
+            if not f.has(key):
+                self.errors.add(f"missing field '{key}'", item.child_loc(key))
+        base, top = self.level(f, "base"), self.level(f, "top")
+        if not f.ok or section is None or start is None or end is None or base is None or top is None:
+            return []
+        if top[1] <= base[1]:
+            self.errors.add(f"wall '{wall_id}': top level {top[0]} is not above base level {base[0]}", f.loc("top"))
+            return []
+        axis = self.horizontal_axis(f, start, end, f"wall '{wall_id}'")
+        if axis is None:
+            return []
+        b, d = section
+        fields = self.passed(f)
+        fields["support"] = synth("studs" if f.has("studs") else "continuous", item, "support")
+        return [
+            Placed(
+                wall_id,
+                "wall",
+                fields,
+                b,
+                d,
+                base[0],
+                item.loc,
+                item,
+                f"top plate of layout wall {wall_id}",
+                axis=axis,
+                base=base[1],
+                ceiling=top[1],
+                footprint=strip(axis, b),
+            )
+        ]
