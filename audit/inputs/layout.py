@@ -29,13 +29,13 @@ LAYOUT_KEYS = {"levels", "grids", "members", "runs", "posts", "walls", "areas"}
 # Fields a placed member passes to the member reader as written, so their errors point at the layout line.
 PASSED = ("material", "b", "d", "service", "KT", "support", "bears_on", "plies", "ply_thickness", "label", "studs")
 MEMBER_KEYS = {"id", "from", "to", "level", "drop", "extend", "free_ends", *PASSED}
-RUN_KEYS = {"id", "prefix", "between", "span", "spacing", "first", "level", "drop", "extend", "typical", *PASSED} - {
+RUN_KEYS = {"id", "prefix", "between", "span", "spacing", "first", "last", "level", "drop", "extend", "typical", *PASSED} - {
     "support",
     "bears_on",
     "studs",
 }
-POST_KEYS = {"id", "at", "base", "top", "d_along", "material", "b", "d", "service", "KT", "label"}
-WALL_KEYS = {"id", "from", "to", "base", "top", "extend", *PASSED} - {"support", "bears_on"}
+POST_KEYS = {"id", "at", "base", "drop", "top", "d_along", "material", "b", "d", "service", "KT", "label"}
+WALL_KEYS = {"id", "from", "to", "base", "drop", "top", "extend", *PASSED} - {"support", "bears_on"}
 ROUND = 6  # decimals of a metre (a micrometre) for every placed coordinate: the explicit model reads back exactly
 
 
@@ -381,6 +381,7 @@ class Placer:
         section = self.section(f)
         spacing = f.quantity("spacing", "length", positive=True)
         first = f.quantity("first", "length", required=False) or 0.0
+        last = f.quantity("last", "length", required=False) or 0.0
         drop = f.quantity("drop", "length", required=False) or 0.0
         prefix = f.text("prefix", required=False, limit=60)
         typical = f.text("typical", required=False, limit=100) or run_id
@@ -416,15 +417,16 @@ class Placer:
             return []
         lo, hi = a0[1], a1[1]
         sign, total = (1.0 if hi >= lo else -1.0), abs(hi - lo)
-        if not 0.0 <= first <= total + 1e-9:
-            self.errors.add("first must lie between the run's two lines", f.loc("first"))
+        reach = total - last  # the offset of the run's last member
+        if not 0.0 <= first <= reach + 1e-9 or last < 0.0:
+            self.errors.add("first and last must lie between the run's two lines, first before last", item.loc)
             return []
-        if (total - first) / spacing > 20000:
+        if (reach - first) / spacing > 20000:
             self.errors.add(f"run '{run_id}' would place more than 20000 members", item.loc)
             return []
-        offsets = [first + k * spacing for k in range(math.floor((total - first) / spacing + 1e-9) + 1)]
-        if total - offsets[-1] >= b - 1e-9:
-            offsets.append(total)  # the last member of the run, on its far line
+        offsets = [first + k * spacing for k in range(math.floor((reach - first) / spacing + 1e-9) + 1)]
+        if reach - offsets[-1] >= b - 1e-9:
+            offsets.append(reach)  # the last member of the run, ``last`` short of its far line
         centres = [lo + sign * o for o in offsets]
         out = []
         name = prefix if prefix else f"{run_id}-{s0[2]}-{s1[2]}-"
@@ -467,6 +469,7 @@ class Placer:
             self.errors.add("missing field 'at'", item.child_loc("at"))
         base, top = self.level(f, "base"), self.level(f, "top")
         d_along = f.choice("d_along", ("x", "y"), required=False, default="x")
+        drop = f.quantity("drop", "length", required=False) or 0.0
         if not f.ok or section is None or at is None or base is None or top is None:
             return []
         if top[1] <= base[1]:
@@ -486,7 +489,8 @@ class Placer:
                 item,
                 f"placed from layout post {post_id}",
                 point=at,
-                base=base[1],
+                base=base[1] - drop,
+                drop=drop,
                 ceiling=top[1],
                 d_along=d_along,
                 footprint=footprint,
@@ -503,6 +507,7 @@ class Placer:
             if not f.has(key):
                 self.errors.add(f"missing field '{key}'", item.child_loc(key))
         base, top = self.level(f, "base"), self.level(f, "top")
+        drop = f.quantity("drop", "length", required=False) or 0.0
         if not f.ok or section is None or start is None or end is None or base is None or top is None:
             return []
         if top[1] <= base[1]:
@@ -526,7 +531,8 @@ class Placer:
                 item,
                 f"top plate of layout wall {wall_id}",
                 axis=axis,
-                base=base[1],
+                base=base[1] - drop,
+                drop=drop,
                 ceiling=top[1],
                 footprint=strip(axis, b),
             )
