@@ -29,7 +29,20 @@ LAYOUT_KEYS = {"levels", "grids", "members", "runs", "posts", "walls", "areas"}
 # Fields a placed member passes to the member reader as written, so their errors point at the layout line.
 PASSED = ("material", "b", "d", "service", "KT", "support", "bears_on", "plies", "ply_thickness", "label", "studs")
 MEMBER_KEYS = {"id", "from", "to", "level", "drop", "extend", "free_ends", *PASSED}
-RUN_KEYS = {"id", "prefix", "between", "span", "spacing", "first", "last", "level", "drop", "extend", "typical", *PASSED} - {
+RUN_KEYS = {
+    "id",
+    "prefix",
+    "between",
+    "span",
+    "spacing",
+    "first",
+    "last",
+    "level",
+    "drop",
+    "extend",
+    "typical",
+    *PASSED,
+} - {
     "support",
     "bears_on",
     "studs",
