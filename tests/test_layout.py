@@ -328,3 +328,18 @@ def test_expanding_a_broken_layout_writes_nothing_and_exits_2(tmp_path, write_mo
     result = run_cli("expand", write_model(data), "-o", out)
     assert result.exit_code == 2 and not out.exists()
     assert "unknown grid line 'Z'" in result.output
+
+
+def test_committed_layout_demo_outputs_are_byte_identical_to_a_fresh_run(tmp_path, run_cli):
+    model, claims = LAYOUT_DEMO / "model.yaml", LAYOUT_DEMO / "claims.yaml"
+    assert run_cli("expand", model, "-o", tmp_path / "layout-demo-explicit.yaml").exit_code == 0
+    files = [
+        ("--memo", "layout-demo-memo.html"),
+        ("--json", "layout-demo-findings.json"),
+        ("--csv", "layout-demo-findings.csv"),
+    ]
+    result = run_cli("review", model, "--claims", claims, *[v for o, n in files for v in (o, tmp_path / n)])
+    assert result.exit_code == 1
+    for name in ["layout-demo-explicit.yaml", *(n for _, n in files)]:
+        fresh, committed = (tmp_path / name).read_bytes(), (ROOT / "reports" / name).read_bytes()
+        assert fresh == committed, f"reports/{name} is stale: run the layout demo commands in the README"

@@ -202,11 +202,11 @@ def _key(key: str) -> str:
     return key if _plain_ok(key) else json.dumps(key, ensure_ascii=False)
 
 
-def explicit_model_text(root: Node, sections: Sections, source: str) -> str:
+def explicit_model_text(root: Node, sections: Sections, source: str, shown_as: str = "") -> str:
     """The model with its layout expanded, as a model file of the explicit format."""
     top = root.value
     lines = [
-        f"# The explicit model of {source}, written by bearing-audit expand.",
+        f"# The explicit model of {shown_as or source}, written by bearing-audit expand.",
         "# Every member, bearing and load the layout placed, found or shared is written out, each after",
         "# a comment saying where it came from; reviewing this file gives the same outputs as the layout.",
     ]
@@ -222,6 +222,8 @@ def explicit_model_text(root: Node, sections: Sections, source: str) -> str:
         for item in items:
             where = sections.origin.get(id(item))
             if where:
+                if shown_as and where.startswith(source):
+                    where = shown_as + where[len(source) :]  # the file's name, wherever it was read from
                 lines.append(f"  # {where}")
             lines.append(f"  - {flow(item)}")
     return "\n".join(lines) + "\n"
@@ -236,4 +238,4 @@ def explicit_model_file(path: Path, rules_dirs: tuple[Path, ...] = (), rule_pack
     errors = ErrorCollector()
     sections = model_sections(root.value, root, errors)
     errors.raise_if_any()
-    return explicit_model_text(root, sections, path.name)
+    return explicit_model_text(root, sections, str(path), path.name)

@@ -539,7 +539,7 @@ class Placer:
                 fields,
                 b,
                 d,
-                base[0],
+                top[0],  # the plate is drawn and named with the level it carries
                 item.loc,
                 item,
                 f"top plate of layout wall {wall_id}",

@@ -248,6 +248,7 @@ def _derivations(review: Review, status_of: dict[str, str], every: bool = False)
 def build_view(
     review: Review, reconciliation: Reconciliation | None, claims: tuple[Claim, ...], options: MemoOptions
 ) -> dict[str, Any]:
+    from audit.report.plans import SHAPES, level_plans
     from audit.report.sketch import MAX_CHECKS_DRAWN, member_sketches
 
     p = review.model.project
@@ -282,6 +283,8 @@ def build_view(
         "exempt": review.checklist.exempt,
         "sketches": member_sketches(review, status_of, STATUS_WORDS, sketch_limit),
         "sketch_limit": sketch_limit,
+        "plans": level_plans(review, status_of, list(comments)),
+        "plan_legend": [(shape, words) for shape, words in SHAPES.values() if words],
         "max_checks_drawn": MAX_CHECKS_DRAWN,
         "derivations": derivations,
         "all_derivations": all_derivations,
