@@ -23,3 +23,16 @@ def test_pattern_benchmark_completes_and_finds_continuous_members(capsys):
     out = capsys.readouterr().out
     row = next(line for line in out.splitlines() if line.startswith("| with L and S patterns"))
     assert int(row.rstrip("|").split("|")[-1].strip().replace(",", "")) > 0  # envelopes were made
+
+
+def test_layout_benchmark_completes_and_finds_every_joist_bearing(capsys):
+    from tests.benchmarks import bench_layout
+
+    assert bench_layout.main(["--bays", "2", "3", "--repeat", "1", "--no-report"]) == 0
+    out = capsys.readouterr().out
+    rows = [line for line in out.splitlines() if line.startswith("| 2x2") or line.startswith("| 3x3")]
+    assert len(rows) == 2
+    # 2x2 bays: two runs of 10 joists (0.2 to 3.8 m at 400 mm), two of 11 (0.1 to 3.7 m, and one at 3.9 m),
+    # 2 bearings each; and 3 beams on 3 posts each
+    bearings = int(rows[0].split("|")[3].strip().replace(",", ""))
+    assert bearings == (2 * 10 + 2 * 11) * 2 + 3 * 3

@@ -148,7 +148,22 @@ def _carriers(item: Node, read, placed: tuple[Placed, ...], errors: ErrorCollect
     return sorted(out, key=lambda p: (p.axis.start[1] if span == "x" else p.axis.start[0]) if p.axis else 0.0)
 
 
+def _span_range(p: Placed, span: str) -> tuple[float, float]:
+    axis = p.axis
+    assert axis is not None
+    end = axis.point(axis.length)
+    a, b = (axis.start[0], end[0]) if span == "x" else (axis.start[1], end[1])
+    return min(a, b), max(a, b)
+
+
+def _cross(p: Placed, span: str) -> float:
+    assert p.axis is not None
+    return p.axis.start[1] if span == "x" else p.axis.start[0]
+
+
 def _shares(item: Node, read, placed: tuple[Placed, ...], errors: ErrorCollector, warnings: list[str]) -> list[Share]:
+    """Slice the area across its span at every member end and opening edge; in each slice, the
+    members that run through it share it by tributary width (half way to the next on each side)."""
     area_id, _, span, rect, openings, cases, _ = read
     x0, y0, x1, y1 = rect
     (s_lo, s_hi), (c_lo, c_hi) = ((x0, x1), (y0, y1)) if span == "x" else ((y0, y1), (x0, x1))
@@ -157,23 +172,58 @@ def _shares(item: Node, read, placed: tuple[Placed, ...], errors: ErrorCollector
     if not carriers:
         errors.add(f"area '{area_id}': no member spans it the {span} way", item.loc)
         return []
-    cs = [(p.axis.start[1] if span == "x" else p.axis.start[0]) if p.axis else 0.0 for p in carriers]
-    out: list[Share] = []
+    ranges = {p.id: _span_range(p, span) for p in carriers}
+    cuts = {s_lo, s_hi}
+    cuts.update(v for r in ranges.values() for v in r if s_lo < v < s_hi)
+    for o in openings:
+        cuts.update(v for v in ((o[0], o[2]) if span == "x" else (o[1], o[3])) if s_lo < v < s_hi)
+    points = sorted(cuts)
+    pieces: dict[str, list[list[float]]] = {}  # member -> [[s0, s1, width, n, count]]
+    words: dict[str, str] = {}
     taken = 0.0
-    for n, p in enumerate(carriers):
-        left = c_lo if n == 0 else (cs[n - 1] + cs[n]) / 2
-        right = c_hi if n == len(carriers) - 1 else (cs[n] + cs[n + 1]) / 2
-        how = _width_words(n, carriers, left, right, c_lo, c_hi)
-        for start, end, width in _pieces(p, span, (s_lo, s_hi), (left, right), openings):
-            taken += width * (end - start)
-            per_case = _line_loads(cases, width)
-            out.append(Share(p.id, start, end, width, per_case, f"area {area_id}: {how}"))
+    by_cross = sorted(carriers, key=lambda p: _cross(p, span))
+    for s0, s1 in itertools.pairwise(points):
+        mid = (s0 + s1) / 2
+        here = [p for p in by_cross if ranges[p.id][0] <= mid <= ranges[p.id][1]]
+        for n, p in enumerate(here):
+            c = _cross(p, span)
+            left = c_lo if n == 0 else (_cross(here[n - 1], span) + c) / 2
+            right = c_hi if n == len(here) - 1 else (c + _cross(here[n + 1], span)) / 2
+            width = right - left
+            for o in openings:
+                os0, os1, oc0, oc1 = (o[0], o[2], o[1], o[3]) if span == "x" else (o[1], o[3], o[0], o[2])
+                if os0 <= mid <= os1:
+                    width -= max(0.0, min(oc1, right) - max(oc0, left))
+            if width <= 1e-9:
+                continue
+            taken += width * (s1 - s0)
+            words.setdefault(p.id, _width_words(n, here, left, right, c_lo, c_hi))
+            runs = pieces.setdefault(p.id, [])
+            if runs and abs(runs[-1][2] - width) < 1e-9 and abs(runs[-1][1] - s0) < 1e-9:
+                runs[-1][1] = s1
+            else:
+                runs.append([s0, s1, width])
+    out: list[Share] = []
+    for p in carriers:
+        for s0, s1, width in pieces.get(p.id, []):
+            start, end = _along(p, span, s0, s1)
+            out.append(Share(p.id, start, end, width, _line_loads(cases, width), f"area {area_id}: {words[p.id]}"))
     if whole - taken > 1e-6 * max(1.0, whole):
         warnings.append(
             f"{item.loc}: area '{area_id}': {whole - taken:.3f} m2 of its {whole:.3f} m2 reach no member "
             "(the members spanning it stop short of its edges)"
         )
     return out
+
+
+def _along(p: Placed, span: str, s0: float, s1: float) -> tuple[float, float]:
+    """Span coordinates as positions along the member, from its start."""
+    axis = p.axis
+    assert axis is not None
+    u = axis.ux if span == "x" else axis.uy
+    start_s = axis.start[0] if span == "x" else axis.start[1]
+    q0, q1 = sorted(((s0 - start_s) * u, (s1 - start_s) * u))
+    return round(max(q0, 0.0), ROUND), round(min(q1, axis.length), ROUND)
 
 
 def _width_words(n: int, carriers: list[Placed], left: float, right: float, c_lo: float, c_hi: float) -> str:
@@ -184,44 +234,6 @@ def _width_words(n: int, carriers: list[Placed], left: float, right: float, c_lo
         else:
             sides.append(f"to the area's edge at {edge:g} m")
     return f"tributary width {(right - left) * 1000:.0f} mm ({sides[0]}; {sides[1]})"
-
-
-def _pieces(p: Placed, span: str, s_range: tuple[float, float], strip: tuple[float, float], openings):
-    """(start, end, width) along the member: its strip of the area, less the openings it crosses."""
-    axis = p.axis
-    assert axis is not None
-    ends = sorted(
-        (axis.start[0], axis.point(axis.length)[0]) if span == "x" else (axis.start[1], axis.point(axis.length)[1])
-    )
-    a, b = max(ends[0], s_range[0]), min(ends[1], s_range[1])
-    if b - a <= 1e-9:
-        return []
-    cuts = {a, b}
-    for o in openings:
-        os0, os1 = (o[0], o[2]) if span == "x" else (o[1], o[3])
-        cuts.update(v for v in (os0, os1) if a < v < b)
-    points = sorted(cuts)
-    pieces: list[tuple[float, float, float]] = []
-    for s0, s1 in itertools.pairwise(points):
-        mid = (s0 + s1) / 2
-        width = strip[1] - strip[0]
-        for o in openings:
-            os0, os1, oc0, oc1 = (o[0], o[2], o[1], o[3]) if span == "x" else (o[1], o[3], o[0], o[2])
-            if os0 <= mid <= os1:
-                width -= max(0.0, min(oc1, strip[1]) - max(oc0, strip[0]))
-        if width <= 1e-9:
-            continue
-        if pieces and abs(pieces[-1][2] - width) < 1e-9 and abs(pieces[-1][1] - s0) < 1e-9:
-            pieces[-1] = (pieces[-1][0], s1, width)
-        else:
-            pieces.append((s0, s1, width))
-    out = []
-    for s0, s1, width in pieces:
-        u = axis.ux if span == "x" else axis.uy
-        start_s = axis.start[0] if span == "x" else axis.start[1]
-        q0, q1 = sorted(((s0 - start_s) * u, (s1 - start_s) * u))
-        out.append((round(max(q0, 0.0), ROUND), round(min(q1, axis.length), ROUND), width))
-    return out
 
 
 def _line_loads(cases, width: float) -> tuple[tuple[str, float], ...]:
