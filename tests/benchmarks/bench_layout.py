@@ -4,7 +4,8 @@
 
 A synthetic floor of square 4 m bays: a glulam beam along every grid line of constant y, on a
 steel post at every grid point, and in every bay a run of joists at 400 mm spanning between
-beams (staggered bay to bay, so joists meeting over a beam do not clash), one floor area over all. Times the expansion alone (read the layout, reach posts
+beams (staggered bay to bay, so joists meeting over a beam do not clash), one floor area over
+all. Times the expansion alone (read the layout, reach posts
 up, find every contact through the grid index, share the area) against reading the YAML text of
 the layout, at two sizes: the cost per bearing should stay flat (no test of every pair).
 """
