@@ -151,3 +151,27 @@ def boxes_touch(p: Polygon, q: Polygon) -> bool:
     """Whether the bounding boxes overlap: the cheap test before clipping."""
     a, b = bounds(p), bounds(q)
     return a[0] < b[2] and b[0] < a[2] and a[1] < b[3] and b[1] < a[3]
+
+
+def is_upright_box(poly: Polygon) -> bool:
+    """Whether a polygon is a rectangle with sides along x and y (most framing is)."""
+    if len(poly) != 4:
+        return False
+    for i, (x0, y0) in enumerate(poly):
+        x1, y1 = poly[(i + 1) % 4]
+        if abs(x1 - x0) > 1e-12 and abs(y1 - y0) > 1e-12:
+            return False
+    return True
+
+
+def overlap_region(p: Polygon, q: Polygon, pb, qb, both_upright: bool) -> Polygon:
+    """The intersection of two convex footprints given with their bounding boxes; () when apart.
+
+    Two upright rectangles overlap in the rectangle of their bounding boxes' overlap: no clipping.
+    """
+    if not (pb[0] < qb[2] and qb[0] < pb[2] and pb[1] < qb[3] and qb[1] < pb[3]):
+        return ()
+    if both_upright:
+        x0, y0, x1, y1 = max(pb[0], qb[0]), max(pb[1], qb[1]), min(pb[2], qb[2]), min(pb[3], qb[3])
+        return ((x0, y0), (x1, y0), (x1, y1), (x0, y1))
+    return clip(p, q)

@@ -181,10 +181,15 @@ def _shares(item: Node, read, placed: tuple[Placed, ...], errors: ErrorCollector
     pieces: dict[str, list[list[float]]] = {}  # member -> [[s0, s1, width, n, count]]
     words: dict[str, str] = {}
     taken = 0.0
-    by_cross = sorted(carriers, key=lambda p: _cross(p, span))
+    groups: dict[tuple[float, float], list[Placed]] = {}  # members of one run share their span range
+    for p in carriers:
+        groups.setdefault(ranges[p.id], []).append(p)
     for s0, s1 in itertools.pairwise(points):
         mid = (s0 + s1) / 2
-        here = [p for p in by_cross if ranges[p.id][0] <= mid <= ranges[p.id][1]]
+        here = sorted(
+            (p for (lo, hi), members in groups.items() if lo <= mid <= hi for p in members),
+            key=lambda p: _cross(p, span),
+        )
         for n, p in enumerate(here):
             c = _cross(p, span)
             left = c_lo if n == 0 else (_cross(here[n - 1], span) + c) / 2

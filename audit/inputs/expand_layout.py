@@ -9,6 +9,7 @@ from: reviewing that file gives the same outputs as reviewing the layout.
 
 from __future__ import annotations
 
+import gc
 import json
 import re
 from dataclasses import dataclass, field
@@ -21,7 +22,7 @@ from audit.core.errors import ErrorCollector
 from audit.core.located_yaml import Node, node_text, read_yaml_file
 from audit.inputs.area_loads import area_shares, share_entries
 from audit.inputs.layout import Layout, Placed, metres, read_layout, synth
-from audit.inputs.layout_contacts import Found, find_contacts, reach_up
+from audit.inputs.layout_contacts import Found, at_xy, find_contacts, reach_up
 
 
 @dataclass(frozen=True)
@@ -39,6 +40,17 @@ class Sections:
 
 def model_sections(top: dict[str, Node], root: Node, errors: ErrorCollector) -> Sections:
     """The members, bearings and loads of a model, its layout expanded; errors collected."""
+    # as in reading YAML: the entries made are acyclic trees, so the cycle collector is paused
+    enabled = gc.isenabled()
+    gc.disable()
+    try:
+        return _model_sections(top, root, errors)
+    finally:
+        if enabled:
+            gc.enable()
+
+
+def _model_sections(top: dict[str, Node], root: Node, errors: ErrorCollector) -> Sections:
     typed = {key: _items(top.get(key)) for key in ("members", "bearings", "loads")}
     if "layout" not in top:
         return Sections(typed["members"], typed["bearings"], typed["loads"], None)
@@ -61,7 +73,7 @@ def model_sections(top: dict[str, Node], root: Node, errors: ErrorCollector) -> 
         if (c.upper.id, c.lower.id) in stated:
             continue  # a bearing the reviewer gave overrides the one the geometry shows
         node = bearing_entry(c)
-        origin[id(node)] = f"{c.upper.loc}: found where {c.upper.id} meets {c.lower.id} at ({c.x:.3f}, {c.y:.3f})"
+        origin[id(node)] = f"{c.upper.loc}: found where {c.upper.id} meets {c.lower.id} at {at_xy(c.x, c.y)}"
         bearings.append(node)
     loads = []
     for item, area_list in shares:

@@ -116,15 +116,23 @@ class Layout:
 
 
 def synth(value: object, at: Node, key: str) -> Node:
-    """A node the layout made, located at the layout entry it came from."""
+    """A node the layout made, located at the layout entry it came from (nodes given as written stay as they are)."""
+    file, line, column = at.file, at.line, at.column
     path = f"{at.key}.{key}" if key else at.key
-    if isinstance(value, Node):
-        return value
-    if isinstance(value, dict):
-        return Node({k: synth(v, at, k) for k, v in value.items()}, at.file, at.line, at.column, path)
-    if isinstance(value, list):
-        return Node([synth(v, at, key) for v in value], at.file, at.line, at.column, path)
-    return Node(value, at.file, at.line, at.column, path)
+
+    def make(v: object) -> Node:
+        kind = type(v)  # most values are text: test the common kinds first, cheaply
+        if kind is str:
+            return Node(v, file, line, column, path)
+        if kind is Node:
+            return v  # type: ignore[return-value]
+        if kind is dict:
+            return Node({k: make(x) for k, x in v.items()}, file, line, column, path)  # type: ignore[attr-defined]
+        if kind is list:
+            return Node([make(x) for x in v], file, line, column, path)  # type: ignore[attr-defined]
+        return Node(v, file, line, column, path)
+
+    return make(value)
 
 
 # ---------------------------------------------------------------- reading

@@ -15,7 +15,18 @@ import math
 from dataclasses import dataclass, replace
 
 from audit.core.errors import ErrorCollector
-from audit.engine.plan_geometry import GridIndex, Polygon, area, boxes_touch, centroid, clip, extent
+from audit.engine.plan_geometry import (
+    GridIndex,
+    Polygon,
+    area,
+    bounds,
+    boxes_touch,
+    centroid,
+    clip,
+    extent,
+    is_upright_box,
+    overlap_region,
+)
 from audit.inputs.layout import ROUND, Placed
 
 LEVEL_TOLERANCE = 1e-3  # m: an underside within 1 mm of a top bears on it
@@ -48,7 +59,7 @@ class Found:
 
 
 def at_xy(x: float, y: float) -> str:
-    return f"({x:.3f} m, {y:.3f} m)"
+    return f"({round(x, 4) + 0.0:.3f} m, {round(y, 4) + 0.0:.3f} m)"  # never -0.000
 
 
 def reach_up(placed: tuple[Placed, ...], errors: ErrorCollector) -> tuple[Placed, ...]:
@@ -91,11 +102,17 @@ def find_contacts(placed: tuple[Placed, ...], errors: ErrorCollector, warnings: 
     index = GridIndex()
     for i, p in enumerate(placed):
         index.add(i, p.footprint)
+    boxes = [bounds(p.footprint) for p in placed]
+    upright = [is_upright_box(p.footprint) for p in placed]
     found: list[Found] = []
+    tops = [p.top or 0.0 for p in placed]
+    bottoms = [p.bottom for p in placed]
     for i, j in index.pairs():
+        if bottoms[i] > tops[j] + LEVEL_TOLERANCE or bottoms[j] > tops[i] + LEVEL_TOLERANCE:
+            continue  # one wholly above the other, not touching: neither a contact nor a clash
         a, b = placed[i], placed[j]
-        region = _overlap(a.footprint, b.footprint)
-        if not region:
+        region = overlap_region(a.footprint, b.footprint, boxes[i], boxes[j], upright[i] and upright[j])
+        if len(region) < 3 or area(region) <= AREA_TOLERANCE:
             continue
         if abs(a.bottom - (b.top or 0.0)) <= LEVEL_TOLERANCE:
             upper, lower = a, b
