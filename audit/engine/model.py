@@ -120,6 +120,7 @@ class Bearing:
     aliases: tuple[str, ...] = ()
     typical: tuple[str, ...] = ()  # labels several bearings share, as a calc's typical claim names them
     note: str = field(default="", compare=False)  # how a found bearing was found
+    calc_force: tuple[tuple[str, float], ...] = ()  # the calc's own force through it, per case (N): no take-down
     loc: Location = field(default=Location(""), compare=False)
 
     def side_of(self, member_id: str) -> Side:

@@ -61,6 +61,8 @@ class TakeDown:
     bearing_forces: dict[str, Forces]  # bearing id -> force through it, per case, every span loaded
     on_top: dict[str, tuple[AppliedForce, ...]]  # member id -> what presses on its top face
     envelopes: dict[str, dict[str, Envelope]] = field(default_factory=dict)  # bearing id -> case -> envelope
+    # bearings whose force the calc states: what the model's own loads give there, to compare
+    modelled: dict[str, Forces] = field(default_factory=dict)
 
 
 def support_order(model: Model) -> tuple[str, ...]:
@@ -104,6 +106,7 @@ def take_down(model: Model, patterns: dict[str, tuple[float, float]] | None = No
     bearing_forces: dict[str, Forces] = {}
     on_top: dict[str, tuple[AppliedForce, ...]] = {}
     envelopes: dict[str, dict[str, Envelope]] = {}
+    modelled: dict[str, Forces] = {}
     for member_id in order:
         member = model.members[member_id]
         applied = _applied_forces(member_id, carried_by[member_id], own_loads[member_id], bearing_forces)
@@ -117,6 +120,7 @@ def take_down(model: Model, patterns: dict[str, tuple[float, float]] | None = No
                 for case, value in item.forces.items():
                     total[case] += value
             bearing_forces[below[0].id] = dict(total)
+            _take_calc_force(below[0], bearing_forces, modelled)
             continue
         below = sorted(below, key=lambda b: b.upper.at)
         positions = [b.upper.at for b in below]
@@ -127,9 +131,18 @@ def take_down(model: Model, patterns: dict[str, tuple[float, float]] | None = No
             for bearing, by_case in zip(
                 below, _pattern_envelopes(positions, member.length, applied, patterns), strict=True
             ):
-                if by_case:
+                if by_case and not bearing.calc_force:
                     envelopes[bearing.id] = by_case
-    return TakeDown(order, bearing_forces, on_top, envelopes)
+        for bearing in below:
+            _take_calc_force(bearing, bearing_forces, modelled)
+    return TakeDown(order, bearing_forces, on_top, envelopes, modelled)
+
+
+def _take_calc_force(bearing, bearing_forces: dict[str, Forces], modelled: dict[str, Forces]) -> None:
+    """A bearing whose force the calc states carries that force, not the model's; the model's is kept to compare."""
+    if bearing.calc_force:
+        modelled[bearing.id] = bearing_forces.get(bearing.id, {})
+        bearing_forces[bearing.id] = dict(bearing.calc_force)
 
 
 def span_pieces(positions: list[float], length: float) -> list[tuple[float, float, str]]:

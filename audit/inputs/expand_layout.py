@@ -163,6 +163,9 @@ def bearing_entry(c: Found) -> Node:
     typical = _typical(c)
     if typical:
         entry["typical"] = list(typical)
+    given = _calc_force_at(c)
+    if given is not None:
+        entry["calc_force"] = given
     lengths = ", ".join(
         f"{s.length * 1000:.0f} mm along {p.id}"
         for p, s in ((c.upper, c.upper_side), (c.lower, c.lower_side))
@@ -170,6 +173,15 @@ def bearing_entry(c: Found) -> Node:
     )
     entry["note"] = f"found from the layout: {c.upper.id} on {c.lower.id}" + (f", {lengths}" if lengths else "")
     return synth(entry, c.upper.source, "")
+
+
+def _calc_force_at(c: Found) -> Node | None:
+    """The calc's force at this bearing, where the member above states one for the end the bearing is at."""
+    axis, at = c.upper.axis, c.upper_side.at
+    if not c.upper.calc_ends or axis is None or at is None:
+        return None
+    end = "start" if at <= c.upper.d else ("end" if at >= axis.length - c.upper.d else "")
+    return next((node for name, node in c.upper.calc_ends if name == end), None)
 
 
 def _typical(c: Found) -> tuple[str, ...]:

@@ -28,10 +28,11 @@ from audit.inputs.fields import FieldReader, describe_value, did_you_mean, list_
 LAYOUT_KEYS = {"levels", "grids", "members", "runs", "posts", "walls", "areas"}
 # Fields a placed member passes to the member reader as written, so their errors point at the layout line.
 PASSED = ("material", "b", "d", "service", "KT", "support", "bears_on", "plies", "ply_thickness", "label", "studs")
-MEMBER_KEYS = {"id", "from", "to", "level", "drop", "extend", "free_ends", *PASSED}
+MEMBER_KEYS = {"id", "from", "to", "level", "drop", "extend", "free_ends", "calc_force", *PASSED}
 RUN_KEYS = {
     "id",
     "prefix",
+    "calc_force",
     "between",
     "span",
     "spacing",
@@ -93,6 +94,7 @@ class Placed:
     free_ends: frozenset[str] = frozenset()
     typical: tuple[str, ...] = ()
     group: str = ""  # the run a member belongs to
+    calc_ends: tuple[tuple[str, Node], ...] = ()  # (start | end, the calc's force there per case), as written
     footprint: Polygon = field(default=(), compare=False)
 
     @property
@@ -356,6 +358,7 @@ class Placer:
                 self.errors.add(f"missing field '{key}'", item.child_loc(key))
         drop = f.quantity("drop", "length", required=False) or 0.0
         free = self.free_ends(f)
+        ends = self.calc_ends(f, {"start": "start", "end": "end"})
         if not f.ok or level is None or section is None or start is None or end is None or free is None:
             return []
         axis = self.horizontal_axis(f, start, end, f"member '{member_id}'")
@@ -377,9 +380,29 @@ class Placer:
                 top=level[1] - drop,
                 drop=drop,
                 free_ends=free,
+                calc_ends=ends,
                 footprint=strip(axis, b),
             )
         ]
+
+    def calc_ends(self, f: FieldReader, names: dict[str, str]) -> tuple[tuple[str, Node], ...]:
+        """``calc_force`` by end: {start: {D: .., L: ..}, end: ..}, or for a run by its span lines {A: .., B: ..}."""
+        if not f.has("calc_force"):
+            return ()
+        node = f.map["calc_force"]
+        if not isinstance(node.value, dict):
+            self.errors.add(f"calc_force gives the calc's force at each end by {' or '.join(names)}", node.loc)
+            f.ok = False
+            return ()
+        out = []
+        for key, forces in node.value.items():
+            if key not in names:
+                hint = did_you_mean(key, names)
+                self.errors.add(f"calc_force: '{key}' is not an end here{hint} (ends: {', '.join(names)})", forces.loc)
+                f.ok = False
+                continue
+            out.append((names[key], forces))
+        return tuple(out)
 
     def free_ends(self, f: FieldReader) -> frozenset[str] | None:
         if not f.has("free_ends"):
@@ -429,6 +452,7 @@ class Placer:
         if not f.ok or level is None or section is None or spacing is None or len(lines) != 2:
             return []
         (a0, a1), (s0, s1) = lines["between"], lines["span"]
+        ends = self.calc_ends(f, {s0[2]: "start", s1[2]: "end"})
         if a0[0] == s0[0]:
             self.errors.add("a run's 'between' and 'span' lines must cross (x lines and y lines)", item.loc)
             return []
@@ -476,6 +500,7 @@ class Placer:
                     drop=drop,
                     typical=(typical,),
                     group=run_id,
+                    calc_ends=ends,
                     footprint=strip(axis, b),
                 )
             )

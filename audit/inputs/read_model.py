@@ -85,7 +85,7 @@ MEMBER_KEYS = {
     "place",
     "note",
 }
-BEARING_KEYS = {"id", "upper", "lower", "width", "aliases", "typical", "note"}
+BEARING_KEYS = {"id", "upper", "lower", "width", "aliases", "typical", "note", "calc_force"}
 SIDE_KEYS = {"member", "at", "length", "width", "angle"}
 LOAD_KEYS = {
     "id",
@@ -150,7 +150,7 @@ def build_model(
     members, broken, walls = _read_members(_listed(sections.members, root, "members"), materials, project, errors)
     placed = _place_walls(members, walls, errors)
     known = KnownMembers(members, broken)
-    bearings = _read_bearings(_listed(sections.bearings, root, "bearings"), known, errors)
+    bearings = _read_bearings(_listed(sections.bearings, root, "bearings"), known, combos, errors)
     taken = {b.id for b in bearings}
     for b in placed:
         if b.id in taken:
@@ -608,7 +608,9 @@ def _read_side(node: Node, role: str, known: KnownMembers, errors: ErrorCollecto
     return Side(member_id, at, length, angle, width, node.loc)
 
 
-def _read_bearings(node: Node, known: KnownMembers, errors: ErrorCollector) -> tuple[Bearing, ...]:
+def _read_bearings(
+    node: Node, known: KnownMembers, combos: CombinationPack, errors: ErrorCollector
+) -> tuple[Bearing, ...]:
     out: list[Bearing] = []
     seen: dict[str, Location] = {}
     aliases_seen: dict[str, str] = {}
@@ -647,7 +649,10 @@ def _read_bearings(node: Node, known: KnownMembers, errors: ErrorCollector) -> t
                 errors.add(f"alias '{alias}' is already used by bearing '{other}'", f.loc("aliases"))
             aliases_seen[normalise_label(alias)] = bearing_id
         note = f.text("note", required=False)
-        out.append(Bearing(bearing_id, upper, lower, width, aliases, typical, note, item.loc))
+        calc_force = read_calc_force(f.map["calc_force"], combos, errors) if f.has("calc_force") else ()
+        if calc_force is None:
+            continue
+        out.append(Bearing(bearing_id, upper, lower, width, aliases, typical, note, calc_force, item.loc))
     ids = {normalise_label(b.id): b.id for b in out}
     own = {normalise_label(a): b.id for b in out for a in b.aliases} | ids
     for b in out:
@@ -665,6 +670,22 @@ def _read_bearings(node: Node, known: KnownMembers, errors: ErrorCollector) -> t
             if owner is not None and owner != b.id:
                 errors.add(f"alias '{alias}' of bearing '{b.id}' is the id of bearing '{owner}'", b.loc)
     return tuple(out)
+
+
+def read_calc_force(
+    node: Node, combos: CombinationPack, errors: ErrorCollector
+) -> tuple[tuple[str, float], ...] | None:
+    """The calc's force through a bearing per specified load case, e.g. {D: 12 kN, L: 20 kN}; None on an error."""
+    if not isinstance(node.value, dict) or not node.value:
+        errors.add("calc_force gives the calc's force per load case, e.g. {D: 12 kN, L: 20 kN}", node.loc)
+        return None
+    f = FieldReader(node, set(combos.cases), errors, "calc_force")
+    out = []
+    for case in f.map:
+        value = f.quantity(case, "force")
+        if value is not None:
+            out.append((case, value))
+    return tuple(out) if f.ok else None
 
 
 def _crossing_fits(upper: Side, lower: Side, f: FieldReader, known: KnownMembers, errors: ErrorCollector) -> bool:

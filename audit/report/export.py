@@ -182,6 +182,17 @@ def summary_line(review: Review) -> str:
     )
 
 
+def _loads_made(review: Review, check) -> list:
+    """The loads on the checked member (and the member above) that a layout made, each once, with how."""
+    bearing = review.model.bearings_by_id.get(check.bearing)
+    members = {check.member} | ({bearing.upper.member} if bearing is not None else set())
+    seen: dict[str, object] = {}
+    for load in review.model.loads:
+        if load.member in members and load.note and load.id not in seen:
+            seen[load.id] = load
+    return list(seen.values())
+
+
 def explain(review: Review, check_id: str) -> str:
     r = review.result(check_id)
     c = r.check
@@ -205,6 +216,11 @@ def explain(review: Review, check_id: str) -> str:
         "Forces through the check (specified, per case): "
         + ", ".join(f"{case} = {v / 1000:.2f} kN" for case, v in sorted(c.forces.items()))
     )
+    bearing = review.model.bearings_by_id.get(c.bearing)
+    if bearing is not None and bearing.calc_force:
+        lines.append(f"  taken from the calc at bearing {bearing.id} (calc_force), not from the take-down")
+    for load in _loads_made(review, c):
+        lines.append(f"  load {load.id} on {load.member}: {load.note}")
     for case, e in sorted(c.envelope.items()):
         lines.append(
             f"Pattern loading of {case} on {c.member}'s spans: {e.low / 1000:.2f} to {e.high / 1000:.2f} kN "

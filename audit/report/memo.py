@@ -123,6 +123,14 @@ def assumptions(review: Review) -> list[str]:
             "Already-factored loads act in their own groups, each with its stated duration; they are not "
             "combined with specified loads."
         )
+    given = [b.id for b in review.model.bearings if b.calc_force]
+    if given:
+        shown = ", ".join(given[:12]) + (f" and {len(given) - 12} more" if len(given) > 12 else "")
+        out.append(
+            f"Forces taken from the calc, not from the take-down (calc_force), at {len(given)} bearing(s): {shown}. "
+            "The members below carry them as given; where the model's own loads reach such a bearing too, a "
+            "difference beyond the project's tolerance is a comment."
+        )
     return out
 
 

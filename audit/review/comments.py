@@ -19,8 +19,8 @@ from audit.review.review import Review
 from audit.standards.checks import NEAR, RequiredCheck
 
 # Kinds whose comments are grouped when alike: the rest stand alone, one comment each.
-GROUPED = {"missing", "covered", "confirmed", "mis-loaded", "resistance-differs"}
-QUIET = {"covered", "confirmed"}  # listed for the record, after every comment that asks for something
+GROUPED = {"missing", "covered", "confirmed", "mis-loaded", "resistance-differs", "calc-force", "force-differs"}
+QUIET = {"covered", "confirmed", "calc-force"}  # listed for the record, after every comment that asks for something
 
 
 @dataclass(frozen=True)

@@ -98,6 +98,22 @@ KINDS: dict[str, FindingKind] = {
             "{what}: what is under it is not in the model, so its underside is not checked",
         ),
         FindingKind(
+            "FORCE",
+            "force-differs",
+            "major",
+            "a force the calc states at a bearing differs, beyond tolerance, from what the model's loads give there",
+            "the checks at that bearing carry the calc's force; if the calc's take-down is wrong, so are they",
+            "{what}: the calc's force differs from the model's loads",
+        ),
+        FindingKind(
+            "GIVEN",
+            "calc-force",
+            "info",
+            "a bearing whose force is taken from the calc, not from the model's take-down",
+            "the review rests on the calc's own reaction there: the load path above it is not re-modelled",
+            "{what}: force taken from the calc",
+        ),
+        FindingKind(
             "LIFT",
             "uplift",
             "major",

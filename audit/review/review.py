@@ -8,7 +8,7 @@ from pathlib import Path
 
 from audit.core.units import Display
 from audit.engine.model import Bearing, Model
-from audit.engine.take_down import TakeDown, take_down
+from audit.engine.take_down import FORCE_RESOLUTION, TakeDown, take_down
 from audit.inputs.read_model import read_model
 from audit.review import wording
 from audit.review.findings import KINDS, Finding
@@ -85,8 +85,52 @@ def review_built(model: Model, pack: ResistancePack, cpack: CombinationPack) -> 
     threshold, whose = uplift_threshold(model, pack)
     factors = {c.name: c.factors for c in load_combinations(model, cpack)}
     display = Display.for_project(model.project.units)
-    engine = uplift_findings(results, threshold, whose, factors, display) + unseen_support_findings(checklist)
+    engine = (
+        uplift_findings(results, threshold, whose, factors, display)
+        + unseen_support_findings(checklist)
+        + calc_force_findings(model, flow, display)
+    )
     return Review(model, pack, cpack, flow, checklist, results, engine)
+
+
+def calc_force_findings(model: Model, flow: TakeDown, display: Display) -> tuple[Finding, ...]:
+    """At each bearing whose force the calc states: a note that it is taken as given, and where the model's own
+    loads reach it too, a comment when the two differ beyond the project's tolerance."""
+    p = model.project
+    out = []
+    for b in model.bearings:
+        if not b.calc_force:
+            continue
+        stated = dict(b.calc_force)
+        out.append(
+            Finding(
+                "calc-force", "info", wording.calc_force(b.id, stated, display), bearing=b.id, member=b.upper.member
+            )
+        )
+        modelled = {case: v for case, v in flow.modelled.get(b.id, {}).items() if abs(v) >= FORCE_RESOLUTION}
+        if not modelled:
+            continue  # the model carries no load to this bearing: nothing to compare
+        worst, share, higher = "", 0.0, False
+        for case in sorted(set(stated) | set(modelled)):
+            s, m = stated.get(case, 0.0), modelled.get(case, 0.0)
+            gap = abs(s - m)
+            if gap <= max(p.tolerance_relative * max(abs(s), abs(m)), p.tolerance_absolute):
+                continue
+            ratio = gap / max(abs(s), abs(m))
+            if ratio > share:
+                worst, share, higher = case, ratio, m > s
+        if worst:
+            out.append(
+                Finding(
+                    "force-differs",
+                    "major" if higher else "minor",  # the calc taking less than the model's loads is the worse slip
+                    wording.force_differs(b.id, stated, modelled, worst, share, display),
+                    bearing=b.id,
+                    member=b.upper.member,
+                    numbers={"stated": stated.get(worst, 0.0), "modelled": modelled.get(worst, 0.0)},
+                )
+            )
+    return tuple(out)
 
 
 def unseen_support_findings(checklist: CheckList) -> tuple[Finding, ...]:

@@ -15,6 +15,27 @@ def _cap(text: str) -> str:
     return text[:1].upper() + text[1:]
 
 
+def _by_case(forces: dict[str, float], d: Display) -> str:
+    return ", ".join(f"{case} {d.force(v)}" for case, v in sorted(forces.items())) or "none"
+
+
+def calc_force(bearing: str, stated: dict[str, float], d: Display) -> str:
+    return (
+        f"The force through bearing {bearing} is taken from the calc ({_by_case(stated, d)}), not from the "
+        "model's take-down; the members below carry it as given."
+    )
+
+
+def force_differs(
+    bearing: str, stated: dict[str, float], modelled: dict[str, float], worst: str, share: float, d: Display
+) -> str:
+    return (
+        f"At bearing {bearing} the calc's force ({_by_case(stated, d)}) differs from what the model's loads give "
+        f"there ({_by_case(modelled, d)}): {worst} by {share:.0%}, beyond the project's tolerance. The checks use the "
+        "calc's force; confirm the calc's take-down."
+    )
+
+
 def failing(
     kind: str,
     member: str,
