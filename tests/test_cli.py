@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import json
 
-from tests.conftest import DEMO, base_model
+from tests.conftest import DEMO, ROOT, base_model
 
 
 def test_review_exits_0_when_every_check_passes(write_model, run_cli):
@@ -80,6 +80,16 @@ def test_schema_validates_the_demo_model(run_cli):
     # as an editor sees it: YAML dates are text in JSON
     data = json.loads(json.dumps(yaml.safe_load(DEMO.read_text()), default=str))
     jsonschema.validate(data, schema)
+
+
+def test_schema_validates_the_layout_demo_and_its_explicit_model(run_cli):
+    import jsonschema
+    import yaml
+
+    schema = json.loads(run_cli("schema", "model").output)
+    for path in (ROOT / "fixtures" / "demo-layout" / "model.yaml", ROOT / "reports" / "layout-demo-explicit.yaml"):
+        data = json.loads(json.dumps(yaml.safe_load(path.read_text(encoding="utf-8")), default=str))
+        jsonschema.validate(data, schema)
 
 
 def test_schema_rejects_an_unknown_key(run_cli):

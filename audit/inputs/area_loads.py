@@ -19,7 +19,7 @@ from audit.inputs.fields import FieldReader, describe_value, did_you_mean, list_
 from audit.inputs.layout import ROUND, Layout, Placed, Placer, metres, synth
 from audit.inputs.layout_contacts import SQUARE
 
-AREA_KEYS = {"id", "level", "corners", "span", "loads", "live", "openings", "on"}
+AREA_KEYS = {"id", "level", "corners", "span", "loads", "live", "openings", "carried_by"}
 Rect = tuple[float, float, float, float]  # x0, y0, x1, y1
 
 
@@ -72,10 +72,10 @@ def _read_area(item: Node, placer: Placer, errors: ErrorCollector):
             openings.append(rect)
     cases = _pressures(f, errors)
     on: tuple[str, ...] | None = None
-    if f.has("on"):
-        node = f.map["on"]
+    if f.has("carried_by"):
+        node = f.map["carried_by"]
         if not isinstance(node.value, list):
-            errors.add("on lists the members or runs that carry the area, e.g. [J, GB1]", node.loc)
+            errors.add("carried_by lists the members or runs that carry the area, e.g. [J, GB1]", node.loc)
             return None
         on = tuple(str(n.value) for n in node.value)
     if not f.ok or level is None or corners is None or cases is None:
@@ -130,7 +130,7 @@ def _carriers(item: Node, read, placed: tuple[Placed, ...], errors: ErrorCollect
     if on is not None:
         for name in on:
             if name not in groups:
-                errors.add(f"unknown member or run '{name}'{did_you_mean(name, groups)}", item.child_loc("on"))
+                errors.add(f"unknown member or run '{name}'{did_you_mean(name, groups)}", item.child_loc("carried_by"))
     out = []
     for p in placed:
         if p.axis is None or p.kind == "wall":

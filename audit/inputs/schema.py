@@ -37,6 +37,140 @@ SIDE = {
     ]
 }
 
+CALC_FORCE = {
+    "type": "object",
+    "description": "the calc's own force through the bearing per load case: the take-down is skipped for it",
+    "propertyNames": {"enum": CASES},
+    "additionalProperties": FORCE,
+}
+POINT = {
+    "description": "a grid point 'A/1', coordinates [x, y], or {grid: A/1, dx, dy}",
+    "oneOf": [
+        {"type": "string"},
+        {"type": "array", "items": LENGTH, "minItems": 2, "maxItems": 2},
+        _obj({"grid": {"type": "string"}, "dx": LENGTH, "dy": LENGTH}, ["grid"]),
+    ],
+}
+LINE = {"description": "a grid line name, or {x: ..} / {y: ..}", "oneOf": [{"type": "string"}, {"type": "object"}]}
+PASSED: dict[str, Any] = {
+    "material": {"type": "string"},
+    "b": LENGTH,
+    "d": LENGTH,
+    "service": {"enum": ["dry", "wet"]},
+    "KT": {"type": "number"},
+    "plies": {"type": "integer", "minimum": 1, "maximum": 20},
+    "ply_thickness": LENGTH,
+    "label": {"type": "string"},
+}
+ENDS = {
+    "description": "one length for both ends, or [start, end]",
+    "oneOf": [LENGTH, {"type": "array", "items": LENGTH}],
+}
+LAYOUT = _obj(
+    {
+        "levels": {"type": "object", "additionalProperties": LENGTH, "description": "level name -> elevation"},
+        "grids": _obj(
+            {
+                "x": {"type": "object", "additionalProperties": LENGTH, "description": "lines of constant x"},
+                "y": {"type": "object", "additionalProperties": LENGTH, "description": "lines of constant y"},
+            },
+            [],
+        ),
+        "members": {
+            "type": "array",
+            "items": _obj(
+                {
+                    "id": {"type": "string"},
+                    "from": POINT,
+                    "to": POINT,
+                    "level": {"type": "string"},
+                    "drop": {**LENGTH, "description": "top below its level"},
+                    "extend": ENDS,
+                    "free_ends": {"type": "array", "items": {"enum": ["start", "end"]}},
+                    "support": {"enum": ["bearings", "continuous"]},
+                    "bears_on": {"type": "string"},
+                    "studs": {"type": "object"},
+                    "calc_force": {"type": "object", "description": "by end: {start: {D: ..}, end: ..}"},
+                    **PASSED,
+                },
+                ["id", "from", "to", "level", "material", "b", "d"],
+            ),
+        },
+        "runs": {
+            "type": "array",
+            "items": _obj(
+                {
+                    "id": {"type": "string"},
+                    "prefix": {"type": "string"},
+                    "between": {"type": "array", "items": LINE, "minItems": 2, "maxItems": 2},
+                    "span": {"type": "array", "items": LINE, "minItems": 2, "maxItems": 2},
+                    "spacing": LENGTH,
+                    "first": LENGTH,
+                    "last": LENGTH,
+                    "level": {"type": "string"},
+                    "drop": LENGTH,
+                    "extend": ENDS,
+                    "typical": {"type": "string"},
+                    "calc_force": {"type": "object", "description": "by span line: {A: {D: ..}, B: ..}"},
+                    **PASSED,
+                },
+                ["id", "between", "span", "spacing", "level", "material", "b", "d"],
+            ),
+        },
+        "posts": {
+            "type": "array",
+            "items": _obj(
+                {
+                    "id": {"type": "string"},
+                    "at": POINT,
+                    "base": {"type": "string"},
+                    "drop": LENGTH,
+                    "top": {"type": "string"},
+                    "d_along": {"enum": ["x", "y"]},
+                    **{k: v for k, v in PASSED.items() if k not in ("plies", "ply_thickness")},
+                },
+                ["id", "at", "base", "top", "material", "b", "d"],
+            ),
+        },
+        "walls": {
+            "type": "array",
+            "items": _obj(
+                {
+                    "id": {"type": "string"},
+                    "from": POINT,
+                    "to": POINT,
+                    "base": {"type": "string"},
+                    "drop": LENGTH,
+                    "top": {"type": "string"},
+                    "extend": ENDS,
+                    "studs": {"type": "object"},
+                    **PASSED,
+                },
+                ["id", "from", "to", "base", "top", "material", "b", "d"],
+            ),
+        },
+        "areas": {
+            "type": "array",
+            "items": _obj(
+                {
+                    "id": {"type": "string"},
+                    "level": {"type": "string"},
+                    "corners": {"type": "array", "items": POINT, "minItems": 2, "maxItems": 2},
+                    "span": {"enum": ["x", "y"]},
+                    "loads": {"type": "object", "propertyNames": {"enum": CASES}},
+                    "live": {"enum": ["occupancy", "storage"]},
+                    "openings": {"type": "array", "items": {"type": "array", "items": POINT}},
+                    "carried_by": {"type": "array", "items": {"type": "string"}},
+                },
+                ["id", "level", "corners", "span", "loads"],
+            ),
+        },
+    },
+    ["levels"],
+    "a framing layout: the tool places the members, finds the bearings and shares the area loads",
+)
+PLACE = {"type": "object", "description": "where the member stands (written by expand): from/to/top, or at/base/top"}
+
 MODEL_SCHEMA: dict[str, Any] = {
     "$schema": "https://json-schema.org/draft/2020-12/schema",
     "title": "bearing-audit review model",
@@ -70,6 +204,7 @@ MODEL_SCHEMA: dict[str, Any] = {
                 },
                 ["title"],
             ),
+            "layout": LAYOUT,
             "materials": {
                 "type": "object",
                 "additionalProperties": _obj(
@@ -130,6 +265,8 @@ MODEL_SCHEMA: dict[str, Any] = {
                         ),
                         "level": {"type": "string"},
                         "label": {"type": "string"},
+                        "place": PLACE,
+                        "note": {"type": "string"},
                     },
                     ["id", "material", "b", "d", "length"],
                 ),
@@ -148,6 +285,8 @@ MODEL_SCHEMA: dict[str, Any] = {
                             "items": {"type": "string"},
                             "description": "labels several bearings share, as a calc's typical claim names them",
                         },
+                        "calc_force": CALC_FORCE,
+                        "note": {"type": "string"},
                     },
                     ["upper", "lower"],
                 ),
@@ -187,13 +326,15 @@ MODEL_SCHEMA: dict[str, Any] = {
                         "factored": QUANTITY,
                         "duration": {"enum": ["permanent", "standard", "short"]},
                         "label": {"type": "string"},
+                        "note": {"type": "string"},
                     },
                     ["member", "type"],
                 ),
             },
         },
-        ["project", "materials", "members", "bearings"],
+        ["project", "materials"],
     ),
+    "anyOf": [{"required": ["layout"]}, {"required": ["members", "bearings"]}],
 }
 
 NUMBER_FACTOR = {"type": "number", "minimum": 0}
