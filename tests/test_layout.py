@@ -343,3 +343,14 @@ def test_committed_layout_demo_outputs_are_byte_identical_to_a_fresh_run(tmp_pat
     for name in ["layout-demo-explicit.yaml", *(n for _, n in files)]:
         fresh, committed = (tmp_path / name).read_bytes(), (ROOT / "reports" / name).read_bytes()
         assert fresh == committed, f"reports/{name} is stale: run the layout demo commands in the README"
+
+
+def test_the_readme_layout_example_reviews_and_places_what_it_says():
+    import yaml
+
+    text = (ROOT / "README.md").read_text(encoding="utf-8")
+    start = text.index("```yaml", text.index("A complete example (a floor of joists")) + len("```yaml")
+    review = review_dict(yaml.safe_load(text[start : text.index("```", start)]))
+    # six joists at 400 mm from grid 1 to grid 2, each on both beams, and the beams on four posts
+    assert sorted(m for m in review.model.members if m.startswith("J-A-B-")) == [f"J-A-B-{n}" for n in range(1, 7)]
+    assert len(review.model.bearings) == 6 * 2 + 4
