@@ -82,6 +82,15 @@ def review(
     date: str | None = typer.Option(
         None, "--date", help="Memo date (YYYY-MM-DD); default project.date.", metavar="YYYY-MM-DD"
     ),
+    previous: Path | None = typer.Option(
+        None, "--previous", metavar="LAST.json", help="The JSON of the last review round, to match comments with."
+    ),
+    responses: Path | None = typer.Option(
+        None,
+        "--responses",
+        metavar="LOG",
+        help="With --previous: the last round's comment log (CSV or workbook) with the designer's responses.",
+    ),
     rules_dir: list[Path] | None = RulesDir,
     rule_pack: str | None = RulePack,
 ) -> None:
@@ -96,7 +105,11 @@ def review(
     from audit.review.comments import build_comments
     from audit.review.reconcile import reconcile
     from audit.review.review import review_model
+    from audit.review.rounds import first_round, input_hashes, next_round, read_last_round, read_responses
 
+    if responses and not previous:
+        typer.echo("error: --responses: give the last round's JSON with --previous too", err=True)
+        raise typer.Exit(2)
     try:
         memo_date = dt.date.fromisoformat(date) if date else None
     except ValueError:
@@ -104,7 +117,14 @@ def review(
         raise typer.Exit(2) from None
     try:
         input_bytes = _check_files(
-            {"MODEL": model, "--claims": claims, "--calc-pdf": calc_pdf, "--map": column_map},
+            {
+                "MODEL": model,
+                "--claims": claims,
+                "--calc-pdf": calc_pdf,
+                "--map": column_map,
+                "--previous": previous,
+                "--responses": responses,
+            },
             {"--memo": memo, "--json": json_out, "--csv": csv_out, "--xlsx": xlsx_out},
         )
         result = review_model(model, _dirs(rules_dir), rule_pack)
@@ -118,6 +138,17 @@ def review(
     rec = reconcile(result, claim_list) if (claims or calc_pdf) else None
     findings = rec.findings if rec else result.engine_findings
     comments = build_comments(result, rec, claim_list)
+    inputs = input_hashes({"model": model, "claims": claims, "calc_pdf": calc_pdf, "map": column_map})
+    title = result.model.project.title
+    try:
+        if previous:
+            last = read_last_round(previous, title)
+            answers = read_responses(responses) if responses else {}
+            comments, round_ = next_round(comments, last, result.model, inputs, answers)
+        else:
+            round_ = first_round(comments, title, inputs)
+    except InputError as exc:
+        _fail(exc)
     typer.echo(check_table(result))
     for comment in comments:
         if not comment.quiet:
@@ -136,16 +167,18 @@ def review(
                     result,
                     rec,
                     claim_list,
-                    MemoOptions(date=memo_date, all_derivations=all_derivations, comments=comments),
+                    MemoOptions(date=memo_date, all_derivations=all_derivations, comments=comments, round=round_),
                 ),
             )
         )
     if json_out:
-        outputs.append(Output("--json", json_out, lambda: findings_json_chunks(result, rec, findings, comments)))
+        outputs.append(
+            Output("--json", json_out, lambda: findings_json_chunks(result, rec, findings, comments, round_))
+        )
     if csv_out:
-        outputs.append(Output("--csv", csv_out, lambda: comments_csv(comments)))
+        outputs.append(Output("--csv", csv_out, lambda: comments_csv(comments, round_)))
     if xlsx_out:
-        outputs.append(Output("--xlsx", xlsx_out, lambda: [comments_xlsx(result, rec, comments)]))
+        outputs.append(Output("--xlsx", xlsx_out, lambda: [comments_xlsx(result, rec, comments, round_)]))
     try:
         write_outputs(outputs, output_limit(input_bytes))
     except InputError as exc:

@@ -87,6 +87,7 @@ class Member:
     ply_thickness: float | None = None  # m, stacked through d (laid flat) or side by side across b
     place: Place | None = field(default=None, compare=False)
     note: str = field(default="", compare=False)  # where a placed member came from
+    aliases: tuple[str, ...] = ()  # earlier ids of the member, so an earlier review round still matches
     loc: Location = field(default=Location(""), compare=False)
 
     @property

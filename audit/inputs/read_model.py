@@ -84,6 +84,7 @@ MEMBER_KEYS = {
     "bears_on",
     "place",
     "note",
+    "aliases",
 }
 BEARING_KEYS = {"id", "upper", "lower", "width", "aliases", "typical", "note", "calc_force"}
 SIDE_KEYS = {"member", "at", "length", "width", "angle"}
@@ -423,6 +424,7 @@ def _read_members(
             bears_on=f.text("bears_on", required=False),
             place=place,
             note=f.text("note", required=False),
+            aliases=_label_list(f, "aliases", "aliases must be a list of earlier ids", errors) or (),
             loc=item.loc,
         )
         if wall is not None:

@@ -13,6 +13,7 @@ from audit.report.export import rows_to_csv
 from audit.review.comments import Comment
 from audit.review.reconcile import Reconciliation
 from audit.review.review import Review
+from audit.review.rounds import Round
 
 COLUMNS = [
     "comment",
@@ -31,6 +32,8 @@ COLUMNS = [
     "recomputed",
     "clause",
     "points",
+    "round_status",
+    "previous_response",
     "designer_response",
 ]
 
@@ -39,13 +42,16 @@ def _number(value: float | None) -> Any:
     return "" if value is None else round(value, 3)
 
 
-def comment_rows(comments: tuple[Comment, ...], record: bool = True) -> list[list[Any]]:
+def comment_rows(comments: tuple[Comment, ...], record: bool = True, round_: Round | None = None) -> list[list[Any]]:
     """One row per number compared at each place (one row for a place with none); ``record`` False leaves
     out the comments kept for the record (confirmed, covered), which ask the designer for nothing."""
+    standing = {t.number: t for t in round_.tracked} if round_ is not None else {}
     rows = []
     for c in comments:
         if c.quiet and not record:
             continue
+        t = standing.get(c.number)
+        status, response = (t.status, t.response) if t is not None else ("", "")
         for p in c.places:
             for n in p.compared or (None,):
                 rows.append(
@@ -66,15 +72,17 @@ def comment_rows(comments: tuple[Comment, ...], record: bool = True) -> list[lis
                         _number(n.recomputed) if n else "",
                         c.clause,
                         " ".join(p.points),
+                        status,
+                        response,
                         "",
                     ]
                 )
     return rows
 
 
-def comments_csv(comments: tuple[Comment, ...]) -> str:
+def comments_csv(comments: tuple[Comment, ...], round_: Round | None = None) -> str:
     """The log to send: every comment that asks for something (the record ones are in the JSON and the memo)."""
-    return rows_to_csv(COLUMNS, comment_rows(comments, record=False))
+    return rows_to_csv(COLUMNS, comment_rows(comments, record=False, round_=round_))
 
 
 def comment_records(comments: tuple[Comment, ...]) -> list[dict[str, Any]]:
@@ -109,7 +117,9 @@ def _place_lines(c: Comment) -> str:
     return "\n".join(lines)
 
 
-def comments_xlsx(review: Review, rec: Reconciliation | None, comments: tuple[Comment, ...]) -> bytes:
+def comments_xlsx(
+    review: Review, rec: Reconciliation | None, comments: tuple[Comment, ...], round_: Round | None = None
+) -> bytes:
     """The log as a workbook: sheet 'Comments' (one row each, reply column open) and sheet 'Checks'."""
     from openpyxl import Workbook
     from openpyxl.styles import Alignment, Font
@@ -126,16 +136,20 @@ def comments_xlsx(review: Review, rec: Reconciliation | None, comments: tuple[Co
         "Points",
         "Clause",
         "Calc reference",
+        "Status",
+        "Previous response",
         "Designer's response",
     ]
     sheet.append(head)
+    standing = {t.number: t for t in round_.tracked} if round_ is not None else {}
     for c in (c for c in comments if not c.quiet):
         pages = "; ".join(dict.fromkeys(p.page for p in c.places if p.page))
         points = "\n".join(dict.fromkeys(point for p in c.places for point in p.points))
-        sheet.append(
-            [_cell(v) for v in (c.number, c.weight_word, c.code, c.title, _place_lines(c), points, c.clause, pages, "")]
-        )
-    widths = [6, 10, 11, 50, 50, 80, 16, 22, 40]
+        t = standing.get(c.number)
+        status, response = (t.status, t.response) if t is not None else ("", "")
+        row = (c.number, c.weight_word, c.code, c.title, _place_lines(c), points, c.clause, pages, status, response, "")
+        sheet.append([_cell(v) for v in row])
+    widths = [6, 10, 11, 50, 50, 80, 16, 22, 10, 40, 40]
     _shape(sheet, widths, Alignment, Font)
     checks = book.create_sheet("Checks")
     checks.append(["Check", "Member", "Kind", "Qf (kN)", "Qr (kN)", "Qf/Qr", "Governing", "Status", "Claim"])

@@ -22,6 +22,7 @@ from audit.review.comments import WEIGHT_WORDS, Comment, build_comments
 from audit.review.findings import KINDS, SEVERITIES, Finding
 from audit.review.reconcile import Reconciliation
 from audit.review.review import Review, uplift_threshold
+from audit.review.rounds import Round
 from audit.standards.checks import NEAR
 
 STATUS_WORDS = {
@@ -56,6 +57,7 @@ class MemoOptions:
     title: str = "Bearing review memo"
     all_derivations: bool = False  # derivations of confirmed and covered checks too (they are in the JSON)
     comments: tuple[Comment, ...] | None = None  # the review's comments, where the caller has built them already
+    round: Round | None = None  # where each comment stands against the last review round
 
 
 def _env() -> jinja2.Environment:
@@ -152,7 +154,22 @@ def _pattern_lines(review: Review) -> list[str]:
     ]
 
 
-def _comment_view(c: Comment) -> dict[str, Any]:
+def _round_view(r: Round | None) -> dict[str, Any] | None:
+    """The round summary and each comment's standing; None for a first round (nothing to compare)."""
+    if r is None or r.previous is None:
+        return None
+    ended = [t for t in r.tracked if t.status in ("closed", "withdrawn")]
+    return {
+        "number": r.number,
+        "previous": r.previous.number,
+        "counts": r.counts(),
+        "ended": sorted(ended, key=lambda t: t.number),
+        "open": sorted((t for t in r.tracked if t.status in ("open", "changed")), key=lambda t: t.number),
+        "flagged": sum(t.flagged for t in r.tracked),
+    }
+
+
+def _comment_view(c: Comment, standing: Any = None) -> dict[str, Any]:
     places = []
     for p in c.places:
         numbers = [
@@ -181,6 +198,11 @@ def _comment_view(c: Comment) -> dict[str, Any]:
         "title": c.title,
         "clause": c.clause,
         "places": places,
+        "status": standing.status if standing is not None else "",
+        "reason": standing.reason if standing is not None else "",
+        "response": standing.response if standing is not None else "",
+        "flagged": bool(standing.flagged) if standing is not None else False,
+        "history": standing.history if standing is not None and len(standing.history) > 1 else (),
     }
 
 
@@ -273,6 +295,8 @@ def build_view(
     )
     derivations, all_derivations = _derivations(review, status_of, options.all_derivations)
     comments = options.comments if options.comments is not None else build_comments(review, reconciliation, claims)
+    shown_round = options.round if options.round is not None and options.round.previous is not None else None
+    standing = {t.number: t for t in shown_round.tracked} if shown_round else {}
     sketch_limit = SKETCH_LIMIT if all_derivations else LARGE_SKETCHES
     return {
         "title": options.title,
@@ -284,7 +308,8 @@ def build_view(
         "summary": _summary(review, reconciliation, counts, claims),
         "counts": [(KINDS[k].code, k, n) for k, n in counts.items()],
         "by_weight": {WEIGHT_WORDS[w]: sum(c.weight == w and not c.quiet for c in comments) for w in SEVERITIES[:3]},
-        "comments": [_comment_view(c) for c in comments if not c.quiet],
+        "comments": [_comment_view(c, standing.get(c.number)) for c in comments if not c.quiet],
+        "round": _round_view(options.round),
         "for_record": [_comment_view(c) for c in comments if c.quiet],
         "every_derivation": options.all_derivations,
         "groups": _check_rows(review, reconciliation, claims_by_id),
@@ -378,12 +403,19 @@ def finding_rows(findings: tuple[Finding, ...]) -> list[list[Any]]:
 
 
 def findings_json_chunks(
-    review: Review, rec: Reconciliation | None, findings: tuple[Finding, ...], comments: tuple = ()
+    review: Review,
+    rec: Reconciliation | None,
+    findings: tuple[Finding, ...],
+    comments: tuple = (),
+    round_: Round | None = None,
 ) -> Iterator[str]:
     from audit.report.comment_log import comment_records
     from audit.report.export import json_chunks, review_record
+    from audit.review.rounds import round_record
 
     data = review_record(review)
+    if round_ is not None:
+        data["round"], data["round_comments"] = round_record(round_)
     data["comments"] = comment_records(comments)
     data["findings"] = (dict(zip(FINDING_COLUMNS, row, strict=True)) for row in finding_rows(findings))
     if rec is not None:
