@@ -241,3 +241,21 @@ def test_the_json_states_the_hash_of_each_input(tmp_path, run_cli):
     expected = "sha256:" + hashlib.sha256((tmp_path / "r1-model.yaml").read_bytes()).hexdigest()
     assert one["round"]["inputs"]["model"] == expected
     assert one["round"]["inputs"]["claims"].startswith("sha256:")
+
+
+def test_responses_without_the_previous_round_are_refused(tmp_path, run_cli):
+    model, _ = _round_one()
+    (tmp_path / "m.yaml").write_text(yaml.safe_dump(model), encoding="utf-8")
+    (tmp_path / "log.csv").write_text("comment,designer_response\n1,done\n", encoding="utf-8")
+    result = run_cli("review", tmp_path / "m.yaml", "--responses", tmp_path / "log.csv")
+    assert result.exit_code == 2 and "--previous" in result.output
+
+
+def test_a_comment_log_without_the_response_column_is_refused_with_its_name(tmp_path, run_cli):
+    _run(run_cli, tmp_path, "r1", *_round_one())
+    (tmp_path / "log.csv").write_text("comment,reply\n1,done\n", encoding="utf-8")
+    _model, _claims = _round_one()
+    result = run_cli(
+        "review", tmp_path / "r1-model.yaml", "--previous", tmp_path / "r1.json", "--responses", tmp_path / "log.csv"
+    )
+    assert result.exit_code == 2 and "no column 'designer_response'" in result.output
