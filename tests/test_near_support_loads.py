@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import pytest
 
-from audit.standards.checks import separate_bearings
+from audit.engine.contacts import separate_bearings
 from tests.conftest import review_dict
 from tests.verification.details import (
     QF_POST_AND_JOIST,
@@ -42,7 +42,7 @@ def test_bearings_that_touch_count_as_one_bearing():
 
 
 def test_separate_bearings_merge_only_where_they_overlap_or_touch():
-    from audit.standards.checks import Contact
+    from audit.engine.contacts import Contact
 
     def face(start_mm: float, length_mm: float) -> Contact:
         return Contact("x", length_mm / 1000, 0.1, 1.0, None, "", "", start_mm / 1000)

@@ -13,8 +13,8 @@ from collections.abc import Iterator
 from typing import Any
 
 from audit import __version__
+from audit.engine.contacts import Contact
 from audit.review.review import Review
-from audit.standards.checks import Contact
 from audit.standards.o86 import CheckResult, load_duration_factor, placed_forces
 
 

@@ -15,26 +15,13 @@ from collections import defaultdict
 from dataclasses import dataclass, field
 
 from audit.core.errors import ErrorCollector, InputError
+from audit.engine.contacts import Contact, contact_on, separate_bearings, spread_within, top_contact
 from audit.engine.model import Bearing, Member, Model
-from audit.engine.take_down import FORCE_RESOLUTION, AppliedForce, Envelope, Forces, TakeDown
+from audit.engine.take_down import FORCE_RESOLUTION, Envelope, Forces, TakeDown
 from audit.standards.packs import ResistancePack
 
 LOCAL = "local"
 NEAR = "near-support"
-
-
-@dataclass(frozen=True)
-class Contact:
-    """One face's bearing on a member: length along the grain, width across it."""
-
-    source: str  # bearing id or load id
-    length: float  # m
-    width: float  # m
-    end_distance: float  # m, from the member end to the near edge of the bearing
-    centre: float | None  # m along the member
-    length_note: str
-    width_note: str
-    start: float = 0.0  # m along the member, where the contact begins
 
 
 @dataclass(frozen=True)
@@ -81,63 +68,6 @@ class CheckList:
     checks: tuple[RequiredCheck, ...]
     exempt: tuple[Exempt, ...]
     unchecked: tuple[Unchecked, ...] = ()
-
-
-def _least(options: list[tuple[float | None, str]]) -> tuple[float, str]:
-    """The smallest stated extent and where it came from (the note names the others it beat)."""
-    given = [(value, why) for value, why in options if value is not None]
-    value, why = min(given, key=lambda o: o[0])
-    beaten = [f"{w}, {v * 1000:.0f} mm" for v, w in given if w != why and v > value + 1e-9]
-    return value, why + (f" (less than {'; '.join(beaten)})" if beaten else "")
-
-
-def contact_on(member: Member, other: Member, bearing: Bearing) -> Contact:
-    """The true contact on ``member`` at ``bearing``: along its grain, and across it.
-
-    Across the grain the contact is never wider than the member itself, nor than what bears
-    on it: a post's width (or a stated plate), a crossing member's extent along its own grain
-    (its stated seat), a seat stated on either side. A stated plate or seat limits, never widens.
-    """
-    side, far = bearing.side_of(member.id), bearing.side_of(other.id)
-    if side.length is not None:
-        length, length_note = side.length, "stated in the model"
-    elif other.vertical:
-        length, length_note = other.d, f"depth d of post {other.id}"
-    else:
-        length, length_note = other.b, f"width of {other.id} (square crossing)"
-    if not other.vertical and not member.vertical:  # a crossing: the patch is limited both ways
-        length, length_note = _least(
-            [
-                (length, length_note),
-                (other.b, f"b of {other.id}"),
-                (far.width, f"seat width stated on {other.id}"),
-                (bearing.width, "stated plate or seat width"),
-            ]
-        )
-        across = far.length if far.length is not None else member.b
-        across_note = f"seat length stated on {other.id}"
-        if far.length is None:
-            across_note = f"full width of {member.id} (square crossing)"
-    elif bearing.width is not None:
-        across, across_note = bearing.width, "stated plate or seat width"
-    else:
-        across, across_note = other.b, f"b of post {other.id}"
-    width, width_note = _least(
-        [
-            (across, across_note),
-            (member.b, f"b of {member.id}"),
-            (side.width, f"seat width stated on {member.id}"),
-            (bearing.width, "stated plate or seat width"),
-        ]
-    )
-    centre = side.at if side.at is not None else 0.0
-    start, end = centre - 0.5 * length, centre + 0.5 * length
-    if start < 0.0 or end > member.length:
-        start, end = max(start, 0.0), min(end, member.length)
-        length = end - start
-        length_note += ", cut at the member end"
-    end_distance = min(start, member.length - end)
-    return Contact(bearing.id, length, width, end_distance, side.at, length_note, width_note, start)
 
 
 def list_checks(model: Model, flow: TakeDown, pack: ResistancePack, readings: dict[str, str]) -> CheckList:
@@ -242,7 +172,7 @@ def _near_support_checks(model: Model, flow: TakeDown, pack: ResistancePack, cou
             lower = model.members[support.lower.member]
             support_contact = contact_on(member, lower, support)
             try:
-                opposite = tuple(_top_contact(model, member, a, bearings_by_id, loads_by_id) for a in near)
+                opposite = tuple(top_contact(model, member, a, bearings_by_id, loads_by_id) for a in near)
             except InputError as exc:
                 errors.extend(exc)
                 continue
@@ -250,7 +180,7 @@ def _near_support_checks(model: Model, flow: TakeDown, pack: ResistancePack, cou
             for item in near:
                 for case, value in item.forces.items():
                     forces[case] += value
-            spread = _spread_within(spread_loads, x - limit, x + limit, member.length)
+            spread = spread_within(spread_loads, x - limit, x + limit, member.length)
             spread_forces: Forces = defaultdict(float)
             for item, within in spread:
                 for case, value in item.forces.items():
@@ -281,53 +211,6 @@ def _near_support_checks(model: Model, flow: TakeDown, pack: ResistancePack, cou
             )
     errors.raise_if_any()
     return out
-
-
-def _top_contact(model: Model, member: Member, item: AppliedForce, bearings_by_id, loads_by_id) -> Contact:
-    if item.from_bearing:
-        bearing = bearings_by_id[item.source]
-        return contact_on(member, model.members[bearing.upper.member], bearing)
-    load = loads_by_id[item.source]
-    if load.length is None:
-        raise InputError(
-            f"point load '{load.id}' lies within d of a support of '{member.id}': give its bearing 'length' "
-            "so the near-support check can be made",
-            load.loc,
-        )
-    start = max(load.at - 0.5 * load.length, 0.0)
-    end = min(load.at + 0.5 * load.length, member.length)
-    width, width_note = _least([(load.width, "stated in the model"), (member.b, f"b of {member.id}")])
-    return Contact(
-        load.id, end - start, width, min(start, member.length - end), load.at, "stated in the model", width_note, start
-    )
-
-
-def _spread_within(
-    loads: list[AppliedForce], lo: float, hi: float, member_length: float
-) -> list[tuple[AppliedForce, float]]:
-    """The distributed loads that reach into [lo, hi] (cut at the member ends), with the length inside."""
-    lo, hi = max(lo, 0.0), min(hi, member_length)
-    out = []
-    for item in loads:
-        if item.start is None or item.end is None:
-            continue
-        within = min(hi, item.end) - max(lo, item.start)
-        if within > 1e-9:
-            out.append((item, within))
-    return out
-
-
-def separate_bearings(contacts: tuple[Contact, ...]) -> list[tuple[float, float]]:
-    """The contacts as (length, end distance) of separate bearings: those that touch or overlap count as one."""
-    spans = sorted((c.start, c.start + c.length, c.end_distance) for c in contacts)
-    merged: list[list[float]] = []
-    for start, end, end_distance in spans:
-        if merged and start <= merged[-1][1] + 1e-9:
-            merged[-1][1] = max(merged[-1][1], end)
-            merged[-1][2] = min(merged[-1][2], end_distance)
-        else:
-            merged.append([start, end, end_distance])
-    return [(end - start, end_distance) for start, end, end_distance in merged]
 
 
 def top_bearing(check: RequiredCheck, reading: str) -> tuple[float, float]:
