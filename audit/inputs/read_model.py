@@ -43,7 +43,7 @@ from audit.standards.packs import (
     DURATIONS,
     SERVICES,
     CombinationPack,
-    ResistancePack,
+    PackCore,
     select_packs,
 )
 
@@ -109,14 +109,14 @@ ENGINEERED_FACTORS = ("KD", "KScp", "KB", "KZcp", "KT")
 SUPPORTS = ("bearings", "continuous", "studs")
 
 
-PackLoader = Callable[[str, str, Location], tuple[ResistancePack, CombinationPack]]
+PackLoader = Callable[[str, str, Location], tuple[PackCore, CombinationPack]]
 
 
 def read_model(
     path: Path | str,
     rules_dirs: tuple[Path, ...] = (),
     rule_pack: str | None = None,
-) -> tuple[Model, ResistancePack, CombinationPack]:
+) -> tuple[Model, PackCore, CombinationPack]:
     """Read and validate a model file; return it with the rule packs it selects."""
     root = read_yaml_file(path)
     return build_model(root, str(path), rules_dirs, rule_pack)
@@ -124,7 +124,7 @@ def read_model(
 
 def build_model(
     root: Node, name: str, rules_dirs: tuple[Path, ...] = (), rule_pack: str | None = None
-) -> tuple[Model, ResistancePack, CombinationPack]:
+) -> tuple[Model, PackCore, CombinationPack]:
     errors = ErrorCollector()
     top = FieldReader(root, TOP_KEYS, errors, "the model")
     if not top.ok:
@@ -241,7 +241,7 @@ def _read_reading_choices(f: FieldReader, errors: ErrorCollector) -> dict[str, s
     return out
 
 
-def _check_readings(project: Project, pack: ResistancePack, node: Node, errors: ErrorCollector) -> None:
+def _check_readings(project: Project, pack: PackCore, node: Node, errors: ErrorCollector) -> None:
     """Every reading the project chooses names a choice of the pack and one of its readings."""
     keys = {name: key for key, name in READING_KEYS.items()}
     for name, reading in project.readings.items():
@@ -264,7 +264,7 @@ def _check_readings(project: Project, pack: ResistancePack, node: Node, errors: 
             )
 
 
-def _read_materials(node: Node, pack: ResistancePack, errors: ErrorCollector) -> dict[str, Material]:
+def _read_materials(node: Node, pack: PackCore, errors: ErrorCollector) -> dict[str, Material]:
     if not isinstance(node.value, dict):
         errors.add(f"expected a mapping of material id to material, got {describe_value(node.value)}", node.loc)
         return {}
@@ -281,7 +281,7 @@ def _read_materials(node: Node, pack: ResistancePack, errors: ErrorCollector) ->
 
 
 def _material_of_family(
-    mat_id: str, family: str, f: FieldReader, pack: ResistancePack, errors: ErrorCollector
+    mat_id: str, family: str, f: FieldReader, pack: PackCore, errors: ErrorCollector
 ) -> Material | None:
     loc = f.node.loc
     if family == "engineered":

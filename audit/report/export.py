@@ -15,7 +15,7 @@ from typing import Any
 from audit import __version__
 from audit.engine.contacts import Contact
 from audit.review.review import Review
-from audit.standards.o86 import CheckResult, load_duration_factor, placed_forces
+from audit.standards.o86 import CheckResult, placed_forces
 
 
 def _contact(c: Contact) -> dict[str, Any]:
@@ -210,8 +210,7 @@ def explain(review: Review, check_id: str) -> str:
         )
     lines.append(r.area_reason)
     lines += [f"  {f.reason}" + (f"  [{f.clause}]" if f.clause else "") for f in r.factors]
-    formula = "Qr' = (2/3) phi Fcp Ab' KB KZcp" if c.kind == "near-support" else "Qr = phi Fcp Ab KB KZcp"
-    lines.append(f"{formula}, Fcp = fcp (KD KScp KT)")
+    lines.append(review.standard.formula(c.kind))
     lines.append(
         "Forces through the check (specified, per case): "
         + ", ".join(f"{case} = {v / 1000:.2f} kN" for case, v in sorted(c.forces.items()))
@@ -231,7 +230,7 @@ def explain(review: Review, check_id: str) -> str:
         mark = "  <- governs" if x is r.governing else ""
         placed = placed_forces(c.forces, c.envelope, combos[x.combination])[0] if x.combination in combos else c.forces
         reason = x.kd_reason or (
-            load_duration_factor(placed, combos[x.combination], review.pack)[1]
+            review.standard.duration_reason(placed, combos[x.combination], review.pack)
             if r.inputs.uses_kd and x.combination in combos
             else f"KD = {x.kd:.2f}"
         )

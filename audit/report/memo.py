@@ -78,8 +78,13 @@ def kn(value: float | None, display: Display | None = None) -> str:
     return text[1:] if text.startswith("-") and not text.strip("-0.,") else text
 
 
+def _slot(lines: dict[str, str], name: str) -> list[str]:
+    return [lines[name]] if name in lines else []
+
+
 def assumptions(review: Review) -> list[str]:
     pack = review.pack
+    lines = review.standard.assumption_lines(review)  # what the standard of the rule pack says
     out = [
         "Members on two supports are solved by statics; members on three or more supports by the stiffness "
         "method for a continuous beam of constant EI on unyielding supports.",
@@ -89,8 +94,7 @@ def assumptions(review: Review) -> list[str]:
             f"{choice.title}: {choice.text(review.readings[name])} [reading {review.readings[name]}]."
             for name, choice in pack.choices.items()
         ),
-        "Near-support checks are made where point loads or bearings on the top face have their centres within "
-        "the member depth d of the support centre.",
+        *_slot(lines, "near_support"),
         "A plate on a stud wall (support: studs) stands on studs placed at their spacing from the plate's start, "
         "with an end stud, and on the stud packs the model gives, each replacing the studs it covers; the plate is "
         "checked over each loaded stud and pack and squeezed where a load above lies within d of one. Members "
@@ -101,17 +105,12 @@ def assumptions(review: Review) -> list[str]:
         "the other member's width for a square crossing, or a post's depth); across its grain, the least of its "
         "own width b, the other member's extent across it (a post's width, or a crossing member's seat along its "
         "own grain) and any stated plate or seat width. A stated plate or seat limits the contact, never widens it.",
-        "Glulam bears on its compression-face laminations where loads land on its top face and on its "
-        "tension-face laminations at its supports, for a layup installed as designed (an inverted layup is not "
-        "modelled); a near-support check loads both faces and takes the lesser fcp. Each family's findings cite "
-        "its own clause from the rule pack.",
+        *_slot(lines, "faces"),
         "Specified loads are taken as given: snow, wind and earthquake loads must already include their "
         "importance factors (the tool applies none). Wind given as pressure and suction is taken each way in every "
         "combination with wind; live load marked storage takes the pack's storage companion factor and counts as "
         "long-term load in the KD formula where the rule pack says so.",
-        "KD per combination: permanent 0.65, short term 1.15, standard term 1.00 or the long-term formula where "
-        "the specified dead load at the check exceeds its L + S load. The governing combination is the one with "
-        "the highest Qf/Qr.",
+        *_slot(lines, "duration"),
     ]
     threshold, whose = uplift_threshold(review.model, pack)
     out.append(

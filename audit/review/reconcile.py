@@ -24,7 +24,7 @@ from audit.review import wording
 from audit.review.findings import KINDS, Finding, severity_rank
 from audit.review.review import Review
 from audit.standards.checks import LOCAL, NEAR, RequiredCheck, top_bearing
-from audit.standards.o86 import CheckResult, evaluate, factored_force, resistance, resistance_inputs
+from audit.standards.o86 import CheckResult, factored_force, o86_pack, resistance
 
 FACTOR_REL_TOL = 0.01
 KEY_OF = {"kb": "KB", "kzcp": "KZcp", "kscp": "KScp", "fcp": "fcp"}  # ResistanceInputs field -> claim factor
@@ -467,8 +467,10 @@ def _partner(review: Review, check: RequiredCheck, kind: str) -> CheckResult | N
 
 
 def qr_slips(result: CheckResult, review: Review) -> list[Slip]:
+    if "o86-factors" not in review.standard.slip_recipes:
+        return []  # the factor slips below are O86's; another standard brings its own family
     check, inputs, g = result.check, result.inputs, result.governing
-    pack = review.pack
+    pack = o86_pack(review.pack)
     model = review.model
     member = model.members[check.member]
     other = model.members[check.other_member]
@@ -560,21 +562,20 @@ def factor_differences(claim: Claim, result: CheckResult) -> tuple[FactorDiffere
 # ---------------------------------------------------------------- remedy
 
 
-def smallest_passing_length(result: CheckResult, review: Review) -> tuple[float, float] | None:
-    """(bearing length, KB) at the present contact width that makes the check pass, or None."""
+def smallest_passing_length(result: CheckResult, review: Review) -> tuple[float, str] | None:
+    """(bearing length, the length factor it takes) at the present contact width that makes the check pass, or None."""
     check = result.check
     member = review.model.members[check.member]
     # the governing combination stays governing as the length changes: Qr scales alike in all
     combos = tuple(c for c in review.combinations if c.name == result.governing.combination)
 
-    def passes(length: float) -> tuple[bool, float]:
+    def passes(length: float) -> tuple[bool, str]:
         contact = check.contact
         grown = length - contact.length
         end_distance = contact.end_distance if contact.end_distance < 1e-9 else max(contact.end_distance - grown / 2, 0)
         trial = replace(check, contact=replace(contact, length=length, end_distance=end_distance))
-        inputs, _, _ = resistance_inputs(trial, review.model, review.pack, review.readings)
-        _, gov, _ = evaluate(trial, inputs, combos, review.pack)
-        return gov.utilisation <= 1.0, inputs.kb
+        utilisation, factor = review.standard.trial(trial, review.model, review.pack, review.readings, combos)
+        return utilisation <= 1.0, factor
 
     lo, hi = check.contact.length, member.length
     if not passes(hi)[0]:
@@ -602,9 +603,9 @@ def remedy_text(result: CheckResult, review: Review) -> str:
         if check.kind == NEAR:
             text += " The near-support area is limited by the bearing on the opposite face."
         return text
-    length, kb = found
+    length, factor = found
     member = review.model.members[check.member]
-    text = f"Passes with a {face} length of at least {length * 1000:.0f} mm at {width:.0f} mm width (KB = {kb:.2f})"
+    text = f"Passes with a {face} length of at least {length * 1000:.0f} mm at {width:.0f} mm width ({factor})"
     other = review.model.members[check.other_member]
     if check.kind == LOCAL and not other.vertical and length > other.b + 1e-9:
         text += f" (longer than {other.id} is wide: a bearing plate, seat or blocking)"

@@ -12,15 +12,17 @@ from audit.engine.take_down import FORCE_RESOLUTION, TakeDown, take_down
 from audit.inputs.read_model import read_model
 from audit.review import wording
 from audit.review.findings import KINDS, Finding
-from audit.standards.checks import CheckList, list_checks
-from audit.standards.o86 import CheckResult, LoadCombination, load_combinations, resist
-from audit.standards.packs import CombinationPack, ResistancePack
+from audit.standards.base import Standard
+from audit.standards.checks import CheckList
+from audit.standards.o86 import CheckResult, LoadCombination, load_combinations
+from audit.standards.packs import CombinationPack, PackCore
+from audit.standards.registry import standard_named
 
 
 @dataclass(frozen=True)
 class Review:
     model: Model
-    pack: ResistancePack
+    pack: PackCore
     cpack: CombinationPack
     flow: TakeDown
     checklist: CheckList
@@ -68,6 +70,11 @@ class Review:
         return out
 
     @cached_property
+    def standard(self) -> Standard:
+        """The standard the rule pack declares, which listed the checks and computed their resistance."""
+        return standard_named(self.pack.standard)
+
+    @cached_property
     def readings(self) -> dict[str, str]:
         """The reading in force at each of the pack's choices."""
         return self.pack.in_force(self.model.project.readings)
@@ -78,10 +85,11 @@ def review_model(model_path: Path | str, rules_dirs: tuple[Path, ...] = (), rule
     return review_built(model, pack, cpack)
 
 
-def review_built(model: Model, pack: ResistancePack, cpack: CombinationPack) -> Review:
+def review_built(model: Model, pack: PackCore, cpack: CombinationPack) -> Review:
     flow = take_down(model, {case: p.value for case, p in cpack.patterns.items()})
-    checklist = list_checks(model, flow, pack, pack.in_force(model.project.readings))
-    results = resist(checklist, model, pack, cpack)
+    standard = standard_named(pack.standard)
+    checklist = standard.list_checks(model, flow, pack, pack.in_force(model.project.readings))
+    results = standard.resist(checklist, model, pack, cpack)
     threshold, whose = uplift_threshold(model, pack)
     factors = {c.name: c.factors for c in load_combinations(model, cpack)}
     display = Display.for_project(model.project.units)
@@ -160,7 +168,7 @@ def _as_placed(combination: str, result: CheckResult, factors: dict[str, float])
     return f"{combination} (dead load counteracting" + (f"; {'; '.join(placed)})" if placed else ")")
 
 
-def uplift_threshold(model: Model, pack: ResistancePack) -> tuple[float, str]:
+def uplift_threshold(model: Model, pack: PackCore) -> tuple[float, str]:
     """(N, whose) below which uplift is a note: the project's where it sets one, else the pack's."""
     if model.project.uplift_note_below is not None:
         return model.project.uplift_note_below, "the project's note threshold (uplift_note_below)"

@@ -12,10 +12,12 @@ each combination gets its own Qr and the governing one is the highest Qf/Qr.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, replace
+from dataclasses import dataclass, field, replace
 from functools import cached_property
+from typing import Any
 
 from audit.core.errors import ErrorCollector, InputError
+from audit.core.located_yaml import Node
 from audit.engine.model import (
     FACTORED_PREFIX,
     STORAGE_LIVE,
@@ -26,9 +28,17 @@ from audit.engine.model import (
     Model,
     base_case,
 )
-from audit.engine.take_down import FORCE_RESOLUTION, Forces
-from audit.standards.checks import LOCAL, NEAR, CheckList, RequiredCheck, near_support_geometry, top_bearing
-from audit.standards.packs import CombinationPack, ResistancePack
+from audit.engine.take_down import FORCE_RESOLUTION, Forces, TakeDown
+from audit.standards.checks import (
+    LOCAL,
+    NEAR,
+    CheckList,
+    RequiredCheck,
+    list_checks,
+    near_support_geometry,
+    top_bearing,
+)
+from audit.standards.packs import CombinationPack, PackCore, ResistancePack, read_resistance_pack
 
 STANDARD_TERM_CASES = ("L", "S")
 LONG_TERM_CASE = "D"
@@ -508,3 +518,69 @@ def resist(checklist: CheckList, model: Model, pack: ResistancePack, cpack: Comb
         )
     errors.raise_if_any()
     return tuple(out)
+
+
+# ---------------------------------------------------------------- the standard, as the review sees it
+
+
+@dataclass(frozen=True)
+class _O86:
+    """CSA O86 behind the standard interface (``standards/base.py``)."""
+
+    id: str = "o86"
+    title: str = "CSA O86"
+    check_kinds: dict[str, str] = field(
+        default_factory=lambda: {LOCAL: "local bearing", NEAR: "near-support bearing (loads within d of a support)"}
+    )
+    symbols: tuple[str, ...] = ("Qf", "Qr", "Qr'", "Qf'", "Fcp", "fcp", "Ab", "Ab'", "KB", "KZcp", "KD", "KScp", "KT")
+    slip_recipes: tuple[str, ...] = ("o86-factors",)
+    combination_formats: tuple[str, ...] = ("limit-states",)
+
+    def read_pack(self, root: Node, path: str) -> ResistancePack:
+        return read_resistance_pack(root, path)
+
+    def list_checks(self, model: Model, flow: TakeDown, pack: PackCore, readings: dict[str, str]) -> CheckList:
+        return list_checks(model, flow, o86_pack(pack), readings)
+
+    def resist(
+        self, checklist: CheckList, model: Model, pack: PackCore, cpack: CombinationPack
+    ) -> tuple[CheckResult, ...]:
+        return resist(checklist, model, o86_pack(pack), cpack)
+
+    def formula(self, kind: str) -> str:
+        qr = "Qr' = (2/3) phi Fcp Ab' KB KZcp" if kind == NEAR else "Qr = phi Fcp Ab KB KZcp"
+        return f"{qr}, Fcp = fcp (KD KScp KT)"
+
+    def assumption_lines(self, review: Any) -> dict[str, str]:
+        kd = o86_pack(review.pack).kd
+        return {
+            "near_support": "Near-support checks are made where point loads or bearings on the top face have their "
+            "centres within the member depth d of the support centre.",
+            "faces": "Glulam bears on its compression-face laminations where loads land on its top face and on its "
+            "tension-face laminations at its supports, for a layup installed as designed (an inverted layup is not "
+            "modelled); a near-support check loads both faces and takes the lesser fcp. Each family's findings cite "
+            "its own clause from the rule pack.",
+            "duration": f"KD per combination: permanent {kd['permanent'].value:.2f}, short term "
+            f"{kd['short'].value:.2f}, standard term {kd['standard'].value:.2f} or the long-term formula where "
+            "the specified dead load at the check exceeds its L + S load. The governing combination is the one with "
+            "the highest Qf/Qr.",
+        }
+
+    def duration_reason(self, forces: Forces, combination: Any, pack: PackCore) -> str:
+        return load_duration_factor(forces, combination, o86_pack(pack))[1]
+
+    def trial(
+        self, check: RequiredCheck, model: Model, pack: PackCore, readings: dict[str, str], combinations: tuple
+    ) -> tuple[float, str]:
+        inputs, _, _ = resistance_inputs(check, model, o86_pack(pack), readings)
+        _, governing, _ = evaluate(check, inputs, combinations, o86_pack(pack))
+        return governing.utilisation, f"KB = {inputs.kb:.2f}"
+
+
+def o86_pack(pack: PackCore) -> ResistancePack:
+    if not isinstance(pack, ResistancePack):
+        raise TypeError(f"rule pack {pack.id} is a {pack.standard} pack, not an O86 one")
+    return pack
+
+
+O86 = _O86()

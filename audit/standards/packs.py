@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import itertools
 import math
+from collections.abc import Mapping
 from dataclasses import dataclass
 from functools import cached_property
 from importlib import resources
@@ -28,6 +29,31 @@ CHOICES = (
     ("near_support", "opposite_bearings"),
     ("near_support", "distributed_loads"),
     ("kzcp", "built_up"),
+)
+# The readings O86's resistance code implements at each choice: a pack naming another is refused
+# (a new reading is new code in the standard's module, never a label the old formula runs under).
+O86_READINGS = {
+    "near_support.area_limit": ("length_cap", "area_cap"),
+    "near_support.kb_reading": ("both_qualify", "shorter_bearing"),
+    "near_support.opposite_bearings": ("longest_single", "summed"),
+    "near_support.distributed_loads": ("within_d", "bearings_only"),
+    "kzcp.built_up": ("per_ply", "combined"),
+}
+PACK_HEAD_KEYS = ("kind", "id", "title", "edition", "provenance", "standard")
+O86_KEYS = (
+    *PACK_HEAD_KEYS,
+    "phi",
+    "timber_families",
+    "clauses",
+    "fcp",
+    "fc",
+    "kb",
+    "kzcp",
+    "kd",
+    "kscp",
+    "ksc",
+    "uplift",
+    "near_support",
 )
 SERVICES = ("dry", "wet")
 TIMBER_FAMILIES_ALL = ("sawn_lumber", "timber", "glulam", "engineered")
@@ -86,16 +112,21 @@ class Choice:
 
 
 @dataclass(frozen=True)
-class ResistancePack:
+class PackCore:
+    """What every standard's resistance pack states: the materials, the clauses findings cite, the readings."""
+
     id: str
     title: str
     edition: str
     provenance: str
     path: str
-    phi: Sourced
+    standard: str  # the standard module that interprets the pack (o86, nds, ec5)
     timber_families: Sourced
-    fcp: dict[str, dict[str, SpeciesStrength]]
+    fcp: dict[str, dict[str, SpeciesStrength]]  # strength perpendicular to grain by family and species
     fc: dict[str, dict[str, Sourced]]  # value: Pa for every grade, or grade -> Pa
+    clauses: dict[str, Sourced]  # family -> {local: clause, near_support: clause}, as findings cite them
+    uplift_note_below: Sourced  # N: calculated uplift below this is a note (continuity of the statics)
+    choices: dict[str, Choice]  # every two-way reading, by its dotted name
 
     def fc_for(self, family: str, species: str, grade: str) -> float | None:
         """Compression parallel to grain for Hankinson's formula, by grade where the pack tabulates it."""
@@ -104,7 +135,40 @@ class ResistancePack:
             return None
         return entry.value.get(grade) if isinstance(entry.value, dict) else entry.value
 
-    clauses: dict[str, Sourced]  # family -> {local: clause, near_support: clause}, as findings cite them
+    def is_timber(self, family: str) -> bool:
+        return family in self.timber_families.value
+
+    def clause_for(self, family: str, kind: str) -> str:
+        """The clause a finding on this family cites: local bearing, or loads near a support."""
+        return self.clauses[family].value["near_support" if kind == "near-support" else "local"]
+
+    def in_force(self, chosen: dict[str, str]) -> dict[str, str]:
+        """The reading in force at every choice: the project's where it chose, else the pack's default."""
+        return {name: chosen.get(name, c.default.value) for name, c in self.choices.items()}
+
+    def core_sourced(self) -> list[tuple[str, Sourced]]:
+        out: list[tuple[str, Sourced]] = [("timber_families", self.timber_families)]
+        for fam, species in self.fcp.items():
+            for sp, strength in species.items():
+                out.append((f"fcp.{fam}.{sp}", strength.fcp))
+                if strength.tension_face is not None:
+                    out.append((f"fcp.{fam}.{sp}.tension_face", strength.tension_face))
+        out += [(f"clauses.{fam}", clause) for fam, clause in self.clauses.items()]
+        for fam, by_species in self.fc.items():
+            for sp, val in by_species.items():
+                out.append((f"fc.{fam}.{sp}", val))
+        return out
+
+    def all_sourced(self) -> list[tuple[str, Sourced]]:
+        """Every value with a dotted name, for listing."""
+        return self.core_sourced() + [(name, c.default) for name, c in self.choices.items()]
+
+
+@dataclass(frozen=True)
+class ResistancePack(PackCore):
+    """A CSA O86 pack: the core, and the factors and readings of O86's bearing clauses."""
+
+    phi: Sourced
     kb_max_length: Sourced  # m
     kb_min_end_distance: Sourced  # m
     kb_table: Sourced  # Table over bearing length in m
@@ -117,38 +181,16 @@ class ResistancePack:
     ksc: dict[str, Sourced]
     near_factor: Sourced
     near_reach: Sourced
-    uplift_note_below: Sourced  # N: calculated uplift below this is a note (continuity of the statics)
     near_area_ratio: float
-    choices: dict[str, Choice]  # every two-way reading, by its dotted name
-
-    def is_timber(self, family: str) -> bool:
-        return family in self.timber_families.value
-
-    def clause_for(self, family: str, kind: str) -> str:
-        """The clause a finding on this family cites: local bearing, or loads near a support."""
-        return self.clauses[family].value["near_support" if kind == "near-support" else "local"]
 
     @cached_property
     def long_term_live(self) -> tuple[str, ...]:
         """The load cases of live load the KD formula counts as long-term, e.g. ('L:storage',)."""
         return tuple(f"L:{kind}" for kind in self.kd_long_term_live.value)
 
-    def in_force(self, chosen: dict[str, str]) -> dict[str, str]:
-        """The reading in force at every choice: the project's where it chose, else the pack's default."""
-        return {name: chosen.get(name, c.default.value) for name, c in self.choices.items()}
-
     def all_sourced(self) -> list[tuple[str, Sourced]]:
         """Every value with a dotted name, for listing."""
-        out: list[tuple[str, Sourced]] = [("phi", self.phi), ("timber_families", self.timber_families)]
-        for fam, species in self.fcp.items():
-            for sp, strength in species.items():
-                out.append((f"fcp.{fam}.{sp}", strength.fcp))
-                if strength.tension_face is not None:
-                    out.append((f"fcp.{fam}.{sp}.tension_face", strength.tension_face))
-        out += [(f"clauses.{fam}", clause) for fam, clause in self.clauses.items()]
-        for fam, by_species in self.fc.items():
-            for sp, val in by_species.items():
-                out.append((f"fc.{fam}.{sp}", val))
+        out: list[tuple[str, Sourced]] = [("phi", self.phi), *self.core_sourced()]
         out += [
             ("kb.max_length", self.kb_max_length),
             ("kb.min_end_distance", self.kb_min_end_distance),
@@ -195,7 +237,7 @@ class CombinationPack:
 # ---------------------------------------------------------------- reading
 
 
-class _Reader:
+class PackReader:
     """Small helpers that read located nodes and collect errors."""
 
     def __init__(self, errors: ErrorCollector) -> None:
@@ -347,9 +389,41 @@ def _long_term(node: Node, _parent: Node) -> dict[str, float]:
     return {k: _number(v) for k, v in node.value.items()}
 
 
+def refuse_unknown_fields(root: Node, allowed: tuple[str, ...], standard: str, errors: ErrorCollector) -> None:
+    """A pack field the standard does not implement is refused, never ignored."""
+    for key in root.value:
+        if key not in allowed:
+            from audit.inputs.fields import did_you_mean
+
+            errors.add(
+                f"field '{key}' is not one that standard {standard} implements{did_you_mean(key, allowed)}",
+                root.key_loc(key),
+            )
+
+
+def check_readings(
+    choice: Choice, node: Node, implemented: Mapping[str, tuple[str, ...]], standard: str, errors: ErrorCollector
+) -> None:
+    """Every reading a pack names at a choice must be one the standard's code implements."""
+    known = implemented.get(choice.name)
+    if known is None:
+        errors.add(f"choice '{choice.name}' is not one that standard {standard} implements", node.loc)
+        return
+    readings = node.value["readings"]
+    for reading in choice.readings:
+        if reading not in known:
+            errors.add(
+                f"reading '{reading}' of {choice.name} is not one that standard {standard} implements "
+                f"(it implements: {', '.join(known)})",
+                readings.key_loc(reading),
+            )
+
+
 def read_resistance_pack(root: Node, path: str) -> ResistancePack:
+    """A CSA O86 pack."""
     errors = ErrorCollector()
-    r = _Reader(errors)
+    r = PackReader(errors)
+    refuse_unknown_fields(root, O86_KEYS, "o86", errors)
     get = root.value.get
 
     def sub(parent: Node | None, key: str) -> Node | None:
@@ -411,8 +485,9 @@ def read_resistance_pack(root: Node, path: str) -> ResistancePack:
         if node is None:
             errors.add(f"missing '{key}': a reading of the standard every pack states", root.child_loc(section))
             continue
-        choice = _choice(r, node, f"{section}.{key}")
+        choice = read_choice(r, node, f"{section}.{key}")
         if choice is not None:
+            check_readings(choice, node, O86_READINGS, "o86", errors)
             choices[choice.name] = choice
     ratio = 1.5
     if area is not None and "ratio" in area.value:
@@ -433,6 +508,7 @@ def read_resistance_pack(root: Node, path: str) -> ResistancePack:
         edition=r.text(root, "edition", ""),
         provenance=r.text(root, "provenance", ""),
         path=path,
+        standard="o86",
         fcp=fcp,
         fc=fc,
         near_area_ratio=ratio,
@@ -460,7 +536,7 @@ def _clause_pair(node: Node, _parent: Node) -> dict[str, str]:
     return {k: node_text(v) for k, v in node.value.items()}
 
 
-def _choice(r: _Reader, node: Node, name: str) -> Choice | None:
+def read_choice(r: PackReader, node: Node, name: str) -> Choice | None:
     default = r.sourced(node, _reading)
     if default is None:
         return None
@@ -470,7 +546,7 @@ def _choice(r: _Reader, node: Node, name: str) -> Choice | None:
 
 def read_combination_pack(root: Node, path: str) -> CombinationPack:
     errors = ErrorCollector()
-    r = _Reader(errors)
+    r = PackReader(errors)
     cases_node = root.value.get("cases")
     cases = tuple(str(c.value) for c in cases_node.value) if cases_node else ()
     if not cases:
@@ -574,8 +650,10 @@ def pack_files(extra_dirs: tuple[Path, ...] = ()) -> list[Path]:
 
 def load_all_packs(
     extra_dirs: tuple[Path, ...] = (),
-) -> tuple[dict[str, ResistancePack], dict[str, CombinationPack]]:
-    resistance: dict[str, ResistancePack] = {}
+) -> tuple[dict[str, PackCore], dict[str, CombinationPack]]:
+    from audit.standards.registry import standard_named
+
+    resistance: dict[str, PackCore] = {}
     combos: dict[str, CombinationPack] = {}
     for path in pack_files(extra_dirs):
         root = read_yaml_file(path)
@@ -584,7 +662,11 @@ def load_all_packs(
         kind = root.value.get("kind")
         kind_value = kind.value if kind else None
         if kind_value == "resistance":
-            pack = read_resistance_pack(root, str(path))
+            named = root.value.get("standard")
+            standard = standard_named(
+                str(named.value) if named is not None else "o86", named.loc if named else root.loc
+            )
+            pack = standard.read_pack(root, str(path))
             resistance.setdefault(pack.id, pack)
         elif kind_value == "combinations":
             cpack = read_combination_pack(root, str(path))
@@ -599,7 +681,7 @@ def select_packs(
     combinations_id: str,
     extra_dirs: tuple[Path, ...] = (),
     where: Location | None = None,
-) -> tuple[ResistancePack, CombinationPack]:
+) -> tuple[PackCore, CombinationPack]:
     resistance, combos = load_all_packs(extra_dirs)
     if resistance_id not in resistance:
         raise InputError(f"unknown rule pack '{resistance_id}' (available: {', '.join(sorted(resistance))})", where)

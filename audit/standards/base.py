@@ -1,0 +1,68 @@
+"""The standard interface: what a design standard contributes to a review.
+
+A standard (CSA O86, US NDS, EN 1995-1-1) is one module that provides an object with this
+shape, registered in ``registry.py``; its rule packs declare ``standard: <id>``. The engine
+knows geometry and statics and no standard; everything a standard decides is asked here: which
+checks a contact requires, how each check resists and why, its clauses and its memo wording.
+Adding a standard is its module, its packs and its tests (see the contributor guide).
+"""
+
+from __future__ import annotations
+
+from typing import TYPE_CHECKING, Any, Protocol
+
+if TYPE_CHECKING:
+    from audit.core.located_yaml import Node
+    from audit.engine.model import Model
+    from audit.engine.take_down import TakeDown
+    from audit.standards.checks import CheckList
+    from audit.standards.o86 import CheckResult
+    from audit.standards.packs import CombinationPack, PackCore
+
+
+class Standard(Protocol):
+    @property
+    def id(self) -> str:  # as packs name it: standard: o86
+        ...
+
+    @property
+    def title(self) -> str:  # as the memo names it
+        ...
+
+    @property
+    def check_kinds(self) -> dict[str, str]:  # the kinds of check it requires -> the memo's words for each
+        ...
+
+    @property
+    def symbols(self) -> tuple[str, ...]:  # how its calc sheets write the quantities (the claims vocabulary)
+        ...
+
+    @property
+    def slip_recipes(self) -> tuple[str, ...]:  # families of slip recipes the reconciler may try on its checks
+        ...
+
+    @property
+    def combination_formats(self) -> tuple[str, ...]:  # formats of combination pack it reads
+        ...
+
+    def read_pack(self, root: Node, path: str) -> PackCore: ...
+
+    def list_checks(self, model: Model, flow: TakeDown, pack: PackCore, readings: dict[str, str]) -> CheckList: ...
+
+    def resist(
+        self, checklist: CheckList, model: Model, pack: PackCore, cpack: CombinationPack
+    ) -> tuple[CheckResult, ...]: ...
+
+    def formula(self, kind: str) -> str: ...
+
+    def assumption_lines(self, review: Any) -> dict[str, str]: ...
+
+    def duration_reason(self, forces: dict[str, float], combination: Any, pack: PackCore) -> str:
+        """Why the load-duration (or modification) factor took its value under one combination."""
+        ...
+
+    def trial(
+        self, check: Any, model: Model, pack: PackCore, readings: dict[str, str], combinations: tuple
+    ) -> tuple[float, str]:
+        """A check with another contact: (its governing Qf/Qr, the length factor it takes, e.g. 'KB = 1.10')."""
+        ...

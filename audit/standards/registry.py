@@ -1,0 +1,19 @@
+"""The standards bearing-audit implements, by the id their rule packs declare."""
+
+from __future__ import annotations
+
+from audit.core.errors import InputError, Location
+from audit.standards.base import Standard
+
+
+def standards() -> dict[str, Standard]:
+    from audit.standards.o86 import O86
+
+    return {s.id: s for s in (O86,)}
+
+
+def standard_named(name: str, where: Location | None = None) -> Standard:
+    found = standards().get(name)
+    if found is None:
+        raise InputError(f"unknown standard '{name}' (implemented: {', '.join(standards())})", where)
+    return found
