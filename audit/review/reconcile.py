@@ -574,7 +574,9 @@ def smallest_passing_length(result: CheckResult, review: Review) -> tuple[float,
         grown = length - contact.length
         end_distance = contact.end_distance if contact.end_distance < 1e-9 else max(contact.end_distance - grown / 2, 0)
         trial = replace(check, contact=replace(contact, length=length, end_distance=end_distance))
-        utilisation, factor = review.standard.trial(trial, review.model, review.pack, review.readings, combos)
+        utilisation, factor = review.standard.trial(
+            trial, review.model, review.pack, review.cpack, review.readings, combos
+        )
         return utilisation <= 1.0, factor
 
     lo, hi = check.contact.length, member.length

@@ -62,7 +62,13 @@ class Standard(Protocol):
         ...
 
     def trial(
-        self, check: Any, model: Model, pack: PackCore, readings: dict[str, str], combinations: tuple
+        self,
+        check: Any,
+        model: Model,
+        pack: PackCore,
+        cpack: CombinationPack,
+        readings: dict[str, str],
+        combinations: tuple,
     ) -> tuple[float, str]:
         """A check with another contact: (its governing Qf/Qr, the length factor it takes, e.g. 'KB = 1.10')."""
         ...

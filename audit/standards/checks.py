@@ -18,7 +18,7 @@ from audit.core.errors import ErrorCollector, InputError
 from audit.engine.contacts import Contact, contact_on, separate_bearings, spread_within, top_contact
 from audit.engine.model import Bearing, Member, Model
 from audit.engine.take_down import FORCE_RESOLUTION, Envelope, Forces, TakeDown
-from audit.standards.packs import ResistancePack
+from audit.standards.packs import PackCore, ResistancePack
 
 LOCAL = "local"
 NEAR = "near-support"
@@ -71,6 +71,15 @@ class CheckList:
 
 
 def list_checks(model: Model, flow: TakeDown, pack: ResistancePack, readings: dict[str, str]) -> CheckList:
+    """O86: the local checks at every contact, and the near-support checks where loads lie within d of a support."""
+    checks, exempt = local_checks(model, flow, pack)
+    count_spread = readings["near_support.distributed_loads"] == "within_d"
+    checks.extend(_near_support_checks(model, flow, pack, count_spread))
+    return CheckList(tuple(checks), tuple(exempt), unseen_supports(model, flow, pack))
+
+
+def local_checks(model: Model, flow: TakeDown, pack: PackCore) -> tuple[list[RequiredCheck], list[Exempt]]:
+    """Both directions at every bearing: each timber member loaded on its side grain gets a local check."""
     checks: list[RequiredCheck] = []
     exempt: list[Exempt] = []
     for bearing in model.bearings:
@@ -103,12 +112,10 @@ def list_checks(model: Model, flow: TakeDown, pack: ResistancePack, readings: di
                     envelope=flow.envelopes.get(bearing.id, {}),
                 )
             )
-    count_spread = readings["near_support.distributed_loads"] == "within_d"
-    checks.extend(_near_support_checks(model, flow, pack, count_spread))
-    return CheckList(tuple(checks), tuple(exempt), _unseen_supports(model, flow, pack))
+    return checks, exempt
 
 
-def _unseen_supports(model: Model, flow: TakeDown, pack: ResistancePack) -> tuple[Unchecked, ...]:
+def unseen_supports(model: Model, flow: TakeDown, pack: PackCore) -> tuple[Unchecked, ...]:
     """Continuous members whose support is not shown, with the point loads that land on them."""
     out = []
     for member in model.members.values():
@@ -125,7 +132,7 @@ def _unseen_supports(model: Model, flow: TakeDown, pack: ResistancePack) -> tupl
     return tuple(out)
 
 
-def _no_check_reason(model: Model, member: Member, pack: ResistancePack) -> str:
+def _no_check_reason(model: Model, member: Member, pack: PackCore) -> str:
     material = model.materials[member.material]
     if not pack.is_timber(material.family):
         return f"{material.family.replace('_', ' ')}: checked under its own standard"

@@ -12,6 +12,7 @@ each combination gets its own Qr and the governing one is the highest Qf/Qr.
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import dataclass, field, replace
 from functools import cached_property
 from typing import Any
@@ -306,7 +307,7 @@ def _fc_parallel(member: Member, material: Material, pack: ResistancePack, angle
     return material.fc * ksc * (member.kt if "KT" in material.applies else 1.0)
 
 
-def _fcp_on_face(check: RequiredCheck, material: Material) -> tuple[float, str]:
+def fcp_on_face(check: RequiredCheck, material: Material) -> tuple[float, str]:
     """fcp on the face the check bears on, and how it was chosen (glulam has a compression and a tension face).
 
     For a layup installed as designed a beam's top face, where loads land, is its compression
@@ -341,7 +342,7 @@ def resistance_inputs(
     material = model.materials[member.material]
     if material.fcp is None:  # the reader fills fcp from the pack or the product; never left empty
         raise InputError(f"material '{material.id}' has no fcp", material.loc)
-    fcp_value, face_text = _fcp_on_face(check, material)
+    fcp_value, face_text = fcp_on_face(check, material)
     fcp_reason = (
         f"fcp = {fcp_value / 1e6:.2f} MPa: {material.family.replace('_', ' ')} {material.species} {material.grade}"
         f"{face_text}"
@@ -431,6 +432,8 @@ def _near_kb(check: RequiredCheck, material: Material, pack: ResistancePack, rea
 
 
 def resistance(inputs: ResistanceInputs, kd: float) -> float:
+    """coefficient phi f (KD ...) A KB KZcp, the product every standard here states its bearing resistance as,
+    with Hankinson's formula for a load at an angle to the grain."""
     kd_used = kd if inputs.uses_kd else 1.0
     fcp_modified = inputs.fcp * kd_used * inputs.kscp * inputs.kt
     qr = inputs.coefficient * inputs.phi * fcp_modified * inputs.area * inputs.kb * inputs.kzcp
@@ -450,6 +453,9 @@ def _principal_present(combo: LoadCombination, forces: Forces) -> bool:
     return any(abs(forces.get(case, 0.0)) > FORCE_RESOLUTION for case in combo.principal_cases)
 
 
+DurationRule = Callable[[Forces, LoadCombination], tuple[float, str]]
+
+
 def evaluate(
     check: RequiredCheck,
     inputs: ResistanceInputs,
@@ -463,6 +469,26 @@ def evaluate(
 
     ``forces`` replaces the check's own (diagnosis); ``patterned`` False ignores pattern loading.
     """
+
+    def kd_rule(placed: Forces, combo: LoadCombination) -> tuple[float, str]:
+        if not inputs.uses_kd:
+            return 1.0, "KD = 1.00: the product's evaluation report does not apply KD"
+        return load_duration_factor(placed, combo, pack)
+
+    return evaluate_with(check, inputs, combos, kd_rule, pack.kd["standard"].value, forces, counteracting, patterned)
+
+
+def evaluate_with(
+    check: RequiredCheck,
+    inputs: ResistanceInputs,
+    combos: tuple[LoadCombination, ...],
+    duration: DurationRule,
+    unloaded_factor: float,
+    forces: Forces | None = None,
+    counteracting: float = 1.0,
+    patterned: bool = True,
+) -> tuple[tuple[CombinationResult, ...], CombinationResult, tuple[str, ...]]:
+    """``evaluate`` for any standard: ``duration`` gives the duration (or modification) factor of a combination."""
     forces = check.forces if forces is None else forces
     envelope = check.envelope if patterned else {}
     results = []
@@ -474,16 +500,14 @@ def evaluate(
         placed, pattern = placed_forces(forces, envelope, combo)
         qf = factored_force(placed, combo)
         low = least_force(forces, envelope, combo, counteracting)
-        kd, kd_reason = load_duration_factor(placed, combo, pack)
-        if not inputs.uses_kd:
-            kd, kd_reason = 1.0, "KD = 1.00: the product's evaluation report does not apply KD"
+        kd, kd_reason = duration(placed, combo)
         qr = resistance(inputs, kd)
         if low < -FORCE_RESOLUTION:
             uplift.append(combo.name)
         results.append(CombinationResult(combo.name, combo.duration, qf, kd, "", qr, max(qf, 0.0) / qr, pattern, low))
         reasons.append(kd_reason)
     if not results:
-        qr = resistance(inputs, pack.kd["standard"].value)
+        qr = resistance(inputs, unloaded_factor)
         results.append(CombinationResult("no load", "standard", 0.0, 1.0, "", qr, 0.0))
         reasons.append("no load reaches this bearing")
     index = max(range(len(results)), key=lambda i: results[i].utilisation)
@@ -570,7 +594,13 @@ class _O86:
         return load_duration_factor(forces, combination, o86_pack(pack))[1]
 
     def trial(
-        self, check: RequiredCheck, model: Model, pack: PackCore, readings: dict[str, str], combinations: tuple
+        self,
+        check: RequiredCheck,
+        model: Model,
+        pack: PackCore,
+        cpack: CombinationPack,
+        readings: dict[str, str],
+        combinations: tuple,
     ) -> tuple[float, str]:
         inputs, _, _ = resistance_inputs(check, model, o86_pack(pack), readings)
         _, governing, _ = evaluate(check, inputs, combinations, o86_pack(pack))

@@ -232,6 +232,7 @@ class CombinationPack:
     counteracting_dead: Sourced  # dead-load factor where dead load resists (uplift search)
     patterns: dict[str, Sourced]  # case -> (low, high) factors a span may take on a continuous member
     storage_companion: Sourced  # companion factor of storage, equipment and service-room live load
+    format: str = "limit-states"  # limit-states | ASD | LRFD: which standards can read it
 
 
 # ---------------------------------------------------------------- reading
@@ -323,7 +324,7 @@ def _length(node: Node, _parent: Node) -> float:
     return value
 
 
-def _force_or_zero(node: Node, _parent: Node) -> float:
+def force_or_zero(node: Node, _parent: Node) -> float:
     value = parse_quantity(node.value, "force", node.loc)
     if value < 0:
         raise InputError("a force threshold must not be negative", node.loc)
@@ -389,6 +390,46 @@ def _long_term(node: Node, _parent: Node) -> dict[str, float]:
     return {k: _number(v) for k, v in node.value.items()}
 
 
+def read_core_fields(root: Node, r: PackReader, errors: ErrorCollector) -> dict[str, Any]:
+    """The fields every standard's pack states: strengths, compression parallel, families, clauses, uplift note."""
+    get = root.value.get
+
+    def sub(parent: Node | None, key: str) -> Node | None:
+        return r.mapping(parent, key) if parent is not None else None
+
+    fcp: dict[str, dict[str, SpeciesStrength]] = {}
+    fcp_node = sub(root, "fcp")
+    for fam, fam_node in fcp_node.value.items() if fcp_node else []:
+        if fam not in TIMBER_FAMILIES_ALL:
+            errors.add(f"unknown family '{fam}'", fam_node.loc)
+            continue
+        fcp[fam] = {}
+        for sp, sp_node in fam_node.value.items():
+            s = r.sourced(sp_node, _stress)
+            grades_node = sp_node.value.get("grades") if isinstance(sp_node.value, dict) else None
+            grades = tuple(node_text(g) for g in grades_node.value) if grades_node else ()
+            tension = _tension_face(sp_node, s, errors)
+            if s is not None:
+                fcp[fam][sp] = SpeciesStrength(s, grades, tension)
+    fc: dict[str, dict[str, Sourced]] = {}
+    fc_node = get("fc")
+    for fam, fam_node in fc_node.value.items() if fc_node else []:
+        fc[fam] = {sp: s for sp, n in fam_node.value.items() if (s := r.sourced(n, _stress_by_grade))}
+
+    clauses_node = sub(root, "clauses")
+    return {
+        "fcp": fcp,
+        "fc": fc,
+        "timber_families": r.sourced(sub(root, "timber_families"), _family_list),
+        "clauses": {
+            fam: c
+            for fam, n in (clauses_node.value.items() if clauses_node else [])
+            if (c := r.sourced(n, clause_pair))
+        },
+        "uplift_note_below": r.sourced(sub(sub(root, "uplift"), "note_below"), force_or_zero),
+    }
+
+
 def refuse_unknown_fields(root: Node, allowed: tuple[str, ...], standard: str, errors: ErrorCollector) -> None:
     """A pack field the standard does not implement is refused, never ignored."""
     for key in root.value:
@@ -429,25 +470,7 @@ def read_resistance_pack(root: Node, path: str) -> ResistancePack:
     def sub(parent: Node | None, key: str) -> Node | None:
         return r.mapping(parent, key) if parent is not None else None
 
-    fcp: dict[str, dict[str, SpeciesStrength]] = {}
-    fcp_node = sub(root, "fcp")
-    for fam, fam_node in fcp_node.value.items() if fcp_node else []:
-        if fam not in TIMBER_FAMILIES_ALL:
-            errors.add(f"unknown family '{fam}'", fam_node.loc)
-            continue
-        fcp[fam] = {}
-        for sp, sp_node in fam_node.value.items():
-            s = r.sourced(sp_node, _stress)
-            grades_node = sp_node.value.get("grades") if isinstance(sp_node.value, dict) else None
-            grades = tuple(node_text(g) for g in grades_node.value) if grades_node else ()
-            tension = _tension_face(sp_node, s, errors)
-            if s is not None:
-                fcp[fam][sp] = SpeciesStrength(s, grades, tension)
-    fc: dict[str, dict[str, Sourced]] = {}
-    fc_node = get("fc")
-    for fam, fam_node in fc_node.value.items() if fc_node else []:
-        fc[fam] = {sp: s for sp, n in fam_node.value.items() if (s := r.sourced(n, _stress_by_grade))}
-
+    core = read_core_fields(root, r, errors)
     kb = sub(root, "kb")
     kz = sub(root, "kzcp")
     kd = sub(root, "kd")
@@ -455,15 +478,10 @@ def read_resistance_pack(root: Node, path: str) -> ResistancePack:
     kscp = sub(root, "kscp")
     ksc = get("ksc")
     area = sub(ns, "area_limit")
-    clauses_node = sub(root, "clauses")
     pack_kwargs: dict[str, Any] = dict(
         phi=r.sourced(get("phi"), lambda n, p: _number(n, 0.0, 1.0)),
-        clauses={
-            fam: c
-            for fam, n in (clauses_node.value.items() if clauses_node else [])
-            if (c := r.sourced(n, _clause_pair))
-        },
-        timber_families=r.sourced(sub(root, "timber_families"), _family_list),
+        clauses=core["clauses"],
+        timber_families=core["timber_families"],
         kb_max_length=r.sourced(sub(kb, "max_length"), _length),
         kb_min_end_distance=r.sourced(sub(kb, "min_end_distance"), _length),
         kb_table=r.sourced(sub(kb, "table"), _table),
@@ -476,7 +494,7 @@ def read_resistance_pack(root: Node, path: str) -> ResistancePack:
         ksc={f: s for f, n in (ksc.value.items() if ksc else []) if (s := r.sourced(n, _service_pair))},
         near_factor=r.sourced(sub(ns, "factor"), lambda n, p: _number(n, 0.0, 1.0)),
         near_reach=r.sourced(sub(ns, "reach"), _number_conv),
-        uplift_note_below=r.sourced(sub(sub(root, "uplift"), "note_below"), _force_or_zero),
+        uplift_note_below=core["uplift_note_below"],
     )
     choices = {}
     for section, key in CHOICES:
@@ -509,8 +527,8 @@ def read_resistance_pack(root: Node, path: str) -> ResistancePack:
         provenance=r.text(root, "provenance", ""),
         path=path,
         standard="o86",
-        fcp=fcp,
-        fc=fc,
+        fcp=core["fcp"],
+        fc=core["fc"],
         near_area_ratio=ratio,
         choices=choices,
         **pack_kwargs,
@@ -530,7 +548,7 @@ def _tension_face(node: Node, compression: Sourced | None, errors: ErrorCollecto
     return Sourced(value, compression.clause, compression.source + " (tension-face bearing)", compression.status)
 
 
-def _clause_pair(node: Node, _parent: Node) -> dict[str, str]:
+def clause_pair(node: Node, _parent: Node) -> dict[str, str]:
     if not isinstance(node.value, dict) or set(node.value) != {"local", "near_support"}:
         raise InputError("expected {local: clause, near_support: clause}", node.loc)
     return {k: node_text(v) for k, v in node.value.items()}
@@ -601,6 +619,7 @@ def read_combination_pack(root: Node, path: str) -> CombinationPack:
         counteracting_dead=counteracting,
         patterns=patterns,
         storage_companion=storage,
+        format=r.text(root, "format", "limit-states"),
     )
 
 
@@ -690,4 +709,15 @@ def select_packs(
             f"unknown combination pack '{combinations_id}' (available: {', '.join(sorted(combos))})",
             where,
         )
-    return resistance[resistance_id], combos[combinations_id]
+    from audit.standards.registry import standard_named
+
+    pack, cpack = resistance[resistance_id], combos[combinations_id]
+    formats = standard_named(pack.standard).combination_formats
+    if cpack.format not in formats:
+        fitting = sorted(c.id for c in combos.values() if c.format in formats)
+        raise InputError(
+            f"combination pack '{cpack.id}' is {cpack.format}; rule pack {pack.id} ({pack.standard}) reads "
+            f"{' or '.join(formats)} combinations (e.g. {', '.join(fitting) or 'none installed'})",
+            where,
+        )
+    return pack, cpack

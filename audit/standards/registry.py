@@ -7,9 +7,11 @@ from audit.standards.base import Standard
 
 
 def standards() -> dict[str, Standard]:
+    from audit.standards.ec5 import EC5
+    from audit.standards.nds import NDS
     from audit.standards.o86 import O86
 
-    return {s.id: s for s in (O86,)}
+    return {s.id: s for s in (O86, NDS, EC5)}
 
 
 def standard_named(name: str, where: Location | None = None) -> Standard:

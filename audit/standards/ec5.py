@@ -1,0 +1,389 @@
+"""EN 1995-1-1 compression perpendicular to grain (6.1.5, values as recalled), behind the standard interface.
+
+    sigma_c,90,d = Fc,90,d / Aef  <=  kc,90 fc,90,d          fc,90,d = kmod fc,90,k / gamma_M
+    Aef = b lef,  lef = l + up to 30 mm each side (no more than the distance to the member end,
+                  nor half the distance to the next contact on the same face)
+    kc,90: 1.25 (solid) / 1.5 (glulam) on continuous supports, 1.5 / 1.75 on discrete supports
+           (glulam: contact length up to 400 mm), where the clear distance l1 to the next contact
+           is at least 2h; 1.0 otherwise
+
+kmod is that of the shortest-duration action present in each combination (3.1.3(2)), by
+service class (dry: classes 1 and 2; wet: class 3). Each contact is checked on both members;
+EN 1995-1-1 has no near-support check. The spacing condition l1 >= 2h is EC5's own: it is
+stated with each kc,90.
+"""
+
+from __future__ import annotations
+
+import math
+from collections import defaultdict
+from dataclasses import dataclass, field
+from typing import Any
+
+from audit.core.errors import ErrorCollector, InputError
+from audit.core.located_yaml import Node
+from audit.core.units import parse_quantity
+from audit.engine.contacts import Contact
+from audit.engine.model import Model, base_case
+from audit.engine.take_down import FORCE_RESOLUTION, Forces, TakeDown
+from audit.standards.checks import LOCAL, CheckList, RequiredCheck, local_checks, unseen_supports
+from audit.standards.o86 import (
+    PASS_LIMIT,
+    CheckResult,
+    Factor,
+    LoadCombination,
+    ResistanceInputs,
+    evaluate_with,
+    load_combinations,
+)
+from audit.standards.packs import (
+    PACK_HEAD_KEYS,
+    CombinationPack,
+    PackCore,
+    PackReader,
+    Sourced,
+    read_core_fields,
+    refuse_unknown_fields,
+)
+
+EC5_KEYS = (
+    *PACK_HEAD_KEYS,
+    "timber_families",
+    "clauses",
+    "fcp",
+    "fc",
+    "gamma_m",
+    "kmod",
+    "duration_classes",
+    "contact",
+    "kc90",
+    "uplift",
+)
+CLASSES = ("permanent", "long", "medium", "short", "instantaneous")  # longest to shortest
+
+
+@dataclass(frozen=True)
+class Ec5Pack(PackCore):
+    gamma_m: dict[str, Sourced]
+    kmod: Sourced  # service -> class -> kmod
+    duration_classes: Sourced  # load case -> class
+    extension: Sourced  # m, each side
+    kc90: Sourced  # arrangement -> family -> kc,90
+    kc90_spacing: float  # l1 >= spacing x h
+    kc90_glulam_max_length: float  # m
+
+    def all_sourced(self) -> list[tuple[str, Sourced]]:
+        out = self.core_sourced() + [(f"gamma_m.{k}", v) for k, v in self.gamma_m.items()]
+        out += [("kmod", self.kmod), ("duration_classes", self.duration_classes)]
+        out += [
+            ("contact.extension", self.extension),
+            ("kc90", self.kc90),
+            ("uplift.note_below", self.uplift_note_below),
+        ]
+        return out
+
+
+def _number(node: Node, _parent: Node) -> float:
+    if isinstance(node.value, bool) or not isinstance(node.value, (int, float)) or not 0 < node.value <= 10:
+        raise InputError("expected a positive number", node.loc)
+    return float(node.value)
+
+
+def _classes(node: Node, _parent: Node) -> dict[str, str]:
+    if not isinstance(node.value, dict):
+        raise InputError("expected load case -> load-duration class", node.loc)
+    for item in node.value.values():
+        if item.value not in CLASSES:
+            raise InputError(f"'{item.value}' is not a load-duration class ({', '.join(CLASSES)})", item.loc)
+    return {str(k): str(v.value) for k, v in node.value.items()}
+
+
+def _kmod(node: Node, _parent: Node) -> dict[str, dict[str, float]]:
+    if not isinstance(node.value, dict) or set(node.value) != {"dry", "wet"}:
+        raise InputError("expected {dry: {...}, wet: {...}}", node.loc)
+    out = {}
+    for service, row in node.value.items():
+        if not isinstance(row.value, dict) or set(row.value) != set(CLASSES):
+            raise InputError(f"expected kmod for each class: {', '.join(CLASSES)}", row.loc)
+        out[service] = {k: _number(v, row) for k, v in row.value.items()}
+    return out
+
+
+def _kc90(node: Node, _parent: Node) -> dict[str, dict[str, float]]:
+    if not isinstance(node.value, dict) or set(node.value) != {"continuous", "discrete"}:
+        raise InputError("expected {continuous: {family: kc90}, discrete: {family: kc90}}", node.loc)
+    return {k: {f: _number(v, row) for f, v in row.value.items()} for k, row in node.value.items()}
+
+
+def read_ec5_pack(root: Node, path: str) -> Ec5Pack:
+    errors = ErrorCollector()
+    r = PackReader(errors)
+    refuse_unknown_fields(root, EC5_KEYS, "ec5", errors)
+    core = read_core_fields(root, r, errors)
+    gamma = r.mapping(root, "gamma_m")
+    contact = r.mapping(root, "contact")
+    kc90 = r.mapping(root, "kc90")
+    values: dict[str, Any] = dict(
+        gamma_m={f: s for f, n in (gamma.value.items() if gamma else []) if (s := r.sourced(n, _number))},
+        kmod=r.sourced(r.mapping(root, "kmod"), _kmod),
+        duration_classes=r.sourced(r.mapping(root, "duration_classes"), _classes),
+        extension=r.sourced(r.mapping(contact, "extension") if contact else None, lambda n, p: _length(n)),
+        kc90=r.sourced(kc90, _kc90),
+    )
+    spacing, glulam_max = 2.0, 0.4
+    try:
+        if kc90 is not None and "spacing" in kc90.value:
+            spacing = _number(kc90.value["spacing"], kc90)
+        if kc90 is not None and "glulam_max_length" in kc90.value:
+            glulam_max = _length(kc90.value["glulam_max_length"])
+    except InputError as exc:
+        errors.extend(exc)
+    errors.raise_if_any()
+    missing = [k for k, v in {**core, **values}.items() if v is None]
+    if missing:
+        raise InputError(f"rule pack lacks {', '.join(missing)}", root.loc)
+    return Ec5Pack(
+        id=r.text(root, "id"),
+        title=r.text(root, "title", ""),
+        edition=r.text(root, "edition", ""),
+        provenance=r.text(root, "provenance", ""),
+        path=path,
+        standard="ec5",
+        choices={},
+        kc90_spacing=spacing,
+        kc90_glulam_max_length=glulam_max,
+        **core,
+        **values,
+    )
+
+
+def _length(node: Node) -> float:
+    value = parse_quantity(node.value, "length", node.loc)
+    if value < 0:
+        raise InputError("a length must not be negative", node.loc)
+    return value
+
+
+# ---------------------------------------------------------------- geometry of 6.1.5
+
+
+@dataclass(frozen=True)
+class Reach:
+    """How far a contact may spread along the member, and the clear distance to its neighbours."""
+
+    left: float  # m added before the contact
+    right: float  # m added after it
+    clear: float  # m, l1: the clear distance to the nearest other contact on the same face (inf: none)
+    why: str
+
+
+def effective_reach(contact: Contact, others: list[Contact], length: float, extension: float) -> Reach:
+    """Up to ``extension`` each side, no more than the distance to the member end nor half the distance to the
+    next contact on the same face (EN 1995-1-1 6.1.5(1))."""
+    start, end = contact.start, contact.start + contact.length
+    before = [o.start + o.length for o in others if o.start + o.length <= start + 1e-9]
+    after = [o.start for o in others if o.start >= end - 1e-9]
+    gap_left = start - max(before) if before else math.inf
+    gap_right = min(after) - end if after else math.inf
+    left = min(extension, start, gap_left / 2)
+    right = min(extension, length - end, gap_right / 2)
+    limits = []
+    for side, added, to_end, gap in (("left", left, start, gap_left), ("right", right, length - end, gap_right)):
+        if added < extension - 1e-9:
+            bound = "member end" if to_end <= gap / 2 else "half way to the next contact"
+            limits.append(f"{side} {added * 1000:.0f} mm ({bound})")
+    why = "; ".join(limits) or f"{extension * 1000:.0f} mm each side"
+    return Reach(max(left, 0.0), max(right, 0.0), min(gap_left, gap_right), why)
+
+
+def kc90_factor(check: RequiredCheck, model: Model, pack: Ec5Pack, reach: Reach) -> Factor:
+    member = model.members[check.member]
+    family = model.materials[member.material].family
+    clause = pack.kc90.clause
+    if check.face == "bottom" and not member.continuous:
+        arrangement = "discrete"
+    elif member.continuous:
+        arrangement = "continuous"
+    else:
+        return Factor("kc,90", 1.0, "kc,90 = 1.00: a load on a member on discrete supports", clause)
+    need = pack.kc90_spacing * member.d
+    if reach.clear < need - 1e-9:
+        return Factor(
+            "kc,90",
+            1.0,
+            f"kc,90 = 1.00: the next contact is {reach.clear * 1000:.0f} mm away, less than 2h = {need * 1000:.0f} mm "
+            "(the spacing condition)",
+            clause,
+        )
+    if arrangement == "discrete" and family == "glulam" and check.contact.length > pack.kc90_glulam_max_length + 1e-9:
+        return Factor(
+            "kc,90", 1.0, f"kc,90 = 1.00: glulam contact {check.contact.length * 1000:.0f} mm over 400 mm", clause
+        )
+    value = pack.kc90.value[arrangement].get(family, 1.0)
+    spaced = "no other contact on the face" if math.isinf(reach.clear) else f"l1 = {reach.clear * 1000:.0f} mm >= 2h"
+    return Factor("kc,90", value, f"kc,90 = {value:.2f}: {arrangement} support, {family}, {spaced}", clause)
+
+
+def ec5_inputs(
+    check: RequiredCheck, model: Model, pack: Ec5Pack, reach: Reach
+) -> tuple[ResistanceInputs, tuple[Factor, ...], str]:
+    member = model.members[check.member]
+    material = model.materials[member.material]
+    if material.family not in pack.gamma_m:
+        raise InputError(f"rule pack {pack.id} gives no gamma_M for {material.family}", material.loc)
+    gamma = pack.gamma_m[material.family]
+    fc90k = material.fcp or 0.0
+    c = check.contact
+    lef = c.length + reach.left + reach.right
+    area = c.width * lef
+    kc90 = kc90_factor(check, model, pack, reach)
+    family_words = material.family.replace("_", " ")
+    factors = (
+        Factor("fc,90,k", fc90k, f"fc,90,k = {fc90k / 1e6:.2f} MPa: {material.species}", ""),
+        Factor(
+            "gamma_M", gamma.value, f"gamma_M = {gamma.value:.2f}: {material.family.replace('_', ' ')}", gamma.clause
+        ),
+        kc90,
+    )
+    inputs = ResistanceInputs(
+        phi=1.0 / gamma.value,
+        coefficient=1.0,
+        fcp=fc90k,
+        kscp=1.0,
+        kt=1.0,
+        kb=kc90.value,
+        kzcp=1.0,
+        area=area,
+        uses_kd=True,
+        fc_parallel=None,
+        angle=None,
+    )
+    area_reason = (
+        f"Aef = b lef = {c.width * 1000:.0f} x ({c.length * 1000:.0f} + {reach.left * 1000:.0f} + "
+        f"{reach.right * 1000:.0f}) = {area * 1e6:,.0f} mm²: extension {reach.why}; width: {c.width_note}"
+    )
+    return inputs, factors, area_reason
+
+
+def kmod_rule(pack: Ec5Pack, service: str):
+    classes, table = pack.duration_classes.value, pack.kmod.value[service]
+
+    def rule(forces: Forces, combo: LoadCombination) -> tuple[float, str]:
+        present = [
+            classes.get(base_case(case), "permanent")
+            for case, factor in combo.factors.items()
+            if factor and abs(forces.get(case, 0.0)) > FORCE_RESOLUTION
+        ] or ["permanent"]
+        shortest = max(present, key=CLASSES.index)
+        value = table[shortest]
+        return value, f"kmod = {value:.2f}: {shortest}-term action the shortest in {combo.name} ({service})"
+
+    return rule
+
+
+def reaches(checks: tuple[RequiredCheck, ...], model: Model, pack: Ec5Pack) -> dict[str, Reach]:
+    """Each check's reach, from the other contacts on the same face of the same member."""
+    by_face: dict[tuple[str, str], list[RequiredCheck]] = defaultdict(list)
+    for c in checks:
+        by_face[(c.member, c.face)].append(c)
+    out = {}
+    for (member_id, _), group in by_face.items():
+        length = model.members[member_id].length
+        for c in group:
+            others = [o.contact for o in group if o.id != c.id]
+            out[c.id] = effective_reach(c.contact, others, length, pack.extension.value)
+    return out
+
+
+# ---------------------------------------------------------------- the standard
+
+
+@dataclass(frozen=True)
+class _Ec5:
+    id: str = "ec5"
+    title: str = "EN 1995-1-1"
+    check_kinds: dict[str, str] = field(default_factory=lambda: {LOCAL: "compression perpendicular to the grain"})
+    symbols: tuple[str, ...] = ("sigma_c,90,d", "fc,90,d", "fc,90,k", "kc,90", "kmod", "gamma_M", "Aef", "lef")
+    slip_recipes: tuple[str, ...] = ()
+    combination_formats: tuple[str, ...] = ("EN 1990",)
+
+    def read_pack(self, root: Node, path: str) -> Ec5Pack:
+        return read_ec5_pack(root, path)
+
+    def list_checks(self, model: Model, flow: TakeDown, pack: PackCore, readings: dict[str, str]) -> CheckList:
+        checks, exempt = local_checks(model, flow, pack)
+        return CheckList(tuple(checks), tuple(exempt), unseen_supports(model, flow, pack))
+
+    def resist(
+        self, checklist: CheckList, model: Model, pack: PackCore, cpack: CombinationPack
+    ) -> tuple[CheckResult, ...]:
+        p = ec5_pack(pack)
+        combos = load_combinations(model, cpack)
+        reach = reaches(checklist.checks, model, p)
+        out = []
+        errors = ErrorCollector()
+        for check in checklist.checks:
+            try:
+                inputs, factors, area_reason = ec5_inputs(check, model, p, reach[check.id])
+            except InputError as exc:
+                errors.extend(exc)
+                continue
+            service = model.members[check.member].service
+            results, governing, uplift = evaluate_with(
+                check, inputs, combos, kmod_rule(p, service), p.kmod.value[service]["medium"],
+                counteracting=cpack.counteracting_dead.value,
+            )  # fmt: skip
+            out.append(
+                CheckResult(
+                    check,
+                    model.members[check.member].material,
+                    inputs,
+                    factors,
+                    area_reason,
+                    results,
+                    governing,
+                    uplift,
+                    governing.utilisation <= PASS_LIMIT,
+                )
+            )
+        errors.raise_if_any()
+        return tuple(out)
+
+    def formula(self, kind: str) -> str:
+        return "Fc,90,Rd = kc,90 fc,90,d Aef, fc,90,d = kmod fc,90,k / gamma_M"
+
+    def assumption_lines(self, review: Any) -> dict[str, str]:
+        return {
+            "duration": "EN 1995-1-1: each combination takes the kmod of its shortest-duration action present at "
+            "the check (service classes 1 and 2 as dry, 3 as wet); the contact length spreads up to 30 mm each side "
+            "(Aef); kc,90 follows the support arrangement where the next contact is at least 2h away. EN 1995-1-1 "
+            "has no near-support check: each contact is checked on both members.",
+        }
+
+    def duration_reason(self, forces: Forces, combination: Any, pack: PackCore) -> str:
+        return kmod_rule(ec5_pack(pack), "dry")(forces, combination)[1]
+
+    def trial(
+        self,
+        check: RequiredCheck,
+        model: Model,
+        pack: PackCore,
+        cpack: CombinationPack,
+        readings: dict[str, str],
+        combinations: tuple,
+    ) -> tuple[float, str]:
+        p = ec5_pack(pack)
+        reach = effective_reach(check.contact, [], model.members[check.member].length, p.extension.value)
+        inputs, _, _ = ec5_inputs(check, model, p, reach)
+        service = model.members[check.member].service
+        _, governing, _ = evaluate_with(check, inputs, combinations, kmod_rule(p, service), 1.0)
+        return governing.utilisation, f"kc,90 = {inputs.kb:.2f}"
+
+
+def ec5_pack(pack: PackCore) -> Ec5Pack:
+    if not isinstance(pack, Ec5Pack):
+        raise TypeError(f"rule pack {pack.id} is a {pack.standard} pack, not an EC5 one")
+    return pack
+
+
+EC5 = _Ec5()

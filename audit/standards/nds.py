@@ -1,0 +1,353 @@
+"""US NDS bearing perpendicular to grain (values as recalled), behind the standard interface.
+
+    ASD:   Fc-perp' = Fc-perp CM Ct Ci Cb          P' = Fc-perp' Ab >= the ASD combination's force
+    LRFD:  Fc-perp' = Fc-perp CM Ct Ci Cb KF phi   P' = Fc-perp' Ab >= the factored force
+    Cb = (lb + 0.375 in) / lb for bearings shorter than 6 in and at least 3 in from the member end
+    F-theta' = Fc* Fc-perp' / (Fc* sin^2 theta + Fc-perp' cos^2 theta)   bearing at an angle (Hankinson)
+
+No load-duration factor applies to compression perpendicular to grain. The deformation-limit
+reading takes 0.73 Fc-perp for a 0.02 in limit where the project chooses it. The checks are the
+local bearing of each timber member at each contact, both directions; the NDS has no
+near-support check.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Any
+
+from audit.core.errors import ErrorCollector, InputError
+from audit.core.located_yaml import Node
+from audit.core.units import parse_quantity
+from audit.engine.model import Material, Member, Model
+from audit.engine.take_down import Forces, TakeDown
+from audit.standards.checks import LOCAL, CheckList, RequiredCheck, local_checks, unseen_supports
+from audit.standards.o86 import (
+    PASS_LIMIT,
+    CheckResult,
+    Factor,
+    LoadCombination,
+    ResistanceInputs,
+    evaluate_with,
+    fcp_on_face,
+    load_combinations,
+)
+from audit.standards.packs import (
+    PACK_HEAD_KEYS,
+    CombinationPack,
+    PackCore,
+    PackReader,
+    Sourced,
+    check_readings,
+    read_choice,
+    read_core_fields,
+    refuse_unknown_fields,
+)
+
+NDS_KEYS = (
+    *PACK_HEAD_KEYS,
+    "timber_families",
+    "clauses",
+    "fcp",
+    "fc",
+    "cm",
+    "cm_parallel",
+    "ct",
+    "ci",
+    "cb",
+    "lrfd",
+    "angle",
+    "uplift",
+    "deformation",
+)
+NDS_READINGS = {"deformation.limit": ("reference_0.04in", "limit_0.02in")}
+INCH = 0.0254
+
+
+@dataclass(frozen=True)
+class NdsPack(PackCore):
+    cm: dict[str, Sourced]  # family -> {dry, wet}, for Fc-perp
+    cm_parallel: dict[str, Sourced]  # family -> {dry, wet}, for Fc (bearing at an angle)
+    ct: Sourced
+    ci: Sourced
+    cb_max_length: Sourced  # m
+    cb_min_end_distance: Sourced  # m
+    cb_add: Sourced  # m
+    kf: Sourced  # LRFD format conversion for Fc-perp
+    phi: Sourced  # LRFD resistance factor
+    kf_parallel: Sourced
+    parallel_duration: Sourced  # {ASD: CD, LRFD: lambda} for Fc* at an angle
+    deformation_factor: float  # Fc-perp at the 0.02 in limit as a share of the reference value
+
+    def all_sourced(self) -> list[tuple[str, Sourced]]:
+        out = self.core_sourced()
+        out += [(f"cm.{k}", v) for k, v in self.cm.items()] + [
+            (f"cm_parallel.{k}", v) for k, v in self.cm_parallel.items()
+        ]
+        out += [("ct", self.ct), ("ci", self.ci), ("cb.max_length", self.cb_max_length)]
+        out += [("cb.min_end_distance", self.cb_min_end_distance), ("cb.add", self.cb_add)]
+        out += [("lrfd.format_conversion", self.kf), ("lrfd.resistance_factor", self.phi)]
+        out += [
+            ("lrfd.format_conversion_parallel", self.kf_parallel),
+            ("angle.parallel_duration", self.parallel_duration),
+        ]
+        out += [("uplift.note_below", self.uplift_note_below)]
+        out += [(name, c.default) for name, c in self.choices.items()]
+        return out
+
+
+def _length(node: Node, _parent: Node) -> float:
+    return parse_quantity(node.value, "length", node.loc)
+
+
+def _number(node: Node, _parent: Node) -> float:
+    if isinstance(node.value, bool) or not isinstance(node.value, (int, float)) or not 0 < node.value <= 10:
+        raise InputError("expected a positive number", node.loc)
+    return float(node.value)
+
+
+def _pair(node: Node, _parent: Node) -> dict[str, float]:
+    if not isinstance(node.value, dict) or not node.value:
+        raise InputError("expected a mapping of numbers", node.loc)
+    return {str(k): _number(v, node) for k, v in node.value.items()}
+
+
+def read_nds_pack(root: Node, path: str) -> NdsPack:
+    errors = ErrorCollector()
+    r = PackReader(errors)
+    refuse_unknown_fields(root, NDS_KEYS, "nds", errors)
+    core = read_core_fields(root, r, errors)
+
+    def sub(parent: Node | None, key: str) -> Node | None:
+        return r.mapping(parent, key) if parent is not None else None
+
+    cb, lrfd, angle = sub(root, "cb"), sub(root, "lrfd"), sub(root, "angle")
+    by_family = {
+        key: {f: s for f, n in (node.value.items() if node else []) if (s := r.sourced(n, _pair))}
+        for key in ("cm", "cm_parallel")
+        for node in [sub(root, key)]
+    }
+    values: dict[str, Any] = dict(
+        ct=r.sourced(sub(root, "ct") if "ct" in root.value else None, _number),
+        ci=r.sourced(sub(root, "ci") if "ci" in root.value else None, _number),
+        cb_max_length=r.sourced(sub(cb, "max_length"), _length),
+        cb_min_end_distance=r.sourced(sub(cb, "min_end_distance"), _length),
+        cb_add=r.sourced(sub(cb, "add"), _length),
+        kf=r.sourced(sub(lrfd, "format_conversion"), _number),
+        phi=r.sourced(sub(lrfd, "resistance_factor"), _number),
+        kf_parallel=r.sourced(sub(lrfd, "format_conversion_parallel"), _number),
+        parallel_duration=r.sourced(sub(angle, "parallel_duration"), _pair),
+    )
+    choices = {}
+    deformation = sub(sub(root, "deformation"), "limit")
+    factor = 0.73
+    if deformation is not None:
+        choice = read_choice(r, deformation, "deformation.limit")
+        if choice is not None:
+            check_readings(choice, deformation, NDS_READINGS, "nds", errors)
+            choices[choice.name] = choice
+        if "factor_0.02in" in deformation.value:
+            factor = _number(deformation.value["factor_0.02in"], deformation)
+    errors.raise_if_any()
+    missing = [k for k, v in {**core, **values}.items() if v is None]
+    if missing or "deformation.limit" not in choices:
+        raise InputError(f"rule pack lacks {', '.join(missing) or 'deformation.limit'}", root.loc)
+    return NdsPack(
+        id=r.text(root, "id"),
+        title=r.text(root, "title", ""),
+        edition=r.text(root, "edition", ""),
+        provenance=r.text(root, "provenance", ""),
+        path=path,
+        standard="nds",
+        choices=choices,
+        cm=by_family["cm"],
+        cm_parallel=by_family["cm_parallel"],
+        deformation_factor=factor,
+        **core,
+        **values,
+    )
+
+
+# ---------------------------------------------------------------- factors
+
+
+def bearing_area_factor(length: float, end_distance: float, material: Material, pack: NdsPack) -> Factor:
+    """Cb = (lb + 0.375 in) / lb for lb under 6 in, at least 3 in from the member end; else 1.00."""
+    clause = pack.cb_add.clause
+    if material.family == "engineered" and "KB" not in material.applies:
+        return Factor("Cb", 1.0, "Cb = 1.00: the product's evaluation report does not allow Cb", clause)
+    if length >= pack.cb_max_length.value - 1e-9:
+        return Factor("Cb", 1.0, f"Cb = 1.00: bearing length {length / INCH:.2f} in is not under 6 in", clause)
+    if end_distance < pack.cb_min_end_distance.value - 1e-9:
+        return Factor(
+            "Cb", 1.0, f"Cb = 1.00: bearing {end_distance / INCH:.2f} in from the member end, less than 3 in", clause
+        )
+    value = (length + pack.cb_add.value) / length
+    return Factor("Cb", value, f"Cb = ({length / INCH:.3f} + 0.375)/{length / INCH:.3f} = {value:.3f}", clause)
+
+
+def _wet(member: Member, material: Material, table: dict[str, Sourced], what: str) -> Factor:
+    if material.family == "engineered":
+        value = material.wet_factor if member.service == "wet" and material.wet_factor is not None else 1.0
+        return Factor("CM", value, f"CM = {value:.2f}: {member.service} service, product report")
+    entry = table[material.family]
+    value = entry.value[member.service]
+    return Factor("CM", value, f"CM = {value:.2f}: {member.service} service ({what})", entry.clause)
+
+
+def nds_inputs(
+    check: RequiredCheck, model: Model, pack: NdsPack, lrfd: bool, readings: dict[str, str]
+) -> tuple[ResistanceInputs, tuple[Factor, ...], str]:
+    member = model.members[check.member]
+    material = model.materials[member.material]
+    fcp_value, face_text = fcp_on_face(check, material)
+    fcp = Factor(
+        "Fc-perp",
+        fcp_value,
+        f"Fc-perp = {fcp_value / 6894.757:.0f} psi: {material.family.replace('_', ' ')} {material.species} "
+        f"{material.grade}{face_text}".rstrip(),
+    )
+    cm = _wet(member, material, pack.cm, "Fc-perp")
+    ct = Factor("Ct", pack.ct.value, f"Ct = {pack.ct.value:.2f}: sustained temperature up to 100 F", pack.ct.clause)
+    ci = Factor("Ci", pack.ci.value, f"Ci = {pack.ci.value:.2f}: incising factor for Fc-perp", pack.ci.clause)
+    c = check.contact
+    cb = bearing_area_factor(c.length, c.end_distance, material, pack)
+    deformation = 1.0
+    if readings["deformation.limit"] == "limit_0.02in":
+        deformation = pack.deformation_factor
+    kf = pack.kf.value if lrfd else 1.0
+    phi = pack.phi.value if lrfd else 1.0
+    fc_parallel = None
+    if check.angle is not None and abs(check.angle - 1.5707963267948966) > 1e-9:
+        if material.fc is None:
+            raise InputError(
+                f"bearing at an angle on '{member.id}' needs Fc for material '{material.id}'", material.loc
+            )
+        duration = pack.parallel_duration.value["LRFD" if lrfd else "ASD"]
+        cm_par = _wet(member, material, pack.cm_parallel, "Fc").value
+        fc_parallel = material.fc * cm_par * pack.ct.value * (pack.kf_parallel.value if lrfd else 1.0) * duration
+    area = c.length * c.width
+    inputs = ResistanceInputs(
+        phi=phi,
+        coefficient=kf * deformation,
+        fcp=fcp_value,
+        kscp=cm.value,
+        kt=ct.value,
+        kb=cb.value,
+        kzcp=ci.value,
+        area=area,
+        uses_kd=False,
+        fc_parallel=fc_parallel,
+        angle=check.angle,
+    )
+    factors = [fcp, cm, ct, ci, cb]
+    if lrfd:
+        factors += [
+            Factor("KF", kf, f"KF = {kf:.2f}: LRFD format conversion", pack.kf.clause),
+            Factor("phi", phi, f"phi = {phi:.2f}: LRFD resistance factor", pack.phi.clause),
+        ]
+    if deformation != 1.0:
+        factors.append(Factor("0.02 in", deformation, f"{deformation:.2f} Fc-perp: 0.02 in deformation limit"))
+    area_reason = (
+        f"Ab = {c.width / INCH:.2f} x {c.length / INCH:.2f} = {area / INCH**2:.2f} in²: width: {c.width_note}; "
+        f"length: {c.length_note}"
+    )
+    return inputs, tuple(factors), area_reason
+
+
+def _no_duration(_forces: Forces, _combo: LoadCombination) -> tuple[float, str]:
+    return 1.0, "no load-duration factor on Fc-perp (NDS 2.3.2)"
+
+
+# ---------------------------------------------------------------- the standard
+
+
+@dataclass(frozen=True)
+class _Nds:
+    id: str = "nds"
+    title: str = "US NDS"
+    check_kinds: dict[str, str] = field(default_factory=lambda: {LOCAL: "bearing perpendicular to grain"})
+    symbols: tuple[str, ...] = ("Fc-perp", "Fc⊥", "Fc'", "Cb", "CM", "Ct", "Ci", "Ab", "P", "P'")
+    slip_recipes: tuple[str, ...] = ()
+    combination_formats: tuple[str, ...] = ("ASD", "LRFD")
+
+    def read_pack(self, root: Node, path: str) -> NdsPack:
+        return read_nds_pack(root, path)
+
+    def list_checks(self, model: Model, flow: TakeDown, pack: PackCore, readings: dict[str, str]) -> CheckList:
+        checks, exempt = local_checks(model, flow, pack)
+        return CheckList(tuple(checks), tuple(exempt), unseen_supports(model, flow, pack))
+
+    def resist(
+        self, checklist: CheckList, model: Model, pack: PackCore, cpack: CombinationPack
+    ) -> tuple[CheckResult, ...]:
+        p = nds_pack(pack)
+        combos = load_combinations(model, cpack)
+        readings = p.in_force(model.project.readings)
+        lrfd = cpack.format == "LRFD"
+        out = []
+        errors = ErrorCollector()
+        for check in checklist.checks:
+            try:
+                inputs, factors, area_reason = nds_inputs(check, model, p, lrfd, readings)
+            except InputError as exc:
+                errors.extend(exc)
+                continue
+            results, governing, uplift = evaluate_with(
+                check, inputs, combos, _no_duration, 1.0, counteracting=cpack.counteracting_dead.value
+            )
+            out.append(
+                CheckResult(
+                    check,
+                    model.members[check.member].material,
+                    inputs,
+                    factors,
+                    area_reason,
+                    results,
+                    governing,
+                    uplift,
+                    governing.utilisation <= PASS_LIMIT,
+                )
+            )
+        errors.raise_if_any()
+        return tuple(out)
+
+    def formula(self, kind: str) -> str:
+        return "P' = Fc-perp' Ab, Fc-perp' = Fc-perp CM Ct Ci Cb (LRFD: x KF phi)"
+
+    def assumption_lines(self, review: Any) -> dict[str, str]:
+        fmt = review.cpack.format
+        return {
+            "duration": f"NDS, {fmt}: no load-duration factor applies to compression perpendicular to grain; "
+            + (
+                "the LRFD resistance is Fc-perp' Ab with KF and phi from the rule pack."
+                if fmt == "LRFD"
+                else "the allowable bearing force Fc-perp' Ab is compared with each ASD combination's force."
+            )
+            + " The NDS has no near-support check: each contact is checked on both members.",
+        }
+
+    def duration_reason(self, forces: Forces, combination: Any, pack: PackCore) -> str:
+        return _no_duration(forces, combination)[1]
+
+    def trial(
+        self,
+        check: RequiredCheck,
+        model: Model,
+        pack: PackCore,
+        cpack: CombinationPack,
+        readings: dict[str, str],
+        combinations: tuple,
+    ) -> tuple[float, str]:
+        inputs, _, _ = nds_inputs(check, model, nds_pack(pack), cpack.format == "LRFD", readings)
+        _, governing, _ = evaluate_with(check, inputs, combinations, _no_duration, 1.0)
+        return governing.utilisation, f"Cb = {inputs.kb:.2f}"
+
+
+def nds_pack(pack: PackCore) -> NdsPack:
+    if not isinstance(pack, NdsPack):
+        raise TypeError(f"rule pack {pack.id} is a {pack.standard} pack, not an NDS one")
+    return pack
+
+
+NDS = _Nds()
