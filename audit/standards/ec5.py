@@ -240,9 +240,7 @@ def ec5_inputs(
     family_words = material.family.replace("_", " ")
     factors = (
         Factor("fc,90,k", fc90k, f"fc,90,k = {fc90k / 1e6:.2f} MPa: {material.species}", ""),
-        Factor(
-            "gamma_M", gamma.value, f"gamma_M = {gamma.value:.2f}: {material.family.replace('_', ' ')}", gamma.clause
-        ),
+        Factor("gamma_M", gamma.value, f"gamma_M = {gamma.value:.2f}: {family_words}", gamma.clause),
         kc90,
     )
     inputs = ResistanceInputs(
