@@ -130,7 +130,8 @@ def review(
         result = review_model(model, _dirs(rules_dir), rule_pack)
         claim_list = read_claims(claims) if claims else ()
         if calc_pdf:
-            claim_list = merge_claim_sources(claim_list, _extract(calc_pdf, pages, column_map).claims, calc_pdf.name)
+            extracted = _extract(calc_pdf, pages, column_map, result.standard.claim_headers)
+            claim_list = merge_claim_sources(claim_list, extracted.claims, calc_pdf.name)
     except InputError as exc:
         _fail(exc)
     for warning in result.model.warnings:
@@ -202,11 +203,11 @@ def _check_files(inputs: dict[str, Path | None], outputs: dict[str, Path | None]
     return total
 
 
-def _extract(pdf: Path, pages: str | None, column_map: Path | None):
+def _extract(pdf: Path, pages: str | None, column_map: Path | None, headers: dict[str, str] | None = None):
     """Run the extraction with a progress bar on long documents; warnings go to stderr."""
     from audit.inputs.pdf.extract import extract, read_column_map
 
-    cmap = read_column_map(column_map) if column_map else None
+    cmap = read_column_map(column_map, headers) if column_map else None
     bar = None
     if sys.stderr.isatty():
         from rich.progress import Progress  # rich comes with typer
@@ -219,7 +220,7 @@ def _extract(pdf: Path, pages: str | None, column_map: Path | None):
             bar.update(task, advance=n)
 
     try:
-        result = extract(pdf, pages, cmap, progress=advance if bar else None)
+        result = extract(pdf, pages, cmap, progress=advance if bar else None, standard_headers=headers)
     finally:
         if bar:
             bar.stop()
@@ -277,14 +278,19 @@ def extract(
     column_map: Path | None = typer.Option(
         None, "--map", help="A column map (YAML) for unusual tables.", metavar="FILE"
     ),
+    standard: str = typer.Option(
+        "o86", "--standard", metavar="ID", help="Whose symbols the calc sheets use: o86, nds or ec5."
+    ),
 ) -> None:
     """Pull the claimed bearing checks out of a calc package PDF into a claims file."""
     from audit.core.outfiles import write_atomic
     from audit.inputs.pdf.extract import claims_yaml
+    from audit.standards.registry import standard_named
 
     try:
+        headers = standard_named(standard, Location("--standard")).claim_headers
         _check_files({"PDF": pdf, "--map": column_map}, {"--output": output})
-        result = _extract(pdf, pages, column_map)
+        result = _extract(pdf, pages, column_map, headers)
         write_atomic(output, claims_yaml(result, pdf.name), "--output")
     except InputError as exc:
         _fail(exc)

@@ -11,7 +11,7 @@ import itertools
 import math
 import unicodedata
 from collections.abc import Callable
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from pathlib import Path
 
 from audit.core.errors import ErrorCollector, InputError, Location
@@ -107,6 +107,7 @@ LOAD_KEYS = {
 LIVE_KINDS = ("occupancy", "storage")  # storage: storage, equipment and service-room live load
 ENGINEERED_FACTORS = ("KD", "KScp", "KB", "KZcp", "KT")
 SUPPORTS = ("bearings", "continuous", "studs")
+US_CUSTOMARY = ("nds",)  # standards whose memos show forces in kip unless the project says otherwise
 
 
 PackLoader = Callable[[str, str, Location], tuple[PackCore, CombinationPack]]
@@ -143,6 +144,8 @@ def build_model(
     pack_id = rule_pack or project.rule_pack
     where = Location("--rule-pack") if rule_pack else top.map["project"].loc
     resistance, combos = select_packs(pack_id, project.combinations, rules_dirs, where)
+    if "units" not in (top.map["project"].value or {}) and resistance.standard in US_CUSTOMARY:
+        project = replace(project, units="US")  # forces in the habit of the standard's users, unless stated
     _check_readings(project, resistance, top.map["project"], errors)
 
     materials = _read_materials(top.map["materials"], resistance, errors)

@@ -304,6 +304,15 @@ class _Ec5:
     symbols: tuple[str, ...] = ("sigma_c,90,d", "fc,90,d", "fc,90,k", "kc,90", "kmod", "gamma_M", "Aef", "lef")
     slip_recipes: tuple[str, ...] = ()
     combination_formats: tuple[str, ...] = ("EN 1990",)
+    claim_headers: dict[str, str] = field(
+        default_factory=lambda: {
+            "Qf": r"^(?-i:F)\s*_?\s*c\s*,?\s*90\s*,?\s*d\b",
+            "Qr": r"^(?-i:F)\s*_?\s*c\s*,?\s*90\s*,?\s*R\s*d\b",
+            "KB": r"^k\s*_?\s*c\s*,?\s*90$",
+            "fcp": r"^(?-i:f)\s*_?\s*c\s*,?\s*90\s*,?\s*[kd]\b",
+            "utilisation": r"^(sigma|σ)",
+        }
+    )
 
     def read_pack(self, root: Node, path: str) -> Ec5Pack:
         return read_ec5_pack(root, path)

@@ -270,6 +270,14 @@ class _Nds:
     symbols: tuple[str, ...] = ("Fc-perp", "Fc⊥", "Fc'", "Cb", "CM", "Ct", "Ci", "Ab", "P", "P'")
     slip_recipes: tuple[str, ...] = ()
     combination_formats: tuple[str, ...] = ("ASD", "LRFD")
+    claim_headers: dict[str, str] = field(
+        default_factory=lambda: {
+            "Qf": r"^(p|applied(\s+load)?|reaction)\b(?!\s*')",
+            "Qr": r"^(p\s*'|p\s*allow|allowable(\s+(load|bearing))?|capacity)",
+            "KB": r"^c\s*b$",
+            "fcp": r"^f\s*c\s*-?\s*(perp|⊥)",
+        }
+    )
 
     def read_pack(self, root: Node, path: str) -> NdsPack:
         return read_nds_pack(root, path)

@@ -559,6 +559,7 @@ class _O86:
     symbols: tuple[str, ...] = ("Qf", "Qr", "Qr'", "Qf'", "Fcp", "fcp", "Ab", "Ab'", "KB", "KZcp", "KD", "KScp", "KT")
     slip_recipes: tuple[str, ...] = ("o86-factors",)
     combination_formats: tuple[str, ...] = ("limit-states",)
+    claim_headers: dict[str, str] = field(default_factory=dict)  # the default headers are O86's (Qf, Qr, KB)
 
     def read_pack(self, root: Node, path: str) -> ResistancePack:
         return read_resistance_pack(root, path)

@@ -53,11 +53,18 @@ class ColumnMap:
     kind: str = ""  # a kind for every claim read with this map
 
 
-def default_map() -> ColumnMap:
-    return ColumnMap({k: re.compile(v, re.IGNORECASE) for k, v in DEFAULT_HEADERS.items()})
+def default_map(standard_headers: dict[str, str] | None = None) -> ColumnMap:
+    """The headers every calc sheet uses, with a standard's own symbols tried first (e.g. NDS P', Cb)."""
+    extra = standard_headers or {}
+    return ColumnMap(
+        {
+            k: re.compile(f"(?:{extra[k]})|(?:{v})" if k in extra else v, re.IGNORECASE)
+            for k, v in DEFAULT_HEADERS.items()
+        }
+    )
 
 
-def read_column_map(path: Path | str) -> ColumnMap:
+def read_column_map(path: Path | str, standard_headers: dict[str, str] | None = None) -> ColumnMap:
     root = read_yaml_file(path)
     errors = ErrorCollector()
     if not isinstance(root.value, dict):
@@ -65,7 +72,7 @@ def read_column_map(path: Path | str) -> ColumnMap:
     unknown = set(root.value) - {"columns", "pages", "kind"}
     for key in sorted(unknown):
         errors.add(f"unknown key '{key}' (allowed: columns, pages, kind)", root.key_loc(key))
-    headers = dict(default_map().headers)
+    headers = dict(default_map(standard_headers).headers)
     units: dict[str, str] = {}
     columns = root.value.get("columns")
     for name, node in columns.value.items() if columns and isinstance(columns.value, dict) else []:

@@ -249,10 +249,11 @@ def extract(
     cmap: ColumnMap | None = None,
     workers: int | None = None,
     progress: Callable[[int], None] | None = None,
+    standard_headers: dict[str, str] | None = None,
 ) -> Extraction:
-    """Read the claimed bearing checks of a calc package PDF."""
+    """Read the claimed bearing checks of a calc package PDF; ``standard_headers``: a standard's own symbols."""
     path = Path(path)
-    cmap = cmap or default_map()
+    cmap = cmap or default_map(standard_headers)
     doc = open_document(path)
     count = len(doc)
     doc.close()
