@@ -23,7 +23,6 @@ from audit.review.findings import KINDS, SEVERITIES, Finding
 from audit.review.reconcile import Reconciliation
 from audit.review.review import Review, uplift_threshold
 from audit.review.rounds import Round
-from audit.standards.checks import NEAR
 
 STATUS_WORDS = {
     "failing": "FAILS",
@@ -40,9 +39,10 @@ DERIVATION_LIMIT = 2000  # above this many checks the memo is trimmed to stay qu
 LARGE_DERIVATIONS = 300  # derivations of failing checks only, at most this many
 LARGE_SKETCHES = 40
 
+STRENGTHS = ("fcp", "Fc-perp", "fc,90,k")  # factors that are strengths, shown in MPa
 CAUTIONS = (
     "This memo supports the reviewer's judgement and never replaces it.",
-    "Every factor in the rule pack must be verified against the edition of CSA O86 and the building code "
+    "Every factor in the rule pack must be verified against the edition of {standard} and the building code "
     "adopted where the building stands; values marked 'from memory: verify' have not been checked against a "
     "printed edition.",
     "The engineer of record, local codes and licensed practice govern.",
@@ -78,6 +78,10 @@ def kn(value: float | None, display: Display | None = None) -> str:
     return text[1:] if text.startswith("-") and not text.strip("-0.,") else text
 
 
+def _factor_value(name: str, value: float) -> str:
+    return f"{value / 1e6:.2f} MPa" if name in STRENGTHS else f"{value:.3f}"
+
+
 def _slot(lines: dict[str, str], name: str) -> list[str]:
     return [lines[name]] if name in lines else []
 
@@ -108,8 +112,9 @@ def assumptions(review: Review) -> list[str]:
         *_slot(lines, "faces"),
         "Specified loads are taken as given: snow, wind and earthquake loads must already include their "
         "importance factors (the tool applies none). Wind given as pressure and suction is taken each way in every "
-        "combination with wind; live load marked storage takes the pack's storage companion factor and counts as "
-        "long-term load in the KD formula where the rule pack says so.",
+        "combination with wind; live load marked storage takes the pack's storage companion factor"
+        + lines.get("storage", "")
+        + ".",
         *_slot(lines, "duration"),
     ]
     threshold, whose = uplift_threshold(review.model, pack)
@@ -256,10 +261,15 @@ def _derivations(review: Review, status_of: dict[str, str], every: bool = False)
             {
                 "id": r.check.id,
                 "why": r.check.why,
-                "formula": "Qr' = (2/3) phi Fcp Ab' KB KZcp" if r.check.kind == NEAR else "Qr = phi Fcp Ab KB KZcp",
+                "formula": review.standard.formula(r.check.kind),
                 "area": r.area_reason,
                 "factors": [
-                    (f.name, f"{f.value:.3f}" if f.name != "fcp" else f"{f.value / 1e6:.2f} MPa", f.reason, f.clause)
+                    (
+                        f.name,
+                        f"{f.value / 1e6:.2f} MPa" if f.name in STRENGTHS else f"{f.value:.3f}",
+                        f.reason,
+                        f.clause,
+                    )
                     for f in r.factors
                 ],
                 "forces": ", ".join(f"{case} {display.force(v * 1000)}" for case, v in rec["forces_kN"].items())
@@ -323,7 +333,7 @@ def build_view(
         "derivation_limit": DERIVATION_LIMIT,
         "large_derivations": LARGE_DERIVATIONS,
         "assumptions": assumptions(review),
-        "cautions": CAUTIONS,
+        "cautions": [c.format(standard=review.standard.title) for c in CAUTIONS],
         "kinds": list(KINDS.values()),
         "weight_words": WEIGHT_WORDS,
         "force_unit": review.display.force_unit,

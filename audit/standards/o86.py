@@ -585,6 +585,7 @@ class _O86:
             "tension-face laminations at its supports, for a layup installed as designed (an inverted layup is not "
             "modelled); a near-support check loads both faces and takes the lesser fcp. Each family's findings cite "
             "its own clause from the rule pack.",
+            "storage": " and counts as long-term load in the KD formula where the rule pack says so",
             "duration": f"KD per combination: permanent {kd['permanent'].value:.2f}, short term "
             f"{kd['short'].value:.2f}, standard term {kd['standard'].value:.2f} or the long-term formula where "
             "the specified dead load at the check exceeds its L + S load. The governing combination is the one with "
