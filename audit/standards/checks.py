@@ -78,6 +78,12 @@ def list_checks(model: Model, flow: TakeDown, pack: ResistancePack, readings: di
     return CheckList(tuple(checks), tuple(exempt), unseen_supports(model, flow, pack))
 
 
+def local_only(model: Model, flow: TakeDown, pack: PackCore) -> CheckList:
+    """The checks of a standard with no near-support check: both members at every contact."""
+    checks, exempt = local_checks(model, flow, pack)
+    return CheckList(tuple(checks), tuple(exempt), unseen_supports(model, flow, pack))
+
+
 def local_checks(model: Model, flow: TakeDown, pack: PackCore) -> tuple[list[RequiredCheck], list[Exempt]]:
     """Both directions at every bearing: each timber member loaded on its side grain gets a local check."""
     checks: list[RequiredCheck] = []

@@ -26,15 +26,15 @@ from audit.core.units import parse_quantity
 from audit.engine.contacts import Contact
 from audit.engine.model import Model, base_case
 from audit.engine.take_down import FORCE_RESOLUTION, Forces, TakeDown
-from audit.standards.checks import LOCAL, CheckList, RequiredCheck, local_checks, unseen_supports
+from audit.standards.checks import LOCAL, CheckList, RequiredCheck, local_only
 from audit.standards.o86 import (
-    PASS_LIMIT,
     CheckResult,
     Factor,
     LoadCombination,
     ResistanceInputs,
     evaluate_with,
-    load_combinations,
+    pack_as,
+    resist_each,
 )
 from audit.standards.packs import (
     PACK_HEAD_KEYS,
@@ -318,43 +318,25 @@ class _Ec5:
         return read_ec5_pack(root, path)
 
     def list_checks(self, model: Model, flow: TakeDown, pack: PackCore, readings: dict[str, str]) -> CheckList:
-        checks, exempt = local_checks(model, flow, pack)
-        return CheckList(tuple(checks), tuple(exempt), unseen_supports(model, flow, pack))
+        return local_only(model, flow, pack)
 
     def resist(
         self, checklist: CheckList, model: Model, pack: PackCore, cpack: CombinationPack
     ) -> tuple[CheckResult, ...]:
         p = ec5_pack(pack)
-        combos = load_combinations(model, cpack)
         reach = reaches(checklist.checks, model, p)
-        out = []
-        errors = ErrorCollector()
-        for check in checklist.checks:
-            try:
-                inputs, factors, area_reason = ec5_inputs(check, model, p, reach[check.id])
-            except InputError as exc:
-                errors.extend(exc)
-                continue
-            service = model.members[check.member].service
-            results, governing, uplift = evaluate_with(
-                check, inputs, combos, kmod_rule(p, service), p.kmod.value[service]["medium"],
-                counteracting=cpack.counteracting_dead.value,
-            )  # fmt: skip
-            out.append(
-                CheckResult(
-                    check,
-                    model.members[check.member].material,
-                    inputs,
-                    factors,
-                    area_reason,
-                    results,
-                    governing,
-                    uplift,
-                    governing.utilisation <= PASS_LIMIT,
-                )
-            )
-        errors.raise_if_any()
-        return tuple(out)
+
+        def service(check: RequiredCheck) -> str:
+            return model.members[check.member].service
+
+        return resist_each(
+            checklist,
+            model,
+            cpack,
+            lambda check: ec5_inputs(check, model, p, reach[check.id]),
+            lambda check, inputs: kmod_rule(p, service(check)),
+            lambda check: p.kmod.value[service(check)]["medium"],
+        )
 
     def formula(self, kind: str) -> str:
         return "Fc,90,Rd = kc,90 fc,90,d Aef, fc,90,d = kmod fc,90,k / gamma_M"
@@ -388,9 +370,7 @@ class _Ec5:
 
 
 def ec5_pack(pack: PackCore) -> Ec5Pack:
-    if not isinstance(pack, Ec5Pack):
-        raise TypeError(f"rule pack {pack.id} is a {pack.standard} pack, not an EC5 one")
-    return pack
+    return pack_as(pack, Ec5Pack)
 
 
 EC5 = _Ec5()

@@ -21,16 +21,16 @@ from audit.core.located_yaml import Node
 from audit.core.units import parse_quantity
 from audit.engine.model import Material, Member, Model
 from audit.engine.take_down import Forces, TakeDown
-from audit.standards.checks import LOCAL, CheckList, RequiredCheck, local_checks, unseen_supports
+from audit.standards.checks import LOCAL, CheckList, RequiredCheck, local_only
 from audit.standards.o86 import (
-    PASS_LIMIT,
     CheckResult,
     Factor,
     LoadCombination,
     ResistanceInputs,
     evaluate_with,
     fcp_on_face,
-    load_combinations,
+    pack_as,
+    resist_each,
 )
 from audit.standards.packs import (
     PACK_HEAD_KEYS,
@@ -283,42 +283,22 @@ class _Nds:
         return read_nds_pack(root, path)
 
     def list_checks(self, model: Model, flow: TakeDown, pack: PackCore, readings: dict[str, str]) -> CheckList:
-        checks, exempt = local_checks(model, flow, pack)
-        return CheckList(tuple(checks), tuple(exempt), unseen_supports(model, flow, pack))
+        return local_only(model, flow, pack)
 
     def resist(
         self, checklist: CheckList, model: Model, pack: PackCore, cpack: CombinationPack
     ) -> tuple[CheckResult, ...]:
         p = nds_pack(pack)
-        combos = load_combinations(model, cpack)
         readings = p.in_force(model.project.readings)
         lrfd = cpack.format == "LRFD"
-        out = []
-        errors = ErrorCollector()
-        for check in checklist.checks:
-            try:
-                inputs, factors, area_reason = nds_inputs(check, model, p, lrfd, readings)
-            except InputError as exc:
-                errors.extend(exc)
-                continue
-            results, governing, uplift = evaluate_with(
-                check, inputs, combos, _no_duration, 1.0, counteracting=cpack.counteracting_dead.value
-            )
-            out.append(
-                CheckResult(
-                    check,
-                    model.members[check.member].material,
-                    inputs,
-                    factors,
-                    area_reason,
-                    results,
-                    governing,
-                    uplift,
-                    governing.utilisation <= PASS_LIMIT,
-                )
-            )
-        errors.raise_if_any()
-        return tuple(out)
+        return resist_each(
+            checklist,
+            model,
+            cpack,
+            lambda check: nds_inputs(check, model, p, lrfd, readings),
+            lambda check, inputs: _no_duration,
+            lambda check: 1.0,
+        )
 
     def formula(self, kind: str) -> str:
         return "P' = Fc-perp' Ab, Fc-perp' = Fc-perp CM Ct Ci Cb (LRFD: x KF phi)"
@@ -353,9 +333,7 @@ class _Nds:
 
 
 def nds_pack(pack: PackCore) -> NdsPack:
-    if not isinstance(pack, NdsPack):
-        raise TypeError(f"rule pack {pack.id} is a {pack.standard} pack, not an NDS one")
-    return pack
+    return pack_as(pack, NdsPack)
 
 
 NDS = _Nds()

@@ -15,7 +15,7 @@ import math
 from collections.abc import Callable
 from dataclasses import dataclass, field, replace
 from functools import cached_property
-from typing import Any
+from typing import Any, TypeVar
 
 from audit.core.errors import ErrorCollector, InputError
 from audit.core.located_yaml import Node
@@ -515,18 +515,37 @@ def evaluate_with(
     return tuple(results), results[index], tuple(uplift)
 
 
-def resist(checklist: CheckList, model: Model, pack: ResistancePack, cpack: CombinationPack) -> tuple[CheckResult, ...]:
+InputsOf = Callable[[RequiredCheck], tuple[ResistanceInputs, tuple[Factor, ...], str]]
+
+
+def resist_each(
+    checklist: CheckList,
+    model: Model,
+    cpack: CombinationPack,
+    inputs_of: InputsOf,
+    duration_of: Callable[[RequiredCheck, ResistanceInputs], DurationRule],
+    unloaded_of: Callable[[RequiredCheck], float],
+) -> tuple[CheckResult, ...]:
+    """Every check's result under any standard: its inputs and reasons, each combination, the governing one.
+
+    Errors in the inputs of several checks (a missing fc, a wet factor) are reported together."""
     combos = load_combinations(model, cpack)
-    readings = pack.in_force(model.project.readings)
     out = []
     errors = ErrorCollector()
     for check in checklist.checks:
         try:
-            inputs, factors, area_reason = resistance_inputs(check, model, pack, readings)
+            inputs, factors, area_reason = inputs_of(check)
         except InputError as exc:
             errors.extend(exc)
             continue
-        results, governing, uplift = evaluate(check, inputs, combos, pack, counteracting=cpack.counteracting_dead.value)
+        results, governing, uplift = evaluate_with(
+            check,
+            inputs,
+            combos,
+            duration_of(check, inputs),
+            unloaded_of(check),
+            counteracting=cpack.counteracting_dead.value,
+        )
         out.append(
             CheckResult(
                 check=check,
@@ -542,6 +561,27 @@ def resist(checklist: CheckList, model: Model, pack: ResistancePack, cpack: Comb
         )
     errors.raise_if_any()
     return tuple(out)
+
+
+def resist(checklist: CheckList, model: Model, pack: ResistancePack, cpack: CombinationPack) -> tuple[CheckResult, ...]:
+    readings = pack.in_force(model.project.readings)
+
+    def duration_of(check: RequiredCheck, inputs: ResistanceInputs) -> DurationRule:
+        def rule(placed: Forces, combo: LoadCombination) -> tuple[float, str]:
+            if not inputs.uses_kd:
+                return 1.0, "KD = 1.00: the product's evaluation report does not apply KD"
+            return load_duration_factor(placed, combo, pack)
+
+        return rule
+
+    return resist_each(
+        checklist,
+        model,
+        cpack,
+        lambda check: resistance_inputs(check, model, pack, readings),
+        duration_of,
+        lambda check: pack.kd["standard"].value,
+    )
 
 
 # ---------------------------------------------------------------- the standard, as the review sees it
@@ -610,8 +650,16 @@ class _O86:
 
 
 def o86_pack(pack: PackCore) -> ResistancePack:
-    if not isinstance(pack, ResistancePack):
-        raise TypeError(f"rule pack {pack.id} is a {pack.standard} pack, not an O86 one")
+    return pack_as(pack, ResistancePack)
+
+
+PackType = TypeVar("PackType", bound=PackCore)
+
+
+def pack_as(pack: PackCore, kind: type[PackType]) -> PackType:
+    """The pack as its standard's own type (a standard only ever receives its own packs)."""
+    if not isinstance(pack, kind):
+        raise TypeError(f"rule pack {pack.id} is a {pack.standard} pack, not a {kind.__name__}")
     return pack
 
 
