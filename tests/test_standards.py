@@ -204,3 +204,24 @@ def test_each_standards_demo_reviews_with_its_claims(demo, tmp_path, run_cli):
     assert result.exit_code in (0, 1), result.output
     memo = (tmp_path / "m.html").read_text(encoding="utf-8")
     assert "from memory" in memo
+
+
+def _diagnosis(demo: str, bearing: str) -> str:
+    from audit.inputs.read_claims import read_claims
+    from audit.review.reconcile import reconcile
+    from audit.review.review import review_model
+
+    folder = ROOT / "fixtures" / demo
+    review = review_model(folder / "model.yaml")
+    rec = reconcile(review, read_claims(folder / "claims.yaml"))
+    return " ".join(f.message for f in rec.findings if f.kind == "resistance-differs" and f.bearing == bearing)
+
+
+def test_an_nds_claim_with_cb_at_the_member_end_is_diagnosed_as_that_slip():
+    # the rafter's 5.5 in bearing at its end: Cb = (5.5 + 0.375)/5.5 = 1.07 does not apply (NDS 3.10.4)
+    assert "Cb = 1.07 taken within 3 in of the member end" in _diagnosis("demo-nds", "R1/TP1")
+
+
+def test_an_ec5_claim_without_gamma_m_is_diagnosed_as_that_slip():
+    # 44.80 kN x 1.25 = 56.0 kN: the characteristic strength used as the design strength
+    assert "gamma_M left out" in _diagnosis("demo-ec5", "GB1/S2")

@@ -466,9 +466,20 @@ def _partner(review: Review, check: RequiredCheck, kind: str) -> CheckResult | N
     return review.result_at(check.bearing, check.member, kind)
 
 
+def _standard_slips(result: CheckResult, review: Review) -> list[Slip]:
+    """A standard's own resistance slips, each recomputed with the inputs it changes."""
+    inputs, g = result.inputs, result.governing
+    out = []
+    for name, text, changes in review.standard.resistance_variants(result, review.model, review.pack):
+        kd = changes.get("kd", g.kd)
+        fields: dict[str, Any] = {k: v for k, v in changes.items() if k != "kd"}
+        out.append(Slip(name, text, resistance(replace(inputs, **fields), kd)))
+    return out
+
+
 def qr_slips(result: CheckResult, review: Review) -> list[Slip]:
     if "o86-factors" not in review.standard.slip_recipes:
-        return []  # the factor slips below are O86's; another standard brings its own family
+        return _standard_slips(result, review)  # the factor slips below are O86's
     check, inputs, g = result.check, result.inputs, result.governing
     pack = o86_pack(review.pack)
     model = review.model

@@ -61,6 +61,11 @@ class Standard(Protocol):
 
     def assumption_lines(self, review: Any) -> dict[str, str]: ...
 
+    def resistance_variants(self, result: Any, model: Model, pack: PackCore) -> list[tuple[str, str, dict[str, float]]]:
+        """The standard's own slips in a resistance: (name, what the calc did, the inputs it changes; 'kd' for
+        the duration factor). The reconciler recomputes each and names those that reproduce a claim."""
+        ...
+
     def duration_reason(self, forces: dict[str, float], combination: Any, pack: PackCore) -> str:
         """Why the load-duration (or modification) factor took its value under one combination."""
         ...

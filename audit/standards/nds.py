@@ -315,6 +315,26 @@ class _Nds:
             + " The NDS has no near-support check: each contact is checked on both members.",
         }
 
+    def resistance_variants(self, result: Any, model: Model, pack: PackCore) -> list[tuple[str, str, dict[str, float]]]:
+        p, inputs, c = nds_pack(pack), result.inputs, result.check.contact
+        out: list[tuple[str, str, dict[str, float]]] = []
+        if inputs.kb == 1.0 and c.length < p.cb_max_length.value - 1e-9:
+            cb = (c.length + p.cb_add.value) / c.length
+            out.append(("cb-where-not-allowed", f"Cb = {cb:.2f} taken within 3 in of the member end", {"kb": cb}))
+        if inputs.kscp < 1.0:
+            out.append(("wet-factor-left-out", "the wet service factor CM was left out", {"kscp": 1.0}))
+        if inputs.phi < 1.0:
+            out.append(("lrfd-factors-left-out", "the ASD value used in LRFD (KF and phi left out)", {"phi": 1.0,
+                        "coefficient": inputs.coefficient / p.kf.value}))  # fmt: skip
+        else:
+            out.append(("lrfd-value-in-asd", "the LRFD value (x KF phi) used in ASD", {"phi": p.phi.value,
+                        "coefficient": inputs.coefficient * p.kf.value}))  # fmt: skip
+        if inputs.coefficient in (1.0, p.kf.value):
+            factor = p.deformation_factor
+            out.append(("deformation-limit", f"Fc-perp at the 0.02 in limit ({factor:.2f} Fc-perp) used",
+                        {"coefficient": inputs.coefficient * factor}))  # fmt: skip
+        return out
+
     def duration_reason(self, forces: Forces, combination: Any, pack: PackCore) -> str:
         return _no_duration(forces, combination)[1]
 
