@@ -52,3 +52,16 @@ def test_a_us_project_shows_forces_in_kip():
     assert f"Qf = {QF_J1 / (1000 * LBF):.2f} kip" in missing.message
     html = render_memo(review, rec, claims, MemoOptions())
     assert "Qf and Qr in kip" in html
+
+
+def test_the_terminal_check_table_shows_forces_in_the_projects_units(run_cli):
+    from tests.conftest import ROOT
+
+    out = run_cli("review", ROOT / "fixtures" / "demo-nds" / "model.yaml").output
+    header = next(line for line in out.splitlines() if line.startswith("check"))
+    assert "Qf kip" in header and "Qr kip" in header
+    # RB1 on C1 by hand (statics, common practice): the rafter's ridge reaction is 360 lb x 69.25/138.25 = 180 lb
+    # D and 301 lb S; RB1 carries it at its middle (half to C1) and 20 plf x 16 ft / 2 = 160 lb of its own D:
+    # D + S = 90 + 160 + 150 = 400 lb = 0.40 kip
+    row = next(line for line in out.splitlines() if line.startswith("RB1/C1:RB1"))
+    assert row.split()[3] == "0.40"

@@ -143,7 +143,8 @@ def _csv_safe(value: Any) -> Any:
 
 
 def check_table(review: Review) -> str:
-    header = ["check", "member", "kind", "Qf kN", "Qr kN", "Qf/Qr", "governing", "status"]
+    d = review.display  # in the project's units: kN, or kip
+    header = ["check", "member", "kind", f"Qf {d.force_unit}", f"Qr {d.force_unit}", "Qf/Qr", "governing", "status"]
     rows = []
     for r in review.results:
         g = r.governing
@@ -152,8 +153,8 @@ def check_table(review: Review) -> str:
                 r.check.id,
                 r.check.member,
                 r.check.kind,
-                f"{g.qf / 1000:.2f}",
-                f"{g.qr / 1000:.2f}",
+                f"{d.value(g.qf):.2f}",
+                f"{d.value(g.qr):.2f}",
                 f"{g.utilisation:.2f}",
                 g.combination,
                 "passes" if r.passes else "FAILS",
