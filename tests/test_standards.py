@@ -225,3 +225,29 @@ def test_an_nds_claim_with_cb_at_the_member_end_is_diagnosed_as_that_slip():
 def test_an_ec5_claim_without_gamma_m_is_diagnosed_as_that_slip():
     # 44.80 kN x 1.25 = 56.0 kN: the characteristic strength used as the design strength
     assert "gamma_M left out" in _diagnosis("demo-ec5", "GB1/S2")
+
+
+def test_ec5_kc90_on_a_continuous_support_by_hand():
+    # the EC5 demo's joist on the sole plate SP1 (continuous, C24): the joist's 47 mm along the plate spreads
+    # 30 mm each side, lef = 107 mm; across, the plate's 140 mm; kc,90 = 1.25 (solid, continuous support,
+    # no other contact within 2h); kmod 0.8 (imposed load, medium term), gamma_M 1.3, fc,90,k 2.5 MPa (EN 338)
+    from audit.review.review import review_model
+
+    review = review_model(ROOT / "fixtures" / "demo-ec5" / "model.yaml")
+    result = review.result_at("J1/SP1", "SP1", "local")
+    assert result is not None
+    assert result.governing.qr == pytest.approx(1.25 * 0.8 * 2.5e6 / 1.3 * 0.140 * 0.107, rel=1e-9)
+
+
+def test_nds_bearing_at_an_angle_follows_hankinson():
+    # a Douglas Fir-Larch No.2 beam loaded at 60 deg to its grain, ASD: Fc-perp' = 625 psi (Cb 1.00 at the end),
+    # Fc* = 1350 psi x CD 0.9 (the pack's conservative permanent duration for Fc at an angle);
+    # F-theta = Fc* Fc-perp' / (Fc* sin^2 + Fc-perp' cos^2) (NDS 3.10.3, Hankinson)
+    data = contact_model("nds-asd")
+    data["materials"]["SW"] = {"family": "sawn_lumber", "species": "Douglas Fir-Larch", "grade": "No.2"}
+    data["bearings"][0]["upper"]["angle"] = "60 deg"
+    result = review_dict(data).result_at("B/P1", "B", "local")
+    assert result is not None
+    perp, parallel, theta = 625 * PSI, 1350 * PSI * 0.9, math.radians(60)
+    f_theta = parallel * perp / (parallel * math.sin(theta) ** 2 + perp * math.cos(theta) ** 2)
+    assert result.governing.qr == pytest.approx(f_theta * 0.089 * 0.089, rel=1e-9)
