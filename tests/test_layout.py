@@ -361,3 +361,46 @@ def test_the_readme_layout_example_reviews_and_places_what_it_says():
     # six joists at 400 mm from grid 1 to grid 2, each on both beams, and the beams on four posts
     assert sorted(m for m in review.model.members if m.startswith("J-A-B-")) == [f"J-A-B-{n}" for n in range(1, 7)]
     assert len(review.model.bearings) == 6 * 2 + 4
+
+
+def _stacked_walls(sole: bool) -> dict:
+    """Two storeys of stud wall on grid A with a floor of joists between them (invented)."""
+    data = small()
+    data["layout"]["levels"]["R"] = "6 m"
+    data["layout"]["runs"][0].update({"first": "200 mm", "last": "200 mm"})
+    studs = {"thickness": "38 mm", "spacing": "406 mm"}
+    upper = {"id": "WU", "material": "SPF", "b": "140 mm", "d": "38 mm", "from": "A/1", "to": "A/2",
+             "base": "L2", "top": "R", "studs": studs}  # fmt: skip
+    if sole:
+        upper["sole"] = {"material": "SPF", "b": "140 mm", "d": "38 mm"}
+    data["layout"]["walls"] = [upper]
+    data["loads"] = [{"id": "roof", "member": "WU", "type": "uniform", "specified": {"D": "2 kN/m"}}]
+    return data
+
+
+def test_a_wall_on_a_sole_plate_brings_its_load_down_through_the_joists_under_it():
+    review = review_dict(_stacked_walls(sole=True))
+    bearings = {(b.upper.member, b.lower.member) for b in review.model.bearings}
+    # each stud stands on the sole, the sole on every joist crossing under it
+    assert ("WU.stud1", "WU.sole") in bearings
+    assert {f"J-A-B-{n}" for n in range(1, 6)} <= {lower for upper, lower in bearings if upper == "WU.sole"}
+    # the wall's 2 kN/m over 2 m (4 kN of D) comes down through the joists to the posts: equilibrium, the D
+    # through the four posts is the floor's dead load plus all of the wall's
+    without = review_dict(_stacked_walls(sole=False))
+    posts = ("BA/C1", "BA/C2", "BB/C3", "BB/C4")
+    through = sum(review.flow.bearing_forces[b]["D"] for b in posts)
+    before = sum(without.flow.bearing_forces[b]["D"] for b in posts)
+    assert through - before == pytest.approx(4000.0, rel=1e-9)
+    # almost all to BA: the sole sits over the joists' supports on BA
+    on_ba = sum(review.flow.bearing_forces[b]["D"] - without.flow.bearing_forces[b]["D"] for b in posts[:2])
+    assert on_ba > 0.99 * 4000.0
+    # and the joists are squeezed between the sole above and the beam below: near-support checks
+    near = {r.check.member for r in review.results if r.check.kind == "near-support"}
+    assert "J-A-B-3" in near
+
+
+def test_a_sole_plate_without_studs_is_refused():
+    data = _stacked_walls(sole=True)
+    del data["layout"]["walls"][0]["studs"]
+    lines = _errors(data)
+    assert any("a sole plate carries studs" in line and "layout.walls[0].sole" in line for line in lines), lines

@@ -31,7 +31,8 @@ def _plans(memo: str) -> dict[str, str]:
 
 
 def test_the_memo_draws_a_plan_of_each_level_that_has_members(memo):
-    assert sorted(_plans(memo)) == ["CANOPY", "L2", "L3", "R"]
+    # L1 shows the ground-floor wall's sole plate on the foundation
+    assert sorted(_plans(memo)) == ["CANOPY", "L1", "L2", "L3", "R"]
 
 
 def test_no_two_labels_of_a_plan_overlap(memo):

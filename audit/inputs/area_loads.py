@@ -133,7 +133,7 @@ def _carriers(item: Node, read, placed: tuple[Placed, ...], errors: ErrorCollect
                 errors.add(f"unknown member or run '{name}'{did_you_mean(name, groups)}", item.child_loc("carried_by"))
     out = []
     for p in placed:
-        if p.axis is None or p.kind == "wall":
+        if p.axis is None or p.kind in ("wall", "sole"):
             continue
         if on is not None and p.id not in on and p.group not in on:
             continue

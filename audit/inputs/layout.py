@@ -49,7 +49,8 @@ RUN_KEYS = {
     "studs",
 }
 POST_KEYS = {"id", "at", "base", "drop", "top", "d_along", "material", "b", "d", "service", "KT", "label"}
-WALL_KEYS = {"id", "from", "to", "base", "drop", "top", "extend", *PASSED} - {"support", "bears_on"}
+WALL_KEYS = {"id", "from", "to", "base", "drop", "top", "extend", "sole", *PASSED} - {"support", "bears_on"}
+SOLE_KEYS = {"material", "b", "d", "plies", "ply_thickness", "bears_on", "label"}
 ROUND = 6  # decimals of a metre (a micrometre) for every placed coordinate: the explicit model reads back exactly
 
 
@@ -565,7 +566,16 @@ class Placer:
         b, d = section
         fields = self.passed(f)
         fields["support"] = synth("studs" if f.has("studs") else "continuous", item, "support")
+        soles = self.sole(f, wall_id, axis, base, drop)
+        if soles is None:
+            return []
+        if soles:
+            studs = f.map["studs"]
+            fields["studs"] = Node({**studs.value, "sole": synth(soles[0].id, studs, "sole")}, studs.file,
+                                   studs.line, studs.column, studs.key, studs.key_marks)  # fmt: skip
+        foot = base[1] - drop + (soles[0].d if soles else 0.0)
         return [
+            *soles,
             Placed(
                 wall_id,
                 "wall",
@@ -577,9 +587,50 @@ class Placer:
                 item,
                 f"top plate of layout wall {wall_id}",
                 axis=axis,
-                base=base[1] - drop,
+                base=foot,
                 drop=drop,
                 ceiling=top[1],
+                footprint=strip(axis, b),
+            ),
+        ]
+
+    def sole(
+        self, f: FieldReader, wall_id: str, axis: Axis, base: tuple[str, float], drop: float
+    ) -> list[Placed] | None:
+        """A wall's bottom plate: the studs stand on it, and it bears on what is under the wall (on the lowest level,
+        continuously, on the foundation)."""
+        if not f.has("sole"):
+            return []
+        node = f.map["sole"]
+        if not f.has("studs"):
+            self.errors.add("a sole plate carries studs: give 'studs' too", node.loc)
+            return None
+        s = FieldReader(node, SOLE_KEYS, self.errors, f"sole plate of wall '{wall_id}'")
+        section = self.section(s)
+        if not s.ok or section is None:
+            return None
+        fields = {k: s.map[k] for k in SOLE_KEYS if k in s.map}
+        lowest = base[1] <= min(self.levels.values()) + 1e-9
+        if lowest:
+            fields["support"] = synth("continuous", node, "support")
+        elif s.has("bears_on"):
+            self.errors.add("'bears_on' is for a sole plate on the lowest level (on the foundation)", s.loc("bears_on"))
+            return None
+        b, d = section
+        return [
+            Placed(
+                f"{wall_id}.sole",
+                "sole",
+                fields,
+                b,
+                d,
+                base[0],
+                node.loc,
+                node,
+                f"sole plate of layout wall {wall_id}" + (", on the foundation" if lowest else ""),
+                axis=axis,
+                top=base[1] - drop + d,
+                drop=drop,
                 footprint=strip(axis, b),
             )
         ]

@@ -185,8 +185,8 @@ def _settle_ends(found: list[Found], placed: tuple[Placed, ...], errors: ErrorCo
                 names = " and ".join(f"'{c.lower.id}'" for c in supports)
                 errors.add(f"the foot of post '{p.id}' at {at_xy(*p.point or (0, 0))} lies over both {names}", p.loc)
             continue
-        if p.kind == "wall" or "support" in p.fields:
-            continue
+        if p.kind in ("wall", "sole") or "support" in p.fields:
+            continue  # plates: a sole on a floor is carried along its length, a top plate by its studs
         spans = sorted(
             (((c.upper_side.at or 0.0) - (c.upper_side.length or 0.0) / 2, c) for c in supports), key=lambda sc: sc[0]
         )

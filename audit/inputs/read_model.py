@@ -496,6 +496,13 @@ def _place_walls(
     """Place each wall's studs and packs as members under its plate (added to ``members``); their bearings."""
     placed: list[Bearing] = []
     for wall in walls:
+        sole = members.get(wall.sole) if wall.sole else None
+        if wall.sole and (sole is None or sole.vertical or sole.length < members[wall.plate].length - PLY_FIT):
+            errors.add(
+                f"sole '{wall.sole}' of the studs under '{wall.plate}' must be a horizontal member the wall's length",
+                wall.loc,
+            )
+            continue
         studs, bearings = place_studs(members[wall.plate], wall, errors)
         for stud in studs:
             if stud.id in members:

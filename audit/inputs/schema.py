@@ -144,6 +144,14 @@ LAYOUT = _obj(
                     "top": {"type": "string"},
                     "extend": ENDS,
                     "studs": {"type": "object"},
+                    "sole": _obj(
+                        {
+                            **{k: v for k, v in PASSED.items() if k not in ("service", "KT")},
+                            "bears_on": {"type": "string"},
+                        },
+                        ["material", "b", "d"],
+                        "the wall's bottom plate: the studs stand on it, it bears on what is under the wall",
+                    ),
                     **PASSED,
                 },
                 ["id", "from", "to", "base", "top", "material", "b", "d"],
@@ -247,6 +255,7 @@ MODEL_SCHEMA: dict[str, Any] = {
                                 "spacing": {**LENGTH, "description": "centre to centre, e.g. '406 mm'"},
                                 "first": {**LENGTH, "description": "centre of the first stud; default flush"},
                                 "height": LENGTH,
+                                "sole": {"type": "string", "description": "the member the studs stand on"},
                                 "packs": {
                                     "type": "array",
                                     "items": _obj(

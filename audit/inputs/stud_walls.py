@@ -15,7 +15,7 @@ from audit.core.located_yaml import Node
 from audit.engine.model import Bearing, Member, Side
 from audit.inputs.fields import FieldReader
 
-STUD_KEYS = {"material", "thickness", "depth", "spacing", "first", "height", "packs"}
+STUD_KEYS = {"material", "thickness", "depth", "spacing", "first", "height", "packs", "sole"}
 PACK_KEYS = {"id", "at", "studs", "width"}
 DEFAULT_HEIGHT = 3.0  # m; a stud's height enters no bearing check, it only names the member's length
 
@@ -42,6 +42,7 @@ class StudWall:
     height: float
     packs: tuple[Pack, ...]
     loc: Location
+    sole: str = ""  # the member the studs stand on (a sole plate along the same line), where the model has one
 
 
 def read_stud_wall(node: Node, plate_id: str, default_material: str, errors: ErrorCollector) -> StudWall | None:
@@ -85,6 +86,7 @@ def read_stud_wall(node: Node, plate_id: str, default_material: str, errors: Err
         height if height is not None else DEFAULT_HEIGHT,
         tuple(packs),
         node.loc,
+        f.text("sole", required=False, limit=120),
     )
 
 
@@ -189,4 +191,14 @@ def place_studs(plate: Member, wall: StudWall, errors: ErrorCollector) -> tuple[
                 loc=wall.loc,
             )
         )
+        if wall.sole:  # the stud stands on the sole plate, at the same place along the wall
+            bearings.append(
+                Bearing(
+                    f"{post_id}/{wall.sole}",
+                    Side(post_id, None, None, None, loc=wall.loc),
+                    Side(wall.sole, centre, None, None, loc=wall.loc),
+                    None,
+                    loc=wall.loc,
+                )
+            )
     return members, bearings
