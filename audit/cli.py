@@ -345,6 +345,7 @@ def explain(
 def rules(rules_dir: list[Path] | None = RulesDir) -> None:
     """List the rule packs and every value with its provenance."""
     from audit.standards.packs import load_all_packs
+    from audit.standards.registry import standard_named
 
     try:
         resistance, combos = load_all_packs(_dirs(rules_dir))
@@ -353,6 +354,8 @@ def rules(rules_dir: list[Path] | None = RulesDir) -> None:
     for pack in resistance.values():
         typer.echo(f"resistance pack {pack.id}: {pack.title}\n  edition: {pack.edition}\n  file: {pack.path}")
         typer.echo(f"  provenance: {pack.provenance}")
+        kinds = standard_named(pack.standard).check_kinds.values()
+        typer.echo(f"  standard: {pack.standard}; checks: {'; '.join(kinds)}")
         for name, value in pack.all_sourced():
             typer.echo(f"  {name} = {_shown(name, value.value)}  [{value.clause}; {value.source}; {value.status}]")
             if name in pack.choices:

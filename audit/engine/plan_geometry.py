@@ -147,12 +147,6 @@ class GridIndex:
         return sorted(seen)
 
 
-def boxes_touch(p: Polygon, q: Polygon) -> bool:
-    """Whether the bounding boxes overlap: the cheap test before clipping."""
-    a, b = bounds(p), bounds(q)
-    return a[0] < b[2] and b[0] < a[2] and a[1] < b[3] and b[1] < a[3]
-
-
 def is_upright_box(poly: Polygon) -> bool:
     """Whether a polygon is a rectangle with sides along x and y (most framing is)."""
     if len(poly) != 4:

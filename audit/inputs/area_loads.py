@@ -142,10 +142,9 @@ def _carriers(item: Node, read, placed: tuple[Placed, ...], errors: ErrorCollect
         along_span = abs(p.axis.ux) if span == "x" else abs(p.axis.uy)
         if along_span < 1 - SQUARE * SQUARE:
             continue
-        c = p.axis.start[1] if span == "x" else p.axis.start[0]
-        if lo - 1e-6 <= c <= hi + 1e-6:
+        if lo - 1e-6 <= _cross(p, span) <= hi + 1e-6:
             out.append(p)
-    return sorted(out, key=lambda p: (p.axis.start[1] if span == "x" else p.axis.start[0]) if p.axis else 0.0)
+    return sorted(out, key=lambda p: _cross(p, span))
 
 
 def _span_range(p: Placed, span: str) -> tuple[float, float]:

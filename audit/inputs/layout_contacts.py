@@ -20,15 +20,14 @@ from audit.engine.plan_geometry import (
     Polygon,
     area,
     bounds,
-    boxes_touch,
     centroid,
-    clip,
     extent,
     is_upright_box,
     overlap_region,
 )
 from audit.inputs.layout import ROUND, Placed
 
+Box = tuple[float, float, float, float]  # x0, y0, x1, y1
 LEVEL_TOLERANCE = 1e-3  # m: an underside within 1 mm of a top bears on it
 AREA_TOLERANCE = 1e-6  # m2: footprints touching along an edge do not bear
 SQUARE = math.sin(math.radians(0.5))  # members within half a degree of square (or parallel) count as such
@@ -90,10 +89,13 @@ def reach_up(placed: tuple[Placed, ...], errors: ErrorCollector) -> tuple[Placed
     return tuple(out)
 
 
-def _overlap(p: Polygon, q: Polygon) -> Polygon:
-    if not boxes_touch(p, q):
-        return ()
-    region = clip(p, q)
+def _overlap(
+    p: Polygon, q: Polygon, pb: Box | None = None, qb: Box | None = None, upright: bool | None = None
+) -> Polygon:
+    """Where two footprints overlap with area (touching along an edge is not overlapping); () when they do not."""
+    pb, qb = pb or bounds(p), qb or bounds(q)
+    both = upright if upright is not None else is_upright_box(p) and is_upright_box(q)
+    region = overlap_region(p, q, pb, qb, both)
     return region if len(region) >= 3 and area(region) > AREA_TOLERANCE else ()
 
 
@@ -111,8 +113,8 @@ def find_contacts(placed: tuple[Placed, ...], errors: ErrorCollector, warnings: 
         if bottoms[i] > tops[j] + LEVEL_TOLERANCE or bottoms[j] > tops[i] + LEVEL_TOLERANCE:
             continue  # one wholly above the other, not touching: neither a contact nor a clash
         a, b = placed[i], placed[j]
-        region = overlap_region(a.footprint, b.footprint, boxes[i], boxes[j], upright[i] and upright[j])
-        if len(region) < 3 or area(region) <= AREA_TOLERANCE:
+        region = _overlap(a.footprint, b.footprint, boxes[i], boxes[j], upright[i] and upright[j])
+        if not region:
             continue
         if abs(a.bottom - (b.top or 0.0)) <= LEVEL_TOLERANCE:
             upper, lower = a, b

@@ -34,10 +34,6 @@ class Standard(Protocol):
         ...
 
     @property
-    def symbols(self) -> tuple[str, ...]:  # how its calc sheets write the quantities (the claims vocabulary)
-        ...
-
-    @property
     def slip_recipes(self) -> tuple[str, ...]:  # families of slip recipes the reconciler may try on its checks
         ...
 

@@ -301,7 +301,6 @@ class _Ec5:
     id: str = "ec5"
     title: str = "EN 1995-1-1"
     check_kinds: dict[str, str] = field(default_factory=lambda: {LOCAL: "compression perpendicular to the grain"})
-    symbols: tuple[str, ...] = ("sigma_c,90,d", "fc,90,d", "fc,90,k", "kc,90", "kmod", "gamma_M", "Aef", "lef")
     slip_recipes: tuple[str, ...] = ()
     combination_formats: tuple[str, ...] = ("EN 1990",)
     claim_headers: dict[str, str] = field(

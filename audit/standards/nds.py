@@ -267,7 +267,6 @@ class _Nds:
     id: str = "nds"
     title: str = "US NDS"
     check_kinds: dict[str, str] = field(default_factory=lambda: {LOCAL: "bearing perpendicular to grain"})
-    symbols: tuple[str, ...] = ("Fc-perp", "Fc⊥", "Fc'", "Cb", "CM", "Ct", "Ci", "Ab", "P", "P'")
     slip_recipes: tuple[str, ...] = ()
     combination_formats: tuple[str, ...] = ("ASD", "LRFD")
     claim_headers: dict[str, str] = field(

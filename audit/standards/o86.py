@@ -596,7 +596,6 @@ class _O86:
     check_kinds: dict[str, str] = field(
         default_factory=lambda: {LOCAL: "local bearing", NEAR: "near-support bearing (loads within d of a support)"}
     )
-    symbols: tuple[str, ...] = ("Qf", "Qr", "Qr'", "Qf'", "Fcp", "fcp", "Ab", "Ab'", "KB", "KZcp", "KD", "KScp", "KT")
     slip_recipes: tuple[str, ...] = ("o86-factors",)
     combination_formats: tuple[str, ...] = ("limit-states",)
     claim_headers: dict[str, str] = field(default_factory=dict)  # the default headers are O86's (Qf, Qr, KB)
