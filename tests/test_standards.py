@@ -251,3 +251,15 @@ def test_nds_bearing_at_an_angle_follows_hankinson():
     perp, parallel, theta = 625 * PSI, 1350 * PSI * 0.9, math.radians(60)
     f_theta = parallel * perp / (parallel * math.sin(theta) ** 2 + perp * math.cos(theta) ** 2)
     assert result.governing.qr == pytest.approx(f_theta * 0.089 * 0.089, rel=1e-9)
+
+
+def test_explain_gives_a_wet_ec5_members_kmod_for_every_combination(tmp_path, run_cli):
+    # EN 1995-1-1 Table 3.1 (from memory): service class 3 takes kmod 0.65 for a medium-term action, not 0.80
+    data = contact_model("ec5")
+    data["members"][0]["service"] = "wet"
+    path = tmp_path / "m.yaml"
+    path.write_text(yaml.safe_dump(data), encoding="utf-8")
+    out = run_cli("explain", path, "B/P1:B").output
+    # the governing line keeps its own reason; the others are worded again for explain, for the same member
+    lines = [line for line in out.splitlines() if line.strip().startswith(("1.35G+1.5Q ", "1.35G+1.5Q+0.75S "))]
+    assert len(lines) == 2 and all("kmod = 0.65" in line for line in lines), out

@@ -231,7 +231,7 @@ def explain(review: Review, check_id: str) -> str:
         mark = "  <- governs" if x is r.governing else ""
         placed = placed_forces(c.forces, c.envelope, combos[x.combination])[0] if x.combination in combos else c.forces
         reason = x.kd_reason or (
-            review.standard.duration_reason(placed, combos[x.combination], review.pack)
+            review.standard.duration_reason(c, placed, combos[x.combination], review.model, review.pack)
             if r.inputs.uses_kd and x.combination in combos
             else f"KD = {x.kd:.2f}"
         )

@@ -62,8 +62,10 @@ class Standard(Protocol):
         the duration factor). The reconciler recomputes each and names those that reproduce a claim."""
         ...
 
-    def duration_reason(self, forces: dict[str, float], combination: Any, pack: PackCore) -> str:
-        """Why the load-duration (or modification) factor took its value under one combination."""
+    def duration_reason(
+        self, check: Any, forces: dict[str, float], combination: Any, model: Model, pack: PackCore
+    ) -> str:
+        """Why the load-duration (or modification) factor took its value at a check under one combination."""
         ...
 
     def trial(

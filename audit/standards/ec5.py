@@ -374,8 +374,10 @@ class _Ec5:
                 )
         return out
 
-    def duration_reason(self, forces: Forces, combination: Any, pack: PackCore) -> str:
-        return kmod_rule(ec5_pack(pack), "dry")(forces, combination)[1]
+    def duration_reason(
+        self, check: RequiredCheck, forces: Forces, combination: Any, model: Model, pack: PackCore
+    ) -> str:
+        return kmod_rule(ec5_pack(pack), model.members[check.member].service)(forces, combination)[1]
 
     def trial(
         self,

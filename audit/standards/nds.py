@@ -334,7 +334,9 @@ class _Nds:
                         {"coefficient": inputs.coefficient * factor}))  # fmt: skip
         return out
 
-    def duration_reason(self, forces: Forces, combination: Any, pack: PackCore) -> str:
+    def duration_reason(
+        self, check: RequiredCheck, forces: Forces, combination: Any, model: Model, pack: PackCore
+    ) -> str:
         return _no_duration(forces, combination)[1]
 
     def trial(

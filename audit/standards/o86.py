@@ -634,7 +634,9 @@ class _O86:
     def resistance_variants(self, result: Any, model: Model, pack: PackCore) -> list[tuple[str, str, dict[str, float]]]:
         return []  # O86's slips are the reconciler's own factor family ("o86-factors")
 
-    def duration_reason(self, forces: Forces, combination: Any, pack: PackCore) -> str:
+    def duration_reason(
+        self, check: RequiredCheck, forces: Forces, combination: Any, model: Model, pack: PackCore
+    ) -> str:
         return load_duration_factor(forces, combination, o86_pack(pack))[1]
 
     def trial(
