@@ -1,11 +1,15 @@
 """EN 1995-1-1 compression perpendicular to grain (6.1.5, values as recalled), behind the standard interface.
 
     sigma_c,90,d = Fc,90,d / Aef  <=  kc,90 fc,90,d          fc,90,d = kmod fc,90,k / gamma_M
-    Aef = b lef,  lef = l + up to 30 mm each side (no more than the distance to the member end,
-                  nor half the distance to the next contact on the same face)
+    Aef = b lef,  lef = l + min(30 mm, a or l1/2, l) each side (a: the distance to the member end,
+                  l1: the clear distance to the next contact on the same face, l: the contact length)
     kc,90: 1.25 (solid) / 1.5 (glulam) on continuous supports, 1.5 / 1.75 on discrete supports
            (glulam: contact length up to 400 mm), where the clear distance l1 to the next contact
            is at least 2h; 1.0 otherwise
+
+At a stated angle alpha between load and grain (6.2.2, as recalled) the resistance is
+    fc,alpha,d Aef,  fc,alpha,d = fc,0,d / (fc,0,d / (kc,90 fc,90,d) sin^2 alpha + cos^2 alpha)
+with Aef = b l, the contact without the 30 mm extensions of 6.1.5 (the conservative reading).
 
 kmod is that of the shortest-duration action present in each combination (3.1.3(2)), by
 service class (dry: classes 1 and 2; wet: class 3). Each contact is checked on both members;
@@ -17,14 +21,14 @@ from __future__ import annotations
 
 import math
 from collections import defaultdict
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import Any
 
 from audit.core.errors import ErrorCollector, InputError
 from audit.core.located_yaml import Node
 from audit.core.units import parse_quantity
 from audit.engine.contacts import Contact
-from audit.engine.model import Model, base_case
+from audit.engine.model import STORAGE_LIVE, Model, base_case
 from audit.engine.take_down import FORCE_RESOLUTION, Forces, TakeDown
 from audit.standards.checks import LOCAL, CheckList, RequiredCheck, local_only
 from audit.standards.o86 import (
@@ -178,22 +182,37 @@ class Reach:
 
 
 def effective_reach(contact: Contact, others: list[Contact], length: float, extension: float) -> Reach:
-    """Up to ``extension`` each side, no more than the distance to the member end nor half the distance to the
-    next contact on the same face (EN 1995-1-1 6.1.5(1))."""
+    """Each side's extension is min(``extension``, a or l1/2, l) (EN 1995-1-1 6.1.5(1), from memory: verify): no
+    more than the distance a to the member end, half the clear distance l1 to the next contact on the same face,
+    nor the contact's own length l."""
     start, end = contact.start, contact.start + contact.length
     before = [o.start + o.length for o in others if o.start + o.length <= start + 1e-9]
     after = [o.start for o in others if o.start >= end - 1e-9]
     gap_left = start - max(before) if before else math.inf
     gap_right = min(after) - end if after else math.inf
-    left = min(extension, start, gap_left / 2)
-    right = min(extension, length - end, gap_right / 2)
+    own = contact.length
+    left = min(extension, start, gap_left / 2, own)
+    right = min(extension, length - end, gap_right / 2, own)
     limits = []
     for side, added, to_end, gap in (("left", left, start, gap_left), ("right", right, length - end, gap_right)):
         if added < extension - 1e-9:
-            bound = "member end" if to_end <= gap / 2 else "half way to the next contact"
+            bound = min(
+                [(to_end, "member end"), (gap / 2, "half way to the next contact"), (own, "the contact length l")],
+                key=lambda b: b[0],
+            )[1]
             limits.append(f"{side} {added * 1000:.0f} mm ({bound})")
     why = "; ".join(limits) or f"{extension * 1000:.0f} mm each side"
     return Reach(max(left, 0.0), max(right, 0.0), min(gap_left, gap_right), why)
+
+
+ANGLE_CLAUSE = "EN 1995-1-1 6.2.2"
+
+
+def at_an_angle(check: RequiredCheck) -> float | None:
+    """The stated angle between load and grain, or None for a load perpendicular to the grain."""
+    if check.angle is None or abs(check.angle - math.pi / 2) < 1e-9:
+        return None
+    return check.angle
 
 
 def kc90_factor(check: RequiredCheck, model: Model, pack: Ec5Pack, reach: Reach) -> Factor:
@@ -234,15 +253,34 @@ def ec5_inputs(
     gamma = pack.gamma_m[material.family]
     fc90k = material.fcp or 0.0
     c = check.contact
+    angle = at_an_angle(check)
+    if angle is not None:
+        reach = replace(reach, left=0.0, right=0.0, why="none at an angle to the grain (6.2.2; conservative reading)")
     lef = c.length + reach.left + reach.right
     area = c.width * lef
     kc90 = kc90_factor(check, model, pack, reach)
     family_words = material.family.replace("_", " ")
-    factors = (
+    factors: tuple[Factor, ...] = (
         Factor("fc,90,k", fc90k, f"fc,90,k = {fc90k / 1e6:.2f} MPa: {material.species}", ""),
         Factor("gamma_M", gamma.value, f"gamma_M = {gamma.value:.2f}: {family_words}", gamma.clause),
         kc90,
     )
+    if angle is not None:
+        if material.fc is None:
+            raise InputError(
+                f"bearing at an angle on '{member.id}' needs fc,0,k (EN 1995-1-1 6.2.2) for material "
+                f"'{material.id}'; the rule pack has none for {material.family.replace('_', ' ')} {material.species}",
+                material.loc,
+            )
+        factors += (
+            Factor(
+                "alpha",
+                math.degrees(angle),
+                f"alpha = {math.degrees(angle):.1f} deg between load and grain: fc,alpha,d = fc,0,d / "
+                f"(fc,0,d / (kc,90 fc,90,d) sin² alpha + cos² alpha), fc,0,k = {material.fc / 1e6:.1f} MPa",
+                ANGLE_CLAUSE,
+            ),
+        )
     inputs = ResistanceInputs(
         phi=1.0 / gamma.value,
         coefficient=1.0,
@@ -253,8 +291,8 @@ def ec5_inputs(
         kzcp=1.0,
         area=area,
         uses_kd=True,
-        fc_parallel=None,
-        angle=None,
+        fc_parallel=material.fc if angle is not None else None,  # x kmod / gamma_M in ``resistance``: fc,0,d
+        angle=angle,
     )
     area_reason = (
         f"Aef = b lef = {c.width * 1000:.0f} x ({c.length * 1000:.0f} + {reach.left * 1000:.0f} + "
@@ -268,7 +306,7 @@ def kmod_rule(pack: Ec5Pack, service: str):
 
     def rule(forces: Forces, combo: LoadCombination) -> tuple[float, str]:
         present = [
-            classes.get(base_case(case), "permanent")
+            classes.get(case, classes.get(base_case(case), "permanent"))  # L:storage has a class of its own
             for case, factor in combo.factors.items()
             if factor and abs(forces.get(case, 0.0)) > FORCE_RESOLUTION
         ] or ["permanent"]
@@ -341,11 +379,18 @@ class _Ec5:
         return "Fc,90,Rd = kc,90 fc,90,d Aef, fc,90,d = kmod fc,90,k / gamma_M"
 
     def assumption_lines(self, review: Any) -> dict[str, str]:
+        p = ec5_pack(review.pack)
+        storage_class = p.duration_classes.value.get(STORAGE_LIVE, p.duration_classes.value.get("L", "medium"))
         return {
+            "storage": f" ({review.cpack.storage_companion.value:g} as a companion) and is a {storage_class}-term "
+            "action for kmod",
             "duration": "EN 1995-1-1: each combination takes the kmod of its shortest-duration action present at "
             "the check (service classes 1 and 2 as dry, 3 as wet); the contact length spreads up to 30 mm each side "
-            "(Aef); kc,90 follows the support arrangement where the next contact is at least 2h away. EN 1995-1-1 "
-            "has no near-support check: each contact is checked on both members.",
+            "(Aef), each side no more than the end distance a, half the clear distance l1/2 to the next contact, or the "
+            "contact length l; kc,90 follows the support arrangement where the next contact is at least 2h away. A "
+            "contact with a stated angle between load and grain is checked for compression at an angle (6.2.2, "
+            "fc,0,k from the rule pack) on its contact area b l without the extensions (the conservative reading). "
+            "EN 1995-1-1 has no near-support check: each contact is checked on both members.",
         }
 
     def resistance_variants(self, result: Any, model: Model, pack: PackCore) -> list[tuple[str, str, dict[str, float]]]:

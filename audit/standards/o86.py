@@ -161,7 +161,7 @@ def load_combinations(model: Model, cpack: CombinationPack) -> tuple[LoadCombina
     for c in cpack.combinations:
         factors = dict(c.factors)
         live = factors.get("L", 0.0)
-        if STORAGE_LIVE in cases and live:
+        if STORAGE_LIVE in cases and live and STORAGE_LIVE not in factors:  # a combination may state its own
             leads = live >= max(f for case, f in factors.items() if case != LONG_TERM_CASE)
             factors[STORAGE_LIVE] = live if leads else cpack.storage_companion.value
         wind = factors.get("W", 0.0)

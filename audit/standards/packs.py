@@ -19,6 +19,7 @@ from typing import Any
 from audit.core.errors import ErrorCollector, InputError, Location
 from audit.core.located_yaml import Node, node_text, read_yaml_file
 from audit.core.units import parse_quantity
+from audit.engine.model import STORAGE_LIVE, base_case
 
 DURATIONS = ("permanent", "standard", "short")
 # The two-way readings every resistance pack states, as (section, key); a project selects one
@@ -582,7 +583,8 @@ def read_combination_pack(root: Node, path: str) -> CombinationPack:
         factors: dict[str, float] = {}
         f_node = item.value.get("factors")
         for case, val in f_node.value.items() if f_node else []:
-            if case not in cases:
+            # a combination may state storage live load's own factor (EN 1990's seismic psi2 of storage)
+            if case not in cases and not (case == STORAGE_LIVE and base_case(case) in cases):
                 errors.add(f"unknown load case '{case}'", val.loc)
                 continue
             try:
