@@ -386,8 +386,8 @@ class _Ec5:
             "action for kmod",
             "duration": "EN 1995-1-1: each combination takes the kmod of its shortest-duration action present at "
             "the check (service classes 1 and 2 as dry, 3 as wet); the contact length spreads up to 30 mm each side "
-            "(Aef), each side no more than the end distance a, half the clear distance l1/2 to the next contact, or the "
-            "contact length l; kc,90 follows the support arrangement where the next contact is at least 2h away. A "
+            "(Aef), each side no more than the end distance a, half the clear distance l1/2 to the next contact, or "
+            "the contact length l; kc,90 follows the support arrangement where the next contact is at least 2h away. A "
             "contact with a stated angle between load and grain is checked for compression at an angle (6.2.2, "
             "fc,0,k from the rule pack) on its contact area b l without the extensions (the conservative reading). "
             "EN 1995-1-1 has no near-support check: each contact is checked on both members.",
