@@ -92,3 +92,60 @@ def test_a_reading_the_pack_does_not_have_is_an_input_error():
     with pytest.raises(InputErrors) as caught:
         review_dict(beam_with_post_and_joist(readings={"near_support.oposite_bearings": "summed"}))
     assert "did you mean 'near_support.opposite_bearings'" in str(caught.value)
+
+
+# ---------------------------------------------------------------- side-by-side seats (hand values in details.py)
+
+
+def test_rafters_from_both_sides_on_half_the_ridge_each_form_one_bearing_of_their_summed_width():
+    from tests.verification.details import (
+        QF_TWO_RAFTERS,
+        QR_ONE_SEAT_WIDTH,
+        QR_SIDE_BY_SIDE,
+        ridge_with_rafters_both_sides,
+    )
+
+    r = review_dict(ridge_with_rafters_both_sides()).result("G/C1:G:near")
+    assert r.governing.qf == pytest.approx(QF_TWO_RAFTERS, rel=REL)  # both rafters' loads within d
+    assert r.governing.qr == pytest.approx(QR_SIDE_BY_SIDE, rel=REL)  # b = 65 + 65 = 130 mm, not one seat's 65
+    assert r.governing.qr != pytest.approx(QR_ONE_SEAT_WIDTH, rel=1e-3)
+    assert r.passes and "side by side across the member: one bearing 130 mm wide" in r.area_reason
+
+
+def test_seats_that_do_not_overlap_along_the_member_stay_separate_bearings_of_their_own_width():
+    from tests.verification.details import ridge_with_rafters_both_sides
+
+    data = ridge_with_rafters_both_sides()
+    data["bearings"][4]["lower"]["at"] = "400 mm"  # R2 100 mm from R: a clear gap, not side by side
+    r = review_dict(data).result("G/C1:G:near")
+    # O86 6.5.6.3 as recalled, by hand: b = the least width, 65 mm; L1 = 38, L2 = 152 capped at 57 mm
+    assert r.governing.qr == pytest.approx((2 / 3) * 0.8 * 7.0e6 * 0.065 * (0.038 + 0.057) / 2, rel=REL)
+    assert "side by side" not in r.area_reason
+
+
+def test_side_by_side_seats_wider_together_than_the_member_are_capped_at_its_width():
+    from tests.verification.details import QR_SIDE_BY_SIDE, SEAT, ridge_with_rafters_both_sides
+
+    data = ridge_with_rafters_both_sides()
+    data["members"].append({"id": "R3", "material": "SPF", "b": "38 mm", "d": "184 mm", "length": "4 m"})
+    data["members"].append({"id": "W3", "material": "SPF", "b": "140 mm", "d": "38 mm", "length": "5 m",
+                            "support": "continuous"})  # fmt: skip
+    data["bearings"] += [
+        {"id": "R3/G", "upper": {"member": "R3", "at": "3967.5 mm", **SEAT}, "lower": {"member": "G", "at": "300 mm"}},
+        {"id": "R3/W3", "upper": {"member": "R3", "at": "44.5 mm"}, "lower": {"member": "W3", "at": "2 m"}},
+    ]
+    r = review_dict(data).result("G/C1:G:near")
+    # three 65 mm seats sum to 195 mm: b of Ab' is capped at the ridge's own 130 mm (common practice)
+    assert r.governing.qr == pytest.approx(QR_SIDE_BY_SIDE, rel=REL)
+
+
+def test_partly_overlapping_seats_count_with_their_true_total_area():
+    from audit.engine.contacts import Contact, face_bearings
+
+    # two 38 mm x 65 mm seats offset 19 mm along the member: one bearing 57 mm long whose width keeps the
+    # true area, 2 x 38 x 65 / 57 = 86.7 mm (hand arithmetic), not 130 mm
+    a = Contact("a", 0.038, 0.065, 1.0, None, "", "", 1.000)
+    b = Contact("b", 0.038, 0.065, 1.0, None, "", "", 1.019)
+    (one,) = face_bearings((a, b))
+    assert one.length == pytest.approx(0.057) and one.width == pytest.approx(2 * 0.038 * 0.065 / 0.057)
+    assert one.side_by_side

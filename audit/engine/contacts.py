@@ -7,6 +7,7 @@ it came from), for whichever standard reads it.
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 
 from audit.core.errors import InputError
@@ -119,14 +120,61 @@ def spread_within(
     return out
 
 
+@dataclass(frozen=True)
+class FaceBearing:
+    """Contacts on one face that overlap or touch along the member, taken as one bearing.
+
+    Contacts that overlap along the member cannot share its face there: they sit side by side
+    across it (rafters from both sides of a ridge, joists from both sides of a beam at one
+    station), so the one bearing's width is their total area over its length, the sum of the
+    widths for seats of one length (the standard caps it at the member's width).
+    """
+
+    start: float  # m along the member
+    length: float  # m, from the first contact's start to the last one's end
+    end_distance: float  # m, the least of the contacts'
+    width: float  # m, the contacts' total area / length
+    sources: tuple[str, ...]
+    widths: tuple[float, ...]  # m, each contact's own width
+    side_by_side: bool  # some of the contacts overlap along the member
+
+
+def face_bearings(contacts: tuple[Contact, ...]) -> list[FaceBearing]:
+    """The contacts as separate bearings: those that touch or overlap count as one."""
+    groups: list[list[Contact]] = []
+    reach = -math.inf
+    for c in sorted(contacts, key=lambda c: (c.start, c.source)):
+        if groups and c.start <= reach + 1e-9:
+            groups[-1].append(c)
+            reach = max(reach, c.start + c.length)
+        else:
+            groups.append([c])
+            reach = c.start + c.length
+    out = []
+    for group in groups:
+        start = group[0].start
+        end = max(c.start + c.length for c in group)
+        length = end - start
+        area = math.fsum(c.length * c.width for c in group)
+        overlap = any(
+            a.start + a.length > b.start + 1e-9 and b.start + b.length > a.start + 1e-9
+            for i, a in enumerate(group)
+            for b in group[i + 1 :]
+        )
+        out.append(
+            FaceBearing(
+                start,
+                length,
+                min(c.end_distance for c in group),
+                area / length if length > 0 else max(c.width for c in group),
+                tuple(c.source for c in group),
+                tuple(c.width for c in group),
+                overlap,
+            )
+        )
+    return out
+
+
 def separate_bearings(contacts: tuple[Contact, ...]) -> list[tuple[float, float]]:
     """The contacts as (length, end distance) of separate bearings: those that touch or overlap count as one."""
-    spans = sorted((c.start, c.start + c.length, c.end_distance) for c in contacts)
-    merged: list[list[float]] = []
-    for start, end, end_distance in spans:
-        if merged and start <= merged[-1][1] + 1e-9:
-            merged[-1][1] = max(merged[-1][1], end)
-            merged[-1][2] = min(merged[-1][2], end_distance)
-        else:
-            merged.append([start, end, end_distance])
-    return [(end - start, end_distance) for start, end, end_distance in merged]
+    return [(b.length, b.end_distance) for b in face_bearings(contacts)]

@@ -23,7 +23,7 @@ from audit.inputs.read_claims import Claim
 from audit.review import wording
 from audit.review.findings import KINDS, Finding, severity_rank
 from audit.review.review import Review
-from audit.standards.checks import LOCAL, NEAR, RequiredCheck, top_bearing
+from audit.standards.checks import LOCAL, NEAR, RequiredCheck, near_support_width, top_bearing
 from audit.standards.o86 import CheckResult, factored_force, o86_pack, resistance
 
 FACTOR_REL_TOL = 0.01
@@ -510,9 +510,7 @@ def qr_slips(result: CheckResult, review: Review) -> list[Slip]:
     if inputs.kzcp < kz_max:
         variant("kzcp-flat-plate", f"KZcp = {kz_max:.2f} taken for a plate or plank laid flat (or glulam)", kzcp=kz_max)
     wider = max(member.b, other.b)
-    width = (
-        check.contact.width if check.kind == LOCAL else min([check.contact.width, *(c.width for c in check.opposite)])
-    )
+    width = check.contact.width if check.kind == LOCAL else near_support_width(check)
     if wider > width + 1e-9:
         variant(
             "wider-width-area",

@@ -15,7 +15,7 @@ from collections import defaultdict
 from dataclasses import dataclass, field
 
 from audit.core.errors import ErrorCollector, InputError
-from audit.engine.contacts import Contact, contact_on, separate_bearings, spread_within, top_contact
+from audit.engine.contacts import Contact, contact_on, face_bearings, separate_bearings, spread_within, top_contact
 from audit.engine.model import Bearing, Member, Model
 from audit.engine.take_down import FORCE_RESOLUTION, Envelope, Forces, TakeDown
 from audit.standards.packs import PackCore, ResistancePack
@@ -237,9 +237,28 @@ def top_bearing(check: RequiredCheck, reading: str) -> tuple[float, float]:
     return max(separate_bearings(check.opposite), key=lambda b: b[0])
 
 
+def near_support_width(check: RequiredCheck) -> float:
+    """b of Ab': the least of the support contact's width and each bearing's within d, where bearings side by side
+    across the member (overlapping along it) count as one whose width is their sum; the support contact is never
+    wider than the member, so neither is b."""
+    return min([check.contact.width, *(b.width for b in face_bearings(check.opposite))])
+
+
+def side_by_side_text(check: RequiredCheck) -> str:
+    """How side-by-side bearings within d were counted, for the derivation ('' when there are none)."""
+    parts = []
+    for b in face_bearings(check.opposite):
+        if b.side_by_side:
+            widths = " + ".join(f"{w * 1000:.0f}" for w in b.widths)
+            parts.append(
+                f"{', '.join(b.sources)} side by side across the member: one bearing {b.width * 1000:.0f} mm wide "
+                f"({widths} mm over {b.length * 1000:.0f} mm), no wider than b"
+            )
+    return "; ".join(parts)
+
+
 def near_support_geometry(check: RequiredCheck, reading: str) -> tuple[float, float, float]:
-    """(L1, L2, b) for a near-support check: the shorter and longer face lengths, least width."""
+    """(L1, L2, b) for a near-support check: the shorter and longer face lengths, the width of Ab'."""
     support_length = check.contact.length
     top_length = top_bearing(check, reading)[0]
-    width = min([check.contact.width, *(c.width for c in check.opposite)])
-    return min(support_length, top_length), max(support_length, top_length), width
+    return min(support_length, top_length), max(support_length, top_length), near_support_width(check)

@@ -37,6 +37,7 @@ from audit.standards.checks import (
     RequiredCheck,
     list_checks,
     near_support_geometry,
+    side_by_side_text,
     top_bearing,
 )
 from audit.standards.packs import CombinationPack, PackCore, ResistancePack, read_resistance_pack
@@ -411,6 +412,8 @@ def _near_area(check: RequiredCheck, pack: ResistancePack, readings: dict[str, s
         spread = readings["near_support.opposite_bearings"]
         how = "the longest single bearing" if spread == "longest_single" else "the sum of their lengths"
         text += f"; {len(check.opposite)} bearings within d, L2 from {how} (reading: {spread})"
+        if beside := side_by_side_text(check):
+            text += f"; {beside}"
     return area, text
 
 

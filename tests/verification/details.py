@@ -97,6 +97,43 @@ QR_LONGEST_SINGLE = (2 / 3) * 0.8 * 7.0e6 * (0.130 * (0.140 + 0.152) / 2)
 QR_SUMMED = (2 / 3) * 0.8 * 7.0e6 * (0.130 * (0.152 + 0.178) / 2)
 
 
+def ridge_with_rafters_both_sides(station: str = "300 mm") -> dict:
+    """A 130 x 380 glulam ridge on steel posts; a rafter from each side seated on half its width, both at
+    ``station``, within d of the post at 76 mm: side by side across the ridge."""
+    data = roof(SEAT, BIRDSMOUTH)
+    data["project"]["title"] = "Ridge with rafters from both sides (fictional)"
+    data["members"] += [
+        {"id": "R2", "material": "SPF", "b": "38 mm", "d": "184 mm", "length": "4 m"},
+        {"id": "W2", "material": "SPF", "b": "140 mm", "d": "38 mm", "length": "5 m", "support": "continuous"},
+    ]
+    data["bearings"][2]["lower"]["at"] = station
+    data["bearings"] += [
+        {"id": "R2/G", "upper": {"member": "R2", "at": "3967.5 mm", **SEAT}, "lower": {"member": "G", "at": station}},
+        {
+            "id": "R2/W2",
+            "upper": {"member": "R2", "at": "44.5 mm", **BIRDSMOUTH},
+            "lower": {"member": "W2", "at": "2 m"},
+        },
+    ]
+    data["loads"].append(
+        {"id": "roof2", "member": "R2", "type": "uniform", "specified": {"D": "0.6 kN/m", "S": "1.6 kN/m"}}
+    )
+    return data  # fmt: skip
+
+
+# Each rafter: 4 m long, 0.6 kN/m D and 1.6 kN/m S over its length, on supports at 44.5 mm and 3967.5 mm;
+# its ridge reaction by statics (moments about the plate, common practice) is w x 4 x (2 - 0.0445) / 3.923.
+RAFTER_TO_RIDGE = 4.0 * (2.0 - 0.0445) / (3.9675 - 0.0445)  # m of w that reaches the ridge
+QF_TWO_RAFTERS = 2 * (1.25 * 0.6e3 + 1.5 * 1.6e3) * RAFTER_TO_RIDGE  # 1.25D + 1.5S, both rafters within d
+# Ab': the two 65 mm seats overlap along the ridge (same station, 38 mm each), so they are one bearing
+# 65 + 65 = 130 mm wide (= b, the cap); the support on post C1 is 152 mm long, 130 mm across (G's b).
+# L1 = 38, L2 = 152 taken as at most 1.5 x 38 = 57 (the conservative length cap); KB 1.0 (the support is at
+# the beam end, so both faces do not qualify). Qr' = 2/3 x 0.8 x 7.0 MPa x 130 x (38 + 57)/2.
+QR_SIDE_BY_SIDE = (2 / 3) * 0.8 * 7.0e6 * 0.130 * (0.038 + 1.5 * 0.038) / 2
+# The false alarm it replaces: one 65 mm seat's width for Ab' while Qf' takes both rafters (half of Qr').
+QR_ONE_SEAT_WIDTH = QR_SIDE_BY_SIDE / 2
+
+
 def joist_on_built_up_plate(readings: dict | None = None, **plate: str | int) -> dict:
     """A joist on a 2-ply 38 x 89 plate laid flat (b = 89, d = 76) on a wall."""
     data = roof(SEAT, BIRDSMOUTH)
@@ -232,6 +269,7 @@ def contact_cases() -> list[Case]:
 
 def near_support_cases() -> list[Case]:
     longest = review_dict(beam_with_post_and_joist()).result("B/C1:B:near")
+    ridge = review_dict(ridge_with_rafters_both_sides()).result("G/C1:G:near")
     summed = review_dict(beam_with_post_and_joist(readings={"near_support.opposite_bearings": "summed"}))
     with_udl = review_dict(beam_with_post_and_joist(udl=True)).result("B/C1:B:near")
     return [
@@ -258,6 +296,18 @@ def near_support_cases() -> list[Case]:
             QF_POST_AND_JOIST + 1.25 * 2e3 * (0.076 + 0.608),
             with_udl.governing.qf,
             "47 + 1.25 x 2 kN/m x (76 + 608) mm, the wall load from the beam end to d past the support",
+        ),
+        _case(
+            "Qf' (kN), rafters from both sides of a ridge within d",
+            QF_TWO_RAFTERS,
+            ridge.governing.qf,
+            "2 x (1.25 x 0.6 + 1.5 x 1.6) kN/m x 4 x 1.9555/3.923 m",
+        ),
+        _case(
+            "Qr' (kN), the two half-width seats side by side: one bearing 130 mm wide",
+            QR_SIDE_BY_SIDE,
+            ridge.governing.qr,
+            "2/3 x 0.8 x 7.0 MPa x (65 + 65) x (38 + 1.5 x 38)/2 (not 65 mm: u 0.54, not 1.09)",
         ),
     ]
 
