@@ -11,7 +11,7 @@ import math
 from dataclasses import dataclass
 
 from audit.core.errors import InputError
-from audit.engine.model import Bearing, Member, Model
+from audit.engine.model import Bearing, Load, Member, Model
 from audit.engine.take_down import AppliedForce
 
 
@@ -97,11 +97,19 @@ def top_contact(model: Model, member: Member, item: AppliedForce, bearings_by_id
             "so the near-support check can be made",
             load.loc,
         )
+    return load_contact(member, load)
+
+
+def load_contact(member: Member, load: Load) -> Contact:
+    """The contact of a point load that states its bearing length: along the member, the length (cut at the
+    member ends); across it, the stated width, never more than the member's b."""
+    assert load.at is not None and load.length is not None  # a point load on a horizontal member, with a length
     start = max(load.at - 0.5 * load.length, 0.0)
     end = min(load.at + 0.5 * load.length, member.length)
+    length_note = "stated in the model" + (", cut at the member end" if end - start < load.length - 1e-9 else "")
     width, width_note = least_extent([(load.width, "stated in the model"), (member.b, f"b of {member.id}")])
     return Contact(
-        load.id, end - start, width, min(start, member.length - end), load.at, "stated in the model", width_note, start
+        load.id, end - start, width, min(start, member.length - end), load.at, length_note, width_note, start
     )
 
 
@@ -127,13 +135,14 @@ class FaceBearing:
     Contacts that overlap along the member cannot share its face there: they sit side by side
     across it (rafters from both sides of a ridge, joists from both sides of a beam at one
     station), so the one bearing's width is their total area over its length, the sum of the
-    widths for seats of one length (the standard caps it at the member's width).
+    widths for seats of one length (the standard caps it at the member's width). Contacts that
+    only touch end to end keep the narrowest width, as separate ones do.
     """
 
     start: float  # m along the member
     length: float  # m, from the first contact's start to the last one's end
     end_distance: float  # m, the least of the contacts'
-    width: float  # m, the contacts' total area / length
+    width: float  # m: side by side, the contacts' total area / length; end to end, the narrowest
     sources: tuple[str, ...]
     widths: tuple[float, ...]  # m, each contact's own width
     side_by_side: bool  # some of the contacts overlap along the member
@@ -161,12 +170,18 @@ def face_bearings(contacts: tuple[Contact, ...]) -> list[FaceBearing]:
             for i, a in enumerate(group)
             for b in group[i + 1 :]
         )
+        if not overlap:  # one contact, or contacts end to end along the member: the narrowest governs
+            width = min(c.width for c in group)
+        elif all(abs(c.start - start) < 1e-9 and abs(c.length - length) < 1e-9 for c in group):
+            width = math.fsum(c.width for c in group)  # seats of one length side by side: their widths add
+        else:
+            width = area / length
         out.append(
             FaceBearing(
                 start,
                 length,
                 min(c.end_distance for c in group),
-                area / length if length > 0 else max(c.width for c in group),
+                width,
                 tuple(c.source for c in group),
                 tuple(c.width for c in group),
                 overlap,

@@ -310,8 +310,15 @@ MODEL_SCHEMA: dict[str, Any] = {
                         "at": LENGTH,
                         "from": LENGTH,
                         "to": LENGTH,
-                        "length": {**LENGTH, "description": "bearing length of a point load"},
-                        "width": LENGTH,
+                        "length": {
+                            **LENGTH,
+                            "description": "bearing length of a point load along the member: the member under it is "
+                            "checked for crushing (without it, listed as not checked)",
+                        },
+                        "width": {
+                            **LENGTH,
+                            "description": "contact width of a point load across the member (default b)",
+                        },
                         "specified": {
                             "type": "object",
                             "description": "specified loads by case; S, W and E must already include their "

@@ -38,6 +38,7 @@ def check_record(r: CheckResult) -> dict[str, Any]:
         "member": c.member,
         "material": r.material,
         "bearing": c.bearing,
+        **({"point_load": c.load} if c.load else {}),
         "other_member": c.other_member,
         "face": c.face,
         "why_required": c.why,
@@ -198,7 +199,8 @@ def explain(review: Review, check_id: str) -> str:
     r = review.result(check_id)
     c = r.check
     lines = [
-        f"Check {c.id}: {c.kind} bearing of {c.member} ({r.material}) at bearing {c.bearing}",
+        f"Check {c.id}: {c.kind} bearing of {c.member} ({r.material}) "
+        + (f"under point load {c.load}" if c.load else f"at bearing {c.bearing}"),
         f"Why required: {c.why}",
         f"Contact on the {c.face} face: {c.contact.length * 1000:.0f} mm along the grain ({c.contact.length_note}), "
         f"{c.contact.width * 1000:.0f} mm across ({c.contact.width_note}), "

@@ -72,6 +72,8 @@ WEIGHT_WORDS = {"critical": "safety", "major": "revise", "minor": "clarify", "in
 
 def what_check(check: RequiredCheck) -> str:
     """The check in the words a reviewer uses."""
+    if check.load:
+        return f"check of {check.member} under point load {check.load}"
     if check.kind == NEAR:
         return f"near-support check of {check.member} over {check.other_member}"
     if check.face == "bottom":

@@ -98,6 +98,15 @@ KINDS: dict[str, FindingKind] = {
             "{what}: what is under it is not in the model, so its underside is not checked",
         ),
         FindingKind(
+            "UNSIZED",
+            "no-bearing-length",
+            "minor",
+            "a point load on a timber member states no bearing length",
+            "the member's crushing under the load is not checked: an equipment leg or a post of framing the model "
+            "does not show can crush the member it stands on",
+            "{what}: a point load with no bearing length, so the crushing under it is not checked",
+        ),
+        FindingKind(
             "FORCE",
             "force-differs",
             "major",

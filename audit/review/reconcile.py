@@ -125,12 +125,16 @@ class Reconciliation:
 
 
 def label_index(review: Review) -> dict[str, str]:
-    """Normalised calc label -> bearing id (bearing ids and their aliases)."""
+    """Normalised calc label -> bearing id (bearing ids and their aliases), and a point load's id -> its own place
+    (the id its crushing check stands at), as a calc labels the check under an equipment leg."""
     index: dict[str, str] = {}
     for b in review.model.bearings:
         index.setdefault(normalise_label(b.id), b.id)
         for alias in b.aliases:
             index.setdefault(normalise_label(alias), b.id)
+    for r in review.results:
+        if r.check.load:
+            index.setdefault(normalise_label(r.check.load), r.check.bearing)
     return index
 
 
@@ -205,17 +209,19 @@ def _role_checks(claim: Claim, bearings: list[str], review: Review, by_bearing) 
     role = ""
     if claim.member:
         for bid in bearings:
-            b = review.model.bearings_by_id[bid]
-            if claim.member in (b.upper.member, b.lower.member):
+            b = review.model.bearings_by_id.get(bid)
+            if b is not None and claim.member in (b.upper.member, b.lower.member):
                 role = "upper" if claim.member == b.upper.member else "lower"
                 break
-        if not role:
+        if not role and not any(c.member == claim.member for bid in bearings for c in by_bearing.get(bid, [])):
             return [], f"member '{claim.member}' is in none of the bearings it names"
     out = []
     for bid in bearings:
-        b = review.model.bearings_by_id[bid]
+        b = review.model.bearings_by_id.get(bid)
         here = [c for c in by_bearing.get(bid, []) if c.kind == claim.kind]
-        if role:
+        if claim.member and b is None:  # a point load's own check: the member under it
+            here = [c for c in here if c.member == claim.member]
+        elif role and b is not None:
             member = b.upper.member if role == "upper" else b.lower.member
             here = [c for c in here if c.member == member]
         if len(here) > 1:
@@ -429,9 +435,9 @@ def qf_slips(result: CheckResult, review: Review) -> list[Slip]:
 
 def simple_span_forces(check: RequiredCheck, review: Review) -> dict[str, float] | None:
     """The force per case at a support of a member on three or more supports, as if each span were simple."""
-    if check.kind != LOCAL:
+    bearing = review.model.bearings_by_id.get(check.bearing)
+    if check.kind != LOCAL or bearing is None:  # a point load's own check has no supports of its own
         return None
-    bearing = review.model.bearings_by_id[check.bearing]
     upper = review.model.members[bearing.upper.member]
     supports = review.supports_of.get(upper.id, [])
     if upper.vertical or len(supports) < 3:
@@ -484,7 +490,7 @@ def qr_slips(result: CheckResult, review: Review) -> list[Slip]:
     pack = o86_pack(review.pack)
     model = review.model
     member = model.members[check.member]
-    other = model.members[check.other_member]
+    other = model.members.get(check.other_member, member)  # a point load's own check: no member above
     material = model.materials[member.material]
     out: list[Slip] = []
 
@@ -617,8 +623,8 @@ def remedy_text(result: CheckResult, review: Review) -> str:
     length, factor = found
     member = review.model.members[check.member]
     text = f"Passes with a {face} length of at least {length * 1000:.0f} mm at {width:.0f} mm width ({factor})"
-    other = review.model.members[check.other_member]
-    if check.kind == LOCAL and not other.vertical and length > other.b + 1e-9:
+    other = review.model.members.get(check.other_member)
+    if check.kind == LOCAL and other is not None and not other.vertical and length > other.b + 1e-9:
         text += f" (longer than {other.id} is wide: a bearing plate, seat or blocking)"
     if check.contact.width < member.b - 1e-9:
         text += f", or with a bearing plate the full {member.b * 1000:.0f} mm width of {member.id}"
@@ -726,7 +732,9 @@ def _kind_word(check: RequiredCheck) -> str:
 
 
 def _location(result: CheckResult, review: Review) -> str:
-    bearing = review.model.bearings_by_id[result.check.bearing]
+    bearing = review.model.bearings_by_id.get(result.check.bearing)
+    if bearing is None:
+        return f"point load {result.check.load}"
     aliases = f" (calc: {', '.join(bearing.aliases)})" if bearing.aliases else ""
     return f"bearing {bearing.id}{aliases}"
 

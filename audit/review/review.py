@@ -13,7 +13,7 @@ from audit.inputs.read_model import read_model
 from audit.review import wording
 from audit.review.findings import KINDS, Finding
 from audit.standards.base import Standard
-from audit.standards.checks import CheckList
+from audit.standards.checks import NO_LENGTH, CheckList
 from audit.standards.o86 import CheckResult, LoadCombination, load_combinations
 from audit.standards.packs import CombinationPack, PackCore
 from audit.standards.registry import standard_named
@@ -142,9 +142,23 @@ def calc_force_findings(model: Model, flow: TakeDown, display: Display) -> tuple
 
 
 def unseen_support_findings(checklist: CheckList) -> tuple[Finding, ...]:
-    """One note per continuous member that point loads land on while its support is not in the model."""
+    """One note per continuous member that point loads land on while its support is not in the model, and one
+    per point load that states no bearing length (naming the load)."""
     out = []
     for item in checklist.unchecked:
+        if item.why == NO_LENGTH:
+            for source, at in item.spots:
+                spot = f"{source} at {at * 1000:.0f} mm"
+                out.append(
+                    Finding(
+                        "no-bearing-length",
+                        KINDS["no-bearing-length"].severity,
+                        wording.no_bearing_length(item.member, spot),
+                        bearing=source,
+                        member=item.member,
+                    )
+                )
+            continue
         spots = ", ".join(f"{source} at {at * 1000:.0f} mm" for source, at in item.spots)
         out.append(
             Finding(

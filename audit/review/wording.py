@@ -148,6 +148,13 @@ def uplift(bearing: str, placed: str, force: float, small: bool, threshold: floa
     return f"Bearing {bearing}: {placed} gives an upward force of {d.force(force)}; {advice}"
 
 
+def no_bearing_length(member: str, spots: str) -> str:
+    return (
+        f"Point load {spots} on {member} states no bearing length: the crushing of {member} under it is not checked. "
+        f"Give the load's bearing length along {member} (length, and width where narrower than the member)."
+    )
+
+
 def unseen_support(member: str, spots: str) -> str:
     return (
         f"{member} is modelled as continuously supported on something the model does not show, and {spots} land on "

@@ -15,8 +15,16 @@ from collections import defaultdict
 from dataclasses import dataclass, field
 
 from audit.core.errors import ErrorCollector, InputError
-from audit.engine.contacts import Contact, contact_on, face_bearings, separate_bearings, spread_within, top_contact
-from audit.engine.model import Bearing, Member, Model
+from audit.engine.contacts import (
+    Contact,
+    contact_on,
+    face_bearings,
+    load_contact,
+    separate_bearings,
+    spread_within,
+    top_contact,
+)
+from audit.engine.model import Bearing, Load, Member, Model
 from audit.engine.take_down import FORCE_RESOLUTION, Envelope, Forces, TakeDown
 from audit.standards.packs import PackCore, ResistancePack
 
@@ -40,6 +48,7 @@ class RequiredCheck:
     spread: tuple[tuple[str, float], ...] = ()  # near-support: distributed loads counted, (load id, m within d)
     spread_forces: Forces = field(default_factory=dict)  # the part of ``forces`` that is their share
     envelope: dict[str, Envelope] = field(default_factory=dict)  # patterned cases at a continuous member's support
+    load: str = ""  # a point load's own crushing check: the load's id (``bearing`` is then the load id too)
 
 
 @dataclass(frozen=True)
@@ -51,16 +60,23 @@ class Exempt:
     reason: str
 
 
+UNSEEN_SUPPORT = "support not shown"
+NO_LENGTH = "no bearing length"
+
+
 @dataclass(frozen=True)
 class Unchecked:
-    """Point loads on a member continuously supported on something the model does not show.
+    """Spots on a member that cannot be checked, and why.
 
-    Its underside and the squeeze through it at those spots cannot be checked: the support
-    under them is not in the model.
+    ``UNSEEN_SUPPORT``: point loads on a member continuously supported on something the model
+    does not show: its underside and the squeeze through it there are not checked.
+    ``NO_LENGTH``: a point load that states no bearing length: the member's crushing under it
+    is not checked (its contact is unknown).
     """
 
     member: str
     spots: tuple[tuple[str, float], ...]  # (bearing or load id, centre along the member in m)
+    why: str = UNSEEN_SUPPORT
 
 
 @dataclass(frozen=True)
@@ -75,16 +91,83 @@ def list_checks(model: Model, flow: TakeDown, pack: ResistancePack, readings: di
     checks, exempt = local_checks(model, flow, pack)
     count_spread = readings["near_support.distributed_loads"] == "within_d"
     checks.extend(_near_support_checks(model, flow, pack, count_spread))
-    return CheckList(tuple(checks), tuple(exempt), unseen_supports(model, flow, pack))
+    return CheckList(tuple(checks), tuple(exempt), unseen_supports(model, flow, pack) + unsized_loads(model, pack))
 
 
 def local_only(model: Model, flow: TakeDown, pack: PackCore) -> CheckList:
     """The checks of a standard with no near-support check: both members at every contact."""
     checks, exempt = local_checks(model, flow, pack)
-    return CheckList(tuple(checks), tuple(exempt), unseen_supports(model, flow, pack))
+    return CheckList(tuple(checks), tuple(exempt), unseen_supports(model, flow, pack) + unsized_loads(model, pack))
 
 
 def local_checks(model: Model, flow: TakeDown, pack: PackCore) -> tuple[list[RequiredCheck], list[Exempt]]:
+    """Both directions at every bearing, each timber member loaded on its side grain, and every timber member
+    under a point load that states its bearing length: a local check each."""
+    checks, exempt = _bearing_checks(model, flow, pack)
+    return checks + point_load_checks(model, flow, pack), exempt
+
+
+def _point_loads(model: Model, pack: PackCore) -> list[Load]:
+    """Point loads on horizontal timber members, each once (a load of several cases is one load)."""
+    seen: dict[str, Load] = {}
+    for load in model.loads:
+        member = model.members[load.member]
+        if load.kind != "point" or load.at is None or member.vertical or load.id in seen:
+            continue
+        if _no_check_reason(model, member, pack):
+            continue
+        seen[load.id] = load
+    return list(seen.values())
+
+
+def point_load_checks(model: Model, flow: TakeDown, pack: PackCore) -> list[RequiredCheck]:
+    """The crushing of the member under each point load that states its bearing length (an equipment leg, a post
+    of framing the model does not show): its width is the member's b unless the load states one."""
+    out = []
+    for load in _point_loads(model, pack):
+        if load.length is None:
+            continue
+        member = model.members[load.member]
+        item = next((a for a in flow.on_top.get(member.id, ()) if not a.from_bearing and a.source == load.id), None)
+        forces = dict(item.forces) if item is not None else {}
+        if all(abs(value) <= FORCE_RESOLUTION for value in forces.values()):
+            continue  # a load of nothing in every case needs no check
+        contact = load_contact(member, load)
+        out.append(
+            RequiredCheck(
+                id=f"{load.id}:{member.id}",
+                kind=LOCAL,
+                member=member.id,
+                bearing=load.id,
+                face="top",
+                contact=contact,
+                opposite=(),
+                forces=forces,
+                angle=None,
+                other_member=load.id,  # what bears on the member: the load itself
+                why=(
+                    f"point load {load.id} bears on the side grain of {member.id} over "
+                    f"{load.length * 1000:.0f} mm: the member under it is crushed"
+                ),
+                load=load.id,
+            )
+        )
+    return out
+
+
+def unsized_loads(model: Model, pack: PackCore) -> tuple[Unchecked, ...]:
+    """Point loads on timber members that state no bearing length: the crushing under them cannot be checked."""
+    spots: dict[str, list[tuple[str, float]]] = defaultdict(list)
+    for load in _point_loads(model, pack):
+        if load.length is None and load.at is not None:
+            spots[load.member].append((load.id, load.at))
+    return tuple(
+        Unchecked(member, tuple(sorted(found, key=lambda s: s[1])), NO_LENGTH)
+        for member, found in sorted(spots.items())
+    )
+
+
+def _bearing_checks(model: Model, flow: TakeDown, pack: PackCore) -> tuple[list[RequiredCheck], list[Exempt]]:
     """Both directions at every bearing: each timber member loaded on its side grain gets a local check."""
     checks: list[RequiredCheck] = []
     exempt: list[Exempt] = []

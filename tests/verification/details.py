@@ -134,6 +134,40 @@ QR_SIDE_BY_SIDE = (2 / 3) * 0.8 * 7.0e6 * 0.130 * (0.038 + 1.5 * 0.038) / 2
 QR_ONE_SEAT_WIDTH = QR_SIDE_BY_SIDE / 2
 
 
+def beam_with_leg(standard: str = "o86") -> dict:
+    """The one-contact beam of tests/verification/standards.py (89 x 235 mm, 3 m, on steel posts) with an
+    equipment leg at mid-span: 2 kN D and 4 kN L through a 50 mm x 60 mm foot."""
+    from tests.verification.standards import contact_model
+
+    data = contact_model(standard)
+    data["project"]["title"] = f"Beam with an equipment leg under {standard} (invented)"
+    data["loads"].append(
+        {"id": "leg", "member": "B", "type": "point", "at": "1.5 m", "length": "50 mm", "width": "60 mm",
+         "specified": {"D": "2 kN", "L": "4 kN"}}
+    )  # fmt: skip
+    return data
+
+
+def _leg_by_hand() -> dict[str, tuple[float, float, str]]:
+    """standard -> (Qf N, Qr N, governing combination) of the crushing check under the leg, worked by hand."""
+    area = 0.050 * 0.060  # the foot: 50 mm along the beam, 60 mm across (less than b = 89 mm)
+    lb = 0.050 / 0.0254  # in
+    psi = 6894.757293168
+    nds = 425 * psi * area * (lb + 0.375) / lb  # Fc-perp S-P-F x Ab x Cb (NDS 3.10.4; 1475 mm from the ends)
+    return {
+        # O86: phi 0.8 x fcp 5.3 MPa x Ab x KB(50 mm) 1.19 (table node, far from the ends) x KZcp 1.15 (89/235 <= 1)
+        "o86": (1.25 * 2e3 + 1.5 * 4e3, 0.8 * 5.3e6 * area * 1.19 * 1.15, "1.25D+1.5L"),
+        "nds-asd": (2e3 + 4e3, nds, "D+L"),
+        "nds-lrfd": (1.2 * 2e3 + 1.6 * 4e3, nds * 1.67 * 0.9, "1.2D+1.6L+0.5S"),
+        # EC5 6.1.5: kc,90 1.0 (a load on a member on discrete supports) x kmod 0.8 x 2.5 MPa / 1.3 x
+        # 60 x (50 + 30 + 30) mm: nothing else on the top face, far from the ends
+        "ec5": (1.35 * 2e3 + 1.5 * 4e3, 1.0 * 0.8 * 2.5e6 / 1.3 * 0.060 * (0.050 + 0.060), "1.35G+1.5Q"),
+    }
+
+
+LEG_BY_HAND = _leg_by_hand()
+
+
 def joist_on_built_up_plate(readings: dict | None = None, **plate: str | int) -> dict:
     """A joist on a 2-ply 38 x 89 plate laid flat (b = 89, d = 76) on a wall."""
     data = roof(SEAT, BIRDSMOUTH)
@@ -265,6 +299,23 @@ def contact_cases() -> list[Case]:
             "0.8 x 7.0 MPa x 130 (own b, not 152) x 152 mm x KB 1.0 (over 150 mm)",
         ),
     ]
+
+
+def point_load_cases() -> list[Case]:
+    out = []
+    for standard, (qf, qr, combination) in LEG_BY_HAND.items():
+        g = review_dict(beam_with_leg(standard)).result("leg:B").governing
+        out.append(_case(f"Qf (kN), equipment leg 50 x 60 mm on a beam, {standard} {combination}", qf, g.qf))
+        out.append(_case(f"Qr (kN), crushing under the leg, {standard}", qr, g.qr, _LEG_HOW[standard]))
+    return out
+
+
+_LEG_HOW = {
+    "o86": "0.8 x 5.3 MPa x 50 x 60 mm x KB 1.19 x KZcp 1.15",
+    "nds-asd": "425 psi x 1.97 x 2.36 in x Cb (1.97 + 0.375)/1.97",
+    "nds-lrfd": "the ASD value x KF 1.67 x phi 0.90",
+    "ec5": "kc,90 1.0 x 0.8 x 2.5 MPa / 1.3 x 60 x (50 + 30 + 30) mm",
+}
 
 
 def near_support_cases() -> list[Case]:
@@ -444,6 +495,11 @@ def slip_cases() -> list[Case]:
 
 
 def detail_cases() -> list[Case]:
-    return (contact_cases() + near_support_cases() + built_up_cases() + hankinson_cases() + stud_wall_cases()) + (
-        pattern_cases() + slip_cases()
-    )
+    return (
+        contact_cases()
+        + point_load_cases()
+        + near_support_cases()
+        + built_up_cases()
+        + hankinson_cases()
+        + stud_wall_cases()
+    ) + (pattern_cases() + slip_cases())
