@@ -77,3 +77,21 @@ def test_the_point_load_check_is_in_the_memo_the_json_and_the_comment_log(run_cl
     log = [line for line in out_csv.read_text(encoding="utf-8").splitlines() if "leg:B" in line]
     assert log and "ABSENT" in log[0] and "Check of B under point load leg: missing from the calc" in log[0]
     assert "leg:B" in memo.read_text(encoding="utf-8")
+
+
+def test_a_point_load_sharing_a_bearings_id_is_an_input_error_at_the_load():
+    from audit.core.errors import InputErrors
+
+    data = beam_with_leg("o86")
+    data["bearings"][0]["id"] = "leg"
+    with pytest.raises(InputErrors) as caught:
+        review_dict(data)
+    assert "loads[1]" in str(caught.value) and "also a bearing's id" in str(caught.value)
+
+
+def test_a_point_load_pulling_up_is_not_reported_as_uplift_at_a_bearing():
+    # uplift is a bearing's (a support lifting off); a load's own contact under suction asks for no tie-down here
+    data = beam_with_leg("o86")
+    data["loads"][1]["specified"] = {"D": "0.2 kN", "W": {"suction": "3 kN"}}
+    review = review_dict(data)
+    assert not [f for f in review.engine_findings if f.kind == "uplift" and f.bearing == "leg"]

@@ -104,7 +104,10 @@ def assumptions(review: Review) -> list[str]:
         "checked over each loaded stud and pack and squeezed where a load above lies within d of one. Members "
         "continuously supported (support: continuous) get local checks under every bearing on them; their "
         "underside is checked only where the model shows what is under them, and point loads on one whose support "
-        "is not shown are listed as not checked. A bearing no load passes through needs no check.",
+        "is not shown are listed as not checked. A bearing no load passes through needs no check. A point load that "
+        "states its bearing length (an equipment leg, a post of framing not modelled) gets a local check of the "
+        "member under it, across the load's stated width or else the member's b; one that states no length is "
+        "listed as not checked.",
         "Contact area on each member: along its grain, the bearing length on it (where the model gives none, "
         "the other member's width for a square crossing, or a post's depth); across its grain, the least of its "
         "own width b, the other member's extent across it (a post's width, or a crossing member's seat along its "

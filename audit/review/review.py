@@ -202,7 +202,7 @@ def uplift_findings(
     seen: set[str] = set()
     out = []
     for r in results:
-        if not r.uplift or r.check.bearing in seen or r.check.kind != "local":
+        if not r.uplift or r.check.bearing in seen or r.check.kind != "local" or r.check.load:  # loads: not bearings
             continue
         seen.add(r.check.bearing)
         worst = min(r.combinations, key=lambda c: c.qf_low)

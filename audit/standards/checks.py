@@ -124,8 +124,12 @@ def point_load_checks(model: Model, flow: TakeDown, pack: PackCore) -> list[Requ
     """The crushing of the member under each point load that states its bearing length (an equipment leg, a post
     of framing the model does not show): its width is the member's b unless the load states one."""
     out = []
+    errors = ErrorCollector()
     for load in _point_loads(model, pack):
         if load.length is None:
+            continue
+        if load.id in model.bearings_by_id:  # its check would take the bearing's place and id
+            errors.add(f"point load id '{load.id}' is also a bearing's id: give the load an id of its own", load.loc)
             continue
         member = model.members[load.member]
         item = next((a for a in flow.on_top.get(member.id, ()) if not a.from_bearing and a.source == load.id), None)
@@ -152,6 +156,7 @@ def point_load_checks(model: Model, flow: TakeDown, pack: PackCore) -> list[Requ
                 load=load.id,
             )
         )
+    errors.raise_if_any()
     return out
 
 
