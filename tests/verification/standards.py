@@ -86,3 +86,82 @@ def standards_cases() -> list[Case]:
                  g.qf / 1000, 1e-6, "1e-6", "")
         )  # fmt: skip
     return out
+
+
+def ec5_rule_cases() -> list[Case]:
+    """EN 1995-1-1 rules worked by hand on the contact: storage's class and companion factor, the capped
+    effective length, compression at an angle (clauses as recalled: verify)."""
+    import math
+
+    from tests.conftest import review_dict
+
+    def result(data: dict):
+        r = review_dict(data).result_at("B/P1", "B", "local")
+        assert r is not None
+        return r
+
+    group, out = "EN 1995-1-1 rules by hand", []
+    storage = contact_model("ec5")
+    storage["loads"][0]["live"] = "storage"
+    row = {c.combination: c for c in result(storage).combinations}["1.35G+1.5Q"]
+    qr = 1.5 * 0.70 * 2.5e6 / 1.3 * SIDE * (SIDE + 0.030)
+    out.append(
+        Case(
+            group,
+            "Qr (kN), storage live load long-term",
+            "EN 1995-1-1 2.3.1.2, Table 3.1 (from memory)",
+            qr / 1000,
+            row.qr / 1000,
+            1e-6,
+            "1e-6",
+            "kc,90 1.5 x kmod 0.70 x 2.5 MPa / 1.3 x 89 x 119 mm",
+        )
+    )
+    storage["loads"][0]["specified"]["S"] = "1 kN/m"
+    row = {c.combination: c for c in result(storage).combinations}["1.35G+1.5S+1.05Q"]
+    qf = 1.35 * 3000 + 1.5 * 1500 + 1.5 * 4500
+    out.append(
+        Case(
+            group,
+            "Qf (kN), snow leading, storage companion",
+            "EN 1990 Table A1.1, A1.2(B) (from memory)",
+            qf / 1000,
+            row.qf / 1000,
+            1e-6,
+            "1e-6",
+            "1.35 x 3.0 + 1.5 x 1.5 + gamma_Q psi0 1.5 x 1.0 x 4.5",
+        )
+    )
+    short = contact_model("ec5")
+    short["members"][1].update({"b": "25 mm", "d": "25 mm"})
+    short["bearings"][0]["upper"]["at"] = "12.5 mm"
+    qr = 1.5 * 0.8 * 2.5e6 / 1.3 * 0.025 * (0.025 + 0.025)
+    out.append(
+        Case(
+            group,
+            "Qr (kN), 25 mm contact at the member end",
+            "EN 1995-1-1 6.1.5(1) (from memory)",
+            qr / 1000,
+            result(short).governing.qr / 1000,
+            1e-6,
+            "1e-6",
+            "lef = 25 + 0 + min(30, l = 25) = 50 mm (55 mm uncapped)",
+        )
+    )
+    angled = contact_model("ec5")
+    angled["bearings"][0]["upper"]["angle"] = "60 deg"
+    fc0d, fc90d, alpha = 0.8 * 21e6 / 1.3, 0.8 * 2.5e6 / 1.3, math.radians(60)
+    qr = fc0d / (fc0d / (1.5 * fc90d) * math.sin(alpha) ** 2 + math.cos(alpha) ** 2) * SIDE * SIDE
+    out.append(
+        Case(
+            group,
+            "Qr (kN), bearing at 60 deg to the grain",
+            "EN 1995-1-1 6.2.2, eq. 6.16 (from memory)",
+            qr / 1000,
+            result(angled).governing.qr / 1000,
+            1e-6,
+            "1e-6",
+            "fc,0,d / (fc,0,d / (kc,90 fc,90,d) sin² 60 + cos² 60) x 89 x 89 mm, C24 fc,0,k 21 MPa",
+        )
+    )
+    return out  # fmt: skip
