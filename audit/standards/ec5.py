@@ -411,7 +411,7 @@ class _Ec5:
         if inputs.phi < 1.0:
             out.append(("gamma-m-left-out", "gamma_M left out (characteristic, not design, strength)", {"phi": 1.0}))
         service = "wet" if member.service == "wet" else "dry"
-        for name in ("short", "instantaneous"):
+        for name in ("medium", "short", "instantaneous"):
             value = p.kmod.value[service][name]
             if value > result.governing.kd + 1e-9:
                 out.append(
