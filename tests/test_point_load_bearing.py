@@ -95,3 +95,14 @@ def test_a_point_load_pulling_up_is_not_reported_as_uplift_at_a_bearing():
     data["loads"][1]["specified"] = {"D": "0.2 kN", "W": {"suction": "3 kN"}}
     review = review_dict(data)
     assert not [f for f in review.engine_findings if f.kind == "uplift" and f.bearing == "leg"]
+
+
+def test_a_point_load_without_a_length_is_named_in_the_memo_and_the_comment_log(run_cli, write_model, tmp_path):
+    data = beam_with_leg("o86")
+    del data["loads"][1]["length"]
+    out_csv, memo = tmp_path / "out.csv", tmp_path / "memo.html"
+    result = run_cli("review", write_model(data), "--csv", out_csv, "--memo", memo)
+    assert result.exit_code in (0, 1)
+    log = [line for line in out_csv.read_text(encoding="utf-8").splitlines() if ",UNSIZED," in line]
+    assert log and "Point load leg at 1500 mm on B states no bearing length" in log[0]
+    assert "Point load leg at 1500 mm on B states no bearing length" in memo.read_text(encoding="utf-8")
