@@ -106,3 +106,15 @@ def test_a_point_load_without_a_length_is_named_in_the_memo_and_the_comment_log(
     log = [line for line in out_csv.read_text(encoding="utf-8").splitlines() if ",UNSIZED," in line]
     assert log and "Point load leg at 1500 mm on B states no bearing length" in log[0]
     assert "Point load leg at 1500 mm on B states no bearing length" in memo.read_text(encoding="utf-8")
+
+
+def test_a_typical_claim_by_pattern_covers_the_checks_under_several_point_loads():
+    # two legs alike; the calc checks "leg*" once: matched to the worse leg (the heavier), covering the other
+    data = beam_with_leg("o86")
+    data["loads"][1]["id"] = "leg1"
+    data["loads"].append({**data["loads"][1], "id": "leg2", "at": "2.2 m", "specified": {"D": "1 kN", "L": "2 kN"}})
+    qf, qr, _ = LEG_BY_HAND["o86"]
+    claim = {"id": "C1", "location": "leg*", "member": "B", "Qf": f"{qf / 1000:.3f} kN", "Qr": f"{qr / 1000:.3f} kN"}
+    _, _, rec = reconcile_dicts(data, [claim])
+    assert rec.outcome("leg1:B").claim_id == "C1" and rec.outcome("leg1:B").status == "confirmed"
+    assert rec.outcome("leg2:B").claim_id == "C1"

@@ -194,6 +194,11 @@ def group_bearings(claim: Claim, review: Review, index: dict[str, str], shared: 
             for b in review.model.bearings
             if any(fnmatch.fnmatchcase(normalise_label(name), pattern) for name in (b.id, *b.aliases))
         ]
+        hits += [  # point loads' own checks, by the load's id
+            r.check.bearing
+            for r in review.results
+            if r.check.load and fnmatch.fnmatchcase(normalise_label(r.check.load), pattern)
+        ]
         return (hits, "") if hits else ([], f"the pattern '{claim.label}' names no bearing")
     stripped = normalise_label(TYPICAL_MARK.sub("", claim.label))
     if stripped != key and stripped in shared:
