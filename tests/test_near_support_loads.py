@@ -137,6 +137,7 @@ def test_side_by_side_seats_wider_together_than_the_member_are_capped_at_its_wid
     r = review_dict(data).result("G/C1:G:near")
     # three 65 mm seats sum to 195 mm: b of Ab' is capped at the ridge's own 130 mm (common practice)
     assert r.governing.qr == pytest.approx(QR_SIDE_BY_SIDE, rel=REL)
+    assert "one bearing 195 mm wide (65 + 65 + 65 mm over 38 mm), taken as 130 mm" in r.area_reason
 
 
 def test_partly_overlapping_seats_count_with_their_true_total_area():

@@ -338,9 +338,14 @@ def side_by_side_text(check: RequiredCheck) -> str:
     for b in face_bearings(check.opposite):
         if b.side_by_side:
             widths = " + ".join(f"{w * 1000:.0f}" for w in b.widths)
+            capped = (
+                f", taken as {check.contact.width * 1000:.0f} mm (the support contact's width, within b)"
+                if b.width > check.contact.width + 1e-9
+                else ", no wider than b"
+            )
             parts.append(
                 f"{', '.join(b.sources)} side by side across the member: one bearing {b.width * 1000:.0f} mm wide "
-                f"({widths} mm over {b.length * 1000:.0f} mm), no wider than b"
+                f"({widths} mm over {b.length * 1000:.0f} mm){capped}"
             )
     return "; ".join(parts)
 
