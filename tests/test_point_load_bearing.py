@@ -118,3 +118,11 @@ def test_a_typical_claim_by_pattern_covers_the_checks_under_several_point_loads(
     _, _, rec = reconcile_dicts(data, [claim])
     assert rec.outcome("leg1:B").claim_id == "C1" and rec.outcome("leg1:B").status == "confirmed"
     assert rec.outcome("leg2:B").claim_id == "C1"
+
+
+def test_several_point_loads_without_a_length_on_one_member_are_one_note_naming_each():
+    data = beam_with_leg("o86")
+    del data["loads"][1]["length"]
+    data["loads"].append({"id": "leg2", "member": "B", "type": "point", "at": "2.2 m", "specified": {"D": "1 kN"}})
+    (note,) = [f for f in review_dict(data).engine_findings if f.kind == "no-bearing-length"]
+    assert "Point loads leg at 1500 mm and leg2 at 2200 mm on B state no bearing length" in note.message

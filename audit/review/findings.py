@@ -104,7 +104,7 @@ KINDS: dict[str, FindingKind] = {
             "a point load on a timber member states no bearing length",
             "the member's crushing under the load is not checked: an equipment leg or a post of framing the model "
             "does not show can crush the member it stands on",
-            "{what}: the crushing under a point load with no bearing length is not checked",
+            "{what}: the crushing under point loads with no bearing length is not checked",
         ),
         FindingKind(
             "FORCE",

@@ -143,21 +143,20 @@ def calc_force_findings(model: Model, flow: TakeDown, display: Display) -> tuple
 
 def unseen_support_findings(checklist: CheckList) -> tuple[Finding, ...]:
     """One note per continuous member that point loads land on while its support is not in the model, and one
-    per point load that states no bearing length (naming the load)."""
+    per member under point loads that state no bearing length (naming each load)."""
     out = []
     for item in checklist.unchecked:
         if item.why == NO_LENGTH:
-            for source, at in item.spots:
-                spot = f"{source} at {at * 1000:.0f} mm"
-                out.append(
-                    Finding(
-                        "no-bearing-length",
-                        KINDS["no-bearing-length"].severity,
-                        wording.no_bearing_length(item.member, spot),
-                        bearing=source,
-                        member=item.member,
-                    )
+            loads = [f"{source} at {at * 1000:.0f} mm" for source, at in item.spots]
+            out.append(
+                Finding(
+                    "no-bearing-length",
+                    KINDS["no-bearing-length"].severity,
+                    wording.no_bearing_length(item.member, loads),
+                    bearing=item.spots[0][0],
+                    member=item.member,
                 )
+            )
             continue
         spots = ", ".join(f"{source} at {at * 1000:.0f} mm" for source, at in item.spots)
         out.append(

@@ -148,10 +148,18 @@ def uplift(bearing: str, placed: str, force: float, small: bool, threshold: floa
     return f"Bearing {bearing}: {placed} gives an upward force of {d.force(force)}; {advice}"
 
 
-def no_bearing_length(member: str, spots: str) -> str:
+def no_bearing_length(member: str, loads: list[str]) -> str:
+    if len(loads) == 1:
+        return (
+            f"Point load {loads[0]} on {member} states no bearing length: the crushing of {member} under it is not "
+            f"checked. Give the load's bearing length along {member} (length, and width where narrower than the "
+            "member)."
+        )
+    named = ", ".join(loads[:-1]) + f" and {loads[-1]}"
     return (
-        f"Point load {spots} on {member} states no bearing length: the crushing of {member} under it is not checked. "
-        f"Give the load's bearing length along {member} (length, and width where narrower than the member)."
+        f"Point loads {named} on {member} state no bearing length: the crushing of {member} under them is not "
+        f"checked. Give each load's bearing length along {member} (length, and width where narrower than the "
+        "member)."
     )
 
 

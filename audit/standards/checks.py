@@ -125,6 +125,7 @@ def point_load_checks(model: Model, flow: TakeDown, pack: PackCore) -> list[Requ
     of framing the model does not show): its width is the member's b unless the load states one."""
     out = []
     errors = ErrorCollector()
+    applied = {(m, a.source): a for m, items in flow.on_top.items() for a in items if not a.from_bearing}
     for load in _point_loads(model, pack):
         if load.length is None:
             continue
@@ -132,7 +133,7 @@ def point_load_checks(model: Model, flow: TakeDown, pack: PackCore) -> list[Requ
             errors.add(f"point load id '{load.id}' is also a bearing's id: give the load an id of its own", load.loc)
             continue
         member = model.members[load.member]
-        item = next((a for a in flow.on_top.get(member.id, ()) if not a.from_bearing and a.source == load.id), None)
+        item = applied.get((member.id, load.id))
         forces = dict(item.forces) if item is not None else {}
         if all(abs(value) <= FORCE_RESOLUTION for value in forces.values()):
             continue  # a load of nothing in every case needs no check
