@@ -255,7 +255,7 @@ def ec5_inputs(
     c = check.contact
     angle = at_an_angle(check)
     if angle is not None:
-        reach = replace(reach, left=0.0, right=0.0, why="none at an angle to the grain (6.2.2; conservative reading)")
+        reach = replace(reach, left=0.0, right=0.0, why="none at an angle to the grain")
     lef = c.length + reach.left + reach.right
     area = c.width * lef
     kc90 = kc90_factor(check, model, pack, reach)
@@ -298,6 +298,12 @@ def ec5_inputs(
         f"Aef = b lef = {c.width * 1000:.0f} x ({c.length * 1000:.0f} + {reach.left * 1000:.0f} + "
         f"{reach.right * 1000:.0f}) = {area * 1e6:,.0f} mm²: extension {reach.why}; width: {c.width_note}"
     )
+    if angle is not None:
+        area_reason = (
+            f"A = b l = {c.width * 1000:.0f} x {c.length * 1000:.0f} = {area * 1e6:,.0f} mm²: at an angle to the "
+            f"grain, the contact without the 30 mm extensions of 6.1.5 (6.2.2; conservative reading); width: "
+            f"{c.width_note}"
+        )
     return inputs, factors, area_reason
 
 
