@@ -151,8 +151,14 @@ def _pattern_lines(review: Review) -> list[str]:
     )
     return [
         f"Pattern loading at the supports of members on three or more supports: {placed}, whichever is worse at each "
-        "check; the check names its governing pattern. Loads pass down to the members below with every span "
-        "loaded.",
+        "check; the check names its governing pattern. The worst and the least pattern at each support pass down the "
+        "load path: the members below (posts, sills, girders, plates) take each force from above at whichever of the "
+        "two is worse at each of their own checks, in their reactions, local checks and near-support loads. Where "
+        "one member carries two supports of the same member above, both maxima are taken though they do not occur "
+        "together (conservative). Each combination is evaluated with every patterned case at its worst pattern, on "
+        "every span, and at its least downward placing, and the highest Qf/Qr kept: less live or snow load can "
+        "lower the load-duration factor more than the load. A plate on studs (and a wall's sole plate) is not "
+        "patterned over its stud bays unless the model says so (studs: patterned: true).",
         f"Uplift is looked for under every combination with dead load at {cpack.counteracting_dead.value:g}D where it "
         "counteracts and every patterned case at its least favourable placing.",
     ]

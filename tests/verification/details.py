@@ -192,6 +192,64 @@ def beam_on_posts(spans_m: list[float], live: str = "2 kN/m", dead: str = "1 kN/
     }
 
 
+FOUR_SPANS = [0.07, 4.07, 8.07, 12.07, 16.07]  # support centres of a 16.14 m beam: four equal 4 m spans
+
+
+def four_span_on_sill(live: str = "2 kN/m", dead: str = "1 kN/m") -> dict:
+    """A glulam floor beam over four equal 4 m spans; its end post P1 (timber) stands on a sill S on concrete.
+
+    The other supports are steel posts. The floor load runs between the end supports (none on the 70 mm ends)."""
+    members = [
+        {"id": "B", "material": "GL", "b": "130 mm", "d": "380 mm", "length": "16.14 m"},
+        {"id": "P1", "material": "DF", "b": "140 mm", "d": "140 mm", "length": "3 m", "orientation": "vertical"},
+        {"id": "S", "material": "SPF", "b": "140 mm", "d": "38 mm", "length": "1 m", "support": "continuous",
+         "bears_on": "CONC"},
+    ]  # fmt: skip
+    bearings = [
+        {"id": "B/P1", "upper": {"member": "B", "at": "0.07 m"}, "lower": "P1"},
+        {"id": "P1/S", "upper": "P1", "lower": {"member": "S", "at": "0.5 m"}},
+    ]
+    for i, x in enumerate(FOUR_SPANS[1:], start=2):
+        members.append(
+            {"id": f"C{i}", "material": "STEEL", "b": "152 mm", "d": "152 mm", "length": "3 m", "orientation": "vertical"}
+        )
+        bearings.append({"id": f"B/C{i}", "upper": {"member": "B", "at": f"{x} m"}, "lower": f"C{i}"})
+    return {
+        "project": {"title": "Four-span floor beam on an end post and sill (fictional)"},
+        "materials": {
+            "GL": {"family": "glulam", "species": "D.Fir-L", "grade": "24f-EX"},
+            "SPF": {"family": "sawn_lumber", "species": "S-P-F", "grade": "No.2"},
+            "DF": {"family": "timber", "species": "D.Fir-L", "grade": "No.1"},
+            "STEEL": {"family": "steel"},
+            "CONC": {"family": "concrete"},
+        },
+        "members": members,
+        "bearings": bearings,
+        "loads": [
+            {"id": "floor", "member": "B", "type": "uniform", "from": "0.07 m", "to": "16.07 m",
+             "specified": {"D": dead, "L": live}},
+        ],
+    }  # fmt: skip
+
+
+def three_moment_end_reaction(loaded: list[bool], w: float, span: float) -> float:
+    """End reaction of four equal spans under w on the loaded spans, by the three-moment equation (equal EI).
+
+    M(i-1) + 4 M(i) + M(i+1) = -(w(i) + w(i+1)) L^2 / 4 at the three interior supports, end moments zero;
+    then R_A = w(1) L / 2 + M(1) / L. Solved by elimination written out (no library)."""
+    k = [(w if a else 0.0) + (w if b else 0.0) for a, b in zip(loaded, loaded[1:], strict=False)]
+    rhs = [-ki * span**2 / 4 for ki in k]
+    # tridiagonal [[4, 1, 0], [1, 4, 1], [0, 1, 4]]: eliminate M1 from row 2, then M2 from row 3
+    d2 = 4 - 1 / 4
+    r2 = rhs[1] - rhs[0] / 4
+    d3 = 4 - 1 / d2
+    r3 = rhs[2] - r2 / d2
+    m3 = r3 / d3
+    m2 = (r2 - m3) / d2
+    m1 = (rhs[0] - m2) / 4
+    return (w if loaded[0] else 0.0) * span / 2 + m1 / span
+
+
 def _case(name: str, reference: float, computed: float, note: str = "") -> Case:
     return Case("Details by hand", name, HAND, reference / 1000.0, computed / 1000.0, 1e-3, "1 N", note)
 
