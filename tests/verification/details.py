@@ -7,6 +7,8 @@ reports/verification.md lists them, so a reviewer can redo each one on paper.
 
 from __future__ import annotations
 
+import itertools
+
 from tests.conftest import review_dict
 from tests.verification.cases import Case
 
@@ -210,9 +212,8 @@ def four_span_on_sill(live: str = "2 kN/m", dead: str = "1 kN/m") -> dict:
         {"id": "P1/S", "upper": "P1", "lower": {"member": "S", "at": "0.5 m"}},
     ]
     for i, x in enumerate(FOUR_SPANS[1:], start=2):
-        members.append(
-            {"id": f"C{i}", "material": "STEEL", "b": "152 mm", "d": "152 mm", "length": "3 m", "orientation": "vertical"}
-        )
+        post = {"id": f"C{i}", "material": "STEEL", "b": "152 mm", "d": "152 mm", "length": "3 m"}
+        members.append({**post, "orientation": "vertical"})
         bearings.append({"id": f"B/C{i}", "upper": {"member": "B", "at": f"{x} m"}, "lower": f"C{i}"})
     return {
         "project": {"title": "Four-span floor beam on an end post and sill (fictional)"},
@@ -237,7 +238,7 @@ def three_moment_end_reaction(loaded: list[bool], w: float, span: float) -> floa
 
     M(i-1) + 4 M(i) + M(i+1) = -(w(i) + w(i+1)) L^2 / 4 at the three interior supports, end moments zero;
     then R_A = w(1) L / 2 + M(1) / L. Solved by elimination written out (no library)."""
-    k = [(w if a else 0.0) + (w if b else 0.0) for a, b in zip(loaded, loaded[1:], strict=False)]
+    k = [(w if a else 0.0) + (w if b else 0.0) for a, b in itertools.pairwise(loaded)]
     rhs = [-ki * span**2 / 4 for ki in k]
     # tridiagonal [[4, 1, 0], [1, 4, 1], [0, 1, 4]]: eliminate M1 from row 2, then M2 from row 3
     d2 = 4 - 1 / 4
@@ -248,6 +249,28 @@ def three_moment_end_reaction(loaded: list[bool], w: float, span: float) -> floa
     m2 = (r2 - m3) / d2
     m1 = (rhs[0] - m2) / 4
     return (w if loaded[0] else 0.0) * span / 2 + m1 / span
+
+
+def snow_on_stud_plate(patterned: bool | None = None) -> dict:
+    """A 38 x 140 top plate, 2.4 m, on 38 mm studs at 406 mm (the end stud flush), with D 0.3 kN/m and S 3 kN/m on
+    it: patterned bay by bay, the end stud lifts; a plate on studs is not patterned unless the model says so."""
+    studs: dict = {"thickness": "38 mm", "spacing": "406 mm"}
+    if patterned is not None:
+        studs["patterned"] = patterned
+    plate = {"studs": studs}
+    return {
+        "project": {"title": "Snow on a stud-wall plate (fictional)"},
+        "materials": {"SPF": {"family": "sawn_lumber", "species": "S-P-F", "grade": "No.2"}},
+        "members": [
+            {"id": "WP", "material": "SPF", "b": "140 mm", "d": "38 mm", "length": "2.4 m", "support": "studs", **plate}
+        ],
+        "bearings": [],
+        "loads": [{"id": "roof", "member": "WP", "type": "uniform", "specified": {"D": "0.3 kN/m", "S": "3 kN/m"}}],
+    }
+
+
+# Stud centres under the plate: 19 mm, then every 406 mm while a stud fits, and the end stud at 2381 mm.
+STUD_CENTRES = [0.019, 0.425, 0.831, 1.237, 1.643, 2.049, 2.381]
 
 
 def _case(name: str, reference: float, computed: float, note: str = "") -> Case:
