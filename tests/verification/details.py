@@ -252,8 +252,8 @@ def three_moment_end_reaction(loaded: list[bool], w: float, span: float) -> floa
 
 
 def snow_on_stud_plate(patterned: bool | None = None) -> dict:
-    """A 38 x 140 top plate, 2.4 m, on 38 mm studs at 406 mm (the end stud flush), with D 0.3 kN/m and S 3 kN/m on
-    it: patterned bay by bay, the end stud lifts; a plate on studs is not patterned unless the model says so."""
+    """A 38 x 140 top plate, 2.4 m, on 38 mm studs at 406 mm (the end stud flush), with D 0.3, L 2 and S 3 kN/m on
+    it: patterned bay by bay, the studs lift; a plate on studs is not patterned unless the model says so."""
     studs: dict = {"thickness": "38 mm", "spacing": "406 mm"}
     if patterned is not None:
         studs["patterned"] = patterned
@@ -265,7 +265,14 @@ def snow_on_stud_plate(patterned: bool | None = None) -> dict:
             {"id": "WP", "material": "SPF", "b": "140 mm", "d": "38 mm", "length": "2.4 m", "support": "studs", **plate}
         ],
         "bearings": [],
-        "loads": [{"id": "roof", "member": "WP", "type": "uniform", "specified": {"D": "0.3 kN/m", "S": "3 kN/m"}}],
+        "loads": [
+            {
+                "id": "roof",
+                "member": "WP",
+                "type": "uniform",
+                "specified": {"D": "0.3 kN/m", "L": "2 kN/m", "S": "3 kN/m"},
+            }
+        ],
     }
 
 
@@ -446,6 +453,86 @@ def pattern_cases() -> list[Case]:
     ]
 
 
+def carried_pattern_cases() -> list[Case]:
+    """Four equal 4 m spans, D 1 and L 2 kN/m: the end post passes the beam's worst pattern to the sill under it.
+
+    Three-moment equation (worked in ``three_moment_end_reaction``): end reaction 0.393 wL with every span
+    loaded, 0.446 wL with spans 1 and 3. Before, the sill took the every-span force."""
+    review = review_dict(four_span_on_sill())
+    dead = three_moment_end_reaction([True] * 4, 1.0e3, 4.0)
+    worst = three_moment_end_reaction([True, False, True, False], 2.0e3, 4.0)
+    sill = review.result("P1/S:S")
+    return [
+        _case(
+            "L through the sill under the end post of four equal spans (kN), worst pattern of B at B/P1",
+            worst,
+            review.flow.envelopes["P1/S"]["L"].high,
+            "three-moment equation: 0.446 wL with spans 1 and 3 loaded (0.393 wL with all)",
+        ),
+        _case(
+            "Qf (kN), the sill under the end post, 1.25D + 1.5L",
+            1.25 * dead + 1.5 * worst,
+            sill.governing.qf,
+            "1.25 x 0.393 x 4 kN + 1.5 x 0.446 x 8 kN",
+        ),
+    ]
+
+
+def duration_placing_cases() -> list[Case]:
+    """Three equal 4 m spans, D 4 and L 1 kN/m: at the end support every span loaded governs, through KD."""
+    import math
+
+    result = review_dict(beam_on_posts([4.0, 4.0, 4.0], live="1 kN/m", dead="4 kN/m")).result("B/C1:B")
+    row = next(c for c in result.combinations if c.combination == "1.25D+1.5L")
+    dead, live = 0.40 * 16e3, 0.40 * 4e3  # beam tables: 0.40 wL at the end support, every span
+    kd = 1.0 - 0.5 * math.log10(dead / live)
+    qr = 0.8 * 7.0e6 * (0.130 * 0.076) * kd  # 130 x 76 mm: the post's 152 mm cut at the beam end
+    return [
+        Case(
+            "Details by hand",
+            "Qf/Qr, dead-heavy end support: every span loaded governs (worst pattern 0.45 wL gives less)",
+            HAND,
+            (1.25 * dead + 1.5 * live) / qr,
+            row.utilisation,
+            1e-6,
+            "1e-6",
+            "10.40 kN / (0.8 x 7.0 MPa x 130 x 76 mm x KD 0.699); at 0.45 wL: 10.70 kN with KD 0.725",
+        )
+    ]
+
+
+def stud_plate_cases() -> list[Case]:
+    """A 2.4 m top plate on studs at 406 mm, D 0.3, L 2 and S 3 kN/m: every bay loaded, no uplift at the end stud."""
+    from tests.verification.cases import _anastruct_reactions
+
+    review = review_dict(snow_on_stud_plate())
+    dead = _anastruct_reactions(STUD_CENTRES, [], [(0.0, 2.4, 300.0)])[-1]
+    snow = _anastruct_reactions(STUD_CENTRES, [], [(0.0, 2.4, 3000.0)])[-1]
+    least = min(c.qf_low for c in review.result("WP/WP.stud7:WP").combinations)
+    source = "anastruct (PyPI), 2D frame solver, the plate continuous over its seven studs"
+    return [
+        Case(
+            "Details by hand",
+            "S through the end stud of a plate on studs (kN), every bay loaded",
+            source,
+            snow / 1000,
+            review.flow.bearing_forces["WP/WP.stud7"]["S"] / 1000,
+            1e-3,
+            "1 N",
+        ),
+        Case(
+            "Details by hand",
+            "least force through the end stud (kN): 0.9 D, downward (no uplift; patterned it lifted)",
+            source,
+            0.9 * dead / 1000,
+            least / 1000,
+            1e-3,
+            "1 N",
+            "a plate on studs is patterned only with studs: patterned: true",
+        ),
+    ]
+
+
 def slip_cases() -> list[Case]:
     """The numbers two slips of a continuous beam give, as a calc that made them would print them."""
     from audit.review.reconcile import qf_slips
@@ -476,5 +563,5 @@ def slip_cases() -> list[Case]:
 
 def detail_cases() -> list[Case]:
     return (contact_cases() + near_support_cases() + built_up_cases() + hankinson_cases() + stud_wall_cases()) + (
-        pattern_cases() + slip_cases()
+        pattern_cases() + carried_pattern_cases() + duration_placing_cases() + stud_plate_cases() + slip_cases()
     )
