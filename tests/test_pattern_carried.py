@@ -156,3 +156,11 @@ def test_a_light_dead_load_still_governs_at_the_worst_pattern():
     )  # fmt: skip
     assert row.qf == pytest.approx(1.25 * 0.40 * 4e3 + 1.5 * 0.45 * 8e3, rel=1e-9)
     assert row.pattern == "L on spans 1 and 3"
+
+
+def test_the_memo_states_that_the_girder_takes_two_maxima_that_do_not_occur_together():
+    from audit.report.memo import assumptions
+
+    lines = [line for line in assumptions(review_dict(_girder_model())) if "do not occur under one pattern" in line]
+    assert len(lines) == 1 and "G under B" in lines[0] and "S under" not in lines[0]
+    assert not [line for line in assumptions(review_dict(four_span_on_sill())) if "do not occur under" in line]
