@@ -164,3 +164,20 @@ def test_the_memo_states_that_the_girder_takes_two_maxima_that_do_not_occur_toge
     lines = [line for line in assumptions(review_dict(_girder_model())) if "do not occur under one pattern" in line]
     assert len(lines) == 1 and "G under B" in lines[0] and "S under" not in lines[0]
     assert not [line for line in assumptions(review_dict(four_span_on_sill())) if "do not occur under" in line]
+
+
+def test_the_least_snow_placing_governs_where_it_brings_kd_down_most():
+    # three equal 4 m spans, D 2.1875 kN/m, S 1 kN/m; NBCC snow full or half on each span (from memory). End
+    # support shares of snow on each span alone by anastruct (beam tables 0.433, -0.050, 0.017 wL): least snow
+    # 0.175 wL = 0.70 kN, every span 0.40 wL = 1.60 kN, worst 0.425 wL = 1.70 kN; D 0.40 wL = 3.50 kN.
+    data = beam_on_posts([4.0, 4.0, 4.0])
+    data["loads"][0]["specified"] = {"D": "2.1875 kN/m", "S": "1 kN/m"}
+    row = next(c for c in review_dict(data).result("B/C1:B").combinations if c.combination == "1.25D+1.5S")
+    shares = [_anastruct_reactions([0.0, 4.0, 8.0, 12.0], [], [(a, a + 4.0, 1000.0)])[0] for a in (0.0, 4.0, 8.0)]
+    dead = 0.40 * 2187.5 * 4.0
+    least, every, worst = (sum(min(r, 0.5 * r) for r in shares), sum(shares), sum(max(r, 0.5 * r) for r in shares))
+    ratio = {s: (1.25 * dead + 1.5 * s) / _kd(dead, s) for s in (least, every, worst)}  # Qf / KD
+    assert ratio[least] > ratio[worst] > ratio[every]  # 8.34 > 8.21 > 8.16 kN
+    assert row.qf == pytest.approx(1.25 * dead + 1.5 * least, rel=1e-6)
+    assert row.kd == pytest.approx(_kd(dead, least), rel=1e-6)
+    assert "its least here" in row.pattern and "S on span 2" in row.pattern
