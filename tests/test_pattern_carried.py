@@ -181,3 +181,14 @@ def test_the_least_snow_placing_governs_where_it_brings_kd_down_most():
     assert row.qf == pytest.approx(1.25 * dead + 1.5 * least, rel=1e-6)
     assert row.kd == pytest.approx(_kd(dead, least), rel=1e-6)
     assert "its least here" in row.pattern and "S on span 2" in row.pattern
+
+
+def test_the_memo_derivation_of_the_sill_names_the_pattern_and_the_range():
+    from audit.report.memo import MemoOptions, render_memo
+    from tests.conftest import reconcile_dicts
+
+    review, claims, rec = reconcile_dicts(four_span_on_sill(), [])
+    html = render_memo(review, rec, claims, MemoOptions(all_derivations=True))
+    # every span 0.393 x 8 kN = 3.14 kN, the worst 0.446 x 8 = 3.57 kN, the least (spans 2 and 4) -0.054 x 8
+    assert "Governing: 1.25D+1.5L with L at the worst pattern of B at B/P1" in html
+    assert "L 3.14 kN (every span loaded; -0.43 kN to 3.57 kN by pattern)" in html

@@ -305,8 +305,11 @@ def _derivations(review: Review, status_of: dict[str, str], every: bool = False)
                     )
                     for f in r.factors
                 ],
-                "forces": ", ".join(f"{case} {display.force(v * 1000)}" for case, v in rec["forces_kN"].items())
+                "forces": ", ".join(
+                    _force_text(case, v * 1000, r.check.envelope, display) for case, v in rec["forces_kN"].items()
+                )
                 or "none",
+                "pattern": r.governing.pattern,
                 "governing": r.governing,
                 "kd_reason": r.governing.kd_reason,
                 "qf": kn(r.governing.qf, display),
@@ -315,6 +318,15 @@ def _derivations(review: Review, status_of: dict[str, str], every: bool = False)
             }
         )
     return out, all_checks
+
+
+def _force_text(case: str, value: float, envelope: dict, display: Display) -> str:
+    """A case's force through a check: with every span loaded, and its range over the patterns where it has one."""
+    env = envelope.get(case)
+    if env is None:
+        return f"{case} {display.force(value)}"
+    span = f"{display.force(env.low)} to {display.force(env.high)}"
+    return f"{case} {display.force(value)} (every span loaded; {span} by pattern)"
 
 
 def build_view(
