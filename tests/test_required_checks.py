@@ -159,7 +159,7 @@ def test_a_firms_pack_can_set_the_uplift_note_threshold_and_the_memo_states_it(t
     from audit.standards.packs import builtin_rules_dir
 
     text = (builtin_rules_dir() / "o86-2019-recalled.yaml").read_text()
-    text = text.replace("id: o86-2019-recalled", "id: firm-uplift").replace("    value: 0 kN\n", "    value: 10 kN\n")
+    text = text.replace("id: o86-2019-recalled", "id: firm-uplift").replace("    value: 0.5 kN\n", "    value: 10 kN\n")
     (tmp_path / "firm.yaml").write_text(text)
     data = _suction_model(None)
     data["project"]["rule_pack"] = "firm-uplift"

@@ -80,6 +80,7 @@ class Member:
     service: str  # dry | wet
     kt: float = 1.0
     continuous: bool = False  # continuously supported (a sill on a footing, or a wall the model does not show)
+    patterned: bool = True  # on three or more supports, live and snow load are placed span by span (not on studs)
     bears_on: str = ""  # continuous members: the material id of what is under them, where given
     level: str = ""
     label: str = ""

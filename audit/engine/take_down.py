@@ -28,6 +28,53 @@ FORCE_RESOLUTION = 1.0  # N
 
 
 @dataclass(frozen=True)
+class Envelope:
+    """One load case at one bearing, as the worst pattern places it: the most and the least force through it.
+
+    At a support of a member on three or more supports each span (and overhang) takes the case
+    at its high or its low factor, whichever is worse at this support; reactions are linear in
+    the loads, so the worst of every pattern is the sum of each span's worse share. A member
+    below such a support carries the envelope on: each force from above enters at its high or
+    its low value, whichever is worse at each of the lower member's supports (two supports of
+    one beam on one lower member take both maxima, which do not occur together: conservative).
+    """
+
+    high: float  # N, the most downward force through the bearing
+    low: float  # N, the least (most upward)
+    high_spans: str  # the member's own spans giving ``high``, e.g. "spans 1 and 3" ("" when every span, or not own)
+    low_spans: str
+    high_from: tuple[str, ...] = ()  # patterns carried from above that give ``high``: "B1 at B1/P2" (member at support)
+    low_from: tuple[str, ...] = ()
+    own: bool = True  # the member's own spans are patterned at this support
+
+    def placing(self, high: bool = True) -> str:
+        """The pattern giving ``high`` (or ``low``): "on spans 1 and 3", "at the worst pattern of B at B/C1"."""
+        parts = []
+        if self.own:
+            spans = self.high_spans if high else self.low_spans
+            parts.append(f"on {spans or ('every span' if high else 'no span')}")
+        carried = self.high_from if high else self.low_from
+        if carried:
+            more = [f"{len(carried) - MAX_NAMED} more"] if len(carried) > MAX_NAMED else []
+            shown = [*carried[:MAX_NAMED], *more]
+            parts.append(f"at the {'worst' if high else 'lowest'} pattern of " + " and of ".join(shown))
+        return ", ".join(parts) or "on every span"
+
+    def carried(self, member: str, bearing: str) -> Envelope:
+        """The envelope as the member below receives it through ``bearing`` (of ``member``): named by where it arose."""
+        here = (f"{member} at {bearing}",) if self.own else ()
+        high_from = _union(self.high_from, here if self.high_spans else ())
+        return Envelope(self.high, self.low, "", "", high_from, _union(self.low_from, here), own=False)
+
+
+MAX_NAMED = 3  # patterns named in one placing, then "and N more"
+
+
+def _union(*groups: tuple[str, ...]) -> tuple[str, ...]:
+    return tuple(dict.fromkeys(name for group in groups for name in group))
+
+
+@dataclass(frozen=True)
 class AppliedForce:
     """Something pressing on a member's top face: a bearing from above or a load of its own."""
 
@@ -38,21 +85,7 @@ class AppliedForce:
     start: float | None = None
     end: float | None = None
     forces: Forces = field(default_factory=dict)  # N (point) or N/m (uniform), per case
-
-
-@dataclass(frozen=True)
-class Envelope:
-    """One load case at one support of a member on three or more supports, placed span by span.
-
-    Each span (and overhang) takes the case at its high or its low factor, whichever is worse
-    at this support; reactions are linear in the loads, so the worst of every pattern is the
-    sum of each span's worse share.
-    """
-
-    high: float  # N, the most downward force through the bearing
-    low: float  # N, the least (most upward)
-    high_spans: str  # the pattern giving ``high``, e.g. "spans 1, 3" ("" when that is every span)
-    low_spans: str
+    envelope: dict[str, Envelope] = field(default_factory=dict)  # a bearing from above: its patterned cases, carried
 
 
 @dataclass(frozen=True)
@@ -60,7 +93,8 @@ class TakeDown:
     order: tuple[str, ...]  # members from the top down
     bearing_forces: dict[str, Forces]  # bearing id -> force through it, per case, every span loaded
     on_top: dict[str, tuple[AppliedForce, ...]]  # member id -> what presses on its top face
-    envelopes: dict[str, dict[str, Envelope]] = field(default_factory=dict)  # bearing id -> case -> envelope
+    # bearing id -> case -> envelope: a continuous member's supports, and every bearing below them down the load path
+    envelopes: dict[str, dict[str, Envelope]] = field(default_factory=dict)
     # bearings whose force the calc states: what the model's own loads give there, to compare
     modelled: dict[str, Forces] = field(default_factory=dict)
 
@@ -89,8 +123,11 @@ def support_order(model: Model) -> tuple[str, ...]:
 def take_down(model: Model, patterns: dict[str, tuple[float, float]] | None = None) -> TakeDown:
     """Forces through every bearing per load case; ``patterns``: case -> (low, high) span factors.
 
-    Loads pass down with every span loaded; the patterns give each support of a member on
-    three or more supports its envelope, which that bearing's checks use.
+    Loads pass down with every span loaded (``bearing_forces``); the patterns give each support
+    of a member on three or more supports its envelope, which that bearing's checks use, and the
+    envelope passes down the load path: each member below takes the force from above at its
+    worst placing, into its own reactions, its local checks and its near-support loads.
+    A member marked not patterned (a plate on studs) takes its loads on every span.
     """
     patterns = patterns or {}
     order = support_order(model)
@@ -109,7 +146,7 @@ def take_down(model: Model, patterns: dict[str, tuple[float, float]] | None = No
     modelled: dict[str, Forces] = {}
     for member_id in order:
         member = model.members[member_id]
-        applied = _applied_forces(member_id, carried_by[member_id], own_loads[member_id], bearing_forces)
+        applied = _applied_forces(member_id, carried_by[member_id], own_loads[member_id], bearing_forces, envelopes)
         on_top[member_id] = applied
         below = supports_of[member_id]
         if not below:
@@ -120,6 +157,9 @@ def take_down(model: Model, patterns: dict[str, tuple[float, float]] | None = No
                 for case, value in item.forces.items():
                     total[case] += value
             bearing_forces[below[0].id] = dict(total)
+            post_envelope = passed_through(applied)
+            if post_envelope and not below[0].calc_force:
+                envelopes[below[0].id] = post_envelope
             _take_calc_force(below[0], bearing_forces, modelled)
             continue
         below = sorted(below, key=lambda b: b.upper.at)
@@ -127,10 +167,9 @@ def take_down(model: Model, patterns: dict[str, tuple[float, float]] | None = No
         per_support = _reactions_by_case(positions, applied)
         for bearing, forces in zip(below, per_support, strict=True):
             bearing_forces[bearing.id] = forces
-        if len(below) >= 3 and patterns:
-            for bearing, by_case in zip(
-                below, _pattern_envelopes(positions, member.length, applied, patterns), strict=True
-            ):
+        own = patterns if len(below) >= 3 and member.patterned else {}
+        if own or any(item.envelope for item in applied):
+            for bearing, by_case in zip(below, _pattern_envelopes(positions, member.length, applied, own), strict=True):
                 if by_case and not bearing.calc_force:
                     envelopes[bearing.id] = by_case
         for bearing in below:
@@ -165,29 +204,94 @@ def span_pieces(positions: list[float], length: float) -> list[tuple[float, floa
 def _pattern_envelopes(
     positions: list[float], length: float, applied: tuple[AppliedForce, ...], patterns: dict[str, tuple[float, float]]
 ) -> list[dict[str, Envelope]]:
-    pieces = span_pieces(positions, length)
+    """Each support's envelope per case: the member's own spans patterned (``patterns``, empty for none), and every
+    force from above that carries an envelope taken at its high or low value, whichever is worse at that support.
+
+    Within a piece the pattern factor f >= 0 is common to every load on it, so the worst of f times the worse
+    placing of each load is max(f_high H, f_low H), H the sum of each load's worse share."""
+    n = len(positions)
     out: list[dict[str, Envelope]] = [{} for _ in positions]
-    cases = sorted({c for item in applied for c in item.forces if base_case(c) in patterns})
-    owner = piece_owners(applied, pieces)
-    for case in cases:
-        low_factor, high_factor = patterns[base_case(case)]
-        shares = case_shares(positions, applied, case, pieces, owner)
-        total = sum(abs(r) for share in shares for r in share) or 1.0
-        for i in range(len(positions)):
+    own_cases = {c for item in applied for c in item.forces if base_case(c) in patterns}
+    carried_cases = {c for item in applied for c in item.envelope}
+    if not own_cases and not carried_cases:
+        return out
+    span_by_span = span_pieces(positions, length)
+    whole = [(0.0, length, "")]  # a member not patterned itself: one piece, at factor 1
+    owner_of = {True: piece_owners(applied, span_by_span), False: piece_owners(applied, whole)}
+    unit: dict[float, list[float]] = {}  # point position -> reactions of a unit load there
+    for case in sorted(own_cases | carried_cases):
+        own = case in own_cases
+        pieces = span_by_span if own else whole
+        owner = owner_of[own]
+        low_factor, high_factor = patterns[base_case(case)] if own else (1.0, 1.0)
+        fixed = tuple(item for item in applied if case not in item.envelope)
+        shares = case_shares(positions, fixed, case, pieces, owner)
+        high_share = [list(share) for share in shares]
+        low_share = [list(share) for share in shares]
+        high_from: list[set[str]] = [set() for _ in positions]
+        low_from: list[set[str]] = [set() for _ in positions]
+        for item in applied:
+            env = item.envelope.get(case)
+            if env is None or item.at is None:
+                continue
+            if item.at not in unit:
+                unit[item.at] = reactions(positions, [(item.at, 1.0)])
+            k = owner[id(item)]
+            every = item.forces.get(case, 0.0)
+            for i, u in enumerate(unit[item.at]):
+                least, most = sorted((u * env.low, u * env.high))
+                high_share[k][i] += most
+                low_share[k][i] += least
+                high_used, low_used = (env.high, env.low) if u >= 0 else (env.low, env.high)
+                if abs(u * (high_used - every)) > FORCE_RESOLUTION:
+                    high_from[i].update(env.high_from if u >= 0 else env.low_from)
+                if abs(u * (low_used - every)) > FORCE_RESOLUTION:
+                    low_from[i].update(env.low_from if u >= 0 else env.high_from)
+        total = sum(abs(r) for share in high_share + low_share for r in share) or 1.0
+        loaded = {name for *_, name in pieces}
+        for i in range(n):
             high = low = 0.0
             high_names: list[str] = []
             low_names: list[str] = []
-            for (_, _, name), share in zip(pieces, shares, strict=True):
-                r = share[i]
-                if abs(r) <= NOISE_SHARE * total:
-                    continue
-                high += max(high_factor * r, low_factor * r)
-                low += min(high_factor * r, low_factor * r)
-                (high_names if r > 0 else low_names).append(name)
-            loaded = {name for *_, name in pieces}
+            for (_, _, name), hi_share, lo_share in zip(pieces, high_share, low_share, strict=True):
+                h, lo = hi_share[i], lo_share[i]
+                if abs(h) > NOISE_SHARE * total:
+                    high += max(high_factor * h, low_factor * h)
+                    if h > 0:
+                        high_names.append(name)
+                if abs(lo) > NOISE_SHARE * total:
+                    low += min(high_factor * lo, low_factor * lo)
+                    if lo < 0:
+                        low_names.append(name)
             out[i][case] = Envelope(
-                high, low, "" if set(high_names) == loaded else spans_text(high_names), spans_text(low_names)
+                high,
+                low,
+                "" if not own or set(high_names) == loaded else spans_text(high_names),
+                spans_text(low_names) if own else "",
+                tuple(sorted(high_from[i])),
+                tuple(sorted(low_from[i])),
+                own=own,
             )
+    return out
+
+
+def passed_through(applied: tuple[AppliedForce, ...]) -> dict[str, Envelope]:
+    """The envelope of forces acting together (a post's foot, the loads within d of a support): each case summed at
+    its high and at its low, a force without an envelope at its every-span value."""
+    out: dict[str, Envelope] = {}
+    for case in sorted({c for item in applied for c in item.envelope}):
+        high = low = 0.0
+        high_from: tuple[str, ...] = ()
+        low_from: tuple[str, ...] = ()
+        for item in applied:
+            env = item.envelope.get(case)
+            if env is None:
+                high += item.forces.get(case, 0.0)
+                low += item.forces.get(case, 0.0)
+                continue
+            high, low = high + env.high, low + env.low
+            high_from, low_from = _union(high_from, env.high_from), _union(low_from, env.low_from)
+        out[case] = Envelope(high, low, "", "", high_from, low_from, own=False)
     return out
 
 
@@ -248,10 +352,12 @@ def case_shares(
     ]
 
 
-def _applied_forces(member_id, carried, own, bearing_forces) -> tuple[AppliedForce, ...]:
+def _applied_forces(member_id, carried, own, bearing_forces, envelopes) -> tuple[AppliedForce, ...]:
     out: list[AppliedForce] = []
     for b in carried:
-        out.append(AppliedForce(b.id, True, "point", b.lower.at, forces=dict(bearing_forces.get(b.id, {}))))
+        envelope = {case: env.carried(b.upper.member, b.id) for case, env in envelopes.get(b.id, {}).items()}
+        forces = dict(bearing_forces.get(b.id, {}))
+        out.append(AppliedForce(b.id, True, "point", b.lower.at, forces=forces, envelope=envelope))
     grouped: dict[str, dict] = {}
     for load in own:
         # a load given with several cases is one applied force with a force per case

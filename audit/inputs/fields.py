@@ -89,6 +89,17 @@ class FieldReader:
             return None
         return value
 
+    def flag(self, key: str, default: bool = False) -> bool:
+        """A yes/no field given as true or false."""
+        node = self._get(key, False)
+        if node is None:
+            return default
+        if not isinstance(node.value, bool):
+            self.errors.add(f"expected true or false, got {describe_value(node.value)}", node.loc)
+            self.ok = False
+            return default
+        return node.value
+
     def number(self, key: str, lo: float, hi: float, default: float) -> float:
         node = self._get(key, False)
         if node is None:

@@ -503,6 +503,10 @@ def _place_walls(
                 wall.loc,
             )
             continue
+        # the plate, and the sole its studs stand on, take live and snow load on every bay unless the wall says
+        members[wall.plate] = replace(members[wall.plate], patterned=wall.patterned)
+        if sole is not None:
+            members[wall.sole] = replace(sole, patterned=wall.patterned)
         studs, bearings = place_studs(members[wall.plate], wall, errors)
         for stud in studs:
             if stud.id in members:

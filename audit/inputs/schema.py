@@ -256,6 +256,12 @@ MODEL_SCHEMA: dict[str, Any] = {
                                 "first": {**LENGTH, "description": "centre of the first stud; default flush"},
                                 "height": LENGTH,
                                 "sole": {"type": "string", "description": "the member the studs stand on"},
+                                "patterned": {
+                                    "type": "boolean",
+                                    "default": False,
+                                    "description": "place live and snow load on the plate (and its sole) bay by bay "
+                                    "between studs, as on a continuous floor beam; default: every bay loaded",
+                                },
                                 "packs": {
                                     "type": "array",
                                     "items": _obj(

@@ -15,7 +15,7 @@ from audit.core.located_yaml import Node
 from audit.engine.model import Bearing, Member, Side
 from audit.inputs.fields import FieldReader
 
-STUD_KEYS = {"material", "thickness", "depth", "spacing", "first", "height", "packs", "sole"}
+STUD_KEYS = {"material", "thickness", "depth", "spacing", "first", "height", "packs", "sole", "patterned"}
 PACK_KEYS = {"id", "at", "studs", "width"}
 DEFAULT_HEIGHT = 3.0  # m; a stud's height enters no bearing check, it only names the member's length
 
@@ -43,6 +43,9 @@ class StudWall:
     packs: tuple[Pack, ...]
     loc: Location
     sole: str = ""  # the member the studs stand on (a sole plate along the same line), where the model has one
+    # live and snow load placed bay by bay between the studs: only where the model asks. A plate on studs is not a
+    # floor beam loaded bay by bay; patterning it gives small false "uplift" at end studs.
+    patterned: bool = False
 
 
 def read_stud_wall(node: Node, plate_id: str, default_material: str, errors: ErrorCollector) -> StudWall | None:
@@ -56,6 +59,7 @@ def read_stud_wall(node: Node, plate_id: str, default_material: str, errors: Err
     first = f.quantity("first", "length", required=False)
     height = f.quantity("height", "length", required=False, positive=True)
     material = f.text("material", required=False, default=default_material)
+    patterned = f.flag("patterned")
     if thickness is None or spacing is None:
         return None
     if spacing < thickness - 1e-9:
@@ -87,6 +91,7 @@ def read_stud_wall(node: Node, plate_id: str, default_material: str, errors: Err
         tuple(packs),
         node.loc,
         f.text("sole", required=False, limit=120),
+        patterned,
     )
 
 

@@ -224,14 +224,21 @@ def explain(review: Review, check_id: str) -> str:
     for load in _loads_made(review, c):
         lines.append(f"  load {load.id} on {load.member}: {load.note}")
     for case, e in sorted(c.envelope.items()):
-        lines.append(
-            f"Pattern loading of {case} on {c.member}'s spans: {e.low / 1000:.2f} to {e.high / 1000:.2f} kN "
-            f"(most with {e.high_spans or 'every span'} loaded; least with {e.low_spans or 'no span'})"
-        )
+        if e.own and not e.high_from and not e.low_from:
+            lines.append(
+                f"Pattern loading of {case} on {c.member}'s spans: {e.low / 1000:.2f} to {e.high / 1000:.2f} kN "
+                f"(most with {e.high_spans or 'every span'} loaded; least with {e.low_spans or 'no span'})"
+            )
+        else:
+            lines.append(
+                f"Pattern loading of {case} at {c.bearing}: {e.low / 1000:.2f} to {e.high / 1000:.2f} kN "
+                f"(most {e.placing(True)}; least {e.placing(False)})"
+            )
     combos = {c.name: c for c in review.combinations}
     for x in r.combinations:
         mark = "  <- governs" if x is r.governing else ""
-        placed = placed_forces(c.forces, c.envelope, combos[x.combination])[0] if x.combination in combos else c.forces
+        combo = combos.get(x.combination)
+        placed = placed_forces(c.forces, c.envelope, combo, x.placing)[0] if combo is not None else c.forces
         reason = x.kd_reason or (
             review.standard.duration_reason(c, placed, combos[x.combination], review.model, review.pack)
             if r.inputs.uses_kd and x.combination in combos

@@ -154,10 +154,43 @@ def _pattern_lines(review: Review) -> list[str]:
     )
     return [
         f"Pattern loading at the supports of members on three or more supports: {placed}, whichever is worse at each "
-        "check; the check names its governing pattern. Loads pass down to the members below with every span "
-        "loaded.",
+        "check; the check names its governing pattern. The worst and the least pattern at each support pass down the "
+        "load path: the members below (posts, sills, girders, plates) take each force from above at whichever of the "
+        "two is worse at each of their own checks, in their reactions, local checks and near-support loads. "
+        "Each combination is evaluated with every patterned case at its worst pattern, on "
+        "every span, and at its least downward placing, and the highest Qf/Qr kept: less live or snow load can "
+        "lower the load-duration factor more than the load. A plate on studs (and a wall's sole plate) is not "
+        "patterned over its stud bays unless the model says so (studs: patterned: true).",
         f"Uplift is looked for under every combination with dead load at {cpack.counteracting_dead.value:g}D where it "
         "counteracts and every patterned case at its least favourable placing.",
+        *_joint_maxima_line(review),
+    ]
+
+
+def _joint_maxima_line(review: Review) -> list[str]:
+    """Members that carry two or more supports of one member above, each at its own worst pattern: named."""
+    whose = {f"{b.upper.member} at {b.id}": b.upper.member for b in review.model.bearings}
+    pairs: dict[str, set[str]] = {}
+    for member_id, items in review.flow.on_top.items():
+        if review.model.members[member_id].vertical:
+            continue  # a post passes on what it carries; the member it stands on is named
+        seen: dict[str, set[str]] = {}  # member above -> the forces on this member that carry its patterns
+        for item in items:
+            for env in item.envelope.values():
+                for tag in env.high_from:
+                    if tag in whose:
+                        seen.setdefault(whose[tag], set()).add(item.source)
+        above = {upper for upper, sources in seen.items() if len(sources) > 1}
+        if above:
+            pairs[member_id] = above
+    if not pairs:
+        return []
+    named = sorted(pairs)
+    shown = "; ".join(f"{m} under {', '.join(sorted(pairs[m]))}" for m in named[:6])
+    more = f" and {len(named) - 6} more" if len(named) > 6 else ""
+    return [
+        f"Members carrying two or more supports of one continuous member above ({shown}{more}) take each support's "
+        "worst pattern together, although the maxima do not occur under one pattern: conservative."
     ]
 
 
@@ -275,8 +308,11 @@ def _derivations(review: Review, status_of: dict[str, str], every: bool = False)
                     )
                     for f in r.factors
                 ],
-                "forces": ", ".join(f"{case} {display.force(v * 1000)}" for case, v in rec["forces_kN"].items())
+                "forces": ", ".join(
+                    _force_text(case, v * 1000, r.check.envelope, display) for case, v in rec["forces_kN"].items()
+                )
                 or "none",
+                "pattern": r.governing.pattern,
                 "governing": r.governing,
                 "kd_reason": r.governing.kd_reason,
                 "qf": kn(r.governing.qf, display),
@@ -285,6 +321,15 @@ def _derivations(review: Review, status_of: dict[str, str], every: bool = False)
             }
         )
     return out, all_checks
+
+
+def _force_text(case: str, value: float, envelope: dict, display: Display) -> str:
+    """A case's force through a check: with every span loaded, and its range over the patterns where it has one."""
+    env = envelope.get(case)
+    if env is None:
+        return f"{case} {display.force(value)}"
+    span = f"{display.force(env.low)} to {display.force(env.high)}"
+    return f"{case} {display.force(value)} (every span loaded; {span} by pattern)"
 
 
 def build_view(

@@ -174,7 +174,7 @@ def unseen_support_findings(checklist: CheckList) -> tuple[Finding, ...]:
 def _as_placed(combination: str, result: CheckResult, factors: dict[str, float]) -> str:
     """The combination as uplift is looked for: the dead load counteracting, patterned cases at their least."""
     placed = [
-        f"{case} on {env.low_spans or 'no span'}"
+        f"{case} {env.placing(False)}"
         for case, env in sorted(result.check.envelope.items())
         if factors.get(case, 0.0) > 0
     ]

@@ -12,7 +12,7 @@ from __future__ import annotations
 import math
 from bisect import bisect_left, bisect_right
 from collections import defaultdict
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 from audit.core.errors import ErrorCollector, InputError
 from audit.engine.contacts import (
@@ -25,7 +25,7 @@ from audit.engine.contacts import (
     top_contact,
 )
 from audit.engine.model import Bearing, Load, Member, Model
-from audit.engine.take_down import FORCE_RESOLUTION, Envelope, Forces, TakeDown
+from audit.engine.take_down import FORCE_RESOLUTION, AppliedForce, Envelope, Forces, TakeDown, passed_through
 from audit.standards.packs import PackCore, ResistancePack
 
 LOCAL = "local"
@@ -309,10 +309,20 @@ def _near_support_checks(model: Model, flow: TakeDown, pack: ResistancePack, cou
                     ),
                     spread=tuple((item.source, within) for item, within in spread),
                     spread_forces=dict(spread_forces),
+                    envelope=_near_envelope(near, spread_forces),
                 )
             )
     errors.raise_if_any()
     return out
+
+
+def _near_envelope(near: list[AppliedForce], spread_forces: Forces) -> dict[str, Envelope]:
+    """Qf' at the worst pattern of the members above: each bearing within d at its high (or low), as it is carried."""
+    envelope = passed_through(tuple(near))
+    return {
+        case: replace(env, high=env.high + spread_forces.get(case, 0.0), low=env.low + spread_forces.get(case, 0.0))
+        for case, env in envelope.items()
+    }
 
 
 def top_bearing(check: RequiredCheck, reading: str) -> tuple[float, float]:

@@ -11,6 +11,7 @@ each combination gets its own Qr and the governing one is the highest Qf/Qr.
 
 from __future__ import annotations
 
+import itertools
 import math
 from collections.abc import Callable
 from dataclasses import dataclass, field, replace
@@ -91,6 +92,12 @@ class ResistanceInputs:
     angle: float | None
 
 
+# How a combination places one patterned case: "worst" (its envelope in the direction of its factor), "every"
+# (every span loaded) or "least" (its least downward placing, where that is still downward).
+Placing = tuple[tuple[str, str], ...]
+WORST, EVERY_SPAN, LEAST = "worst", "every", "least"
+
+
 @dataclass(frozen=True)
 class CombinationResult:
     combination: str
@@ -102,20 +109,47 @@ class CombinationResult:
     utilisation: float
     pattern: str = ""  # how the patterned cases were placed for this Qf ("" : every span loaded)
     qf_low: float = 0.0  # N, the least force under this combination: counteracting dead load, worst patterns
+    placing: Placing = ()  # the placing of each patterned case that gave this row (() : each at its worst)
 
 
-def placed_forces(forces: Forces, envelope: dict, combo: LoadCombination) -> tuple[Forces, str]:
-    """The forces of each case as the combination places it worst: patterned cases at their envelope."""
-    placed = dict(forces)
-    notes = []
-    for case, env in envelope.items():
+def placings(forces: Forces, envelope: dict, combo: LoadCombination) -> list[Placing]:
+    """Every placing of the patterned cases a combination is evaluated with, the worst-force one first.
+
+    The largest force is not always the worst Qf/Qr: where the duration factor falls with the share of
+    short-term load (O86's long-term KD, dead-heavy members), less live or snow load can govern."""
+    options = []
+    for case, env in sorted(envelope.items()):
         factor = combo.factors.get(case, 0.0)
         if factor == 0.0:
             continue
-        value, spans = (env.high, env.high_spans) if factor > 0 else (env.low, env.low_spans)
+        worst, other = (env.high, env.low) if factor > 0 else (env.low, env.high)
+        every = forces.get(case, 0.0)
+        choice = [(case, WORST)]
+        if abs(every - worst) > FORCE_RESOLUTION:
+            choice.append((case, EVERY_SPAN))
+        if factor > 0 and other > FORCE_RESOLUTION and min(abs(other - worst), abs(other - every)) > FORCE_RESOLUTION:
+            choice.append((case, LEAST))
+        options.append(choice)
+    return [tuple(p) for p in itertools.product(*options)]
+
+
+def placed_forces(forces: Forces, envelope: dict, combo: LoadCombination, placing: Placing = ()) -> tuple[Forces, str]:
+    """The forces of each case as the combination places it: patterned cases at their envelope (``placing``: each
+    case's placing, default its worst), with how they were placed."""
+    placed = dict(forces)
+    notes = []
+    chosen = dict(placing)
+    for case, env in sorted(envelope.items()):
+        factor = combo.factors.get(case, 0.0)
+        how = chosen.get(case, WORST)
+        if factor == 0.0 or how == EVERY_SPAN:
+            continue
+        high = (factor > 0) == (how == WORST)
+        value = env.high if high else env.low
         placed[case] = value
         if abs(value - forces.get(case, 0.0)) > FORCE_RESOLUTION:
-            notes.append(f"{case} on {spans or 'no span'}")
+            least = ", its least here (worse through the load-duration factor)" if how == LEAST else ""
+            notes.append(f"{case} {env.placing(high)}{least}")
     return placed, "; ".join(notes)
 
 
@@ -500,15 +534,23 @@ def evaluate_with(
     for combo in combos:
         if not _principal_present(combo, forces):
             continue
-        placed, pattern = placed_forces(forces, envelope, combo)
-        qf = factored_force(placed, combo)
         low = least_force(forces, envelope, combo, counteracting)
-        kd, kd_reason = duration(placed, combo)
-        qr = resistance(inputs, kd)
         if low < -FORCE_RESOLUTION:
             uplift.append(combo.name)
-        results.append(CombinationResult(combo.name, combo.duration, qf, kd, "", qr, max(qf, 0.0) / qr, pattern, low))
-        reasons.append(kd_reason)
+        best: CombinationResult | None = None
+        best_reason = ""
+        for placing in placings(forces, envelope, combo) if envelope else [()]:
+            placed, pattern = placed_forces(forces, envelope, combo, placing)
+            qf = factored_force(placed, combo)
+            kd, kd_reason = duration(placed, combo)
+            qr = resistance(inputs, kd)
+            utilisation = max(qf, 0.0) / qr
+            row = CombinationResult(combo.name, combo.duration, qf, kd, "", qr, utilisation, pattern, low, placing)
+            if best is None or row.utilisation > best.utilisation + 1e-12:
+                best, best_reason = row, kd_reason
+        assert best is not None
+        results.append(best)
+        reasons.append(best_reason)
     if not results:
         qr = resistance(inputs, unloaded_factor)
         results.append(CombinationResult("no load", "standard", 0.0, 1.0, "", qr, 0.0))

@@ -7,6 +7,8 @@ reports/verification.md lists them, so a reviewer can redo each one on paper.
 
 from __future__ import annotations
 
+import itertools
+
 from tests.conftest import review_dict
 from tests.verification.cases import Case
 
@@ -263,6 +265,92 @@ def beam_on_posts(spans_m: list[float], live: str = "2 kN/m", dead: str = "1 kN/
     }
 
 
+FOUR_SPANS = [0.07, 4.07, 8.07, 12.07, 16.07]  # support centres of a 16.14 m beam: four equal 4 m spans
+
+
+def four_span_on_sill(live: str = "2 kN/m", dead: str = "1 kN/m") -> dict:
+    """A glulam floor beam over four equal 4 m spans; its end post P1 (timber) stands on a sill S on concrete.
+
+    The other supports are steel posts. The floor load runs between the end supports (none on the 70 mm ends)."""
+    members = [
+        {"id": "B", "material": "GL", "b": "130 mm", "d": "380 mm", "length": "16.14 m"},
+        {"id": "P1", "material": "DF", "b": "140 mm", "d": "140 mm", "length": "3 m", "orientation": "vertical"},
+        {"id": "S", "material": "SPF", "b": "140 mm", "d": "38 mm", "length": "1 m", "support": "continuous",
+         "bears_on": "CONC"},
+    ]  # fmt: skip
+    bearings = [
+        {"id": "B/P1", "upper": {"member": "B", "at": "0.07 m"}, "lower": "P1"},
+        {"id": "P1/S", "upper": "P1", "lower": {"member": "S", "at": "0.5 m"}},
+    ]
+    for i, x in enumerate(FOUR_SPANS[1:], start=2):
+        post = {"id": f"C{i}", "material": "STEEL", "b": "152 mm", "d": "152 mm", "length": "3 m"}
+        members.append({**post, "orientation": "vertical"})
+        bearings.append({"id": f"B/C{i}", "upper": {"member": "B", "at": f"{x} m"}, "lower": f"C{i}"})
+    return {
+        "project": {"title": "Four-span floor beam on an end post and sill (fictional)"},
+        "materials": {
+            "GL": {"family": "glulam", "species": "D.Fir-L", "grade": "24f-EX"},
+            "SPF": {"family": "sawn_lumber", "species": "S-P-F", "grade": "No.2"},
+            "DF": {"family": "timber", "species": "D.Fir-L", "grade": "No.1"},
+            "STEEL": {"family": "steel"},
+            "CONC": {"family": "concrete"},
+        },
+        "members": members,
+        "bearings": bearings,
+        "loads": [
+            {"id": "floor", "member": "B", "type": "uniform", "from": "0.07 m", "to": "16.07 m",
+             "specified": {"D": dead, "L": live}},
+        ],
+    }  # fmt: skip
+
+
+def three_moment_end_reaction(loaded: list[bool], w: float, span: float) -> float:
+    """End reaction of four equal spans under w on the loaded spans, by the three-moment equation (equal EI).
+
+    M(i-1) + 4 M(i) + M(i+1) = -(w(i) + w(i+1)) L^2 / 4 at the three interior supports, end moments zero;
+    then R_A = w(1) L / 2 + M(1) / L. Solved by elimination written out (no library)."""
+    k = [(w if a else 0.0) + (w if b else 0.0) for a, b in itertools.pairwise(loaded)]
+    rhs = [-ki * span**2 / 4 for ki in k]
+    # tridiagonal [[4, 1, 0], [1, 4, 1], [0, 1, 4]]: eliminate M1 from row 2, then M2 from row 3
+    d2 = 4 - 1 / 4
+    r2 = rhs[1] - rhs[0] / 4
+    d3 = 4 - 1 / d2
+    r3 = rhs[2] - r2 / d2
+    m3 = r3 / d3
+    m2 = (r2 - m3) / d2
+    m1 = (rhs[0] - m2) / 4
+    return (w if loaded[0] else 0.0) * span / 2 + m1 / span
+
+
+def snow_on_stud_plate(patterned: bool | None = None) -> dict:
+    """A 38 x 140 top plate, 2.4 m, on 38 mm studs at 406 mm (the end stud flush), with D 0.3, L 2 and S 3 kN/m on
+    it: patterned bay by bay, the studs lift; a plate on studs is not patterned unless the model says so."""
+    studs: dict = {"thickness": "38 mm", "spacing": "406 mm"}
+    if patterned is not None:
+        studs["patterned"] = patterned
+    plate = {"studs": studs}
+    return {
+        "project": {"title": "Snow on a stud-wall plate (fictional)"},
+        "materials": {"SPF": {"family": "sawn_lumber", "species": "S-P-F", "grade": "No.2"}},
+        "members": [
+            {"id": "WP", "material": "SPF", "b": "140 mm", "d": "38 mm", "length": "2.4 m", "support": "studs", **plate}
+        ],
+        "bearings": [],
+        "loads": [
+            {
+                "id": "roof",
+                "member": "WP",
+                "type": "uniform",
+                "specified": {"D": "0.3 kN/m", "L": "2 kN/m", "S": "3 kN/m"},
+            }
+        ],
+    }
+
+
+# Stud centres under the plate: 19 mm, then every 406 mm while a stud fits, and the end stud at 2381 mm.
+STUD_CENTRES = [0.019, 0.425, 0.831, 1.237, 1.643, 2.049, 2.381]
+
+
 def _case(name: str, reference: float, computed: float, note: str = "") -> Case:
     return Case("Details by hand", name, HAND, reference / 1000.0, computed / 1000.0, 1e-3, "1 N", note)
 
@@ -466,6 +554,86 @@ def pattern_cases() -> list[Case]:
     ]
 
 
+def carried_pattern_cases() -> list[Case]:
+    """Four equal 4 m spans, D 1 and L 2 kN/m: the end post passes the beam's worst pattern to the sill under it.
+
+    Three-moment equation (worked in ``three_moment_end_reaction``): end reaction 0.393 wL with every span
+    loaded, 0.446 wL with spans 1 and 3. Before, the sill took the every-span force."""
+    review = review_dict(four_span_on_sill())
+    dead = three_moment_end_reaction([True] * 4, 1.0e3, 4.0)
+    worst = three_moment_end_reaction([True, False, True, False], 2.0e3, 4.0)
+    sill = review.result("P1/S:S")
+    return [
+        _case(
+            "L through the sill under the end post of four equal spans (kN), worst pattern of B at B/P1",
+            worst,
+            review.flow.envelopes["P1/S"]["L"].high,
+            "three-moment equation: 0.446 wL with spans 1 and 3 loaded (0.393 wL with all)",
+        ),
+        _case(
+            "Qf (kN), the sill under the end post, 1.25D + 1.5L",
+            1.25 * dead + 1.5 * worst,
+            sill.governing.qf,
+            "1.25 x 0.393 x 4 kN + 1.5 x 0.446 x 8 kN",
+        ),
+    ]
+
+
+def duration_placing_cases() -> list[Case]:
+    """Three equal 4 m spans, D 4 and L 1 kN/m: at the end support every span loaded governs, through KD."""
+    import math
+
+    result = review_dict(beam_on_posts([4.0, 4.0, 4.0], live="1 kN/m", dead="4 kN/m")).result("B/C1:B")
+    row = next(c for c in result.combinations if c.combination == "1.25D+1.5L")
+    dead, live = 0.40 * 16e3, 0.40 * 4e3  # beam tables: 0.40 wL at the end support, every span
+    kd = 1.0 - 0.5 * math.log10(dead / live)
+    qr = 0.8 * 7.0e6 * (0.130 * 0.076) * kd  # 130 x 76 mm: the post's 152 mm cut at the beam end
+    return [
+        Case(
+            "Details by hand",
+            "Qf/Qr, dead-heavy end support: every span loaded governs (worst pattern 0.45 wL gives less)",
+            HAND,
+            (1.25 * dead + 1.5 * live) / qr,
+            row.utilisation,
+            1e-6,
+            "1e-6",
+            "10.40 kN / (0.8 x 7.0 MPa x 130 x 76 mm x KD 0.699); at 0.45 wL: 10.70 kN with KD 0.725",
+        )
+    ]
+
+
+def stud_plate_cases() -> list[Case]:
+    """A 2.4 m top plate on studs at 406 mm, D 0.3, L 2 and S 3 kN/m: every bay loaded, no uplift at the end stud."""
+    from tests.verification.cases import _anastruct_reactions
+
+    review = review_dict(snow_on_stud_plate())
+    dead = _anastruct_reactions(STUD_CENTRES, [], [(0.0, 2.4, 300.0)])[-1]
+    snow = _anastruct_reactions(STUD_CENTRES, [], [(0.0, 2.4, 3000.0)])[-1]
+    least = min(c.qf_low for c in review.result("WP/WP.stud7:WP").combinations)
+    source = "anastruct (PyPI), 2D frame solver, the plate continuous over its seven studs"
+    return [
+        Case(
+            "Details by hand",
+            "S through the end stud of a plate on studs (kN), every bay loaded",
+            source,
+            snow / 1000,
+            review.flow.bearing_forces["WP/WP.stud7"]["S"] / 1000,
+            1e-3,
+            "1 N",
+        ),
+        Case(
+            "Details by hand",
+            "least force through the end stud (kN): 0.9 D, downward (no uplift; patterned it lifted)",
+            source,
+            0.9 * dead / 1000,
+            least / 1000,
+            1e-3,
+            "1 N",
+            "a plate on studs is patterned only with studs: patterned: true",
+        ),
+    ]
+
+
 def slip_cases() -> list[Case]:
     """The numbers two slips of a continuous beam give, as a calc that made them would print them."""
     from audit.review.reconcile import qf_slips
@@ -502,4 +670,4 @@ def detail_cases() -> list[Case]:
         + built_up_cases()
         + hankinson_cases()
         + stud_wall_cases()
-    ) + (pattern_cases() + slip_cases())
+    ) + (pattern_cases() + carried_pattern_cases() + duration_placing_cases() + stud_plate_cases() + slip_cases())
