@@ -19,6 +19,8 @@ import yaml
 
 from tests.conftest import base_model
 
+NONE = dict.fromkeys(("new", "open", "changed", "split", "deferred", "merged", "closed", "withdrawn"), 0)
+
 
 def _claim(cid: str, location: str, member: str, qf: str, qr: str | None = None) -> dict:
     item = {"id": cid, "where": {"page": 3, "item": cid}, "location": location, "member": member, "Qf": qf}
@@ -79,8 +81,8 @@ def _run(run_cli, folder: Path, name: str, model: dict, claims: list[dict], *ext
 
 
 def _by_code(data: dict) -> dict[tuple[str, str], dict]:
-    """(code, first bearing) -> the round comment."""
-    return {(c["code"], c["keys"][0][0]): c for c in data["round_comments"]}
+    """(kind, first bearing) -> the round comment."""
+    return {(c["kind"], c["keys"][0][0]): c for c in data["round_comments"]}
 
 
 @pytest.fixture
@@ -94,13 +96,13 @@ def three_rounds(tmp_path, run_cli):
 def test_round_one_has_five_comments_all_new(three_rounds):
     _, one, _, _ = three_rounds
     assert one["round"]["number"] == 1 and one["round"]["previous"] is None
-    found = sorted((c["code"], c["keys"][0][0], c["status"]) for c in one["round_comments"])
+    found = sorted((c["kind"], c["keys"][0][0], c["status"]) for c in one["round_comments"])
     assert found == [
-        ("ABSENT", "J1/B1", "new"),
-        ("ABSENT", "J1/W1", "new"),
-        ("CAPACITY", "B1/C1", "new"),
-        ("LOAD", "J1/W1", "new"),
-        ("UNSEEN", "J1/W1", "new"),
+        ("mis-loaded", "J1/W1", "new"),
+        ("missing", "J1/B1", "new"),
+        ("missing", "J1/W1", "new"),
+        ("not-checked", "J1/W1", "new"),
+        ("resistance-differs", "B1/C1", "new"),
     ]
 
 
@@ -109,30 +111,30 @@ def test_round_two_closes_the_fixed_keeps_the_open_through_a_rename_and_adds_the
     first, second = _by_code(one), _by_code(two)
     assert two["round"]["number"] == 2 and two["round"]["previous"]["number"] == 1
     # fixed: the missing reverse check of J1 on B1 and the mis-load on W1
-    assert second[("ABSENT", "J1/B1")]["status"] == "closed"
-    assert second[("LOAD", "J1/W1")]["status"] == "closed"
-    assert "agrees with the calc" in second[("LOAD", "J1/W1")]["reason"]
+    assert second[("missing", "J1/B1")]["status"] == "closed"
+    assert second[("mis-loaded", "J1/W1")]["status"] == "closed"
+    assert "agrees with the calc" in second[("mis-loaded", "J1/W1")]["reason"]
     # still open, same numbers, through the rename of J1 to JST1
-    still = second[("ABSENT", "JST1/W1")]
-    assert still["status"] == "open" and still["number"] == first[("ABSENT", "J1/W1")]["number"]
+    still = second[("missing", "JST1/W1")]
+    assert still["status"] == "open" and still["number"] == first[("missing", "J1/W1")]["number"]
     assert [h[:2] for h in still["history"]] == [[1, "new"], [2, "open"]]
-    assert second[("CAPACITY", "B1/C1")]["status"] == "open"
-    assert second[("CAPACITY", "B1/C1")]["number"] == first[("CAPACITY", "B1/C1")]["number"]
-    assert second[("UNSEEN", "JST1/W1")]["status"] == "open"
+    assert second[("resistance-differs", "B1/C1")]["status"] == "open"
+    assert second[("resistance-differs", "B1/C1")]["number"] == first[("resistance-differs", "B1/C1")]["number"]
+    assert second[("not-checked", "JST1/W1")]["status"] == "open"
     # broken this round: a new comment, numbered after every number of round one
-    new = second[("LOAD", "B1/C2")]
+    new = second[("mis-loaded", "B1/C2")]
     assert new["status"] == "new" and new["number"] > one["round"]["last_number"]
-    assert two["round"]["counts"] == {"new": 1, "open": 3, "changed": 0, "closed": 2, "withdrawn": 0}
+    assert two["round"]["counts"] == {**NONE, "new": 1, "open": 3, "closed": 2}
 
 
 def test_round_three_closes_all_but_the_one_the_model_cannot_settle(three_rounds):
     _, _, two, three = three_rounds
     third = _by_code(three)
-    assert three["round"]["counts"] == {"new": 0, "open": 1, "changed": 0, "closed": 3, "withdrawn": 0}
-    assert third[("UNSEEN", "JST1/W1")]["status"] == "open"
-    assert [h[1] for h in third[("UNSEEN", "JST1/W1")]["history"]] == ["new", "open", "open"]
-    assert third[("LOAD", "B1/C2")]["number"] == _by_code(two)[("LOAD", "B1/C2")]["number"]
-    assert third[("LOAD", "B1/C2")]["status"] == "closed"
+    assert three["round"]["counts"] == {**NONE, "open": 1, "closed": 3}
+    assert third[("not-checked", "JST1/W1")]["status"] == "open"
+    assert [h[1] for h in third[("not-checked", "JST1/W1")]["history"]] == ["new", "open", "open"]
+    assert third[("mis-loaded", "B1/C2")]["number"] == _by_code(two)[("mis-loaded", "B1/C2")]["number"]
+    assert third[("mis-loaded", "B1/C2")]["status"] == "closed"
 
 
 def test_numbers_are_never_used_twice_across_rounds(three_rounds):
@@ -140,10 +142,10 @@ def test_numbers_are_never_used_twice_across_rounds(three_rounds):
     for data in (one, two, three):
         numbers = [c["comment"] for c in data["comments"]]
         assert len(numbers) == len(set(numbers))
-    asked = {c["number"]: c["code"] for data in (one, two, three) for c in data["round_comments"]}
+    asked = {c["number"]: c["kind"] for data in (one, two, three) for c in data["round_comments"]}
     for data in (one, two, three):
         for c in data["round_comments"]:
-            assert asked[c["number"]] == c["code"]  # a number always names the same comment
+            assert asked[c["number"]] == c["kind"]  # a number always names the same comment
 
 
 def test_a_changed_comment_is_still_wrong_but_differently(tmp_path, run_cli):
@@ -151,7 +153,7 @@ def test_a_changed_comment_is_still_wrong_but_differently(tmp_path, run_cli):
     _run(run_cli, tmp_path, "r1", model, claims)
     claims[1] = _claim("c2", "J1/W1", "W1", "5.0 kN")  # still mis-loaded, by another amount
     two = _run(run_cli, tmp_path, "r2", model, claims, "--previous", tmp_path / "r1.json")
-    changed = _by_code(two)[("LOAD", "J1/W1")]
+    changed = _by_code(two)[("mis-loaded", "J1/W1")]
     assert changed["status"] == "changed" and "numbers changed" in changed["reason"]
 
 
@@ -163,7 +165,7 @@ def test_a_comment_whose_bearing_is_gone_is_withdrawn_with_the_reason(tmp_path, 
     model["bearings"][3]["lower"]["member"] = "W2"
     claims = [c for c in claims if c["location"] != "J1/W1"]
     two = _run(run_cli, tmp_path, "r2", model, claims, "--previous", tmp_path / "r1.json")
-    gone = _by_code(two)[("ABSENT", "J1/W1")]
+    gone = _by_code(two)[("missing", "J1/W1")]
     assert gone["status"] == "withdrawn" and gone["reason"] == "bearing J1/W1 is no longer in the model"
 
 
@@ -194,16 +196,16 @@ def _fill_workbook(path: Path, answers: dict[int, str]) -> None:
 def test_designer_responses_are_read_back_and_a_response_on_an_open_comment_is_flagged(tmp_path, run_cli, log, fill):
     one = _run(run_cli, tmp_path, "r1", *_round_one())
     first = _by_code(one)
-    fixed, still = first[("LOAD", "J1/W1")]["number"], first[("CAPACITY", "B1/C1")]["number"]
+    fixed, still = first[("mis-loaded", "J1/W1")]["number"], first[("resistance-differs", "B1/C1")]["number"]
     fill(tmp_path / log, {fixed: "Load corrected to 8.5 kN.", still: "Qr per manufacturer."})
     two = _run(
         run_cli, tmp_path, "r2", *_round_two(), "--previous", tmp_path / "r1.json", "--responses", tmp_path / log
     )
     second = _by_code(two)
-    assert second[("LOAD", "J1/W1")]["response"] == "Load corrected to 8.5 kN."
-    assert second[("LOAD", "J1/W1")]["response_on_open_comment"] is False
-    assert second[("CAPACITY", "B1/C1")]["response"] == "Qr per manufacturer."
-    assert second[("CAPACITY", "B1/C1")]["response_on_open_comment"] is True
+    assert second[("mis-loaded", "J1/W1")]["response"] == "Load corrected to 8.5 kN."
+    assert second[("mis-loaded", "J1/W1")]["response_on_open_comment"] is False
+    assert second[("resistance-differs", "B1/C1")]["response"] == "Qr per manufacturer."
+    assert second[("resistance-differs", "B1/C1")]["response_on_open_comment"] is True
     memo = (tmp_path / "r2.html").read_text(encoding="utf-8")
     assert "Qr per manufacturer." in memo and "(the comment is still open)" in memo
     assert "Review round 2" in memo

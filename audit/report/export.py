@@ -99,7 +99,7 @@ def review_record(review: Review) -> dict[str, Any]:
             {"bearing": e.bearing, "member": e.member, "reason": e.reason} for e in review.checklist.exempt
         ],
         "engine_findings": [
-            {"code": f.code, "kind": f.kind, "severity": f.severity, "message": f.message, "bearing": f.bearing}
+            {"kind": f.kind, "weight": f.severity, "message": f.message, "bearing": f.bearing}
             for f in review.engine_findings
         ],
     }
