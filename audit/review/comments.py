@@ -173,7 +173,8 @@ def _lead(fs: list[Finding]) -> Finding:
 
 
 def _worst(checks: list[RequiredCheck], review: Review) -> RequiredCheck:
-    return max(checks, key=lambda c: (review.result(c.id).governing.utilisation, c.id))
+    """The check with the highest Qf/Qr (of equals, the first by id)."""
+    return max(sorted(checks, key=lambda c: c.id), key=lambda c: review.result(c.id).governing.utilisation)
 
 
 def _ratio(check: RequiredCheck, review: Review) -> float:

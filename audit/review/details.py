@@ -8,6 +8,8 @@ come from what the model states, whether a layout placed it or it was typed in:
 - a *stud* is a vertical member in a row of three or more of one section, at most
   ``STUD_SPACING`` apart, under one horizontal member: that member is a *wall plate*, and a
   horizontal member the studs stand on is a *sole plate*;
+- a horizontal member continuously supported is a *sill* where it bears on concrete or masonry, else
+  a *plate* (on a wall the model does not show);
 - a *joist* is a horizontal member that shares its section and its supports with at least two
   others (a run of joists);
 - every other vertical member is a *post*, every other horizontal one a *beam*.
@@ -30,6 +32,8 @@ PLURAL = {
     "sole plate": "sole plates",
     "joist": "joists",
     "beam": "beams",
+    "sill": "sills",
+    "plate": "plates",
 }
 FAMILY_WORDS = {"sawn_lumber": "lumber", "engineered": "engineered"}  # the rest read as they are named
 
@@ -93,6 +97,9 @@ def member_roles(model: Model) -> dict[str, str]:
             roles[m.id] = "wall plate"
         elif m.id in soles:
             roles[m.id] = "sole plate"
+        elif m.continuous:
+            under = model.materials.get(m.bears_on)
+            roles[m.id] = "sill" if under is not None and under.family in ("concrete", "masonry") else "plate"
         else:
             roles[m.id] = "joist" if m.id in joists else "beam"
     return roles
