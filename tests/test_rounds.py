@@ -261,3 +261,161 @@ def test_a_comment_log_without_the_response_column_is_refused_with_its_name(tmp_
         "review", tmp_path / "r1-model.yaml", "--previous", tmp_path / "r1.json", "--responses", tmp_path / "log.csv"
     )
     assert result.exit_code == 2 and "no column 'designer_response'" in result.output
+
+
+# ---------------------------------------------------------------- the reviewer's dispositions
+
+
+def _fill_log(path: Path, answers: dict[int, tuple[str, str, str, str]]) -> None:
+    """answers: comment -> (designer's response, disposition, reviewer's reply, deferred to), written into the CSV."""
+    rows = list(csv.DictReader(io.StringIO(path.read_text(encoding="utf-8"))))
+    for row in rows:
+        given = answers.get(int(row["comment"]), ("", "", "", ""))
+        row["designer_response"], row["disposition"], row["reviewer_reply"], row["deferred_to"] = given
+    buffer = io.StringIO()
+    writer = csv.DictWriter(buffer, fieldnames=list(rows[0]))
+    writer.writeheader()
+    writer.writerows(rows)
+    path.write_text(buffer.getvalue(), encoding="utf-8")
+
+
+@pytest.fixture
+def disposed_rounds(tmp_path, run_cli):
+    """Round 1, then the designer answers and the reviewer disposes: the resistance on B1/C1 is accepted, the
+    missing check of J1 on W1 is not, and the plate's unseen support is deferred to the framing inspection."""
+    one = _run(run_cli, tmp_path, "r1", *_round_one())
+    first = _by_code(one)
+    accepted = first[("resistance-differs", "B1/C1")]["number"]
+    refused = first[("missing", "J1/W1")]["number"]
+    deferred = first[("not-checked", "J1/W1")]["number"]
+    _fill_log(
+        tmp_path / "r1.csv",
+        {
+            accepted: ("Qr from the cap plate's test report, attached.", "accepted", "", ""),
+            refused: ("The joist end is fine by inspection.", "not accepted", "Give the check: 8.5 kN on 38 mm.", ""),
+            deferred: ("The wall below is on sheet S-3.", "deferred", "", "framing inspection"),
+        },
+    )
+    log = tmp_path / "r1.csv"
+    two = _run(run_cli, tmp_path, "r2", *_round_two(), "--previous", tmp_path / "r1.json", "--responses", log)
+    three = _run(run_cli, tmp_path, "r3", *_round_two(), "--previous", tmp_path / "r2.json")
+    return tmp_path, (accepted, refused, deferred), two, three
+
+
+def test_an_accepted_response_closes_its_comment_and_it_stays_closed(disposed_rounds):
+    tmp_path, (accepted, _, _), two, three = disposed_rounds
+    second = {c["number"]: c for c in two["round_comments"]}
+    assert second[accepted]["status"] == "closed" and second[accepted]["closed_by_response"] is True
+    assert second[accepted]["disposition"]["word"] == "accepted"
+    assert "closed by response" in second[accepted]["reason"]
+    assert accepted not in {int(r["comment"]) for r in csv.DictReader(io.StringIO((tmp_path / "r2.csv").read_text()))}
+    memo = (tmp_path / "r2.html").read_text(encoding="utf-8")
+    assert "closed by response" in memo
+    # round 3 has the same calc: the comment stays closed, and is not raised again as new
+    third = {c["number"]: c for c in three["round_comments"]}
+    assert third[accepted]["status"] == "closed" and third[accepted]["closed_by_response"] is True
+    assert not [c for c in three["round_comments"] if c["status"] == "new"]
+
+
+def test_a_response_not_accepted_stays_open_with_the_reviewers_reply(disposed_rounds):
+    _, (_, refused, _), two, _ = disposed_rounds
+    second = {c["number"]: c for c in two["round_comments"]}
+    assert second[refused]["status"] == "open" and second[refused]["response_on_open_comment"] is True
+    assert second[refused]["disposition"] == {
+        "word": "not accepted",
+        "reply": "Give the check: 8.5 kN on 38 mm.",
+        "deferred_to": "",
+    }
+    assert "Give the check: 8.5 kN on 38 mm." in second[refused]["reason"]
+
+
+def test_a_deferred_comment_is_carried_to_the_stage_named(disposed_rounds):
+    _, (_, _, deferred), two, three = disposed_rounds
+    second = {c["number"]: c for c in two["round_comments"]}
+    third = {c["number"]: c for c in three["round_comments"]}
+    for data in (second, third):
+        assert data[deferred]["status"] == "deferred" and data[deferred]["deferred_to"] == "framing inspection"
+    assert two["round"]["counts"]["deferred"] == 1 and three["round"]["counts"]["deferred"] == 1
+
+
+def test_dispositions_from_a_yaml_file(tmp_path, run_cli):
+    one = _run(run_cli, tmp_path, "r1", *_round_one())
+    number = _by_code(one)[("resistance-differs", "B1/C1")]["number"]
+    given = tmp_path / "dispositions.yaml"
+    given.write_text(f"dispositions:\n  - {{comment: {number}, disposition: accepted}}\n", encoding="utf-8")
+    two = _run(run_cli, tmp_path, "r2", *_round_two(), "--previous", tmp_path / "r1.json", "--dispositions", given)
+    assert {c["number"]: c["status"] for c in two["round_comments"]}[number] == "closed"
+
+
+@pytest.mark.parametrize(
+    ("entry", "words"),
+    [
+        ("{comment: NUMBER, disposition: acepted}", "not one of accepted, not accepted, deferred (did you mean"),
+        ("{comment: 999, disposition: accepted}", "comment 999 is not a comment of round 1"),
+        ("{comment: NUMBER, disposition: not accepted}", "give the reviewer's reply"),
+        ("{comment: NUMBER, disposition: deferred}", "name the stage it is deferred to"),
+    ],
+)
+def test_a_bad_disposition_gives_one_located_line_and_exit_2(tmp_path, run_cli, entry, words):
+    one = _run(run_cli, tmp_path, "r1", *_round_one())
+    number = _by_code(one)[("resistance-differs", "B1/C1")]["number"]
+    given = tmp_path / "dispositions.yaml"
+    given.write_text("dispositions:\n  - " + entry.replace("NUMBER", str(number)) + "\n", encoding="utf-8")
+    model, claims = _round_two()
+    (tmp_path / "m.yaml").write_text(yaml.safe_dump(model), encoding="utf-8")
+    (tmp_path / "c.yaml").write_text(yaml.safe_dump({"claims": claims}), encoding="utf-8")
+    result = run_cli(
+        "review", tmp_path / "m.yaml", "--claims", tmp_path / "c.yaml", "--previous", tmp_path / "r1.json",
+        "--dispositions", given,
+    )  # fmt: skip
+    assert result.exit_code == 2, result.output
+    errors = [line for line in result.output.splitlines() if line.startswith("error:")]
+    assert len(errors) == 1 and words in errors[0] and f"{given}:2:" in errors[0]
+    assert "Traceback" not in result.output
+
+
+def test_a_bad_disposition_in_the_comment_log_names_its_row_and_column(tmp_path, run_cli):
+    one = _run(run_cli, tmp_path, "r1", *_round_one())
+    number = _by_code(one)[("resistance-differs", "B1/C1")]["number"]
+    _fill_log(tmp_path / "r1.csv", {number: ("Done.", "approved", "", "")})
+    rows = (tmp_path / "r1.csv").read_text(encoding="utf-8").splitlines()
+    line = next(i for i, row in enumerate(rows, start=1) if ",approved," in row)
+    column = rows[0].split(",").index("disposition") + 1
+    model, claims = _round_two()
+    (tmp_path / "m.yaml").write_text(yaml.safe_dump(model), encoding="utf-8")
+    result = run_cli(
+        "review", tmp_path / "m.yaml", "--previous", tmp_path / "r1.json", "--responses", tmp_path / "r1.csv"
+    )
+    assert result.exit_code == 2
+    assert f"r1.csv:{line}:{column}: disposition: disposition 'approved' of comment {number}" in result.output
+
+
+# ---------------------------------------------------------------- groups that split and merge
+
+
+def _joists(own_from: float | None = None, heavier: bool = False) -> tuple[dict, list[dict]]:
+    from tests.test_triage import joists_on_a_wall
+
+    model = joists_on_a_wall(own_from=own_from)
+    if heavier:  # J4's floor load up by a fifth: Qf/Qr of TP under it 0.30 x 1.2 = 0.36
+        j4 = next(load for load in model["loads"] if load["member"] == "J4")
+        j4["specified"] = {"D": "1.2 kN/m", "L": "2.4 kN/m"}
+    return model, []
+
+
+def test_a_group_that_splits_and_merges_back_is_reported_as_such(tmp_path, run_cli):
+    one = _run(run_cli, tmp_path, "r1", *_joists())
+    group = next(c for c in one["comments"] if c["title"].startswith("Lumber joists on lumber wall plates: the check"))
+    # round 2: J4 heavier and the project's own-comment threshold at 0.35: TP under J4 stands alone
+    two = _run(run_cli, tmp_path, "r2", *_joists(0.35, heavier=True), "--previous", tmp_path / "r1.json")
+    second = {c["number"]: c for c in two["round_comments"]}
+    split = [c for c in two["round_comments"] if c["status"] == "split" and ["J4/TP", "TP", "local", ""] in c["keys"]]
+    assert len(split) == 1 and f"split from #{group['comment']}" in split[0]["reason"]
+    assert second[group["comment"]]["status"] == "changed"
+    assert f"part of it split into #{split[0]['number']}" in second[group["comment"]]["reason"]
+    # round 3: back as in round 1: the split comment is merged into the group again
+    three = _run(run_cli, tmp_path, "r3", *_joists(), "--previous", tmp_path / "r2.json")
+    third = {c["number"]: c for c in three["round_comments"]}
+    assert third[split[0]["number"]]["status"] == "merged"
+    assert third[split[0]["number"]]["reason"] == f"merged into #{group['comment']}"
+    assert third[group["comment"]]["status"] in ("open", "changed")
