@@ -326,7 +326,7 @@ def test_a_response_not_accepted_stays_open_with_the_reviewers_reply(disposed_ro
         "reply": "Give the check: 8.5 kN on 38 mm.",
         "deferred_to": "",
     }
-    assert "Give the check: 8.5 kN on 38 mm." in second[refused]["reason"]
+    assert "response not accepted: Give the check: 8.5 kN on 38 mm" in second[refused]["reason"]
 
 
 def test_a_deferred_comment_is_carried_to_the_stage_named(disposed_rounds):
@@ -381,7 +381,7 @@ def test_a_bad_disposition_in_the_comment_log_names_its_row_and_column(tmp_path,
     rows = (tmp_path / "r1.csv").read_text(encoding="utf-8").splitlines()
     line = next(i for i, row in enumerate(rows, start=1) if ",approved," in row)
     column = rows[0].split(",").index("disposition") + 1
-    model, claims = _round_two()
+    model, _ = _round_two()
     (tmp_path / "m.yaml").write_text(yaml.safe_dump(model), encoding="utf-8")
     result = run_cli(
         "review", tmp_path / "m.yaml", "--previous", tmp_path / "r1.json", "--responses", tmp_path / "r1.csv"

@@ -255,19 +255,13 @@ def _draft(key: tuple, members, review: Review, units, claim_of, roles) -> tuple
     places = [_place(fs, review, units) for _, fs in members]
     clause = next((f.clause for f in fs_all if f.clause), "")
     ask = ""
-    if tier == "detail":
-        detail = key[2]
+    if tier == "detail" and len(checks) > 1:
         where = _where(next(p for p in places if p.check_id == worst.id))
-        ratio = _ratio(worst, review)
-        if len(checks) == 1:
-            title = f"{detail.words()}: missing from the calc at {where}, which recomputes at Qf/Qr {ratio:.2f}"
-            ask = f"Provide the check at {where}."
-        else:
-            title = (
-                f"{detail.words()}: missing from the calc at {len(checks)} places; the worst, {where}, recomputes at "
-                f"Qf/Qr {ratio:.2f}"
-            )
-            ask = f"Provide one typical check of this detail at the worst place, {where}, or a check at each place."
+        title = (
+            f"{key[2].words()}: missing from the calc at {len(checks)} places; the worst, {where}, recomputes at "
+            f"Qf/Qr {_ratio(worst, review):.2f}"
+        )
+        ask = f"Provide one typical check of this detail at the worst place, {where}, or a check at each place."
     elif tier == "claim":
         claim = claim_of.get(key[1])
         title, ask = _claim_title(key[1], claim, members, places, review, roles)
@@ -279,8 +273,9 @@ def _draft(key: tuple, members, review: Review, units, claim_of, roles) -> tuple
             title = f"{_where(places[0])} \u2014 {text}"
         else:
             title = _title(lead.kind, what, places)
-        if tier == "own" and lead.kind == "missing":
+        if lead.kind == "missing" and review.result(worst.id).passes:
             title += f" (recomputes at Qf/Qr {_ratio(worst, review):.2f})"
+            ask = f"Provide the check at {_where(places[0])}."
     comment = Comment(0, lead.kind, lead.severity, title, tuple(places), clause, ask)
     order = (lead.kind in QUIET, severity_rank(lead.severity), TIER[tier], -_ratio(worst, review), checks[0].id)
     return order, comment

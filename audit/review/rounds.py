@@ -358,7 +358,7 @@ def _standing(
     elif disposition is None and earlier.status == "deferred" and same:
         status, deferred_to, reason = "deferred", earlier.deferred_to, f"deferred to {earlier.deferred_to}"
     elif disposition is not None:  # not accepted: open, with the reviewer's reply
-        reason = "; ".join(x for x in (reason, f"response not accepted: {disposition.reply}") if x)
+        reason = "; ".join(x for x in (reason, f"response not accepted: {disposition.reply.rstrip('.')}") if x)
     history = (*earlier.history, Step(number, status, c.kind, summary))
     return Tracked(
         n, status, c.kind, c.weight, c.title, keys, numbers, history, reason, response,
