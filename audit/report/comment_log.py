@@ -160,8 +160,8 @@ def comments_xlsx(
         points = "\n".join(dict.fromkeys(point for p in c.places for point in p.points))
         t = standing.get(c.number)
         status, response = (t.status, t.response) if t is not None else ("", "")
-        row = (c.number, c.weight, c.kind, _asked(c), _place_lines(c), points, c.clause, pages, status, response)
-        row += ("", "", "", "")
+        row = [c.number, c.weight, c.kind, _asked(c), _place_lines(c), points, c.clause, pages, status, response]
+        row += ["", "", "", ""]  # the designer's response and the reviewer's disposition, reply and stage
         sheet.append([_cell(v) for v in row])
     widths = [6, 10, 16, 50, 50, 80, 16, 22, 10, 40, 40, 14, 40, 20]
     _shape(sheet, widths, Alignment, Font)

@@ -98,8 +98,8 @@ def member_roles(model: Model) -> dict[str, str]:
         elif m.id in soles:
             roles[m.id] = "sole plate"
         elif m.continuous:
-            under = model.materials.get(m.bears_on)
-            roles[m.id] = "sill" if under is not None and under.family in ("concrete", "masonry") else "plate"
+            below = model.materials.get(m.bears_on)
+            roles[m.id] = "sill" if below is not None and below.family in ("concrete", "masonry") else "plate"
         else:
             roles[m.id] = "joist" if m.id in joists else "beam"
     return roles
