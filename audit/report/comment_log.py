@@ -101,6 +101,7 @@ def comment_records(comments: tuple[Comment, ...]) -> list[dict[str, Any]]:
             "ask": c.ask,
             "clause": c.clause,
             "places": [dict(zip(COLUMNS[4:16], row[4:16], strict=True)) for row in comment_rows((c,))],
+            "closed_by_response": c.closed,
             "designer_response": "",
         }
         for c in comments
