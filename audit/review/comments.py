@@ -231,7 +231,9 @@ def _group_key(check: RequiredCheck, fs: list[Finding], review, typical, thresho
     claim_id = next((f.claim_id for f in fs if f.claim_id), "")
     if fails:
         return ("own", lead.kind, lead.severity, check.id)
-    if lead.kind in QUIET:  # for the record: alike ones together, as the calc's typical claim or by member
+    if lead.kind in ("covered", "confirmed") and claim_id in typical:  # for the record: one typical claim's places
+        return ("alike", "covered", lead.severity, claim_id)
+    if lead.kind in QUIET:  # for the record: alike ones together, by member
         anchor = check.member if check.kind == NEAR or check.face == "top" else check.other_member
         return ("alike", lead.kind, lead.severity, tuple(sorted(kinds)), check.kind, check.face, anchor)
     if claim_id and claim_id in typical:
@@ -262,6 +264,18 @@ def _draft(key: tuple, members, review: Review, units, claim_of, roles) -> tuple
             f"Qf/Qr {_ratio(worst, review):.2f}"
         )
         ask = f"Provide one typical check of this detail at the worst place, {where}, or a check at each place."
+    elif tier == "alike" and key[1] == "covered":
+        claim = claim_of.get(key[3])
+        said = f"'{claim.label}' ({claim.where.cite()})" if claim is not None else key[3]
+        detail = detail_of(checks[0], review.model, roles).words().split(": ", 1)[1]
+        agrees = [p for p, (_, fs) in zip(places, members, strict=True) if any(f.kind == "confirmed" for f in fs)]
+        covered = [p for p in places if p not in agrees]
+        parts = [f"agrees with the calc at its governing place, {_where(p)}" for p in agrees]
+        if covered:
+            n = len(covered)
+            spots = ", ".join(_where(p) for p in covered)
+            parts.append(f"covers {n} {'other ' if agrees else ''}place{'s' if n > 1 else ''}: {spots}")
+        title = f"Typical claim {said}, {detail}: " + "; ".join(parts)
     elif tier == "claim":
         claim = claim_of.get(key[1])
         title, ask = _claim_title(key[1], claim, members, places, review, roles)
