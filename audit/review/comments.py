@@ -279,6 +279,7 @@ def _draft(key: tuple, members, review: Review, units, claim_of, roles) -> tuple
     elif tier == "claim":
         claim = claim_of.get(key[1])
         title, ask = _claim_title(key[1], claim, members, places, review, roles)
+        places = [_as_claimed(p, claim) for p in places]
     else:
         what = _group_words(checks)
         what = what[:1].upper() + what[1:]
@@ -293,6 +294,20 @@ def _draft(key: tuple, members, review: Review, units, claim_of, roles) -> tuple
     comment = Comment(0, lead.kind, lead.severity, title, tuple(places), clause, ask)
     order = (lead.kind in QUIET, severity_rank(lead.severity), TIER[tier], -_ratio(worst, review), checks[0].id)
     return order, comment
+
+
+def _as_claimed(place: Place, claim: Claim | None) -> Place:
+    """A place a typical claim stands for, its numbers compared with the claim's own."""
+    if claim is None:
+        return place
+    said = {"Qf": claim.qf, "Qr": claim.claimed_qr}
+    compared = tuple(
+        replace(n, claimed=Display(n.unit).value(said[n.quantity]))  # type: ignore[arg-type]
+        if n.claimed is None and n.unit and said.get(n.quantity) is not None
+        else n
+        for n in place.compared
+    )
+    return replace(place, compared=compared)
 
 
 def _claim_title(claim_id: str, claim: Claim | None, members, places, review: Review, roles) -> tuple[str, str]:
