@@ -175,7 +175,7 @@ def test_the_layout_demo_asks_at_most_thirty_comments_and_names_each_failing_or_
     failing = {c for c, ok in ((c["id"], c["passes"]) for c in data["checks"]) if not ok}
     assert failing and unconservative
     for check in failing:  # a comment of its own: that check alone
-        assert any([p["check"] for p in c["places"]] == [check] for c in asking), check
+        assert any({p["check"] for p in c["places"]} == {check} for c in asking), check  # a row per number
     for check in unconservative:  # named in the title of a comment that is no completeness group
         bearing = check.split(":")[0]
         holders = [c for c in asking if check in {p["check"] for p in c["places"]}]
@@ -196,3 +196,44 @@ def test_the_layout_demo_accounts_for_every_check_and_claim_exactly_once(layout_
     assert sorted(o["check"] for o in data["check_outcomes"]) == sorted(c["id"] for c in data["checks"])
     claims = [o["claim"] for o in data["claim_outcomes"]]
     assert len(claims) == len(set(claims)) == 20  # the demo's claims file has 20 claims
+
+
+def _firm_pack(tmp_path, value: str):
+    """A firm's copy of the O86 pack with its own review.own_comment_from, in a folder of its own."""
+    from audit.standards.packs import builtin_rules_dir
+
+    text = (builtin_rules_dir() / "o86-2019-recalled.yaml").read_text(encoding="utf-8")
+    text = text.replace("id: o86-2019-recalled", "id: firm-triage")
+    text = text.replace("own_comment_from: {value: 0.9,", f"own_comment_from: {{value: {value},")
+    folder = tmp_path / "rules"
+    folder.mkdir()
+    (folder / "firm.yaml").write_text(text, encoding="utf-8")
+    return folder
+
+
+def test_a_firms_pack_sets_the_own_comment_threshold_with_its_provenance(tmp_path, write_model, run_cli):
+    rules = _firm_pack(tmp_path, "0.85")
+    model = joists_on_a_wall({"J4": ("9 kN", "14 kN")})  # TP under J4 at 0.87 (hand value above)
+    model["project"]["rule_pack"] = "firm-triage"
+    out = tmp_path / "out.json"
+    result = run_cli(
+        "review", write_model(model), "--rules-dir", rules, "--claims", _no_claims(tmp_path), "--json", out
+    )
+    assert result.exit_code == 1, result.output
+    data = json.loads(out.read_text(encoding="utf-8"))
+    assert data["triage"]["own_comment_from"] == 0.85 and "rule pack firm-triage" in data["triage"]["whose"]
+    assert any({p["check"] for p in c["places"]} == {"J4/TP:TP"} for c in data["comments"])
+
+
+def test_a_bad_own_comment_threshold_in_a_pack_is_refused_with_its_line(tmp_path, write_model, run_cli):
+    rules = _firm_pack(tmp_path, "2")
+    model = joists_on_a_wall()
+    model["project"]["rule_pack"] = "firm-triage"
+    result = run_cli("review", write_model(model), "--rules-dir", rules)
+    assert result.exit_code == 2 and "firm.yaml:" in result.output and "expected a Qf/Qr from 0 to 1" in result.output
+
+
+def _no_claims(tmp_path):
+    path = tmp_path / "claims.yaml"
+    path.write_text("claims: []\n", encoding="utf-8")
+    return path

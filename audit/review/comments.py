@@ -33,7 +33,6 @@ from audit.review.review import Review
 from audit.standards.checks import NEAR, RequiredCheck
 
 QUIET = {"covered", "confirmed", "calc-force"}  # listed for the record, after every comment that asks for something
-OWN_COMMENT_FROM = 0.9  # Qf/Qr: a missing check this close to its resistance gets its own comment (common practice)
 BY_MEMBER = {"uplift", "force-differs", "calc-force"}  # notes without a check: one comment per member and kind
 
 
@@ -161,11 +160,14 @@ def _title(kind: str, what: str, places: list[Place]) -> str:
 
 
 def own_comment_threshold(review: Review) -> tuple[float, str]:
-    """(Qf/Qr, whose) from which a missing check gets a comment of its own."""
+    """(Qf/Qr, whose, with its provenance) from which a missing check gets a comment of its own: the project's,
+    else the rule pack's review.own_comment_from (bearing-audit's default where the pack states none)."""
     given = review.model.project.own_comment_from
     if given is not None:
         return given, "the project's own_comment_from"
-    return OWN_COMMENT_FROM, "bearing-audit's default own_comment_from (common practice)"
+    stated = review.pack.own_comment_from
+    whose = f"review.own_comment_from of rule pack {review.pack.id}: {stated.source} ({stated.status})"
+    return float(stated.value), whose
 
 
 def _lead(fs: list[Finding]) -> Finding:
