@@ -223,16 +223,21 @@ def _pairs(
 ) -> tuple[dict[int, Earlier], dict[int, list[Earlier]]]:
     """Each comment of this round with the earlier one it continues (the most places shared, then the lowest
     number; each earlier comment continued once), and every earlier comment each one shares a place with."""
+    by_number = {e.number: e for e in carried}
+    holders: dict[Key, list[int]] = {}  # place -> the earlier comments that held it
+    for e in carried:
+        for key in mapped[e.number]:
+            holders.setdefault(key, []).append(e.number)
     shared: list[tuple[int, int, int]] = []  # (-places shared, earlier number, comment index)
     touching: dict[int, list[Earlier]] = {}
     for i, c in enumerate(comments):
-        keys = set(comment_keys(c))
-        for e in carried:
-            n = len(keys & mapped[e.number])
-            if n:
-                shared.append((-n, e.number, i))
-                touching.setdefault(i, []).append(e)
-    by_number = {e.number: e for e in carried}
+        counts: dict[int, int] = {}
+        for key in set(comment_keys(c)):
+            for number in holders.get(key, ()):
+                counts[number] = counts.get(number, 0) + 1
+        for number, n in sorted(counts.items()):
+            shared.append((-n, number, i))
+            touching.setdefault(i, []).append(by_number[number])
     continues: dict[int, Earlier] = {}
     taken: set[int] = set()
     for _, number, i in sorted(shared):
@@ -302,8 +307,10 @@ def next_round(
         if t.by_response:
             closed_now.add(id(c))
         tracked.append(t)
+    continued = {t.number for t in tracked}
+    quiet_at = _quiet_at(comments)
     for e in carried:
-        if any(t.number == e.number for t in tracked):
+        if e.number in continued:
             continue
         if e.status == "closed":
             continue  # closed by a response in an earlier round, and nothing asks there now
@@ -311,7 +318,7 @@ def next_round(
         if into:
             status, reason = "merged", "merged into " + ", ".join(f"#{x}" for x in into)
         else:
-            status, reason = _ended(renamed[e.number], _quiet_at(comments))
+            status, reason = _ended(renamed[e.number], quiet_at)
         tracked.append(
             Tracked(
                 e.number, status, e.kind, e.weight, e.title, e.keys, e.numbers,
