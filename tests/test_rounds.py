@@ -419,3 +419,24 @@ def test_a_group_that_splits_and_merges_back_is_reported_as_such(tmp_path, run_c
     assert third[split[0]["number"]]["status"] == "merged"
     assert third[split[0]["number"]]["reason"] == f"merged into #{group['comment']}"
     assert third[group["comment"]]["status"] in ("open", "changed")
+
+
+def test_dispositions_are_read_from_the_workbook_too(tmp_path, run_cli):
+    from openpyxl import load_workbook
+
+    one = _run(run_cli, tmp_path, "r1", *_round_one())
+    number = _by_code(one)[("not-checked", "J1/W1")]["number"]
+    book = load_workbook(tmp_path / "r1.xlsx")
+    sheet = book["Comments"]
+    head = [c.value for c in sheet[1]]
+    for row in range(2, sheet.max_row + 1):
+        if sheet.cell(row, head.index("No.") + 1).value == number:
+            sheet.cell(row, head.index("Designer's response") + 1).value = "Wall below on sheet S-3."
+            sheet.cell(row, head.index("Disposition") + 1).value = "Deferred"
+            sheet.cell(row, head.index("Deferred to") + 1).value = "construction review"
+    book.save(tmp_path / "r1.xlsx")
+    log = tmp_path / "r1.xlsx"
+    two = _run(run_cli, tmp_path, "r2", *_round_two(), "--previous", tmp_path / "r1.json", "--responses", log)
+    second = {c["number"]: c for c in two["round_comments"]}
+    assert second[number]["status"] == "deferred" and second[number]["deferred_to"] == "construction review"
+    assert second[number]["response"] == "Wall below on sheet S-3."
