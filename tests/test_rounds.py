@@ -440,3 +440,13 @@ def test_dispositions_are_read_from_the_workbook_too(tmp_path, run_cli):
     second = {c["number"]: c for c in two["round_comments"]}
     assert second[number]["status"] == "deferred" and second[number]["deferred_to"] == "construction review"
     assert second[number]["response"] == "Wall below on sheet S-3."
+
+
+def test_a_comment_closed_by_response_reopens_when_it_changes(disposed_rounds, run_cli):
+    tmp_path, (accepted, _, _), _, _ = disposed_rounds
+    model, claims = _round_two()
+    claims[2] = _claim("c3", "B1/C1", "B1", "4.25 kN", "900 kN")  # the calc's resistance changed again
+    four = _run(run_cli, tmp_path, "r4", model, claims, "--previous", tmp_path / "r3.json")
+    fourth = {c["number"]: c for c in four["round_comments"]}
+    assert fourth[accepted]["status"] == "changed" and fourth[accepted]["closed_by_response"] is False
+    assert fourth[accepted]["reason"].startswith("reopened: changed since its response was accepted")

@@ -364,6 +364,8 @@ def _standing(
         status, by_response, reason = "closed", True, "closed by response in an earlier round; unchanged since"
     elif disposition is None and earlier.status == "deferred" and same:
         status, deferred_to, reason = "deferred", earlier.deferred_to, f"deferred to {earlier.deferred_to}"
+    elif disposition is None and earlier.by_response:
+        reason = f"reopened: changed since its response was accepted ({reason})"
     elif disposition is not None:  # not accepted: open, with the reviewer's reply
         reason = "; ".join(x for x in (reason, f"response not accepted: {disposition.reply.rstrip('.')}") if x)
     history = (*earlier.history, Step(number, status, c.kind, summary))
