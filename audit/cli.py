@@ -89,7 +89,14 @@ def review(
         None,
         "--responses",
         metavar="LOG",
-        help="With --previous: the last round's comment log (CSV or workbook) with the designer's responses.",
+        help="With --previous: the last round's comment log (CSV or workbook) with the designer's responses "
+        "(and the reviewer's dispositions, where its disposition column is filled in).",
+    ),
+    dispositions: Path | None = typer.Option(
+        None,
+        "--dispositions",
+        metavar="FILE",
+        help="With --previous: the reviewer's dispositions of the designer's responses (YAML).",
     ),
     rules_dir: list[Path] | None = RulesDir,
     rule_pack: str | None = RulePack,
@@ -105,11 +112,20 @@ def review(
     from audit.review.comments import build_comments
     from audit.review.reconcile import reconcile
     from audit.review.review import review_model
-    from audit.review.rounds import first_round, input_hashes, next_round, read_last_round, read_responses
+    from audit.review.rounds import (
+        check_dispositions,
+        first_round,
+        input_hashes,
+        next_round,
+        read_dispositions,
+        read_last_round,
+        read_log,
+    )
 
-    if responses and not previous:
-        typer.echo("error: --responses: give the last round's JSON with --previous too", err=True)
-        raise typer.Exit(2)
+    for option, given in (("--responses", responses), ("--dispositions", dispositions)):
+        if given and not previous:
+            typer.echo(f"error: {option}: give the last round's JSON with --previous too", err=True)
+            raise typer.Exit(2)
     try:
         memo_date = dt.date.fromisoformat(date) if date else None
     except ValueError:
@@ -124,6 +140,7 @@ def review(
                 "--map": column_map,
                 "--previous": previous,
                 "--responses": responses,
+                "--dispositions": dispositions,
             },
             {"--memo": memo, "--json": json_out, "--csv": csv_out, "--xlsx": xlsx_out},
         )
@@ -144,8 +161,17 @@ def review(
     try:
         if previous:
             last = read_last_round(previous, title)
-            answers = read_responses(responses) if responses else {}
-            comments, round_ = next_round(comments, last, result.model, inputs, answers)
+            answers = read_log(responses) if responses else None
+            disposed = dict(answers.dispositions) if answers else {}
+            if dispositions:
+                for number, d in read_dispositions(dispositions).items():
+                    if number in disposed and disposed[number] != d:
+                        raise InputError(f"comment {number} has another disposition at {disposed[number].loc}", d.loc)
+                    disposed[number] = d
+            check_dispositions(disposed, last)
+            comments, round_ = next_round(
+                comments, last, result.model, inputs, answers.responses if answers else {}, disposed
+            )
         else:
             round_ = first_round(comments, title, inputs)
     except InputError as exc:
@@ -153,7 +179,7 @@ def review(
     typer.echo(check_table(result))
     for comment in comments:
         if not comment.quiet:
-            typer.echo(f"{comment.number:>3}. [{comment.weight_word}] {comment.code}: {comment.title}")
+            typer.echo(f"{comment.number:>3}. [{comment.weight}] {comment.kind}: {comment.title}")
     typer.echo(summary_line(result))
     if rec is not None:
         counts = rec.counts()
@@ -186,7 +212,7 @@ def review(
         _fail(exc)
     for out in outputs:
         typer.echo(f"wrote {out.path}")
-    serious = any(f.severity in ("critical", "major") for f in findings)
+    serious = any(f.severity in ("safety", "revise") for f in findings)
     failing = any(not r.passes for r in result.results)
     raise typer.Exit(1 if serious or failing else 0)
 

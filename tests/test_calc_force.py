@@ -35,7 +35,7 @@ def test_a_calc_force_far_from_the_models_loads_is_a_comment_and_a_near_one_only
     # the model's loads give J1/B1 about D 2.0 kN, L 4.0 kN (w L / 2 with the supports 3.87 m apart)
     far = review_dict(_with_force({"D": "1.2 kN", "L": "4 kN"}))
     kinds = {(f.kind, f.severity) for f in far.engine_findings if f.bearing == "J1/B1"}
-    assert ("force-differs", "major") in kinds and ("calc-force", "info") in kinds
+    assert ("force-differs", "revise") in kinds and ("calc-force", "record") in kinds
     message = next(f.message for f in far.engine_findings if f.kind == "force-differs")
     assert "D by " in message
     near = review_dict(_with_force({"D": "2.0 kN", "L": "4.0 kN"}))
@@ -45,7 +45,7 @@ def test_a_calc_force_far_from_the_models_loads_is_a_comment_and_a_near_one_only
 def test_a_calc_force_higher_than_the_models_loads_is_a_minor_comment():
     review = review_dict(_with_force({"D": "3.5 kN", "L": "4 kN"}))
     found = [f for f in review.engine_findings if f.kind == "force-differs"]
-    assert [f.severity for f in found] == ["minor"]
+    assert [f.severity for f in found] == ["clarify"]
 
 
 def test_a_run_states_the_calcs_force_at_the_bearings_on_one_span_line():

@@ -86,10 +86,10 @@ def test_comment_log_csv_has_a_row_per_number_compared_and_neutralises_formulas(
     data = json.loads((tmp_path / "demo-findings.json").read_text())
     asking = [c for c in data["comments"] if c["weight"] != "record"]  # the record ones stay in the JSON
     assert len(rows) == sum(len(c["places"]) for c in asking) > 0
-    assert {r["code"] for r in rows} >= {"CRUSH", "ABSENT", "LOAD", "CAPACITY", "ORPHAN"}
+    assert {r["kind"] for r in rows} >= {"failing", "missing", "mis-loaded", "resistance-differs", "unmatched-claim"}
     assert all(r["designer_response"] == "" for r in rows)
     assert not any(v.startswith(("=", "+", "@")) for r in rows for v in r.values())
-    claimed = [r for r in rows if r["code"] == "LOAD"]
+    claimed = [r for r in rows if r["kind"] == "mis-loaded"]
     assert claimed and all(r["claim"] and r["calc_reference"] and r["quantity"] in ("Qf", "Qr") for r in claimed)
     assert {r["comment"] for r in claimed} == {r["comment"] for r in claimed if r["quantity"] == "Qf"}
 

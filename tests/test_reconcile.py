@@ -66,7 +66,7 @@ def test_failing_check_claimed_adequate_is_critical_with_a_remedy():
     data["loads"][0]["specified"] = {"D": "4 kN/m", "L": "12 kN/m"}
     out, _ = outcome(data, [claim("J1/B1", "J1", Qr=QR_J1)], "J1/B1:J1")
     failing = next(f for f in out.findings if f.kind == "failing")
-    assert failing.severity == "critical"
+    assert failing.severity == "safety"
     assert "Passes with a bearing length of at least" in out.remedy
 
 
@@ -76,7 +76,7 @@ def test_failing_check_the_calc_already_calls_inadequate_is_major():
     c = claim("J1/B1", "J1", Qr=QR_J1)
     c["adequate"] = False
     out, _ = outcome(data, [c], "J1/B1:J1")
-    assert next(f for f in out.findings if f.kind == "failing").severity == "major"
+    assert next(f for f in out.findings if f.kind == "failing").severity == "revise"
 
 
 def test_remedy_length_makes_the_check_pass_and_a_shorter_one_does_not():
@@ -97,8 +97,8 @@ def test_remedy_length_makes_the_check_pass_and_a_shorter_one_does_not():
 def test_mis_loaded_unconservative_is_major_and_conservative_is_minor():
     low, _ = outcome(base_model(), [claim("J1/B1", "J1", Qf=QF_J1 * 0.8, Qr=QR_J1)], "J1/B1:J1")
     high, _ = outcome(base_model(), [claim("J1/B1", "J1", Qf=QF_J1 * 1.3, Qr=QR_J1)], "J1/B1:J1")
-    assert (low.status, low.findings[0].severity, low.qf.direction) == ("mis-loaded", "major", "unconservative")
-    assert (high.status, high.findings[0].severity, high.qf.direction) == ("mis-loaded", "minor", "conservative")
+    assert (low.status, low.findings[0].severity, low.qf.direction) == ("mis-loaded", "revise", "unconservative")
+    assert (high.status, high.findings[0].severity, high.qf.direction) == ("mis-loaded", "clarify", "conservative")
 
 
 def test_resistance_differs_names_the_factor_that_differs():
@@ -244,7 +244,7 @@ def test_demo_claims_contain_every_slip():
 # Qf/Qr = 8.5 / 24.09 = 0.353, worked by hand
 @pytest.mark.parametrize(
     ("claimed", "status", "severity"),
-    [(0.35, "confirmed", "info"), (0.20, "resistance-differs", "major"), (0.60, "resistance-differs", "minor")],
+    [(0.35, "confirmed", "record"), (0.20, "resistance-differs", "revise"), (0.60, "resistance-differs", "clarify")],
 )
 def test_a_claim_stating_only_a_utilisation_confirms_only_when_it_agrees(claimed, status, severity):
     result, _ = outcome(base_model(), [claim("J1/B1", "J1", utilisation=claimed)], "J1/B1:J1")

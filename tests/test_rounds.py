@@ -19,6 +19,8 @@ import yaml
 
 from tests.conftest import base_model
 
+NONE = dict.fromkeys(("new", "open", "changed", "split", "deferred", "merged", "closed", "withdrawn"), 0)
+
 
 def _claim(cid: str, location: str, member: str, qf: str, qr: str | None = None) -> dict:
     item = {"id": cid, "where": {"page": 3, "item": cid}, "location": location, "member": member, "Qf": qf}
@@ -79,8 +81,8 @@ def _run(run_cli, folder: Path, name: str, model: dict, claims: list[dict], *ext
 
 
 def _by_code(data: dict) -> dict[tuple[str, str], dict]:
-    """(code, first bearing) -> the round comment."""
-    return {(c["code"], c["keys"][0][0]): c for c in data["round_comments"]}
+    """(kind, first bearing) -> the round comment."""
+    return {(c["kind"], c["keys"][0][0]): c for c in data["round_comments"]}
 
 
 @pytest.fixture
@@ -94,13 +96,13 @@ def three_rounds(tmp_path, run_cli):
 def test_round_one_has_five_comments_all_new(three_rounds):
     _, one, _, _ = three_rounds
     assert one["round"]["number"] == 1 and one["round"]["previous"] is None
-    found = sorted((c["code"], c["keys"][0][0], c["status"]) for c in one["round_comments"])
+    found = sorted((c["kind"], c["keys"][0][0], c["status"]) for c in one["round_comments"])
     assert found == [
-        ("ABSENT", "J1/B1", "new"),
-        ("ABSENT", "J1/W1", "new"),
-        ("CAPACITY", "B1/C1", "new"),
-        ("LOAD", "J1/W1", "new"),
-        ("UNSEEN", "J1/W1", "new"),
+        ("mis-loaded", "J1/W1", "new"),
+        ("missing", "J1/B1", "new"),
+        ("missing", "J1/W1", "new"),
+        ("not-checked", "J1/W1", "new"),
+        ("resistance-differs", "B1/C1", "new"),
     ]
 
 
@@ -109,30 +111,30 @@ def test_round_two_closes_the_fixed_keeps_the_open_through_a_rename_and_adds_the
     first, second = _by_code(one), _by_code(two)
     assert two["round"]["number"] == 2 and two["round"]["previous"]["number"] == 1
     # fixed: the missing reverse check of J1 on B1 and the mis-load on W1
-    assert second[("ABSENT", "J1/B1")]["status"] == "closed"
-    assert second[("LOAD", "J1/W1")]["status"] == "closed"
-    assert "agrees with the calc" in second[("LOAD", "J1/W1")]["reason"]
+    assert second[("missing", "J1/B1")]["status"] == "closed"
+    assert second[("mis-loaded", "J1/W1")]["status"] == "closed"
+    assert "agrees with the calc" in second[("mis-loaded", "J1/W1")]["reason"]
     # still open, same numbers, through the rename of J1 to JST1
-    still = second[("ABSENT", "JST1/W1")]
-    assert still["status"] == "open" and still["number"] == first[("ABSENT", "J1/W1")]["number"]
+    still = second[("missing", "JST1/W1")]
+    assert still["status"] == "open" and still["number"] == first[("missing", "J1/W1")]["number"]
     assert [h[:2] for h in still["history"]] == [[1, "new"], [2, "open"]]
-    assert second[("CAPACITY", "B1/C1")]["status"] == "open"
-    assert second[("CAPACITY", "B1/C1")]["number"] == first[("CAPACITY", "B1/C1")]["number"]
-    assert second[("UNSEEN", "JST1/W1")]["status"] == "open"
+    assert second[("resistance-differs", "B1/C1")]["status"] == "open"
+    assert second[("resistance-differs", "B1/C1")]["number"] == first[("resistance-differs", "B1/C1")]["number"]
+    assert second[("not-checked", "JST1/W1")]["status"] == "open"
     # broken this round: a new comment, numbered after every number of round one
-    new = second[("LOAD", "B1/C2")]
+    new = second[("mis-loaded", "B1/C2")]
     assert new["status"] == "new" and new["number"] > one["round"]["last_number"]
-    assert two["round"]["counts"] == {"new": 1, "open": 3, "changed": 0, "closed": 2, "withdrawn": 0}
+    assert two["round"]["counts"] == {**NONE, "new": 1, "open": 3, "closed": 2}
 
 
 def test_round_three_closes_all_but_the_one_the_model_cannot_settle(three_rounds):
     _, _, two, three = three_rounds
     third = _by_code(three)
-    assert three["round"]["counts"] == {"new": 0, "open": 1, "changed": 0, "closed": 3, "withdrawn": 0}
-    assert third[("UNSEEN", "JST1/W1")]["status"] == "open"
-    assert [h[1] for h in third[("UNSEEN", "JST1/W1")]["history"]] == ["new", "open", "open"]
-    assert third[("LOAD", "B1/C2")]["number"] == _by_code(two)[("LOAD", "B1/C2")]["number"]
-    assert third[("LOAD", "B1/C2")]["status"] == "closed"
+    assert three["round"]["counts"] == {**NONE, "open": 1, "closed": 3}
+    assert third[("not-checked", "JST1/W1")]["status"] == "open"
+    assert [h[1] for h in third[("not-checked", "JST1/W1")]["history"]] == ["new", "open", "open"]
+    assert third[("mis-loaded", "B1/C2")]["number"] == _by_code(two)[("mis-loaded", "B1/C2")]["number"]
+    assert third[("mis-loaded", "B1/C2")]["status"] == "closed"
 
 
 def test_numbers_are_never_used_twice_across_rounds(three_rounds):
@@ -140,10 +142,10 @@ def test_numbers_are_never_used_twice_across_rounds(three_rounds):
     for data in (one, two, three):
         numbers = [c["comment"] for c in data["comments"]]
         assert len(numbers) == len(set(numbers))
-    asked = {c["number"]: c["code"] for data in (one, two, three) for c in data["round_comments"]}
+    asked = {c["number"]: c["kind"] for data in (one, two, three) for c in data["round_comments"]}
     for data in (one, two, three):
         for c in data["round_comments"]:
-            assert asked[c["number"]] == c["code"]  # a number always names the same comment
+            assert asked[c["number"]] == c["kind"]  # a number always names the same comment
 
 
 def test_a_changed_comment_is_still_wrong_but_differently(tmp_path, run_cli):
@@ -151,7 +153,7 @@ def test_a_changed_comment_is_still_wrong_but_differently(tmp_path, run_cli):
     _run(run_cli, tmp_path, "r1", model, claims)
     claims[1] = _claim("c2", "J1/W1", "W1", "5.0 kN")  # still mis-loaded, by another amount
     two = _run(run_cli, tmp_path, "r2", model, claims, "--previous", tmp_path / "r1.json")
-    changed = _by_code(two)[("LOAD", "J1/W1")]
+    changed = _by_code(two)[("mis-loaded", "J1/W1")]
     assert changed["status"] == "changed" and "numbers changed" in changed["reason"]
 
 
@@ -163,7 +165,7 @@ def test_a_comment_whose_bearing_is_gone_is_withdrawn_with_the_reason(tmp_path, 
     model["bearings"][3]["lower"]["member"] = "W2"
     claims = [c for c in claims if c["location"] != "J1/W1"]
     two = _run(run_cli, tmp_path, "r2", model, claims, "--previous", tmp_path / "r1.json")
-    gone = _by_code(two)[("ABSENT", "J1/W1")]
+    gone = _by_code(two)[("missing", "J1/W1")]
     assert gone["status"] == "withdrawn" and gone["reason"] == "bearing J1/W1 is no longer in the model"
 
 
@@ -194,16 +196,16 @@ def _fill_workbook(path: Path, answers: dict[int, str]) -> None:
 def test_designer_responses_are_read_back_and_a_response_on_an_open_comment_is_flagged(tmp_path, run_cli, log, fill):
     one = _run(run_cli, tmp_path, "r1", *_round_one())
     first = _by_code(one)
-    fixed, still = first[("LOAD", "J1/W1")]["number"], first[("CAPACITY", "B1/C1")]["number"]
+    fixed, still = first[("mis-loaded", "J1/W1")]["number"], first[("resistance-differs", "B1/C1")]["number"]
     fill(tmp_path / log, {fixed: "Load corrected to 8.5 kN.", still: "Qr per manufacturer."})
     two = _run(
         run_cli, tmp_path, "r2", *_round_two(), "--previous", tmp_path / "r1.json", "--responses", tmp_path / log
     )
     second = _by_code(two)
-    assert second[("LOAD", "J1/W1")]["response"] == "Load corrected to 8.5 kN."
-    assert second[("LOAD", "J1/W1")]["response_on_open_comment"] is False
-    assert second[("CAPACITY", "B1/C1")]["response"] == "Qr per manufacturer."
-    assert second[("CAPACITY", "B1/C1")]["response_on_open_comment"] is True
+    assert second[("mis-loaded", "J1/W1")]["response"] == "Load corrected to 8.5 kN."
+    assert second[("mis-loaded", "J1/W1")]["response_on_open_comment"] is False
+    assert second[("resistance-differs", "B1/C1")]["response"] == "Qr per manufacturer."
+    assert second[("resistance-differs", "B1/C1")]["response_on_open_comment"] is True
     memo = (tmp_path / "r2.html").read_text(encoding="utf-8")
     assert "Qr per manufacturer." in memo and "(the comment is still open)" in memo
     assert "Review round 2" in memo
@@ -259,3 +261,192 @@ def test_a_comment_log_without_the_response_column_is_refused_with_its_name(tmp_
         "review", tmp_path / "r1-model.yaml", "--previous", tmp_path / "r1.json", "--responses", tmp_path / "log.csv"
     )
     assert result.exit_code == 2 and "no column 'designer_response'" in result.output
+
+
+# ---------------------------------------------------------------- the reviewer's dispositions
+
+
+def _fill_log(path: Path, answers: dict[int, tuple[str, str, str, str]]) -> None:
+    """answers: comment -> (designer's response, disposition, reviewer's reply, deferred to), written into the CSV."""
+    rows = list(csv.DictReader(io.StringIO(path.read_text(encoding="utf-8"))))
+    for row in rows:
+        given = answers.get(int(row["comment"]), ("", "", "", ""))
+        row["designer_response"], row["disposition"], row["reviewer_reply"], row["deferred_to"] = given
+    buffer = io.StringIO()
+    writer = csv.DictWriter(buffer, fieldnames=list(rows[0]))
+    writer.writeheader()
+    writer.writerows(rows)
+    path.write_text(buffer.getvalue(), encoding="utf-8")
+
+
+@pytest.fixture
+def disposed_rounds(tmp_path, run_cli):
+    """Round 1, then the designer answers and the reviewer disposes: the resistance on B1/C1 is accepted, the
+    missing check of J1 on W1 is not, and the plate's unseen support is deferred to the framing inspection."""
+    one = _run(run_cli, tmp_path, "r1", *_round_one())
+    first = _by_code(one)
+    accepted = first[("resistance-differs", "B1/C1")]["number"]
+    refused = first[("missing", "J1/W1")]["number"]
+    deferred = first[("not-checked", "J1/W1")]["number"]
+    _fill_log(
+        tmp_path / "r1.csv",
+        {
+            accepted: ("Qr from the cap plate's test report, attached.", "accepted", "", ""),
+            refused: ("The joist end is fine by inspection.", "not accepted", "Give the check: 8.5 kN on 38 mm.", ""),
+            deferred: ("The wall below is on sheet S-3.", "deferred", "", "framing inspection"),
+        },
+    )
+    log = tmp_path / "r1.csv"
+    two = _run(run_cli, tmp_path, "r2", *_round_two(), "--previous", tmp_path / "r1.json", "--responses", log)
+    three = _run(run_cli, tmp_path, "r3", *_round_two(), "--previous", tmp_path / "r2.json")
+    return tmp_path, (accepted, refused, deferred), two, three
+
+
+def test_an_accepted_response_closes_its_comment_and_it_stays_closed(disposed_rounds):
+    tmp_path, (accepted, _, _), two, three = disposed_rounds
+    second = {c["number"]: c for c in two["round_comments"]}
+    assert second[accepted]["status"] == "closed" and second[accepted]["closed_by_response"] is True
+    assert second[accepted]["disposition"]["word"] == "accepted"
+    assert "closed by response" in second[accepted]["reason"]
+    assert accepted not in {int(r["comment"]) for r in csv.DictReader(io.StringIO((tmp_path / "r2.csv").read_text()))}
+    memo = (tmp_path / "r2.html").read_text(encoding="utf-8")
+    assert "closed by response" in memo
+    # round 3 has the same calc: the comment stays closed, and is not raised again as new
+    third = {c["number"]: c for c in three["round_comments"]}
+    assert third[accepted]["status"] == "closed" and third[accepted]["closed_by_response"] is True
+    assert not [c for c in three["round_comments"] if c["status"] == "new"]
+
+
+def test_a_response_not_accepted_stays_open_with_the_reviewers_reply(disposed_rounds):
+    _, (_, refused, _), two, _ = disposed_rounds
+    second = {c["number"]: c for c in two["round_comments"]}
+    assert second[refused]["status"] == "open" and second[refused]["response_on_open_comment"] is True
+    assert second[refused]["disposition"] == {
+        "word": "not accepted",
+        "reply": "Give the check: 8.5 kN on 38 mm.",
+        "deferred_to": "",
+    }
+    assert "response not accepted: Give the check: 8.5 kN on 38 mm" in second[refused]["reason"]
+
+
+def test_a_deferred_comment_is_carried_to_the_stage_named(disposed_rounds):
+    _, (_, _, deferred), two, three = disposed_rounds
+    second = {c["number"]: c for c in two["round_comments"]}
+    third = {c["number"]: c for c in three["round_comments"]}
+    for data in (second, third):
+        assert data[deferred]["status"] == "deferred" and data[deferred]["deferred_to"] == "framing inspection"
+    assert two["round"]["counts"]["deferred"] == 1 and three["round"]["counts"]["deferred"] == 1
+
+
+def test_dispositions_from_a_yaml_file(tmp_path, run_cli):
+    one = _run(run_cli, tmp_path, "r1", *_round_one())
+    number = _by_code(one)[("resistance-differs", "B1/C1")]["number"]
+    given = tmp_path / "dispositions.yaml"
+    given.write_text(f"dispositions:\n  - {{comment: {number}, disposition: accepted}}\n", encoding="utf-8")
+    two = _run(run_cli, tmp_path, "r2", *_round_two(), "--previous", tmp_path / "r1.json", "--dispositions", given)
+    assert {c["number"]: c["status"] for c in two["round_comments"]}[number] == "closed"
+
+
+@pytest.mark.parametrize(
+    ("entry", "words"),
+    [
+        ("{comment: NUMBER, disposition: acepted}", "not one of accepted, not accepted, deferred (did you mean"),
+        ("{comment: 999, disposition: accepted}", "comment 999 is not a comment of round 1"),
+        ("{comment: NUMBER, disposition: not accepted}", "give the reviewer's reply"),
+        ("{comment: NUMBER, disposition: deferred}", "name the stage it is deferred to"),
+    ],
+)
+def test_a_bad_disposition_gives_one_located_line_and_exit_2(tmp_path, run_cli, entry, words):
+    one = _run(run_cli, tmp_path, "r1", *_round_one())
+    number = _by_code(one)[("resistance-differs", "B1/C1")]["number"]
+    given = tmp_path / "dispositions.yaml"
+    given.write_text("dispositions:\n  - " + entry.replace("NUMBER", str(number)) + "\n", encoding="utf-8")
+    model, claims = _round_two()
+    (tmp_path / "m.yaml").write_text(yaml.safe_dump(model), encoding="utf-8")
+    (tmp_path / "c.yaml").write_text(yaml.safe_dump({"claims": claims}), encoding="utf-8")
+    result = run_cli(
+        "review", tmp_path / "m.yaml", "--claims", tmp_path / "c.yaml", "--previous", tmp_path / "r1.json",
+        "--dispositions", given,
+    )  # fmt: skip
+    assert result.exit_code == 2, result.output
+    errors = [line for line in result.output.splitlines() if line.startswith("error:")]
+    assert len(errors) == 1 and words in errors[0] and f"{given}:2:" in errors[0]
+    assert "Traceback" not in result.output
+
+
+def test_a_bad_disposition_in_the_comment_log_names_its_row_and_column(tmp_path, run_cli):
+    one = _run(run_cli, tmp_path, "r1", *_round_one())
+    number = _by_code(one)[("resistance-differs", "B1/C1")]["number"]
+    _fill_log(tmp_path / "r1.csv", {number: ("Done.", "approved", "", "")})
+    rows = (tmp_path / "r1.csv").read_text(encoding="utf-8").splitlines()
+    line = next(i for i, row in enumerate(rows, start=1) if ",approved," in row)
+    column = rows[0].split(",").index("disposition") + 1
+    model, _ = _round_two()
+    (tmp_path / "m.yaml").write_text(yaml.safe_dump(model), encoding="utf-8")
+    result = run_cli(
+        "review", tmp_path / "m.yaml", "--previous", tmp_path / "r1.json", "--responses", tmp_path / "r1.csv"
+    )
+    assert result.exit_code == 2
+    assert f"r1.csv:{line}:{column}: disposition: disposition 'approved' of comment {number}" in result.output
+
+
+# ---------------------------------------------------------------- groups that split and merge
+
+
+def _joists(own_from: float | None = None, heavier: bool = False) -> tuple[dict, list[dict]]:
+    from tests.test_triage import joists_on_a_wall
+
+    model = joists_on_a_wall(own_from=own_from)
+    if heavier:  # J4's floor load up by a fifth: Qf/Qr of TP under it 0.30 x 1.2 = 0.36
+        j4 = next(load for load in model["loads"] if load["member"] == "J4")
+        j4["specified"] = {"D": "1.2 kN/m", "L": "2.4 kN/m"}
+    return model, []
+
+
+def test_a_group_that_splits_and_merges_back_is_reported_as_such(tmp_path, run_cli):
+    one = _run(run_cli, tmp_path, "r1", *_joists())
+    group = next(c for c in one["comments"] if c["title"].startswith("Lumber joists on lumber wall plates: the check"))
+    # round 2: J4 heavier and the project's own-comment threshold at 0.35: TP under J4 stands alone
+    two = _run(run_cli, tmp_path, "r2", *_joists(0.35, heavier=True), "--previous", tmp_path / "r1.json")
+    second = {c["number"]: c for c in two["round_comments"]}
+    split = [c for c in two["round_comments"] if c["status"] == "split" and ["J4/TP", "TP", "local", ""] in c["keys"]]
+    assert len(split) == 1 and f"split from #{group['comment']}" in split[0]["reason"]
+    assert second[group["comment"]]["status"] == "changed"
+    assert f"part of it split into #{split[0]['number']}" in second[group["comment"]]["reason"]
+    # round 3: back as in round 1: the split comment is merged into the group again
+    three = _run(run_cli, tmp_path, "r3", *_joists(), "--previous", tmp_path / "r2.json")
+    third = {c["number"]: c for c in three["round_comments"]}
+    assert third[split[0]["number"]]["status"] == "merged"
+    assert third[split[0]["number"]]["reason"] == f"merged into #{group['comment']}"
+    assert third[group["comment"]]["status"] in ("open", "changed")
+
+
+def test_dispositions_are_read_from_the_workbook_too(tmp_path, run_cli):
+    from openpyxl import load_workbook
+
+    one = _run(run_cli, tmp_path, "r1", *_round_one())
+    number = _by_code(one)[("not-checked", "J1/W1")]["number"]
+    book = load_workbook(tmp_path / "r1.xlsx")
+    sheet = book["Comments"]
+    head = [c.value for c in sheet[1]]
+    for row in range(2, sheet.max_row + 1):
+        if sheet.cell(row, head.index("No.") + 1).value == number:
+            sheet.cell(row, head.index("Designer's response") + 1).value = "Wall below on sheet S-3."
+            sheet.cell(row, head.index("Disposition") + 1).value = "Deferred"
+            sheet.cell(row, head.index("Deferred to") + 1).value = "construction review"
+    book.save(tmp_path / "r1.xlsx")
+    log = tmp_path / "r1.xlsx"
+    two = _run(run_cli, tmp_path, "r2", *_round_two(), "--previous", tmp_path / "r1.json", "--responses", log)
+    second = {c["number"]: c for c in two["round_comments"]}
+    assert second[number]["status"] == "deferred" and second[number]["deferred_to"] == "construction review"
+    assert second[number]["response"] == "Wall below on sheet S-3."
+
+
+def test_a_comment_closed_by_response_reopens_when_it_changes(disposed_rounds, run_cli):
+    tmp_path, (accepted, _, _), _, _ = disposed_rounds
+    model, claims = _round_two()
+    claims[2] = _claim("c3", "B1/C1", "B1", "4.25 kN", "900 kN")  # the calc's resistance changed again
+    four = _run(run_cli, tmp_path, "r4", model, claims, "--previous", tmp_path / "r3.json")
+    fourth = {c["number"]: c for c in four["round_comments"]}
+    assert fourth[accepted]["status"] == "changed" and fourth[accepted]["closed_by_response"] is False
+    assert fourth[accepted]["reason"].startswith("reopened: changed since its response was accepted")

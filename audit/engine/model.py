@@ -169,6 +169,7 @@ class Project:
     readings: dict[str, str] = field(default_factory=dict)  # choice name -> reading chosen over the pack's default
     units: str = "SI"  # how the memo and logs show forces: SI (kN) or US (kip)
     uplift_note_below: float | None = None  # N; a smaller calculated uplift is a note; None: the pack's threshold
+    own_comment_from: float | None = None  # Qf/Qr from which a missing check gets its own comment; None: the default
 
 
 @dataclass(frozen=True)

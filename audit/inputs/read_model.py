@@ -60,6 +60,7 @@ PROJECT_KEYS = {
     "near_support_area",
     "near_support_kb",
     "uplift_note_below",
+    "own_comment_from",
     "readings",
     "units",
 }
@@ -211,6 +212,7 @@ def _read_project(node: Node, errors: ErrorCollector) -> Project:
     if uplift_note is not None and uplift_note < 0:
         errors.add("uplift_note_below must not be negative", f.loc("uplift_note_below"))
         uplift_note = None
+    own_from = _own_comment_from(f, errors)
     return Project(
         title=f.text("title"),
         calc=f.text("calc", required=False),
@@ -224,7 +226,16 @@ def _read_project(node: Node, errors: ErrorCollector) -> Project:
         readings=_read_reading_choices(f, errors),
         units=f.choice("units", ("SI", "US"), required=False, default="SI"),
         uplift_note_below=uplift_note,
+        own_comment_from=own_from,
     )
+
+
+def _own_comment_from(f: FieldReader, errors: ErrorCollector) -> float | None:
+    """project.own_comment_from: the Qf/Qr from which a missing check is a comment of its own (None: the default)."""
+    if not f.has("own_comment_from"):
+        return None
+    value = f.number("own_comment_from", 0.0, 1.0, -1.0)
+    return value if value >= 0 else None
 
 
 def _read_reading_choices(f: FieldReader, errors: ErrorCollector) -> dict[str, str]:

@@ -209,6 +209,13 @@ MODEL_SCHEMA: dict[str, Any] = {
                         "description": "a force, e.g. '0.5 kN': a smaller calculated uplift (continuity noise at a "
                         "nailed plate) is reported as a minor note stating this threshold, not a major finding",
                     },
+                    "own_comment_from": {
+                        "type": "number",
+                        "minimum": 0,
+                        "maximum": 1,
+                        "description": "a Qf/Qr (default 0.9): a missing check that recomputes at this or more is a "
+                        "review comment of its own; below it, alike missing checks are grouped by kind of detail",
+                    },
                 },
                 ["title"],
             ),

@@ -18,7 +18,7 @@ from audit.review.rounds import Round
 COLUMNS = [
     "comment",
     "weight",
-    "code",
+    "kind",
     "title",
     "check",
     "bearing",
@@ -35,6 +35,9 @@ COLUMNS = [
     "round_status",
     "previous_response",
     "designer_response",
+    "disposition",  # the reviewer fills these in on the designer's reply: accepted | not accepted | deferred
+    "reviewer_reply",
+    "deferred_to",
 ]
 
 
@@ -57,9 +60,9 @@ def comment_rows(comments: tuple[Comment, ...], record: bool = True, round_: Rou
                 rows.append(
                     [
                         c.number,
-                        c.weight_word,
-                        c.code,
-                        c.title,
+                        c.weight,
+                        c.kind,
+                        _asked(c),
                         p.check_id,
                         p.bearing,
                         p.calc_label,
@@ -75,6 +78,9 @@ def comment_rows(comments: tuple[Comment, ...], record: bool = True, round_: Rou
                         status,
                         response,
                         "",
+                        "",
+                        "",
+                        "",
                     ]
                 )
     return rows
@@ -89,16 +95,21 @@ def comment_records(comments: tuple[Comment, ...]) -> list[dict[str, Any]]:
     return [
         {
             "comment": c.number,
-            "weight": c.weight_word,
-            "code": c.code,
+            "weight": c.weight,
             "kind": c.kind,
             "title": c.title,
+            "ask": c.ask,
             "clause": c.clause,
             "places": [dict(zip(COLUMNS[4:16], row[4:16], strict=True)) for row in comment_rows((c,))],
+            "closed_by_response": c.closed,
             "designer_response": "",
         }
         for c in comments
     ]
+
+
+def _asked(c: Comment) -> str:
+    return f"{c.title}. {c.ask}" if c.ask else c.title
 
 
 def _place_lines(c: Comment) -> str:
@@ -130,7 +141,7 @@ def comments_xlsx(
     head = [
         "No.",
         "Weight",
-        "Code",
+        "Kind",
         "Comment",
         "Where, and the numbers compared",
         "Points",
@@ -139,6 +150,9 @@ def comments_xlsx(
         "Status",
         "Previous response",
         "Designer's response",
+        "Disposition",
+        "Reviewer's reply",
+        "Deferred to",
     ]
     sheet.append(head)
     standing = {t.number: t for t in round_.tracked} if round_ is not None else {}
@@ -147,9 +161,10 @@ def comments_xlsx(
         points = "\n".join(dict.fromkeys(point for p in c.places for point in p.points))
         t = standing.get(c.number)
         status, response = (t.status, t.response) if t is not None else ("", "")
-        row = (c.number, c.weight_word, c.code, c.title, _place_lines(c), points, c.clause, pages, status, response, "")
+        row = [c.number, c.weight, c.kind, _asked(c), _place_lines(c), points, c.clause, pages, status, response]
+        row += ["", "", "", ""]  # the designer's response and the reviewer's disposition, reply and stage
         sheet.append([_cell(v) for v in row])
-    widths = [6, 10, 11, 50, 50, 80, 16, 22, 10, 40, 40]
+    widths = [6, 10, 16, 50, 50, 80, 16, 22, 10, 40, 40, 14, 40, 20]
     _shape(sheet, widths, Alignment, Font)
     checks = book.create_sheet("Checks")
     checks.append(["Check", "Member", "Kind", "Qf (kN)", "Qr (kN)", "Qf/Qr", "Governing", "Status", "Claim"])

@@ -14,6 +14,7 @@ from typing import Any
 
 from audit import __version__
 from audit.engine.contacts import Contact
+from audit.review.comments import own_comment_threshold
 from audit.review.review import Review
 from audit.standards.o86 import CheckResult, placed_forces
 
@@ -95,15 +96,21 @@ def review_record(review: Review) -> dict[str, Any]:
         "rule_pack": {"id": review.pack.id, "edition": review.pack.edition, "provenance": review.pack.provenance},
         "combinations_pack": {"id": review.cpack.id, "edition": review.cpack.edition},
         "readings": dict(review.readings),
+        "triage": _triage(review),
         "checks": (check_record(r) for r in review.results),
         "not_checked": [
             {"bearing": e.bearing, "member": e.member, "reason": e.reason} for e in review.checklist.exempt
         ],
         "engine_findings": [
-            {"code": f.code, "kind": f.kind, "severity": f.severity, "message": f.message, "bearing": f.bearing}
+            {"kind": f.kind, "weight": f.severity, "message": f.message, "bearing": f.bearing}
             for f in review.engine_findings
         ],
     }
+
+
+def _triage(review: Review) -> dict[str, Any]:
+    value, whose = own_comment_threshold(review)
+    return {"own_comment_from": value, "whose": whose}
 
 
 def json_chunks(data: dict[str, Any]) -> Iterator[str]:

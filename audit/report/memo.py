@@ -198,13 +198,15 @@ def _round_view(r: Round | None) -> dict[str, Any] | None:
     """The round summary and each comment's standing; None for a first round (nothing to compare)."""
     if r is None or r.previous is None:
         return None
-    ended = [t for t in r.tracked if t.status in ("closed", "withdrawn")]
+    ended = [t for t in r.tracked if t.status in ("merged", "closed", "withdrawn")]
     return {
         "number": r.number,
         "previous": r.previous.number,
         "counts": r.counts(),
         "ended": sorted(ended, key=lambda t: t.number),
-        "open": sorted((t for t in r.tracked if t.status in ("open", "changed")), key=lambda t: t.number),
+        "open": sorted(
+            (t for t in r.tracked if t.status in ("open", "changed", "split", "deferred")), key=lambda t: t.number
+        ),
         "flagged": sum(t.flagged for t in r.tracked),
     }
 
@@ -236,6 +238,7 @@ def _comment_view(c: Comment, standing: Any = None) -> dict[str, Any]:
         "weight_word": c.weight_word,
         "code": c.code,
         "title": c.title,
+        "ask": c.ask,
         "clause": c.clause,
         "places": places,
         "status": standing.status if standing is not None else "",
@@ -420,9 +423,8 @@ def memo_chunks(
 # ---------------------------------------------------------------- exports
 
 FINDING_COLUMNS = [
-    "code",
     "kind",
-    "severity",
+    "weight",
     "check",
     "bearing",
     "member",
@@ -442,7 +444,6 @@ def finding_rows(findings: tuple[Finding, ...]) -> list[list[Any]]:
         recomputed = f.numbers.get("recomputed", f.numbers.get("qf"))
         rows.append(
             [
-                f.code,
                 f.kind,
                 f.severity,
                 f.check_id,

@@ -1,131 +1,129 @@
-"""The finding model: each kind of finding is one registered rule with a code, a severity
+"""The finding model: each kind of finding is one registered rule with its name, a weight
 and fixed documentation; a finding is a frozen record that points at a check, a bearing
 or a claim. Stages collect findings; writers render them; the exit status is derived.
+
+One word per idea, the same in the memo, the terminal, the comment logs and the JSON: a
+finding's *kind* is its name here (``failing``, ``missing``, ...), and its *weight* is one of
+``WEIGHTS``: safety (a contact that fails), revise (a check missing, mis-loaded or with a
+resistance that does not hold), clarify (an unmatched claim, a support the model does not
+show) and record (confirmed or covered, listed for the record).
 """
 
 from __future__ import annotations
 
 from dataclasses import dataclass, field
 
-SEVERITIES = ("critical", "major", "minor", "info")
+WEIGHTS = ("safety", "revise", "clarify", "record")  # heaviest first
+SEVERITIES = WEIGHTS  # the older name of the same list
 
 
 @dataclass(frozen=True)
 class FindingKind:
-    code: str  # short, in review words: how comments and logs tag the kind
-    name: str
-    severity: str
+    name: str  # the kind, as every output names it
+    severity: str  # its usual weight, one of WEIGHTS
     what: str  # what it checks
     why: str  # why it matters
     title: str  # a comment's title, with {what}: the check or spot it is about
+
+    @property
+    def code(self) -> str:
+        """The kind's name (there is no second code for it)."""
+        return self.name
 
 
 KINDS: dict[str, FindingKind] = {
     k.name: k
     for k in (
         FindingKind(
-            "CRUSH",
             "failing",
-            "critical",
+            "safety",
             "the recomputed factored load exceeds the recomputed resistance",
             "the contact may crush; worst where the calc calls it adequate",
             "{what}: fails on recomputation",
         ),
         FindingKind(
-            "ABSENT",
             "missing",
-            "major",
+            "revise",
             "a check the design requires is not in the calc",
             "an unchecked contact may crush: the reverse-direction check and the near-support check are the "
             "ones most often left out",
             "{what}: missing from the calc",
         ),
         FindingKind(
-            "LOAD",
             "mis-loaded",
-            "major",
+            "revise",
             "the claimed factored load differs from the recomputed one beyond tolerance",
             "a check made with the wrong load proves nothing about the real one",
             "{what}: the calc's load differs",
         ),
         FindingKind(
-            "CAPACITY",
             "resistance-differs",
-            "major",
+            "revise",
             "the claimed resistance differs from the recomputed one beyond tolerance",
             "a resistance taken too high overstates the capacity of the contact",
             "{what}: the calc's resistance differs",
         ),
         FindingKind(
-            "ORPHAN",
             "unmatched-claim",
-            "minor",
+            "clarify",
             "a claim in the calc matches no required check",
             "the claim may name a location the model lacks, or a check made at the wrong place",
             "{what}: matches no required check",
         ),
         FindingKind(
-            "TYP-GAP",
             "not-covered",
-            "major",
+            "revise",
             "a check that a typical claim covers is worse than the claim: higher Qf, lower Qr, or failing",
             "a typical check proves only the spots no worse than the one it shows",
             "{what}: not covered by the calc's typical check",
         ),
         FindingKind(
-            "TYP",
             "covered",
-            "info",
+            "record",
             "a check that a typical claim covers, no worse than the claim",
             "the typical claim stands for this spot",
             "{what}: covered by the calc's typical check",
         ),
         FindingKind(
-            "AGREES",
             "confirmed",
-            "info",
+            "record",
             "the claim matches the recomputed check within tolerance",
             "the check stands as claimed",
             "{what}: agrees with the calc",
         ),
         FindingKind(
-            "UNSEEN",
             "not-checked",
-            "minor",
+            "clarify",
             "a point load lands on a member modelled as continuously supported on something the model does not show",
             "the member's underside and the squeeze through it at that spot are not checked; a post or girder on a "
             "plate over studs is often the governing contact of the detail",
             "{what}: what is under it is not in the model, so its underside is not checked",
         ),
         FindingKind(
-            "UNSIZED",
             "no-bearing-length",
-            "minor",
+            "clarify",
             "a point load on a timber member states no bearing length",
             "the member's crushing under the load is not checked: an equipment leg or a post of framing the model "
             "does not show can crush the member it stands on",
             "{what}: the crushing under point loads with no bearing length is not checked",
         ),
         FindingKind(
-            "FORCE",
             "force-differs",
-            "major",
+            "revise",
             "a force the calc states at a bearing differs, beyond tolerance, from what the model's loads give there",
             "the checks at that bearing carry the calc's force; if the calc's take-down is wrong, so are they",
             "{what}: the calc's force differs from the model's loads",
         ),
         FindingKind(
-            "GIVEN",
             "calc-force",
-            "info",
+            "record",
             "a bearing whose force is taken from the calc, not from the model's take-down",
             "the review rests on the calc's own reaction there: the load path above it is not re-modelled",
             "{what}: force taken from the calc",
         ),
         FindingKind(
-            "LIFT",
             "uplift",
-            "major",
+            "revise",
             "a factored combination gives an upward force through a bearing",
             "a bearing cannot resist uplift: a tie-down is needed and the load path must be confirmed",
             "{what}: uplift through the bearing",
@@ -137,7 +135,7 @@ KINDS: dict[str, FindingKind] = {
 @dataclass(frozen=True)
 class Finding:
     kind: str  # a key of KINDS
-    severity: str
+    severity: str  # its weight, one of WEIGHTS
     message: str
     check_id: str = ""
     bearing: str = ""
@@ -149,10 +147,19 @@ class Finding:
     numbers: dict[str, float] = field(default_factory=dict, compare=False)
     quantity: str = ""  # Qf | Qr | Qf/Qr: the number compared, where ``numbers`` holds claimed and recomputed
 
+    def __post_init__(self) -> None:
+        if self.kind not in KINDS or self.severity not in WEIGHTS:
+            msg = f"a finding of kind {self.kind!r} with weight {self.severity!r}: not one of KINDS and WEIGHTS"
+            raise ValueError(msg)
+
     @property
     def code(self) -> str:
-        return KINDS[self.kind].code
+        return self.kind
+
+    @property
+    def weight(self) -> str:
+        return self.severity
 
 
 def severity_rank(severity: str) -> int:
-    return SEVERITIES.index(severity)
+    return WEIGHTS.index(severity)

@@ -714,7 +714,7 @@ def _covered_outcome(result: CheckResult, claim: Claim, governing_id: str, revie
             **common,
         )
         return CheckOutcome(check.id, claim.id, "covered", (finding,))
-    severity = "critical" if not result.passes else KINDS["not-covered"].severity
+    severity = "safety" if not result.passes else KINDS["not-covered"].severity
     finding = Finding(
         "not-covered",
         severity,
@@ -763,7 +763,7 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
     if not result.passes:
         remedy = remedy_text(result, review)
         said_ok = claim is None or claim.adequate is not False
-        severity = "critical" if said_ok else "major"
+        severity = "safety" if said_ok else "revise"
         stance = (
             "the calc does not check it"
             if claim is None
@@ -810,7 +810,7 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
             findings.append(
                 Finding(
                     "resistance-differs",
-                    "major" if util_cmp.direction == "unconservative" else "minor",
+                    "revise" if util_cmp.direction == "unconservative" else "clarify",
                     wording.ratio_only(
                         check.kind,
                         check.member,
@@ -832,7 +832,7 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
     for cmp, kind in ((qf_cmp, "mis-loaded"), (qr_cmp, "resistance-differs")):
         if cmp is None or cmp.within:
             continue
-        severity = "major" if cmp.direction == "unconservative" else "minor"
+        severity = "revise" if cmp.direction == "unconservative" else "clarify"
         findings.append(
             Finding(
                 kind,
@@ -852,7 +852,7 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
         findings.append(
             Finding(
                 "confirmed",
-                "info",
+                "record",
                 wording.confirmed(check.kind, check.member, where, g.qf, g.qr, d),
                 **common,
             )

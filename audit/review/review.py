@@ -112,7 +112,7 @@ def calc_force_findings(model: Model, flow: TakeDown, display: Display) -> tuple
         stated = dict(b.calc_force)
         out.append(
             Finding(
-                "calc-force", "info", wording.calc_force(b.id, stated, display), bearing=b.id, member=b.upper.member
+                "calc-force", "record", wording.calc_force(b.id, stated, display), bearing=b.id, member=b.upper.member
             )
         )
         modelled = {case: v for case, v in flow.modelled.get(b.id, {}).items() if abs(v) >= FORCE_RESOLUTION}
@@ -131,7 +131,7 @@ def calc_force_findings(model: Model, flow: TakeDown, display: Display) -> tuple
             out.append(
                 Finding(
                     "force-differs",
-                    "major" if higher else "minor",  # the calc taking less than the model's loads is the worse slip
+                    "revise" if higher else "clarify",  # the calc taking less than the model's loads is the worse slip
                     wording.force_differs(b.id, stated, modelled, worst, share, display),
                     bearing=b.id,
                     member=b.upper.member,
@@ -210,7 +210,7 @@ def uplift_findings(
         out.append(
             Finding(
                 "uplift",
-                "minor" if small else KINDS["uplift"].severity,
+                "clarify" if small else KINDS["uplift"].severity,
                 wording.uplift(r.check.bearing, placed, -worst.qf_low, small, note_below, whose, display),
                 bearing=r.check.bearing,
                 member=r.check.member,

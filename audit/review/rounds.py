@@ -20,18 +20,21 @@ import csv
 import hashlib
 import io
 import json
-from dataclasses import dataclass, replace
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 from typing import Any
 
-from audit.core.errors import InputError, Location
+from audit.core.errors import ErrorCollector, InputError, Location
 from audit.core.outfiles import require_input_file
 from audit.engine.model import Model, normalise_label
 from audit.review.comments import Comment
 
-STATUSES = ("new", "open", "changed", "closed", "withdrawn")
-ASKING = ("new", "open", "changed")  # statuses of a comment that still asks for something
-Key = tuple[str, str, str, str]  # bearing, member, check kind (local | near | ""), other identity (code:claim)
+STATUSES = ("new", "open", "changed", "split", "deferred", "merged", "closed", "withdrawn")
+ASKING = ("new", "open", "changed", "split")  # statuses of a comment that still asks for something
+CARRIED = (*ASKING, "deferred")  # statuses of a last-round comment that this round follows up
+ENDED = ("merged", "closed", "withdrawn")
+DISPOSITIONS = ("accepted", "not accepted", "deferred")  # the reviewer's answer to a designer's response
+Key = tuple[str, str, str, str]  # bearing, member, check kind (local | near | ""), other identity (kind:claim)
 NUMBER_FIT = 0.01  # relative: numbers compared across rounds agree to 1 %
 
 
@@ -41,8 +44,28 @@ class Step:
 
     round: int
     status: str
-    code: str
+    kind: str
     summary: str
+
+    @property
+    def code(self) -> str:
+        return self.kind
+
+
+@dataclass(frozen=True)
+class Disposition:
+    """The reviewer's answer to the designer's response on one comment of the last round."""
+
+    number: int
+    word: str  # one of DISPOSITIONS
+    reply: str = ""  # the reviewer's reply (needed when not accepted)
+    stage: str = ""  # deferred: the stage it is deferred to
+    loc: Location = field(default=Location(""), compare=False)
+
+    def words(self) -> str:
+        if self.word == "deferred":
+            return f"deferred to {self.stage}"
+        return self.word + (f": {self.reply}" if self.reply else "")
 
 
 @dataclass(frozen=True)
@@ -51,13 +74,14 @@ class Earlier:
 
     number: int
     status: str
-    code: str
     kind: str
     weight: str
     title: str
     keys: tuple[Key, ...]
     numbers: tuple[tuple[str, float | None, float | None], ...]
     history: tuple[Step, ...]
+    by_response: bool = False  # closed by an accepted response
+    deferred_to: str = ""
 
 
 @dataclass(frozen=True)
@@ -72,11 +96,10 @@ class LastRound:
 
 @dataclass(frozen=True)
 class Tracked:
-    """A comment of this round, or an earlier one now closed or withdrawn, with where it stands."""
+    """A comment of this round, or an earlier one now ended, with where it stands."""
 
     number: int
     status: str
-    code: str
     kind: str
     weight: str
     title: str
@@ -86,6 +109,13 @@ class Tracked:
     reason: str = ""
     response: str = ""  # the designer's response to the last round's comment
     flagged: bool = False  # a response on a comment still open
+    disposition: Disposition | None = None  # the reviewer's answer to that response
+    by_response: bool = False  # closed by an accepted response
+    deferred_to: str = ""
+
+    @property
+    def code(self) -> str:
+        return self.kind
 
 
 @dataclass(frozen=True)
@@ -115,7 +145,7 @@ def comment_keys(c: Comment) -> tuple[Key, ...]:
         if p.check_id:
             out.append((p.bearing, p.member, "near" if p.check_id.endswith(":near") else "local", ""))
         else:
-            out.append((p.bearing, p.member, "", f"{c.code}:{p.claim_id}"))
+            out.append((p.bearing, p.member, "", f"{c.kind}:{p.claim_id}"))
     return tuple(dict.fromkeys(out))
 
 
@@ -123,9 +153,11 @@ def comment_numbers(c: Comment) -> tuple[tuple[str, float | None, float | None],
     return tuple((n.quantity, n.claimed, n.recomputed) for p in c.places for n in p.compared)
 
 
-def _summary(code: str, numbers) -> str:
+def _summary(kind: str, numbers, places: int = 0) -> str:
     shown = [f"{q} {'-' if a is None else f'{a:.2f}'} / {'-' if b is None else f'{b:.2f}'}" for q, a, b in numbers[:3]]
-    return code + (f" (claimed / recomputed: {'; '.join(shown)})" if shown else "")
+    where = f"{places} places" if places > 1 else ""
+    said = "; ".join(x for x in (where, f"claimed / recomputed: {'; '.join(shown)}" if shown else "") if x)
+    return kind + (f" ({said})" if said else "")
 
 
 class Renames:
@@ -154,7 +186,7 @@ class Renames:
     def key(self, key: Key) -> tuple[Key | None, str]:
         """The key in this round's ids, or None with the reason it no longer exists."""
         bearing, member, kind, other = key
-        if other.startswith("ORPHAN:"):
+        if other.startswith(("unmatched-claim:", "ORPHAN:")):
             return key, ""  # a claim that matches nothing: its member is the calc's, not the model's
         new_bearing = self.bearing(bearing) if bearing else ""
         if new_bearing is None:
@@ -173,18 +205,47 @@ def first_round(comments: tuple[Comment, ...], project: str, inputs: dict[str, s
         Tracked(
             c.number,
             "new",
-            c.code,
             c.kind,
             c.weight,
             c.title,
             comment_keys(c),
             comment_numbers(c),
-            (Step(1, "new", c.code, _summary(c.code, comment_numbers(c))),),
+            (Step(1, "new", c.kind, _summary(c.kind, comment_numbers(c), len(c.places))),),
         )
         for c in comments
         if not c.quiet
     )
     return Round(1, project, inputs, None, tracked, max((c.number for c in comments), default=0))
+
+
+def _pairs(
+    comments: list[Comment], carried: list[Earlier], mapped: dict[int, set[Key]]
+) -> tuple[dict[int, Earlier], dict[int, list[Earlier]]]:
+    """Each comment of this round with the earlier one it continues (the most places shared, then the lowest
+    number; each earlier comment continued once), and every earlier comment each one shares a place with."""
+    by_number = {e.number: e for e in carried}
+    holders: dict[Key, list[int]] = {}  # place -> the earlier comments that held it
+    for e in carried:
+        for key in mapped[e.number]:
+            holders.setdefault(key, []).append(e.number)
+    shared: list[tuple[int, int, int]] = []  # (-places shared, earlier number, comment index)
+    touching: dict[int, list[Earlier]] = {}
+    for i, c in enumerate(comments):
+        counts: dict[int, int] = {}
+        for key in set(comment_keys(c)):
+            for number in holders.get(key, ()):
+                counts[number] = counts.get(number, 0) + 1
+        for number, n in sorted(counts.items()):
+            shared.append((-n, number, i))
+            touching.setdefault(i, []).append(by_number[number])
+    continues: dict[int, Earlier] = {}
+    taken: set[int] = set()
+    for _, number, i in sorted(shared):
+        if i in continues or number in taken:
+            continue
+        continues[i] = by_number[number]
+        taken.add(number)
+    return continues, touching
 
 
 def next_round(
@@ -193,74 +254,134 @@ def next_round(
     model: Model,
     inputs: dict[str, str],
     responses: dict[int, str] | None = None,
+    dispositions: dict[int, Disposition] | None = None,
 ) -> tuple[tuple[Comment, ...], Round]:
-    """This round's comments renumbered to carry the last round's numbers, and where every comment stands."""
+    """This round's comments renumbered to carry the last round's numbers, and where every comment stands.
+
+    A comment that continues an earlier one (the most places shared) keeps its number; one that takes
+    places from an earlier comment continued elsewhere is *split* from it; an earlier comment whose places
+    all went to others is *merged* into them. The reviewer's dispositions of the designer's responses
+    apply: accepted closes the comment (closed by response, kept closed while it stays the same), not
+    accepted keeps it open with the reviewer's reply, deferred carries it to the stage named.
+    """
     responses = responses or {}
+    dispositions = dispositions or {}
     renames = Renames(model)
     number = last.number + 1
-    asking = [e for e in last.comments if e.status in ASKING]
-    mapped: dict[int, list[tuple[Key | None, str]]] = {e.number: [renames.key(k) for k in e.keys] for e in asking}
-    by_key: dict[Key, list[Earlier]] = {}
-    for e in asking:
-        for key, _ in mapped[e.number]:
-            if key is not None:
-                by_key.setdefault(key, []).append(e)
-    taken: set[int] = set()
+    carried = [e for e in last.comments if e.status in CARRIED or (e.status == "closed" and e.by_response)]
+    renamed: dict[int, list[tuple[Key | None, str]]] = {e.number: [renames.key(k) for k in e.keys] for e in carried}
+    mapped = {n: {k for k, _ in keys if k is not None} for n, keys in renamed.items()}
+    asking = [c for c in comments if not c.quiet]
+    continues, touching = _pairs(asking, carried, mapped)
     next_number = max(last.last_number, max((e.number for e in last.comments), default=0)) + 1
-    new_number: dict[int, int] = {}  # id(comment) -> its number this round
+    numbered: dict[int, int] = {}  # id(comment) -> its number this round
+    closed_now: set[int] = set()  # id(comment) closed by an accepted response
     tracked: list[Tracked] = []
-    quiet_at: dict[Key, str] = {}
-    for c in comments:
-        if c.quiet:
-            for key in comment_keys(c):
-                quiet_at.setdefault(key, c.kind)
-    for c in comments:
-        if c.quiet:
-            continue
-        keys, numbers = comment_keys(c), comment_numbers(c)
-        matched = sorted({e.number: e for k in keys for e in by_key.get(k, [])}.values(), key=lambda e: e.number)
-        free = [e for e in matched if e.number not in taken]
-        reason = ""
-        if free:
-            earlier: Earlier | None = free[0]
-            assert earlier is not None
-            taken.add(earlier.number)
-            status = "open" if earlier.kind == c.kind and _same_numbers(earlier.numbers, numbers) else "changed"
-            if status == "changed":
-                reason = _what_changed(earlier, c, numbers)
-            n = earlier.number
+    carried_by: dict[int, list[int]] = {}  # earlier number -> this round's numbers that carry its places
+    split_from: dict[int, int] = {}
+    for i, c in enumerate(asking):
+        earlier = continues.get(i)
+        if earlier is not None:
+            numbered[id(c)] = earlier.number
         else:
-            earlier = matched[0] if matched else None
-            status = "changed" if earlier else "new"
-            reason = f"split from #{earlier.number}" if earlier else ""
-            n, next_number = next_number, next_number + 1
-        history = (earlier.history if earlier and free else ()) + (
-            Step(number, status, c.code, _summary(c.code, numbers)),
-        )
-        response = responses.get(n, "") if earlier and free else ""
-        new_number[id(c)] = n
-        tracked.append(
-            Tracked(
-                n, status, c.code, c.kind, c.weight, c.title, keys, numbers, history, reason, response, bool(response)
-            )
-        )
-    for e in asking:
-        if e.number in taken:
+            numbered[id(c)], next_number = next_number, next_number + 1
+            if i in touching:
+                split_from[i] = min(e.number for e in touching[i])
+        for e in touching.get(i, []):
+            carried_by.setdefault(e.number, []).append(numbered[id(c)])
+    for i, c in enumerate(asking):
+        n = numbered[id(c)]
+        keys, numbers = comment_keys(c), comment_numbers(c)
+        earlier = continues.get(i)
+        others = sorted({e.number for e in touching.get(i, [])} - {n})
+        t = _standing(c, n, number, keys, numbers, earlier, responses, dispositions)
+        notes = [t.reason] if t.reason else []
+        if i in split_from:
+            notes.append(f"split from #{split_from[i]}")
+            t = replace(t, status="split")
+        if others and earlier is not None:
+            notes.append("merged with " + ", ".join(f"#{x}" for x in others))
+        if earlier is not None and len(carried_by.get(earlier.number, [])) > 1:
+            notes.append("part of it split into " + ", ".join(f"#{x}" for x in carried_by[earlier.number] if x != n))
+        t = replace(t, reason="; ".join(notes))
+        if t.by_response:
+            closed_now.add(id(c))
+        tracked.append(t)
+    continued = {t.number for t in tracked}
+    quiet_at = _quiet_at(comments)
+    for e in carried:
+        if e.number in continued:
             continue
-        status, reason = _ended(mapped[e.number], quiet_at)
-        step = Step(number, status, e.code, reason)
+        if e.status == "closed":
+            continue  # closed by a response in an earlier round, and nothing asks there now
+        into = sorted(set(carried_by.get(e.number, [])))
+        if into:
+            status, reason = "merged", "merged into " + ", ".join(f"#{x}" for x in into)
+        else:
+            status, reason = _ended(renamed[e.number], quiet_at)
         tracked.append(
             Tracked(
-                e.number, status, e.code, e.kind, e.weight, e.title, e.keys, e.numbers, (*e.history, step), reason,
-                responses.get(e.number, ""),
+                e.number, status, e.kind, e.weight, e.title, e.keys, e.numbers,
+                (*e.history, Step(number, status, e.kind, reason)), reason, responses.get(e.number, ""),
+                disposition=dispositions.get(e.number),
             )
         )  # fmt: skip
     for c in comments:
         if c.quiet:  # for the record: numbered after every comment that asks for something
-            new_number[id(c)] = next_number
+            numbered[id(c)] = next_number
             next_number += 1
-    ordered = tuple(replace(c, number=new_number[id(c)]) for c in comments)
+    ordered = tuple(replace(c, number=numbered[id(c)], closed=c.closed or id(c) in closed_now) for c in comments)
     return ordered, Round(number, last.project, inputs, last, tuple(tracked), next_number - 1)
+
+
+def _standing(
+    c: Comment,
+    n: int,
+    number: int,
+    keys: tuple[Key, ...],
+    numbers,
+    earlier: Earlier | None,
+    responses: dict[int, str],
+    dispositions: dict[int, Disposition],
+) -> Tracked:
+    """Where one comment of this round stands against the earlier one it continues."""
+    summary = _summary(c.kind, numbers, len(c.places))
+    if earlier is None:
+        return Tracked(n, "new", c.kind, c.weight, c.title, keys, numbers, (Step(number, "new", c.kind, summary),))
+    same = earlier.kind == c.kind and _same_numbers(earlier.numbers, numbers)
+    status = "open" if same else "changed"
+    reason = "" if same else _what_changed(earlier, c, numbers)
+    response = responses.get(n, "")
+    disposition = dispositions.get(n)
+    by_response, deferred_to = False, ""
+    if disposition is not None and disposition.word == "accepted":
+        status, by_response = "closed", True
+        reason = f"closed by response, accepted by the reviewer in round {number}" + (f" ({reason})" if reason else "")
+    elif disposition is not None and disposition.word == "deferred":
+        status, deferred_to = "deferred", disposition.stage
+        reason = f"deferred to {disposition.stage}" + (f" ({reason})" if reason else "")
+    elif disposition is None and earlier.by_response and same:
+        status, by_response, reason = "closed", True, "closed by response in an earlier round; unchanged since"
+    elif disposition is None and earlier.status == "deferred" and same:
+        status, deferred_to, reason = "deferred", earlier.deferred_to, f"deferred to {earlier.deferred_to}"
+    elif disposition is None and earlier.by_response:
+        reason = f"reopened: changed since its response was accepted ({reason})"
+    elif disposition is not None:  # not accepted: open, with the reviewer's reply
+        reason = "; ".join(x for x in (reason, f"response not accepted: {disposition.reply.rstrip('.')}") if x)
+    history = (*earlier.history, Step(number, status, c.kind, summary))
+    return Tracked(
+        n, status, c.kind, c.weight, c.title, keys, numbers, history, reason, response,
+        bool(response) and status in ASKING, disposition, by_response, deferred_to,
+    )  # fmt: skip
+
+
+def _quiet_at(comments: tuple[Comment, ...]) -> dict[Key, str]:
+    out: dict[Key, str] = {}
+    for c in comments:
+        if c.kind in ("confirmed", "covered"):
+            for key in comment_keys(c):
+                out.setdefault(key, c.kind)
+    return out
 
 
 def _same_numbers(a, b) -> bool:
@@ -279,8 +400,8 @@ def _same_numbers(a, b) -> bool:
 
 def _what_changed(earlier: Earlier, c: Comment, numbers) -> str:
     if earlier.kind != c.kind:
-        return f"was {earlier.code}, now {c.code}"
-    return f"numbers changed: {_summary(earlier.code, earlier.numbers)} then, {_summary(c.code, numbers)} now"
+        return f"was {earlier.kind}, now {c.kind}"
+    return f"numbers changed: {_summary(earlier.kind, earlier.numbers)} then, {_summary(c.kind, numbers)} now"
 
 
 def _ended(mapped: list[tuple[Key | None, str]], quiet_at: dict[Key, str]) -> tuple[str, str]:
@@ -337,13 +458,14 @@ def _earlier(item: dict[str, Any]) -> Earlier:
     return Earlier(
         int(item["number"]),
         str(item["status"]),
-        str(item["code"]),
-        str(item["kind"]),
+        str(item.get("kind", item.get("code", ""))),
         str(item["weight"]),
         str(item["title"]),
         tuple(tuple(str(v) for v in k) for k in item["keys"]),  # type: ignore[misc]
         tuple((str(q), a, b) for q, a, b in item["numbers"]),
         tuple(Step(int(r), str(s), str(c), str(t)) for r, s, c, t in item["history"]),
+        bool(item.get("closed_by_response", False)),
+        str(item.get("deferred_to", "")),
     )
 
 
@@ -361,7 +483,6 @@ def round_record(r: Round) -> tuple[dict[str, Any], list[dict[str, Any]]]:
         {
             "number": t.number,
             "status": t.status,
-            "code": t.code,
             "kind": t.kind,
             "weight": t.weight,
             "title": t.title,
@@ -370,30 +491,56 @@ def round_record(r: Round) -> tuple[dict[str, Any], list[dict[str, Any]]]:
             "reason": t.reason,
             "response": t.response,
             "response_on_open_comment": t.flagged,
-            "history": [[s.round, s.status, s.code, s.summary] for s in t.history],
+            "disposition": None
+            if t.disposition is None
+            else {"word": t.disposition.word, "reply": t.disposition.reply, "deferred_to": t.disposition.stage},
+            "closed_by_response": t.by_response,
+            "deferred_to": t.deferred_to,
+            "history": [[s.round, s.status, s.kind, s.summary] for s in t.history],
         }
         for t in sorted(r.tracked, key=lambda t: t.number)
     ]
     return head, items
 
 
-# ---------------------------------------------------------------- the designer's responses
+# ---------------------------------------------------------------- responses and dispositions
+
+LOG_COLUMNS = {  # (CSV header, workbook header) of each column the reviewer and the designer fill in
+    "number": ("comment", "No."),
+    "response": ("designer_response", "Designer's response"),
+    "disposition": ("disposition", "Disposition"),
+    "reply": ("reviewer_reply", "Reviewer's reply"),
+    "stage": ("deferred_to", "Deferred to"),
+}
+
+
+@dataclass(frozen=True)
+class Answers:
+    """What the last round's comment log brings back: the designer's responses and the reviewer's dispositions."""
+
+    responses: dict[int, str]
+    dispositions: dict[int, Disposition]
 
 
 def read_responses(path: Path) -> dict[int, str]:
     """Comment number -> the designer's response, from the last round's comment log (CSV or workbook)."""
+    return read_log(path).responses
+
+
+def read_log(path: Path) -> Answers:
+    """The responses and dispositions of the last round's comment log (CSV or workbook)."""
     require_input_file(path, "--responses")
     if path.suffix.lower() == ".xlsx":
-        return _responses_from_workbook(path)
+        return _log_from_workbook(path)
     try:
         text = path.read_text(encoding="utf-8-sig")
     except UnicodeDecodeError:
         raise InputError("--responses: not a UTF-8 CSV comment log", Location(str(path))) from None
     rows = list(csv.reader(io.StringIO(text)))
-    return _responses(rows, "comment", "designer_response", str(path))
+    return _answers(rows, 0, str(path))
 
 
-def _responses_from_workbook(path: Path) -> dict[int, str]:
+def _log_from_workbook(path: Path) -> Answers:
     from zipfile import BadZipFile
 
     from openpyxl import load_workbook
@@ -408,28 +555,118 @@ def _responses_from_workbook(path: Path) -> dict[int, str]:
         raise InputError("--responses: the workbook has no sheet 'Comments'", Location(str(path)))
     rows = [["" if v is None else str(v) for v in row] for row in book["Comments"].iter_rows(values_only=True)]
     book.close()
-    return _responses(rows, "No.", "Designer's response", f"{path} [Comments]")
+    return _answers(rows, 1, f"{path} [Comments]")
 
 
-def _responses(rows: list[list[str]], number_col: str, response_col: str, name: str) -> dict[int, str]:
+def _answers(rows: list[list[str]], form: int, name: str) -> Answers:
+    """``form``: 0 for the CSV's headers, 1 for the workbook's."""
     if not rows:
         raise InputError("--responses: the comment log is empty", Location(name))
     head = [h.strip() for h in rows[0]]
-    for col in (number_col, response_col):
-        if col not in head:
-            raise InputError(f"--responses: no column '{col}' in the comment log", Location(name, 1))
-    n_at, r_at = head.index(number_col), head.index(response_col)
-    out: dict[int, list[str]] = {}
+    at = {column: head.index(cols[form]) for column, cols in LOG_COLUMNS.items() if cols[form] in head}
+    for needed in ("number", "response"):
+        if needed not in at:
+            raise InputError(
+                f"--responses: no column '{LOG_COLUMNS[needed][form]}' in the comment log", Location(name, 1)
+            )
+    responses: dict[int, list[str]] = {}
+    dispositions: dict[int, Disposition] = {}
+
+    def cell(row: list[str], field: str) -> str:
+        i = at.get(field)
+        return row[i].strip() if i is not None and i < len(row) else ""
+
     for line, row in enumerate(rows[1:], start=2):
-        if len(row) <= max(n_at, r_at) or not row[r_at].strip():
+        text, word = cell(row, "response"), cell(row, "disposition")
+        if not text and not word:
+            continue
+        raw = cell(row, "number")
+        try:
+            number = int(float(raw))
+        except ValueError:
+            col = LOG_COLUMNS["number"][form]
+            raise InputError(
+                f"--responses: comment number {raw!r} is not a number", Location(name, line, at["number"] + 1, col)
+            ) from None
+        if text and text not in responses.setdefault(number, []):
+            responses[number].append(text)
+        if word:
+            where = Location(name, line, at["disposition"] + 1, LOG_COLUMNS["disposition"][form])
+            found = disposition_of(number, word, cell(row, "reply"), cell(row, "stage"), where)
+            before = dispositions.get(number)
+            if before is not None and (before.word, before.reply, before.stage) != (
+                found.word,
+                found.reply,
+                found.stage,
+            ):
+                raise InputError(f"comment {number} has another disposition at {before.loc}", where)
+            dispositions.setdefault(number, found)
+    return Answers({n: " / ".join(texts) for n, texts in responses.items()}, dispositions)
+
+
+def disposition_of(number: int, word: str, reply: str, stage: str, where: Location) -> Disposition:
+    """One disposition, refused (with its place) when its word is unknown or what it needs is missing."""
+    from audit.inputs.fields import did_you_mean
+
+    said = " ".join(word.lower().replace("_", " ").replace("-", " ").split())
+    if said not in DISPOSITIONS:
+        raise InputError(
+            f"disposition {word!r} of comment {number} is not one of {', '.join(DISPOSITIONS)}"
+            f"{did_you_mean(said, DISPOSITIONS)}",
+            where,
+        )
+    if said == "not accepted" and not reply:
+        raise InputError(f"comment {number} is not accepted: give the reviewer's reply", where)
+    if said == "deferred" and not stage:
+        raise InputError(f"comment {number} is deferred: name the stage it is deferred to", where)
+    return Disposition(number, said, reply, stage if said == "deferred" else "", where)
+
+
+def read_dispositions(path: Path) -> dict[int, Disposition]:
+    """The reviewer's dispositions from a small YAML file: ``dispositions: [{comment, disposition, reply, to}]``."""
+    from audit.core.located_yaml import read_yaml_file
+    from audit.inputs.fields import FieldReader, list_items
+
+    require_input_file(path, "--dispositions")
+    root = read_yaml_file(path)
+    errors = ErrorCollector()
+    top = FieldReader(root, {"dispositions"}, errors, "the dispositions file")
+    if top.ok and "dispositions" not in top.map:
+        errors.add("missing section 'dispositions'", root.child_loc("dispositions"))
+    errors.raise_if_any()
+    out: dict[int, Disposition] = {}
+    for item in list_items(top.map["dispositions"], "dispositions", errors):
+        f = FieldReader(item, {"comment", "disposition", "reply", "to"}, errors, "disposition")
+        if not f.ok:
+            continue
+        number = f.number("comment", 1, 10**9, 0)
+        if not number or number != int(number):
+            errors.add("comment must be a comment number", f.loc("comment"))
             continue
         try:
-            number = int(float(row[n_at]))
-        except ValueError:
+            found = disposition_of(
+                int(number), f.text("disposition"), f.text("reply", required=False), f.text("to", required=False),
+                f.loc("disposition"),
+            )  # fmt: skip
+        except InputError as exc:
+            errors.add(exc.message, exc.location)
+            continue
+        if int(number) in out:
+            errors.add(f"comment {int(number)} has another disposition at {out[int(number)].loc}", f.loc("comment"))
+            continue
+        out[int(number)] = found
+    errors.raise_if_any()
+    return out
+
+
+def check_dispositions(dispositions: dict[int, Disposition], last: LastRound) -> None:
+    """Every disposition must answer a comment the last round asked: one located line for the first that does not."""
+    standing = {e.number: e for e in last.comments}
+    for d in sorted(dispositions.values(), key=lambda d: d.number):
+        e = standing.get(d.number)
+        if e is None:
+            raise InputError(f"comment {d.number} is not a comment of round {last.number} ({last.file})", d.loc)
+        if e.status not in CARRIED:
             raise InputError(
-                f"--responses: comment number {row[n_at]!r} is not a number", Location(name, line, n_at + 1, number_col)
-            ) from None
-        text = row[r_at].strip()
-        if text not in out.setdefault(number, []):
-            out[number].append(text)
-    return {n: " / ".join(texts) for n, texts in out.items()}
+                f"comment {d.number} was {e.status} in round {last.number}: it asks for nothing to dispose of", d.loc
+            )

@@ -40,7 +40,7 @@ O86_READINGS = {
     "near_support.distributed_loads": ("within_d", "bearings_only"),
     "kzcp.built_up": ("per_ply", "combined"),
 }
-PACK_HEAD_KEYS = ("kind", "id", "title", "edition", "provenance", "standard")
+PACK_HEAD_KEYS = ("kind", "id", "title", "edition", "provenance", "standard", "review")
 O86_KEYS = (
     *PACK_HEAD_KEYS,
     "phi",
@@ -128,6 +128,7 @@ class PackCore:
     clauses: dict[str, Sourced]  # family -> {local: clause, near_support: clause}, as findings cite them
     uplift_note_below: Sourced  # N: calculated uplift below this is a note (continuity of the statics)
     choices: dict[str, Choice]  # every two-way reading, by its dotted name
+    own_comment_from: Sourced  # Qf/Qr from which a missing check is a review comment of its own
 
     def fc_for(self, family: str, species: str, grade: str) -> float | None:
         """Compression parallel to grain for Hankinson's formula, by grade where the pack tabulates it."""
@@ -158,6 +159,7 @@ class PackCore:
         for fam, by_species in self.fc.items():
             for sp, val in by_species.items():
                 out.append((f"fc.{fam}.{sp}", val))
+        out.append(("review.own_comment_from", self.own_comment_from))
         return out
 
     def all_sourced(self) -> list[tuple[str, Sourced]]:
@@ -428,7 +430,35 @@ def read_core_fields(root: Node, r: PackReader, errors: ErrorCollector) -> dict[
             if (c := r.sourced(n, clause_pair))
         },
         "uplift_note_below": r.sourced(sub(sub(root, "uplift"), "note_below"), force_or_zero),
+        "own_comment_from": _own_comment_from(root, r),
     }
+
+
+# A pack that states no review.own_comment_from gets this: a review practice, not a value of the standard.
+OWN_COMMENT_FROM = Sourced(
+    value=0.9,
+    clause="",
+    source="a missing check within a tenth of its resistance is worth a comment of its own (bearing-audit's default)",
+    status="common practice",
+)
+
+
+def _own_comment_from(root: Node, r: PackReader) -> Sourced:
+    """The pack's review.own_comment_from where it states one (optional), else bearing-audit's default."""
+    review = root.value.get("review")
+    if review is None:
+        return OWN_COMMENT_FROM
+    node = r.mapping(root, "review")
+    stated = r.sourced(r.mapping(node, "own_comment_from"), _ratio) if node is not None else None
+    return stated or OWN_COMMENT_FROM
+
+
+def _ratio(node: Node, _parent: Node) -> float:
+    """A plain number from 0 to 1 (a Qf/Qr)."""
+    v = node.value
+    if isinstance(v, bool) or not isinstance(v, (int, float)) or not 0 <= v <= 1:
+        raise InputError(f"expected a Qf/Qr from 0 to 1, got {v!r}", node.loc)
+    return float(v)
 
 
 def refuse_unknown_fields(root: Node, allowed: tuple[str, ...], standard: str, errors: ErrorCollector) -> None:
@@ -497,6 +527,7 @@ def read_resistance_pack(root: Node, path: str) -> ResistancePack:
         near_reach=r.sourced(sub(ns, "reach"), _number_conv),
         uplift_note_below=core["uplift_note_below"],
     )
+    pack_kwargs["own_comment_from"] = core["own_comment_from"]
     choices = {}
     for section, key in CHOICES:
         parent = root.value.get(section)
