@@ -22,6 +22,7 @@ from audit.engine.model import normalise_label
 from audit.inputs.read_claims import Claim
 from audit.review import wording
 from audit.review.findings import KINDS, Finding, severity_rank
+from audit.review.remedies import remedy_text
 from audit.review.review import Review
 from audit.standards.checks import LOCAL, NEAR, RequiredCheck, top_bearing
 from audit.standards.o86 import CheckResult, factored_force, o86_pack, resistance
@@ -568,63 +569,6 @@ def factor_differences(claim: Claim, result: CheckResult) -> tuple[FactorDiffere
         if ours is not None and abs(value - ours) > FACTOR_REL_TOL * abs(ours):
             out.append(FactorDifference(name, value, ours))
     return tuple(out)
-
-
-# ---------------------------------------------------------------- remedy
-
-
-def smallest_passing_length(result: CheckResult, review: Review) -> tuple[float, str] | None:
-    """(bearing length, the length factor it takes) at the present contact width that makes the check pass, or None."""
-    check = result.check
-    member = review.model.members[check.member]
-    # the governing combination stays governing as the length changes: Qr scales alike in all
-    combos = tuple(c for c in review.combinations if c.name == result.governing.combination)
-
-    def passes(length: float) -> tuple[bool, str]:
-        contact = check.contact
-        grown = length - contact.length
-        end_distance = contact.end_distance if contact.end_distance < 1e-9 else max(contact.end_distance - grown / 2, 0)
-        trial = replace(check, contact=replace(contact, length=length, end_distance=end_distance))
-        utilisation, factor = review.standard.trial(
-            trial, review.model, review.pack, review.cpack, review.readings, combos
-        )
-        return utilisation <= 1.0, factor
-
-    lo, hi = check.contact.length, member.length
-    if not passes(hi)[0]:
-        return None
-    while hi - lo > 2e-4:  # to a fifth of a millimetre
-        mid = 0.5 * (lo + hi)
-        if passes(mid)[0]:
-            hi = mid
-        else:
-            lo = mid
-    length = math.ceil(hi * 1000.0) / 1000.0  # whole millimetres, rounded up
-    return length, passes(length)[1]
-
-
-def remedy_text(result: CheckResult, review: Review) -> str:
-    check = result.check
-    found = smallest_passing_length(result, review)
-    width = check.contact.width * 1000
-    face = "support" if check.kind == NEAR else "bearing"
-    if found is None:
-        text = (
-            f"No {face} length along the grain makes it pass at {width:.0f} mm contact width; "
-            "a wider bearing, a stronger species or a reinforced contact is needed."
-        )
-        if check.kind == NEAR:
-            text += " The near-support area is limited by the bearing on the opposite face."
-        return text
-    length, factor = found
-    member = review.model.members[check.member]
-    text = f"Passes with a {face} length of at least {length * 1000:.0f} mm at {width:.0f} mm width ({factor})"
-    other = review.model.members[check.other_member]
-    if check.kind == LOCAL and not other.vertical and length > other.b + 1e-9:
-        text += f" (longer than {other.id} is wide: a bearing plate, seat or blocking)"
-    if check.contact.width < member.b - 1e-9:
-        text += f", or with a bearing plate the full {member.b * 1000:.0f} mm width of {member.id}"
-    return text + "."
 
 
 # ---------------------------------------------------------------- reconcile

@@ -597,6 +597,7 @@ class _O86:
         default_factory=lambda: {LOCAL: "local bearing", NEAR: "near-support bearing (loads within d of a support)"}
     )
     slip_recipes: tuple[str, ...] = ("o86-factors",)
+    length_factor: str = "KB"
     combination_formats: tuple[str, ...] = ("limit-states",)
     claim_headers: dict[str, str] = field(default_factory=dict)  # the default headers are O86's (Qf, Qr, KB)
 
@@ -638,19 +639,6 @@ class _O86:
         self, check: RequiredCheck, forces: Forces, combination: Any, model: Model, pack: PackCore
     ) -> str:
         return load_duration_factor(forces, combination, o86_pack(pack))[1]
-
-    def trial(
-        self,
-        check: RequiredCheck,
-        model: Model,
-        pack: PackCore,
-        cpack: CombinationPack,
-        readings: dict[str, str],
-        combinations: tuple,
-    ) -> tuple[float, str]:
-        inputs, _, _ = resistance_inputs(check, model, o86_pack(pack), readings)
-        _, governing, _ = evaluate(check, inputs, combinations, o86_pack(pack))
-        return governing.utilisation, f"KB = {inputs.kb:.2f}"
 
 
 def o86_pack(pack: PackCore) -> ResistancePack:
