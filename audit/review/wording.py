@@ -102,7 +102,8 @@ def differs(
     if causes:
         text += "Likely cause: " + "; or ".join(causes) + "."
     else:
-        text += f"No single common slip reproduces the claimed {what}."
+        readings = " (alone, or with every span loaded, only the bearings in Qf' or unfactored loads)"
+        text += f"No common slip{readings if quantity == 'Qf' else ''} reproduces the claimed {what}."
     return text
 
 
