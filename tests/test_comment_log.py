@@ -38,7 +38,7 @@ def test_a_check_with_several_findings_gets_one_comment_with_every_point(demo):
 
 def test_alike_missing_checks_are_one_comment_with_every_place(demo):
     _, _, _, comments = demo
-    grouped = next(c for c in comments if c.title.startswith("Reverse-direction checks of J1, J3 and J4 on GB1"))
+    grouped = next(c for c in comments if c.title.startswith("Bearings of J1, J3 and J4 on GB1"))
     assert [p.check_id for p in grouped.places] == ["J1/GB1:J1", "J3/GB1:J3", "J4/GB1:J4"]
     assert "3 places" in grouped.title and "J1 on B1 (J1/GB1)" in grouped.title  # the calc's label first
 

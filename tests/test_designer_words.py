@@ -69,3 +69,32 @@ def test_uplift_from_a_combination_with_no_counteracting_version_names_the_one_a
     uplift = next(f for f in review.engine_findings if f.kind == "uplift")
     assert uplift.numbers["qf"] == pytest.approx(0.9 * 125.0 - 1.5 * 4000.0, rel=1e-6)
     assert uplift.message.startswith("Bearing B/C1: 0.9D+1.5L, from 1.25D+1.5L with the dead load counteracting")
+
+
+def test_checks_are_named_as_engineers_name_them_in_every_output(tmp_path, write_model, run_cli):
+    # the base frame: glulam B1 on steel posts C1 and C2, joist J1 on B1. The beam on its post is "bearing of B1
+    # on post C1"; the beam under the joist "B1 under J1"; the joist on the beam "bearing of J1 on B1"
+    import json
+
+    import yaml
+
+    from tests.test_reconcile import claim
+
+    model = write_model(base_model())
+    claims = tmp_path / "claims.yaml"  # the calc checks B1 under J1 only: the joist's own bearing is missing
+    claims.write_text(yaml.safe_dump({"claims": [claim("J1/B1", "B1", Qf=8500.0, Qr=34580.0)]}), encoding="utf-8")
+    memo, out_json, out_csv = tmp_path / "m.html", tmp_path / "f.json", tmp_path / "f.csv"
+    result = run_cli("review", model, "--claims", claims, "--memo", memo, "--json", out_json, "--csv", out_csv)
+    assert "bearing of B1 on post C1" in result.output and "B1 under J1" in result.output
+    names = {}
+    for line in out_json.read_text(encoding="utf-8").splitlines():
+        if '"name": "' in line and '"kind": "' in line:
+            item = json.loads(line.rstrip(","))
+            names[item["id"]] = item["name"]
+    assert names["B1/C1:B1"] == "bearing of B1 on post C1"
+    assert names["J1/B1:B1"] == "B1 under J1" and names["J1/B1:J1"] == "bearing of J1 on B1"
+    for text in (memo.read_text(encoding="utf-8"), out_csv.read_text(encoding="utf-8")):
+        assert "Bearing of J1 on B1: missing from the calc" in text and "reverse-direction" not in text.lower()
+        assert "Missing from the calc: bearing of J1 on B1 at bearing J1/B1" in text
+    explained = run_cli("explain", model, "J1/B1:J1").output
+    assert explained.startswith("Check J1/B1:J1: bearing of J1 on B1")

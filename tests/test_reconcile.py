@@ -49,10 +49,11 @@ def test_confirmed_when_claim_matches_within_tolerance():
     assert [f.kind for f in out.findings] == ["confirmed"]
 
 
-def test_missing_reverse_direction_check_says_why_it_is_required():
+def test_missing_bearing_of_the_member_above_says_why_it_is_required():
     out, _ = outcome(base_model(), [claim("J1/B1", "B1", Qf=QF_J1, Qr=34580.0)], "J1/B1:J1")
     assert out.status == "missing"
-    assert "reverse-direction" in out.findings[0].message
+    assert "bearing of J1 on B1" in out.findings[0].message
+    assert "the member above is crushed on its own side grain" in out.findings[0].message
 
 
 def test_missing_near_support_check_says_a_load_lands_within_d():

@@ -13,6 +13,7 @@ from dataclasses import dataclass, replace
 
 from audit.core.units import Display
 from audit.inputs.read_claims import Claim
+from audit.review import wording
 from audit.review.findings import KINDS, Finding, severity_rank
 from audit.review.reconcile import Reconciliation
 from audit.review.review import Review
@@ -70,29 +71,13 @@ class Comment:
 WEIGHT_WORDS = {"critical": "safety", "major": "revise", "minor": "clarify", "info": "record"}
 
 
-def what_check(check: RequiredCheck) -> str:
-    """The check in the words a reviewer uses."""
-    if check.kind == NEAR:
-        return f"near-support check of {check.member} over {check.other_member}"
-    if check.face == "bottom":
-        return f"reverse-direction check of {check.member} on {check.other_member}"
-    return f"check of {check.member} under {check.other_member}"
+def what_check(check: RequiredCheck, review: Review) -> str:
+    """The check in the words a reviewer uses (``wording.check_name``)."""
+    return wording.check_name(check, review.model.members[check.other_member].vertical)
 
 
-def _group_words(checks: list[RequiredCheck]) -> str:
-    first = checks[0]
-    if len(checks) == 1:
-        return what_check(first)
-    if first.kind == NEAR:
-        return f"near-support checks of {first.member} over {_names(c.other_member for c in checks)}"
-    if first.face == "bottom":
-        return f"reverse-direction checks of {_names(c.member for c in checks)} on {first.other_member}"
-    return f"checks of {first.member} under {_names(c.other_member for c in checks)}"
-
-
-def _names(items) -> str:
-    names = list(dict.fromkeys(items))
-    return ", ".join(names[:-1]) + (" and " if len(names) > 1 else "") + names[-1]
+def _group_words(checks: list[RequiredCheck], review: Review) -> str:
+    return wording.group_name(checks, review.model.members[checks[0].other_member].vertical)
 
 
 def _calc_label(review: Review, bearing_id: str) -> str:
@@ -168,7 +153,7 @@ def build_comments(review: Review, rec: Reconciliation | None, claims: tuple[Cla
         members.sort(key=lambda m: m[0].id)
         lead_kind, weight = key[0], key[1]
         places = [_place(fs, review, units) for _, fs in members]
-        what = _group_words([c for c, _ in members])
+        what = _group_words([c for c, _ in members], review)
         what = what[:1].upper() + what[1:]
         clause = next((f.clause for _, fs in members for f in fs if f.clause), "")
         comment = Comment(0, lead_kind, weight, _title(lead_kind, what, places), tuple(places), clause)

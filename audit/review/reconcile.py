@@ -768,7 +768,7 @@ def _covered_outcome(result: CheckResult, claim: Claim, governing_id: str, revie
         finding = Finding(
             "covered",
             KINDS["covered"].severity,
-            wording.covered(_kind_word(check), check.member, where, claim.label, claim.where.cite(), governing_id),
+            wording.covered(_name(check, review), where, claim.label, claim.where.cite(), governing_id),
             numbers={"qf": g.qf, "qr": g.qr},
             **common,
         )
@@ -777,7 +777,7 @@ def _covered_outcome(result: CheckResult, claim: Claim, governing_id: str, revie
     finding = Finding(
         "not-covered",
         severity,
-        wording.not_covered(_kind_word(check), check.member, where, claim.label, claim.where.cite(), reasons),
+        wording.not_covered(_name(check, review), where, claim.label, claim.where.cite(), reasons),
         numbers={"qf": g.qf, "qr": g.qr},
         **common,
     )
@@ -791,8 +791,9 @@ def display_for(review: Review, claim: Claim | None = None) -> Display:
     return review.display
 
 
-def _kind_word(check: RequiredCheck) -> str:
-    return "Near-support check" if check.kind == NEAR else "Local check"
+def _name(check: RequiredCheck, review: Review) -> str:
+    """The check as engineers name it (``wording.check_name``)."""
+    return wording.check_name(check, review.model.members[check.other_member].vertical)
 
 
 def _location(result: CheckResult, review: Review) -> str:
@@ -833,7 +834,7 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
                 "failing",
                 severity,
                 wording.failing(
-                    check.kind, check.member, where, g.qf, g.qr, g.utilisation, g.combination, stance, remedy, d
+                    _name(check, review), where, g.qf, g.qr, g.utilisation, g.combination, stance, remedy, d
                 ),
                 hint=remedy,
                 numbers={"qf": g.qf, "qr": g.qr},
@@ -845,7 +846,7 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
             Finding(
                 "missing",
                 KINDS["missing"].severity,
-                wording.missing(check.kind, check.member, where, check.why, g.qf, g.qr, g.combination, d),
+                wording.missing(_name(check, review), where, check.why, g.qf, g.qr, g.combination, d),
                 numbers={"qf": g.qf, "qr": g.qr},
                 **common,
             )
@@ -873,8 +874,7 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
                     "resistance-differs",
                     "major" if util_cmp.direction == "unconservative" else "minor",
                     wording.ratio_only(
-                        check.kind,
-                        check.member,
+                        _name(check, review),
                         where,
                         claim.utilisation,
                         g.utilisation,
@@ -899,7 +899,12 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
                 kind,
                 severity,
                 _difference_message(
-                    cmp, check, where, diffs if kind == "resistance-differs" else (), d, review.standard.length_factor
+                    cmp,
+                    _name(check, review),
+                    where,
+                    diffs if kind == "resistance-differs" else (),
+                    d,
+                    review.standard.length_factor,
                 ),
                 numbers={"claimed": cmp.claimed, "recomputed": cmp.recomputed},
                 quantity=cmp.quantity,
@@ -916,24 +921,21 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
             Finding(
                 "confirmed",
                 "info",
-                wording.confirmed(check.kind, check.member, where, g.qf, g.qr, d),
+                wording.confirmed(_name(check, review), where, g.qf, g.qr, d),
                 **common,
             )
         )
     return CheckOutcome(check.id, claim.id, status, tuple(findings), qf_cmp, qr_cmp, diffs, remedy)
 
 
-def _difference_message(
-    cmp: Comparison, check: RequiredCheck, where: str, diffs, d: Display, length_factor: str = "KB"
-) -> str:
+def _difference_message(cmp: Comparison, name: str, where: str, diffs, d: Display, length_factor: str = "KB") -> str:
     notes = [
         f"{length_factor if x.name == 'KB' else x.name} claimed {_fmt_factor(x.name, x.claimed)}, "
         f"recomputed {_fmt_factor(x.name, x.recomputed)}"
         for x in diffs
     ]
     return wording.differs(
-        check.kind,
-        check.member,
+        name,
         where,
         cmp.quantity,
         cmp.claimed,

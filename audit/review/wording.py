@@ -9,6 +9,35 @@ in lbf), else in the project's (``Display``).
 from __future__ import annotations
 
 from audit.core.units import Display
+from audit.standards.checks import NEAR, RequiredCheck
+
+
+def check_name(check: RequiredCheck, other_is_post: bool) -> str:
+    """A check as engineers name it: 'bearing of GB2 on post P1' (the member above crushed on its support),
+    'B1 under J1' (the member below crushed under the one on it), 'near-support check of GB2 over P1'."""
+    if check.kind == NEAR:
+        return f"near-support check of {check.member} over {check.other_member}"
+    if check.face == "bottom":
+        return f"bearing of {check.member} on {'post ' if other_is_post else ''}{check.other_member}"
+    return f"{check.member} under {check.other_member}"
+
+
+def group_name(checks: list[RequiredCheck], other_is_post: bool) -> str:
+    """Alike checks named together: 'bearings of J1, J2 and J3 on B1', 'B1 under J1 and J2'."""
+    first = checks[0]
+    if len(checks) == 1:
+        return check_name(first, other_is_post)
+    if first.kind == NEAR:
+        return f"near-support checks of {first.member} over {_names(c.other_member for c in checks)}"
+    if first.face == "bottom":
+        post = "post " if other_is_post else ""
+        return f"bearings of {_names(c.member for c in checks)} on {post}{first.other_member}"
+    return f"{first.member} under {_names(c.other_member for c in checks)}"
+
+
+def _names(items) -> str:
+    names = list(dict.fromkeys(items))
+    return ", ".join(names[:-1]) + (" and " if len(names) > 1 else "") + names[-1]
 
 
 def _cap(text: str) -> str:
@@ -37,8 +66,7 @@ def force_differs(
 
 
 def failing(
-    kind: str,
-    member: str,
+    name: str,
     where: str,
     qf: float,
     qr: float,
@@ -49,21 +77,20 @@ def failing(
     d: Display,
 ) -> str:
     return (
-        f"{_cap(kind)} bearing of {member} at {where} fails: recomputed Qf = {d.force(qf)} > Qr = {d.force(qr)} "
+        f"{_cap(name)} at {where} fails: recomputed Qf = {d.force(qf)} > Qr = {d.force(qr)} "
         f"(Qf/Qr = {util:.2f}, {combo}); {stance}. {remedy}"
     )
 
 
-def missing(kind: str, member: str, where: str, why: str, qf: float, qr: float, combo: str, d: Display) -> str:
+def missing(name: str, where: str, why: str, qf: float, qr: float, combo: str, d: Display) -> str:
     return (
-        f"Missing {kind} check of {member} at {where}: required because {why}. "
+        f"Missing from the calc: {name} at {where}, required because {why}. "
         f"Recomputed Qf = {d.force(qf)}, Qr = {d.force(qr)} ({combo})."
     )
 
 
 def ratio_only(
-    kind: str,
-    member: str,
+    name: str,
     where: str,
     claimed: float,
     util: float,
@@ -74,14 +101,13 @@ def ratio_only(
     d: Display,
 ) -> str:
     return (
-        f"{_cap(kind)} check of {member} at {where}: the calc states only Qf/Qr = {claimed:.2f}; recomputed "
+        f"{_cap(name)} at {where}: the calc states only Qf/Qr = {claimed:.2f}; recomputed "
         f"Qf/Qr = {util:.2f} ({direction}; recomputed Qf = {d.force(qf)}, Qr = {d.force(qr)}, {combo})."
     )
 
 
 def differs(
-    kind: str,
-    member: str,
+    name: str,
     where: str,
     quantity: str,
     claimed: float,
@@ -94,7 +120,7 @@ def differs(
 ) -> str:
     what = "factored load" if quantity == "Qf" else "resistance"
     text = (
-        f"{_cap(kind)} check of {member} at {where}: claimed {quantity} = {d.force(claimed)}, recomputed "
+        f"{_cap(name)} at {where}: claimed {quantity} = {d.force(claimed)}, recomputed "
         f"{d.force(recomputed)} ({relative:+.0%}, {direction}). "
     )
     if factor_notes:
@@ -107,25 +133,21 @@ def differs(
     return text
 
 
-def confirmed(kind: str, member: str, where: str, qf: float, qr: float, d: Display) -> str:
+def confirmed(name: str, where: str, qf: float, qr: float, d: Display) -> str:
     return (
-        f"{_cap(kind)} check of {member} at {where} confirmed: claimed and recomputed agree within tolerance "
+        f"{_cap(name)} at {where} confirmed: claimed and recomputed agree within tolerance "
         f"(Qf = {d.force(qf)}, Qr = {d.force(qr)})."
     )
 
 
-def covered(check_words: str, member: str, where: str, label: str, page: str, governing: str) -> str:
+def covered(name: str, where: str, label: str, page: str, governing: str) -> str:
     return (
-        f"{check_words} of {member} at {where}: covered by typical claim '{label}' ({page}), whose governing "
-        f"check is {governing}."
+        f"{_cap(name)} at {where}: covered by typical claim '{label}' ({page}), whose governing check is {governing}."
     )
 
 
-def not_covered(check_words: str, member: str, where: str, label: str, page: str, reasons: list[str]) -> str:
-    return (
-        f"{check_words} of {member} at {where} is not covered by typical claim '{label}' ({page}): "
-        f"{'; '.join(reasons)}."
-    )
+def not_covered(name: str, where: str, label: str, page: str, reasons: list[str]) -> str:
+    return f"{_cap(name)} at {where} is not covered by typical claim '{label}' ({page}): {'; '.join(reasons)}."
 
 
 def exceeds(quantity: str, ours: float, claimed: float, d: Display) -> str:
