@@ -147,7 +147,7 @@ def _csv_safe(value: Any) -> Any:
 
 def name_of(review: Review, r: CheckResult) -> str:
     """The check as engineers name it: 'bearing of GB2 on post P1', 'B1 under J1'."""
-    return check_name(r.check, review.model.members[r.check.other_member].vertical)
+    return check_name(r.check, review.model.members[r.check.other_member])
 
 
 def check_table(review: Review) -> str:
@@ -208,7 +208,7 @@ def explain(review: Review, check_id: str) -> str:
     r = review.result(check_id)
     c = r.check
     lines = [
-        f"Check {c.id}: {check_name(c, review.model.members[c.other_member].vertical)} ({r.material}), "
+        f"Check {c.id}: {check_name(c, review.model.members[c.other_member])} ({r.material}), "
         f"{review.standard.check_kinds.get(c.kind, c.kind)}, at bearing {c.bearing}",
         f"Why required: {c.why}",
         f"Contact on the {c.face} face: {c.contact.length * 1000:.0f} mm along the grain ({c.contact.length_note}), "

@@ -73,11 +73,11 @@ WEIGHT_WORDS = {"critical": "safety", "major": "revise", "minor": "clarify", "in
 
 def what_check(check: RequiredCheck, review: Review) -> str:
     """The check in the words a reviewer uses (``wording.check_name``)."""
-    return wording.check_name(check, review.model.members[check.other_member].vertical)
+    return wording.check_name(check, review.model.members[check.other_member])
 
 
 def _group_words(checks: list[RequiredCheck], review: Review) -> str:
-    return wording.group_name(checks, review.model.members[checks[0].other_member].vertical)
+    return wording.group_name(checks, review.model.members[checks[0].other_member])
 
 
 def _calc_label(review: Review, bearing_id: str) -> str:

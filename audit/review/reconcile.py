@@ -793,7 +793,7 @@ def display_for(review: Review, claim: Claim | None = None) -> Display:
 
 def _name(check: RequiredCheck, review: Review) -> str:
     """The check as engineers name it (``wording.check_name``)."""
-    return wording.check_name(check, review.model.members[check.other_member].vertical)
+    return wording.check_name(check, review.model.members[check.other_member])
 
 
 def _location(result: CheckResult, review: Review) -> str:

@@ -9,29 +9,40 @@ in lbf), else in the project's (``Display``).
 from __future__ import annotations
 
 from audit.core.units import Display
+from audit.engine.model import Member
 from audit.standards.checks import NEAR, RequiredCheck
 
 
-def check_name(check: RequiredCheck, other_is_post: bool) -> str:
+def support_word(other: Member) -> str:
+    """What a vertical support is called before its id: 'post ', 'stud ', 'stud pack '; nothing for a beam."""
+    if not other.vertical:
+        return ""
+    if other.label.startswith("stud pack"):
+        return "stud pack "
+    if other.label.startswith("stud "):
+        return "stud "
+    return "post "
+
+
+def check_name(check: RequiredCheck, other: Member) -> str:
     """A check as engineers name it: 'bearing of GB2 on post P1' (the member above crushed on its support),
     'B1 under J1' (the member below crushed under the one on it), 'near-support check of GB2 over P1'."""
     if check.kind == NEAR:
         return f"near-support check of {check.member} over {check.other_member}"
     if check.face == "bottom":
-        return f"bearing of {check.member} on {'post ' if other_is_post else ''}{check.other_member}"
+        return f"bearing of {check.member} on {support_word(other)}{check.other_member}"
     return f"{check.member} under {check.other_member}"
 
 
-def group_name(checks: list[RequiredCheck], other_is_post: bool) -> str:
+def group_name(checks: list[RequiredCheck], other: Member) -> str:
     """Alike checks named together: 'bearings of J1, J2 and J3 on B1', 'B1 under J1 and J2'."""
     first = checks[0]
     if len(checks) == 1:
-        return check_name(first, other_is_post)
+        return check_name(first, other)
     if first.kind == NEAR:
         return f"near-support checks of {first.member} over {_names(c.other_member for c in checks)}"
     if first.face == "bottom":
-        post = "post " if other_is_post else ""
-        return f"bearings of {_names(c.member for c in checks)} on {post}{first.other_member}"
+        return f"bearings of {_names(c.member for c in checks)} on {support_word(other)}{first.other_member}"
     return f"{first.member} under {_names(c.other_member for c in checks)}"
 
 
