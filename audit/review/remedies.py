@@ -22,26 +22,57 @@ from audit.standards.o86 import CheckResult
 LENGTH_STEP = 2e-4  # m: the length search stops at a fifth of a millimetre, then rounds up to whole millimetres
 
 
+@dataclass(frozen=True)
+class Room:
+    """Where the contact may grow along the member: between the nearest contacts on the same face (or the
+    member's ends), with the checks of those contacts, which the standard may read (EC5's effective length)."""
+
+    start: float  # m
+    end: float  # m
+    neighbours: tuple[RequiredCheck, ...]
+
+
+def room_of(review: Review, check: RequiredCheck) -> Room:
+    """The nearest other contact on each side of the check's, on the same face of the same member."""
+    c = check.contact
+    before: RequiredCheck | None = None
+    after: RequiredCheck | None = None
+    for other in review.checks_on.get(check.member, ()):
+        if other.face != check.face or other.bearing == check.bearing:
+            continue
+        o = other.contact
+        if o.start + o.length <= c.start + 1e-9 and (
+            before is None or o.start + o.length > before.contact.start + before.contact.length
+        ):
+            before = other
+        elif o.start >= c.start + c.length - 1e-9 and (after is None or o.start < after.contact.start):
+            after = other
+    length = review.model.members[check.member].length
+    return Room(
+        before.contact.start + before.contact.length if before is not None else 0.0,
+        after.contact.start if after is not None else length,
+        tuple(x for x in (before, after) if x is not None),
+    )
+
+
 def recheck(review: Review, check: RequiredCheck, model: Model | None = None) -> CheckResult:
-    """The check (a changed contact, or on a changed model) as the standard computes it, beside its neighbours."""
+    """The check (a changed contact, or on a changed model) as the standard computes it, beside the nearest
+    contacts on its face."""
     model = review.model if model is None else model
-    neighbours = tuple(r.check for r in review.results if r.check.member == check.member and r.check.id != check.id)
+    neighbours = room_of(review, check).neighbours
     results = review.standard.resist(CheckList((check, *neighbours), ()), model, review.pack, review.cpack)
     return next(r for r in results if r.check.id == check.id)
 
 
-def with_contact(check: RequiredCheck, member_length: float, length: float, width: float) -> RequiredCheck:
-    """The check with its contact grown (or narrowed) about its centre; a contact flush with an end stays flush."""
+def with_contact(check: RequiredCheck, room: Room, member_length: float, length: float, width: float) -> RequiredCheck:
+    """The check with its contact grown about its centre, kept within its room (a contact flush with an end, or
+    with a neighbour, grows away from it)."""
     c = check.contact
     grown = length - c.length
-    at_start, at_end = c.start < 1e-9, c.start + c.length > member_length - 1e-9
-    if at_start:
-        start = 0.0
-    elif at_end:
-        start = max(member_length - length, 0.0)
-    else:
-        start = min(max(c.start - grown / 2, 0.0), max(member_length - length, 0.0))
-    end_distance = c.end_distance if c.end_distance < 1e-9 else max(c.end_distance - grown / 2, 0.0)
+    start = min(max(c.start - grown / 2, room.start), max(room.end - length, room.start))
+    near_start = c.start <= member_length - (c.start + c.length)
+    moved = (c.start - start) if near_start else (start + length) - (c.start + c.length)
+    end_distance = max(c.end_distance - max(moved, 0.0), 0.0)
     contact: Contact = replace(c, length=length, width=width, start=start, end_distance=end_distance)
     return replace(check, contact=contact)
 
@@ -73,28 +104,34 @@ def length_factor_text(review: Review, result: CheckResult) -> str:
 
 
 def shortest_passing(review: Review, result: CheckResult, width: float) -> Tried | None:
-    """The shortest bearing (whole millimetres) at ``width`` that passes the standard's check, or None."""
+    """The shortest bearing (whole millimetres) at ``width`` that passes the standard's check and stays clear of
+    the neighbouring contacts, or None."""
     check = result.check
     member_length = review.model.members[check.member].length
+    room = room_of(review, check)
 
     def tried(length: float) -> CheckResult:
-        return recheck(review, with_contact(check, member_length, length, width))
+        return recheck(review, with_contact(check, room, member_length, length, width))
 
-    lo, hi = check.contact.length, member_length
-    longest = tried(hi)
-    if not longest.passes:
+    lo, hi = check.contact.length, max(room.end - room.start, check.contact.length)
+    if not tried(hi).passes:
         return None
-    if tried(lo).passes:
-        return Tried("length", lo, width, tried(lo))
+    present = tried(lo)
+    if present.passes:
+        return Tried("length", lo, width, present)
     while hi - lo > LENGTH_STEP:
         mid = 0.5 * (lo + hi)
         if tried(mid).passes:
             hi = mid
         else:
             lo = mid
-    length = min(math.ceil(hi * 1000.0 - 1e-6) / 1000.0, member_length)
+    # the first whole millimetre at or above the last failing length that passes (hi passes, within LENGTH_STEP)
+    length = math.ceil(lo * 1000.0 - 1e-6) / 1000.0
     found = tried(length)
-    if not found.passes:  # rounding to whole millimetres can only lengthen it; guard all the same
+    while not found.passes and length + 0.001 <= room.end - room.start + 1e-9:
+        length += 0.001
+        found = tried(length)
+    if not found.passes:  # the whole room, not a whole number of millimetres
         length, found = hi, tried(hi)
     return Tried("length", length, width, found)
 
@@ -164,7 +201,7 @@ def remedy_text(result: CheckResult, review: Review) -> str:
     width_mm = check.contact.width * 1000
     found = remedies(review, result)
     if not found:
-        tried = [f"no {face} length along the grain at {width_mm:.0f} mm contact width"]
+        tried = [f"no {face} length along the grain (clear of the next contacts) at {width_mm:.0f} mm contact width"]
         if check.contact.width < member.b - 1e-9:
             tried.append(f"no bearing plate the full {member.b * 1000:.0f} mm width of {member.id}")
         family = material.family.replace("_", " ")

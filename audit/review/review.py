@@ -13,7 +13,7 @@ from audit.inputs.read_model import read_model
 from audit.review import wording
 from audit.review.findings import KINDS, Finding
 from audit.standards.base import Standard
-from audit.standards.checks import CheckList
+from audit.standards.checks import CheckList, RequiredCheck
 from audit.standards.o86 import CheckResult, LoadCombination, counteracted, load_combinations
 from audit.standards.packs import CombinationPack, PackCore
 from audit.standards.registry import standard_named
@@ -40,6 +40,14 @@ class Review:
     @cached_property
     def _by_place(self) -> dict[tuple[str, str, str], CheckResult]:
         return {(r.check.bearing, r.check.member, r.check.kind): r for r in self.results}
+
+    @cached_property
+    def checks_on(self) -> dict[str, tuple[RequiredCheck, ...]]:
+        """Member id -> the checks of that member."""
+        out: dict[str, list[RequiredCheck]] = {}
+        for r in self.results:
+            out.setdefault(r.check.member, []).append(r.check)
+        return {member: tuple(checks) for member, checks in out.items()}
 
     def result(self, check_id: str) -> CheckResult:
         return self._by_id[check_id]
