@@ -102,3 +102,20 @@ def test_a_failing_check_nothing_repairs_says_so():
     text = reconcile(review, ()).outcome("B1/C1:B1:near").remedy
     assert text.startswith("No remedy tried passes the check")
     assert "no stronger species of glulam in rule pack o86-2019-recalled" in text
+
+
+def test_a_longer_bearing_is_never_offered_through_the_next_contact():
+    # as above with D 10, L 20 kN at B/P1: Fc,90,d = 1.35 x 10 + 1.5 x 20 = 43.5 kN. The most room P1 has is up to
+    # P3's contact at 300 mm, where nothing spreads past P3: 1.0 x 1.5385 MPa x 89 x 300 = 41.1 kN < 43.5 kN
+    # (and C30, 2.7 MPa, at 89 mm: 17.6 kN). A length beyond 300 mm would sit on P3: nothing is offered.
+    data = contact_model("ec5")
+    data["members"].append({"id": "P3", "material": "STEEL", "b": "89 mm", "d": "89 mm", "length": "3 m",
+                            "orientation": "vertical"})  # fmt: skip
+    data["bearings"].append({"upper": {"member": "B", "at": "344.5 mm"}, "lower": "P3"})
+    data["bearings"][0]["calc_force"] = {"D": "10 kN", "L": "20 kN"}
+    review = review_dict(data)
+    result = review.result_at("B/P1", "B", "local")
+    assert result is not None and result.governing.qf == pytest.approx(43500.0)
+    assert 1.0 * 0.8 * 2.5e6 / 1.3 * 0.089 * 0.300 < 43500.0
+    assert remedies(review, result) == ()
+    assert reconcile(review, ()).outcome("B/P1:B").remedy.startswith("No remedy tried passes the check")
