@@ -119,3 +119,22 @@ def test_a_longer_bearing_is_never_offered_through_the_next_contact():
     assert 1.0 * 0.8 * 2.5e6 / 1.3 * 0.089 * 0.300 < 43500.0
     assert remedies(review, result) == ()
     assert reconcile(review, ()).outcome("B/P1:B").remedy.startswith("No remedy tried passes the check")
+
+
+def test_a_stronger_species_is_offered_with_the_qf_qr_it_gives():
+    # J1 (S-P-F No.2, 38 x 235) on B1 at its end: 38 x 130 mm, KB 1.00 (end), KZcp 1.15 (b/d <= 1).
+    # D 3, L 6.5 kN/m over J1's 4 m: 2w at B1, Qf = 1.25 x 6 + 1.5 x 13 = 27.0 kN.
+    # S-P-F: Qr = 0.8 x 5.3 MPa x 38 x 130 x 1.15 = 24.09 kN (fails); the next stronger sawn species in the pack,
+    # D.Fir-L 7.0 MPa: 31.81 kN, Qf/Qr = 0.85 (Hem-Fir 4.6 and Northern 3.5 MPa are weaker, not tried)
+    data = base_model()
+    data["loads"][0]["specified"] = {"D": "3 kN/m", "L": "6.5 kN/m"}
+    review = review_dict(data)
+    result = review.result("J1/B1:J1")
+    assert result.governing.qf == pytest.approx(27000.0) and not result.passes
+    species = next(t for t in remedies(review, result) if t.what == "species")
+    qr = 0.8 * 7.0e6 * 0.038 * 0.130 * 1.15
+    assert species.species == "D.Fir-L" and species.result.governing.qr == pytest.approx(qr)
+    assert (
+        "D.Fir-L (7.00 MPa) for J1 at the present contact (Qf/Qr = 0.85)"
+        in reconcile(review, ()).outcome("J1/B1:J1").remedy
+    )
