@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import difflib
 import fnmatch
+import itertools
 import math
 import re
 from dataclasses import dataclass, field, replace
@@ -477,46 +478,41 @@ def qf_slips(result: CheckResult, review: Review) -> list[Slip]:
     """Each load slip, alone and together with the calc's usual readings: every span loaded (pattern loading
     ignored), only the bearings within d in Qf' (distributed load left out), and unfactored loads."""
     g = result.governing
-    combo = review.combination(g.combination)
-    if combo is None:  # no load reaches the check
+    governing = review.combination(g.combination)
+    if governing is None:  # no load reaches the check
         return []
-    engine_qf = _qf_under(LoadSource(dict(result.check.forces), dict(result.check.envelope)), combo)[0]
+    engine_qf = _qf_under(LoadSource(dict(result.check.forces), dict(result.check.envelope)), governing)[0]
     out: list[Slip] = []
     for name, text, source, spread, spread_words in _load_sources(result, review):
-        combo = review.combination(source.combination) or review.combination(g.combination) or combo
-        patterned = _qf_under(source, combo)
+        combo = review.combination(source.combination) or governing
+        patterned, pattern = _qf_under(source, combo)
         every_span = [False]
-        if source.envelope and abs(_qf_under(replace(source, envelope={}), combo)[0] - patterned[0]) > FORCE_RESOLUTION:
+        if source.envelope and abs(_qf_under(replace(source, envelope={}), combo)[0] - patterned) > FORCE_RESOLUTION:
             every_span.append(True)
-        bearings_only = [False, True] if spread and any(abs(v) > FORCE_RESOLUTION for v in spread.values()) else [False]
-        for loaded in every_span:
-            for points in bearings_only:
-                for unfactored in (False, True):
-                    names, texts = ([name], [text]) if name else ([], [])
-                    forces = source.forces
-                    if loaded:
-                        names.append("pattern-loading-ignored")
-                        texts.append(
-                            "every span loaded only: pattern loading ignored (the worst here is "
-                            f"{_qf_under(source, combo)[1] or g.pattern})"
-                        )
-                    if points:
-                        forces = {case: value - spread.get(case, 0.0) for case, value in forces.items()}
-                        names.append("distributed-load-left-out")
-                        texts.append(f"the part of the distributed load within d was left out of Qf' ({spread_words})")
-                    if unfactored:
-                        names.append("unfactored-loads")
-                        texts.append("specified (unfactored) loads were used as Qf")
-                    if not names:
-                        continue
-                    load = LoadSource(forces, {} if loaded else source.envelope, unfactored, source.combination)
-                    value = _qf_under(load, combo)[0]
-                    if len(names) > 1 and abs(value - engine_qf) <= FORCE_RESOLUTION:
-                        continue
-                    together = f"{COUNT_WORDS[len(names)]} slips together: " if len(names) > 1 else ""
-                    out.append(
-                        Slip("+".join(names), together + "; and ".join(texts), value, parts=len(names), load=load)
-                    )
+        bearings_only = [False, True] if any(abs(v) > FORCE_RESOLUTION for v in spread.values()) else [False]
+        for loaded, points, unfactored in itertools.product(every_span, bearings_only, (False, True)):
+            names, texts = ([name], [text]) if name else ([], [])
+            forces = source.forces
+            if loaded:
+                names.append("pattern-loading-ignored")
+                texts.append(
+                    f"every span loaded only: pattern loading ignored (the worst here is {pattern or g.pattern})"
+                )
+            if points:
+                forces = {case: value - spread.get(case, 0.0) for case, value in forces.items()}
+                names.append("distributed-load-left-out")
+                texts.append(f"the part of the distributed load within d was left out of Qf' ({spread_words})")
+            if unfactored:
+                names.append("unfactored-loads")
+                texts.append("specified (unfactored) loads were used as Qf")
+            if not names:
+                continue  # the engine's own reading
+            load = LoadSource(forces, {} if loaded else source.envelope, unfactored, source.combination)
+            value = _qf_under(load, combo)[0]
+            if len(names) > 1 and abs(value - engine_qf) <= FORCE_RESOLUTION:
+                continue  # slips that cancel out are no cause
+            together = f"{COUNT_WORDS[len(names)]} slips together: " if len(names) > 1 else ""
+            out.append(Slip("+".join(names), together + "; and ".join(texts), value, parts=len(names), load=load))
     return out
 
 
