@@ -98,3 +98,35 @@ def test_the_resistance_is_diagnosed_with_the_load_slip_found_in_qf():
     # the calc's KD alone: Qr' = 23.05 kN, named as the duration factor of the calc's loads
     alone, _ = outcome(data, [claim("B1/C1", "B1", kind="near-support", Qf=8500.0, Qr=qr_kd1)], "B1/C1:B1:near")
     assert _named(alone.qr) == ["duration-of-calc-loads"]
+
+
+def _with_patterned_live(review, check_id: str, high: float):
+    """The review with one check's live load patterned (an envelope as the take-down gives a continuous member's
+    support), so the slips are tried on a near-support check that carries a worst pattern."""
+    from dataclasses import replace
+
+    from audit.engine.take_down import Envelope
+    from audit.standards.checks import CheckList
+
+    result = review.result(check_id)
+    check = replace(result.check, envelope={"L": Envelope(high, 0.0, "span 1", "")})
+    rerun = review.standard.resist(CheckList((check,), ()), review.model, review.pack, review.cpack)[0]
+    return replace(review, results=tuple(rerun if r.check.id == check_id else r for r in review.results))
+
+
+def test_every_span_loaded_is_tried_with_only_the_bearings_in_qf_prime():
+    # B1's own D 20, L 10 kN/m within d: 455 mm, D 9.1 kN, L 4.55 kN; J1 on top: D 2, L 4 kN. With L patterned to
+    # 9.55 kN at the support: recomputed Qf' = 1.25 x 11.1 + 1.5 x 9.55 = 28.2 kN. A calc with every span loaded
+    # and only the bearing within d: 1.25 x 2 + 1.5 x 4 = 8.5 kN (both slips); only the bearing, L patterned:
+    # 1.25 x 2 + 1.5 x (9.55 - 4.55) = 10.0 kN (one slip)
+    from audit.review.reconcile import reconcile
+    from tests.conftest import claims_from, review_dict
+
+    data = _beam_load_within_d()
+    data["loads"][-1]["specified"] = {"D": "20 kN/m", "L": "10 kN/m"}
+    review = _with_patterned_live(review_dict(data), "B1/C1:B1:near", 9550.0)
+    assert review.result("B1/C1:B1:near").governing.qf == pytest.approx(1.25 * 11100 + 1.5 * 9550)
+    for claimed, expected in ((8500.0, ["pattern-loading-ignored+distributed-load-left-out"]),
+                              (10000.0, ["distributed-load-left-out"])):  # fmt: skip
+        rec = reconcile(review, claims_from([claim("B1/C1", "B1", kind="near-support", Qf=claimed)]))
+        assert _named(rec.outcome("B1/C1:B1:near").qf) == expected

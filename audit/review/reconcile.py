@@ -492,7 +492,7 @@ def qf_slips(result: CheckResult, review: Review) -> list[Slip]:
         bearings_only = [False, True] if any(abs(v) > FORCE_RESOLUTION for v in spread.values()) else [False]
         for loaded, points, unfactored in itertools.product(every_span, bearings_only, (False, True)):
             names, texts = ([name], [text]) if name else ([], [])
-            forces = source.forces
+            forces, envelope = source.forces, {} if loaded else source.envelope
             if loaded:
                 names.append("pattern-loading-ignored")
                 texts.append(
@@ -500,6 +500,10 @@ def qf_slips(result: CheckResult, review: Review) -> list[Slip]:
                 )
             if points:
                 forces = {case: value - spread.get(case, 0.0) for case, value in forces.items()}
+                envelope = {  # a patterned case is placed from its envelope: leave the spread part out there too
+                    case: replace(env, high=env.high - spread.get(case, 0.0), low=env.low - spread.get(case, 0.0))
+                    for case, env in envelope.items()
+                }
                 names.append("distributed-load-left-out")
                 texts.append(f"the part of the distributed load within d was left out of Qf' ({spread_words})")
             if unfactored:
@@ -507,7 +511,7 @@ def qf_slips(result: CheckResult, review: Review) -> list[Slip]:
                 texts.append("specified (unfactored) loads were used as Qf")
             if not names:
                 continue  # the engine's own reading
-            load = LoadSource(forces, {} if loaded else source.envelope, unfactored, source.combination)
+            load = LoadSource(forces, envelope, unfactored, source.combination)
             value = _qf_under(load, combo)[0]
             if len(names) > 1 and abs(value - engine_qf) <= FORCE_RESOLUTION:
                 continue  # slips that cancel out are no cause
