@@ -38,7 +38,9 @@ def test_a_check_with_several_findings_gets_one_comment_with_every_point(demo):
 
 def test_alike_missing_checks_are_one_comment_per_kind_of_detail_naming_the_worst_place(demo):
     review, _, _, comments = demo
-    grouped = next(c for c in comments if c.title.startswith("Lumber joists on glulam beams: the reverse-direction"))
+    grouped = next(
+        c for c in comments if c.title.startswith("Lumber joists on glulam beams: the bearing of each joist")
+    )
     assert [p.check_id for p in grouped.places] == ["J1/GB1:J1", "J3/GB1:J3", "J4/GB1:J4"]
     ratios = {p.bearing: review.result(p.check_id).governing.utilisation for p in grouped.places}
     worst = next(p for p in grouped.places if ratios[p.bearing] == max(ratios.values()))

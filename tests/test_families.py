@@ -23,7 +23,7 @@ def test_a_missing_glulam_check_cites_the_glulam_clause_and_a_sawn_one_the_sawn_
     rec = reconcile(review, claims_from([]))
     clause = {(f.member, f.check_id.endswith(":near")): f.clause for f in rec.findings if f.kind == "missing"}
     assert clause[("B1", False)] == "O86 7.5.9.2"  # glulam beam under the joist
-    assert clause[("J1", False)] == "O86 6.5.6.2"  # the sawn joist, reverse direction
+    assert clause[("J1", False)] == "O86 6.5.6.2"  # the sawn joist, its bearing on the beam
 
 
 def _two_face_review(tmp_path, tension: str | None = "5.0 MPa"):

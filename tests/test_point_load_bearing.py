@@ -75,7 +75,7 @@ def test_the_point_load_check_is_in_the_memo_the_json_and_the_comment_log(run_cl
     checks = {c["id"]: c for c in json.loads(out_json.read_text(encoding="utf-8"))["checks"]}
     assert checks["leg:B"]["point_load"] == "leg" and checks["leg:B"]["bearing"] == "leg"
     log = [line for line in out_csv.read_text(encoding="utf-8").splitlines() if "leg:B" in line]
-    assert log and ",missing," in log[0] and "Check of B under point load leg: missing from the calc" in log[0]
+    assert log and ",missing," in log[0] and "B under point load leg: missing from the calc" in log[0]
     assert "leg:B" in memo.read_text(encoding="utf-8")
 
 

@@ -37,7 +37,7 @@ def _round_one() -> tuple[dict, list[dict]]:
         _claim("c3", "B1/C1", "B1", "4.25 kN", "500 kN"),  # the beam on C1: the resistance does not hold
         _claim("c4", "B1/C2", "B1", "4.25 kN"),  # agrees
     ]
-    # not claimed: J1 on B1 and J1 on W1 (two reverse-direction checks missing); W1's support is not in
+    # not claimed: J1 on B1 and J1 on W1 (two bearings of the joist missing); W1's support is not in
     # the model (a note): five comments in all
     return model, claims
 

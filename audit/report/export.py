@@ -16,6 +16,7 @@ from audit import __version__
 from audit.engine.contacts import Contact
 from audit.review.comments import own_comment_threshold
 from audit.review.review import Review
+from audit.review.wording import check_name
 from audit.standards.o86 import CheckResult, placed_forces
 
 
@@ -30,11 +31,13 @@ def _contact(c: Contact) -> dict[str, Any]:
     }
 
 
-def check_record(r: CheckResult) -> dict[str, Any]:
+def check_record(r: CheckResult, name: str = "") -> dict[str, Any]:
+    """One check as the JSON states it; ``name``: the check as engineers name it (``wording.check_name``)."""
     c = r.check
     g = r.governing
     return {
         "id": c.id,
+        "name": name,
         "kind": c.kind,
         "member": c.member,
         "material": r.material,
@@ -97,7 +100,7 @@ def review_record(review: Review) -> dict[str, Any]:
         "combinations_pack": {"id": review.cpack.id, "edition": review.cpack.edition},
         "readings": dict(review.readings),
         "triage": _triage(review),
-        "checks": (check_record(r) for r in review.results),
+        "checks": (check_record(r, name_of(review, r)) for r in review.results),
         "not_checked": [
             {"bearing": e.bearing, "member": e.member, "reason": e.reason} for e in review.checklist.exempt
         ],
@@ -150,9 +153,15 @@ def _csv_safe(value: Any) -> Any:
     return value
 
 
+def name_of(review: Review, r: CheckResult) -> str:
+    """The check as engineers name it: 'bearing of GB2 on post P1', 'B1 under J1'."""
+    return check_name(r.check, review.model.members.get(r.check.other_member))
+
+
 def check_table(review: Review) -> str:
     d = review.display  # in the project's units: kN, or kip
     header = ["check", "member", "kind", f"Qf {d.force_unit}", f"Qr {d.force_unit}", "Qf/Qr", "governing", "status"]
+    header.append("what")
     rows = []
     for r in review.results:
         g = r.governing
@@ -166,6 +175,7 @@ def check_table(review: Review) -> str:
                 f"{g.utilisation:.2f}",
                 g.combination,
                 "passes" if r.passes else "FAILS",
+                name_of(review, r),
             ]
         )
     widths = [max(len(str(x)) for x in col) for col in zip(header, *rows, strict=False)]
@@ -206,8 +216,9 @@ def explain(review: Review, check_id: str) -> str:
     r = review.result(check_id)
     c = r.check
     lines = [
-        f"Check {c.id}: {c.kind} bearing of {c.member} ({r.material}) "
-        + (f"under point load {c.load}" if c.load else f"at bearing {c.bearing}"),
+        f"Check {c.id}: {check_name(c, review.model.members.get(c.other_member))} ({r.material}), "
+        f"{review.standard.check_kinds.get(c.kind, c.kind)}, "
+        + (f"at point load {c.load}" if c.load else f"at bearing {c.bearing}"),
         f"Why required: {c.why}",
         f"Contact on the {c.face} face: {c.contact.length * 1000:.0f} mm along the grain ({c.contact.length_note}), "
         f"{c.contact.width * 1000:.0f} mm across ({c.contact.width_note}), "

@@ -17,7 +17,7 @@ import jinja2
 from audit import __version__
 from audit.core.units import Display
 from audit.inputs.read_claims import Claim
-from audit.report.export import check_record
+from audit.report.export import check_record, name_of
 from audit.review.comments import WEIGHT_WORDS, Comment, build_comments
 from audit.review.findings import KINDS, SEVERITIES, Finding
 from audit.review.reconcile import Reconciliation
@@ -260,7 +260,7 @@ def _check_rows(review: Review, reconciliation: Reconciliation | None, claims: d
         groups.setdefault((member.level or "(no level)", member.id), []).append(
             {
                 "id": r.check.id,
-                "kind": r.check.kind,
+                "kind": name_of(review, r),
                 "qf": kn(r.governing.qf, display),
                 "qr": kn(r.governing.qr, display),
                 "util": f"{r.governing.utilisation:.2f}",

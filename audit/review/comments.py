@@ -26,6 +26,7 @@ from dataclasses import dataclass, replace
 
 from audit.core.units import Display
 from audit.inputs.read_claims import Claim
+from audit.review import wording
 from audit.review.details import detail_of, member_roles
 from audit.review.findings import KINDS, WEIGHTS, Finding, severity_rank
 from audit.review.reconcile import Reconciliation
@@ -86,31 +87,13 @@ class Comment:
 WEIGHT_WORDS = {w: w for w in WEIGHTS}  # a weight is shown as it is named
 
 
-def what_check(check: RequiredCheck) -> str:
-    """The check in the words a reviewer uses."""
-    if check.load:
-        return f"check of {check.member} under point load {check.load}"
-    if check.kind == NEAR:
-        return f"near-support check of {check.member} over {check.other_member}"
-    if check.face == "bottom":
-        return f"reverse-direction check of {check.member} on {check.other_member}"
-    return f"check of {check.member} under {check.other_member}"
+def what_check(check: RequiredCheck, review: Review) -> str:
+    """The check in the words a reviewer uses (``wording.check_name``)."""
+    return wording.check_name(check, review.model.members.get(check.other_member))
 
 
-def _group_words(checks: list[RequiredCheck]) -> str:
-    first = checks[0]
-    if len(checks) == 1:
-        return what_check(first)
-    if first.kind == NEAR:
-        return f"near-support checks of {first.member} over {_names(c.other_member for c in checks)}"
-    if first.face == "bottom":
-        return f"reverse-direction checks of {_names(c.member for c in checks)} on {first.other_member}"
-    return f"checks of {first.member} under {_names(c.other_member for c in checks)}"
-
-
-def _names(items) -> str:
-    names = list(dict.fromkeys(items))
-    return ", ".join(names[:-1]) + (" and " if len(names) > 1 else "") + names[-1]
+def _group_words(checks: list[RequiredCheck], review: Review) -> str:
+    return wording.group_name(checks, review.model.members.get(checks[0].other_member))
 
 
 def _calc_label(review: Review, bearing_id: str) -> str:
@@ -285,7 +268,7 @@ def _draft(key: tuple, members, review: Review, units, claim_of, roles) -> tuple
         title, ask = _claim_title(key[1], claim, members, places, review, roles)
         places = [_as_claimed(p, claim) for p in places]
     else:
-        what = _group_words(checks)
+        what = _group_words(checks, review)
         what = what[:1].upper() + what[1:]
         if tier == "own" and not review.result(worst.id).passes and lead.kind != "failing":
             text = KINDS["failing"].title.format(what=what) + " (" + KINDS[lead.kind].title.format(what="it") + ")"

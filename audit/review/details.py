@@ -57,7 +57,7 @@ class Detail:
         elif self.face == "top":
             what = f"the check of the {checked} under each {other}"
         else:
-            what = f"the reverse-direction check of each {checked} on its {other}"
+            what = f"the bearing of each {checked} on its {other}"
         return f"{pair[:1].upper()}{pair[1:]}: {what}"
 
 

@@ -45,8 +45,8 @@ KINDS: dict[str, FindingKind] = {
             "missing",
             "revise",
             "a check the design requires is not in the calc",
-            "an unchecked contact may crush: the reverse-direction check and the near-support check are the "
-            "ones most often left out",
+            "an unchecked contact may crush: the bearing of a member on its support (a joist on its beam, a beam "
+            "on its post) and the near-support check are the ones most often left out",
             "{what}: missing from the calc",
         ),
         FindingKind(

@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import difflib
 import fnmatch
+import itertools
 import math
 import re
 from dataclasses import dataclass, field, replace
@@ -19,15 +20,34 @@ from typing import Any
 from audit.core.units import Display
 from audit.engine.beam_statics import simple_span_reactions
 from audit.engine.model import normalise_label
+from audit.engine.take_down import FORCE_RESOLUTION
 from audit.inputs.read_claims import Claim
 from audit.review import wording
 from audit.review.findings import KINDS, Finding, severity_rank
+from audit.review.remedies import recheck, remedy_text
 from audit.review.review import Review
 from audit.standards.checks import LOCAL, NEAR, RequiredCheck, near_support_width, top_bearing
-from audit.standards.o86 import CheckResult, factored_force, o86_pack, resistance
+from audit.standards.o86 import CheckResult, LoadCombination, factored_force, o86_pack, placed_forces, resistance
 
 FACTOR_REL_TOL = 0.01
-KEY_OF = {"kb": "KB", "kzcp": "KZcp", "kscp": "KScp", "fcp": "fcp"}  # ResistanceInputs field -> claim factor
+KEY_OF = {
+    "kb": "KB",
+    "kzcp": "KZcp",
+    "kscp": "KScp",
+    "fcp": "fcp",
+    "area": "Ab",
+}  # ResistanceInputs field -> claim factor
+
+
+@dataclass(frozen=True)
+class LoadSource:
+    """The loads a calc may have used at a check: per case, its patterned cases (none: every span loaded) and the
+    factors it applied to them (None: the combination's own)."""
+
+    forces: dict[str, float]
+    envelope: dict[str, Any] = field(default_factory=dict)
+    unfactored: bool = False
+    combination: str = ""  # the combination the calc took them in, where it is another check's governing one
 
 
 @dataclass(frozen=True)
@@ -36,24 +56,43 @@ class Slip:
     text: str
     value: float  # the number this slip gives (N)
     implies: dict[str, float] = field(default_factory=dict, compare=False)  # factor values the slip would print
+    parts: int = 1  # how many slips together give the number
+    load: LoadSource | None = field(default=None, compare=False)  # a load slip: the loads the calc then used
 
 
-def fits_claim(slip: Slip, claimed: dict[str, float]) -> bool | None:
-    """Does the claim's own factor list agree with the slip? True, False, or None where it lists none of them."""
-    shared = [name for name in slip.implies if name in claimed]
-    if not shared:
-        return None
-    return all(abs(claimed[n] - slip.implies[n]) <= FACTOR_REL_TOL * max(abs(slip.implies[n]), 1e-12) for n in shared)
+COUNT_WORDS = {2: "two", 3: "three", 4: "four"}
+EXACT_REL_TOL = 0.002  # a reproduction to within rounding of a number printed to three or four figures
 
 
-def choose_slips(slips: list[Slip], claimed: dict[str, float]) -> tuple[Slip, ...]:
-    """Of the slips that reproduce a number, those the claim's own factors do not rule out; where the factors
-    confirm one or more, only those."""
-    verdicts = [(slip, fits_claim(slip, claimed)) for slip in slips]
-    confirmed = [slip for slip, fit in verdicts if fit is True]
-    if confirmed:
-        return tuple(confirmed)
-    return tuple(slip for slip, fit in verdicts if fit is None)
+def agrees_with_factors(slip: Slip, claimed: dict[str, float], recomputed: dict[str, float]) -> bool:
+    """Does the slip print the claim's own factors? Each factor the claim states must be the slip's value of it:
+    the one the slip changes, else the recomputed one (a factor that differs and the slip leaves alone rules
+    the slip out, as does one the slip changes that the claim states otherwise)."""
+    for name, value in claimed.items():
+        ours = slip.implies.get(name, recomputed.get(name))
+        if ours is None:
+            continue
+        if abs(value - ours) > FACTOR_REL_TOL * max(abs(ours), 1e-12):
+            return False
+    return True
+
+
+def choose_slips(
+    slips: list[Slip], claimed_value: float, factors: dict[str, float], recomputed: dict[str, float]
+) -> tuple[Slip, ...]:
+    """Of the slips (and pairs of slips) that reproduce a number, those whose factors agree with the claim's;
+    an exact reproduction is preferred to one that only falls within the tolerance, then fewer slips to more."""
+    fitting = [slip for slip in slips if agrees_with_factors(slip, factors, recomputed)]
+    if not fitting:
+        return ()
+
+    def tier(slip: Slip) -> tuple[bool, int]:
+        exact = abs(slip.value - claimed_value) <= EXACT_REL_TOL * max(abs(claimed_value), 1e-9)
+        return (not exact, slip.parts)
+
+    best = min(tier(slip) for slip in fitting)
+    chosen = [slip for slip in fitting if tier(slip) == best]
+    return tuple(dict.fromkeys(chosen))
 
 
 @dataclass(frozen=True)
@@ -354,87 +393,141 @@ def _compare_utilisation(claimed: float, recomputed: float, review: Review) -> C
 
 
 def _compare(
-    quantity: str, claimed: float, recomputed: float, slips, review: Review, factors: dict[str, float] | None = None
+    quantity: str,
+    claimed: float,
+    recomputed: float,
+    slips,
+    review: Review,
+    factors: dict[str, float] | None = None,
+    ours: dict[str, float] | None = None,
 ) -> Comparison:
     """Compare one number; only when it differs are the slips (a callable giving them) recomputed.
 
-    ``factors``: the claim's own factor list, which rules slips in or out where it names theirs.
+    ``factors``: the claim's own factor list and ``ours`` the recomputed factors: a slip is named only where the
+    factors it would print are the claim's.
     """
     within = _within(claimed, recomputed, review)
     if within:
         return Comparison(quantity, claimed, recomputed, True, "", ())
     too_low = claimed < recomputed
     unconservative = too_low if quantity == "Qf" else not too_low
-    reproducing = choose_slips([s for s in slips() if _within(claimed, s.value, review)], factors or {})
+    reproducing = [s for s in slips() if _within(claimed, s.value, review)]
+    chosen = choose_slips(reproducing, claimed, factors or {}, ours or {})
     return Comparison(
-        quantity, claimed, recomputed, False, "unconservative" if unconservative else "conservative", reproducing
+        quantity, claimed, recomputed, False, "unconservative" if unconservative else "conservative", chosen
     )
 
 
-def qf_slips(result: CheckResult, review: Review) -> list[Slip]:
+def _qf_under(source: LoadSource, combo: LoadCombination) -> tuple[float, str]:
+    """Qf in a combination from the loads a calc used: its patterned cases placed worst, each case at the
+    combination's factor (or at 1.0, unfactored); with how the patterned cases were placed."""
+    placed, pattern = placed_forces(source.forces, source.envelope, combo)
+    if source.unfactored:
+        return math.fsum(placed.get(case, 0.0) for case in combo.factors), pattern
+    return factored_force(placed, combo), pattern
+
+
+def _load_sources(result: CheckResult, review: Review) -> list[tuple[str, str, LoadSource, dict[str, float], str]]:
+    """The loads a calc may have put in this check: (slip name or "", what it did, the loads, the part of them that
+    is distributed load within d, its words). The first is the engine's own."""
     check = result.check
-    g = result.governing
-    out: list[Slip] = []
+    spread_words = ", ".join(f"{within * 1000:.0f} mm of {load}" for load, within in check.spread)
+    out = [("", "", LoadSource(dict(check.forces), dict(check.envelope)), dict(check.spread_forces), spread_words)]
     partner_kind = LOCAL if check.kind == NEAR else NEAR
     partner = _partner(review, check, partner_kind)
     if partner is not None and check.kind == NEAR:
         out.append(
-            Slip(
+            (
                 "whole-reaction-near-support",
                 "the near-support check was loaded with the whole support reaction instead of only the loads within d",
-                partner.governing.qf,
+                LoadSource(
+                    dict(partner.check.forces), dict(partner.check.envelope), combination=partner.governing.combination
+                ),
+                {},
+                "",
             )
         )
     if partner is not None and check.kind == LOCAL:
+        near = partner.check
         out.append(
-            Slip(
+            (
                 "nearby-load-only-local",
                 "the local support check was loaded with only the load within d instead of the whole reaction",
-                partner.governing.qf,
+                LoadSource(dict(near.forces), combination=partner.governing.combination),
+                {},
+                "",
             )
         )
-        if partner.check.spread_forces:
+        if near.spread_forces:
+            points = {case: value - near.spread_forces.get(case, 0.0) for case, value in near.forces.items()}
             out.append(
-                Slip(
+                (
                     "nearby-load-only-local",
                     "the local support check was loaded with only the point loads within d instead of the whole "
                     "reaction",
-                    _without_spread(partner, review),
+                    LoadSource(points, combination=partner.governing.combination),
+                    {},
+                    "",
                 )
             )
-    combo = review.combination(g.combination)
-    if combo is not None and g.pattern:
-        out.append(
-            Slip(
-                "pattern-loading-ignored",
-                f"every span loaded only: pattern loading ignored (the worst here is {g.pattern})",
-                factored_force(check.forces, combo),
-            )
-        )
     simple = simple_span_forces(check, review)
-    if combo is not None and simple is not None:
+    if simple is not None:
         out.append(
-            Slip(
+            (
                 "simple-span-reactions",
                 f"simple-span reactions used for {review.model.bearings_by_id[check.bearing].upper.member}, which is "
                 "continuous over its supports (continuity ignored)",
-                factored_force(simple, combo),
+                LoadSource(simple),
+                {},
+                "",
             )
         )
-    if check.kind == NEAR and check.spread_forces:
-        out.append(
-            Slip(
-                "distributed-load-left-out",
-                "the part of the distributed load within d was left out of Qf' ("
-                + ", ".join(f"{within * 1000:.0f} mm of {load}" for load, within in check.spread)
-                + ")",
-                _without_spread(result, review),
-            )
-        )
-    combo = review.combination(g.combination)
-    if combo is not None:
-        unfactored = math.fsum(check.forces.get(case, 0.0) for case in combo.factors)
-        out.append(Slip("unfactored-loads", "specified (unfactored) loads were used as Qf", unfactored))
+    return out
+
+
+def qf_slips(result: CheckResult, review: Review) -> list[Slip]:
+    """Each load slip, alone and together with the calc's usual readings: every span loaded (pattern loading
+    ignored), only the bearings within d in Qf' (distributed load left out), and unfactored loads."""
+    g = result.governing
+    governing = review.combination(g.combination)
+    if governing is None:  # no load reaches the check
+        return []
+    engine_qf = _qf_under(LoadSource(dict(result.check.forces), dict(result.check.envelope)), governing)[0]
+    out: list[Slip] = []
+    for name, text, source, spread, spread_words in _load_sources(result, review):
+        combo = review.combination(source.combination) or governing
+        patterned, pattern = _qf_under(source, combo)
+        every_span = [False]
+        if source.envelope and abs(_qf_under(replace(source, envelope={}), combo)[0] - patterned) > FORCE_RESOLUTION:
+            every_span.append(True)
+        bearings_only = [False, True] if any(abs(v) > FORCE_RESOLUTION for v in spread.values()) else [False]
+        for loaded, points, unfactored in itertools.product(every_span, bearings_only, (False, True)):
+            names, texts = ([name], [text]) if name else ([], [])
+            forces, envelope = source.forces, {} if loaded else source.envelope
+            if loaded:
+                names.append("pattern-loading-ignored")
+                texts.append(
+                    f"every span loaded only: pattern loading ignored (the worst here is {pattern or g.pattern})"
+                )
+            if points:
+                forces = {case: value - spread.get(case, 0.0) for case, value in forces.items()}
+                envelope = {  # a patterned case is placed from its envelope: leave the spread part out there too
+                    case: replace(env, high=env.high - spread.get(case, 0.0), low=env.low - spread.get(case, 0.0))
+                    for case, env in envelope.items()
+                }
+                names.append("distributed-load-left-out")
+                texts.append(f"the part of the distributed load within d was left out of Qf' ({spread_words})")
+            if unfactored:
+                names.append("unfactored-loads")
+                texts.append("specified (unfactored) loads were used as Qf")
+            if not names:
+                continue  # the engine's own reading
+            load = LoadSource(forces, envelope, unfactored, source.combination)
+            value = _qf_under(load, combo)[0]
+            if len(names) > 1 and abs(value - engine_qf) <= FORCE_RESOLUTION:
+                continue  # slips that cancel out are no cause
+            together = f"{COUNT_WORDS[len(names)]} slips together: " if len(names) > 1 else ""
+            out.append(Slip("+".join(names), together + "; and ".join(texts), value, parts=len(names), load=load))
     return out
 
 
@@ -463,35 +556,31 @@ def simple_span_forces(check: RequiredCheck, review: Review) -> dict[str, float]
     return out
 
 
-def _without_spread(result: CheckResult, review: Review) -> float:
-    """Qf' of a near-support check in its governing combination without the distributed loads within d."""
-    check = result.check
-    combo = review.combination(result.governing.combination)
-    if combo is None:  # no load reaches the check
-        return 0.0
-    points = {case: value - check.spread_forces.get(case, 0.0) for case, value in check.forces.items()}
-    return factored_force(points, combo)
-
-
 def _partner(review: Review, check: RequiredCheck, kind: str) -> CheckResult | None:
     return review.result_at(check.bearing, check.member, kind)
 
 
-def _standard_slips(result: CheckResult, review: Review) -> list[Slip]:
-    """A standard's own resistance slips, each recomputed with the inputs it changes."""
-    inputs, g = result.inputs, result.governing
+def _standard_slips(result: CheckResult, review: Review, kd: float) -> list[Slip]:
+    """A standard's own resistance slips, each recomputed with the inputs it changes, at the duration factor ``kd``."""
+    inputs = result.inputs
     out = []
     for name, text, changes in review.standard.resistance_variants(result, review.model, review.pack):
-        kd = changes.get("kd", g.kd)
+        used = changes.get("kd", kd)
         fields: dict[str, Any] = {k: v for k, v in changes.items() if k != "kd"}
-        out.append(Slip(name, text, resistance(replace(inputs, **fields), kd)))
+        implied = {KEY_OF[k]: v for k, v in fields.items() if k in KEY_OF}
+        implied["KD"] = used
+        out.append(Slip(name, text, resistance(replace(inputs, **fields), used), implied))
     return out
 
 
-def qr_slips(result: CheckResult, review: Review) -> list[Slip]:
+def qr_slips(result: CheckResult, review: Review, kd: float | None = None) -> list[Slip]:
+    """Each resistance slip recomputed; ``kd``: the duration factor of the loads the calc used (a load slip found
+    in its Qf carries into KD), else the recomputed one."""
+    g = result.governing
+    base_kd = g.kd if kd is None else kd
     if "o86-factors" not in review.standard.slip_recipes:
-        return _standard_slips(result, review)  # the factor slips below are O86's
-    check, inputs, g = result.check, result.inputs, result.governing
+        return _standard_slips(result, review, base_kd)  # the factor slips below are O86's
+    check, inputs = result.check, result.inputs
     pack = o86_pack(review.pack)
     model = review.model
     member = model.members[check.member]
@@ -503,10 +592,9 @@ def qr_slips(result: CheckResult, review: Review) -> list[Slip]:
         name: str, text: str, kd: float | None = None, implies: dict[str, float] | None = None, **changes
     ) -> None:
         implied = dict(implies or {})
-        implied.update({KEY_OF.get(k, k): v for k, v in changes.items() if k in KEY_OF})
-        if kd is not None:
-            implied["KD"] = kd
-        out.append(Slip(name, text, resistance(replace(inputs, **changes), g.kd if kd is None else kd), implied))
+        implied.update({KEY_OF[k]: v for k, v in changes.items() if k in KEY_OF})
+        implied["KD"] = base_kd if kd is None else kd
+        out.append(Slip(name, text, resistance(replace(inputs, **changes), base_kd if kd is None else kd), implied))
 
     if inputs.kb == 1.0 and ("KB" in material.applies):
         length = (
@@ -520,6 +608,8 @@ def qr_slips(result: CheckResult, review: Review) -> list[Slip]:
     kz_max = pack.kzcp_table.value.points[0][1]
     if inputs.kzcp < kz_max:
         variant("kzcp-flat-plate", f"KZcp = {kz_max:.2f} taken for a plate or plank laid flat (or glulam)", kzcp=kz_max)
+    if inputs.kzcp > 1.0 + 1e-9:
+        variant("kzcp-left-out", f"KZcp = 1.00 taken where the member's proportions give {inputs.kzcp:.2f}", kzcp=1.0)
     wider = max(member.b, other.b)
     width = check.contact.width if check.kind == LOCAL else near_support_width(check)
     if wider > width + 1e-9:
@@ -528,6 +618,7 @@ def qr_slips(result: CheckResult, review: Review) -> list[Slip]:
             f"bearing area from the wider member's width ({wider * 1000:.0f} mm) "
             f"instead of the contact width ({width * 1000:.0f} mm)",
             area=inputs.area * wider / width,
+            implies={"width": wider},
         )
     if inputs.kscp < 1.0:
         variant("wet-factor-left-out", "the wet service factor KScp was left out", kscp=1.0)
@@ -537,11 +628,11 @@ def qr_slips(result: CheckResult, review: Review) -> list[Slip]:
     if check.kind == NEAR:
         variant("two-thirds-left-out", "the 2/3 factor was left out of Qr'", coefficient=1.0)
     standard_kd = pack.kd["standard"].value
-    if g.duration == "standard" and inputs.uses_kd and g.kd < standard_kd - 1e-9:
+    if g.duration == "standard" and inputs.uses_kd and base_kd < standard_kd - 1e-9:
         variant(
             "long-term-kd-ignored",
             f"KD = {standard_kd:.2f} taken although the dead load exceeds the standard-term load here "
-            f"(the long-term formula gives {g.kd:.2f})",
+            f"(the long-term formula gives {base_kd:.2f})",
             kd=standard_kd,
         )
     if inputs.angle is not None and inputs.fc_parallel is not None:
@@ -565,75 +656,52 @@ def qr_slips(result: CheckResult, review: Review) -> list[Slip]:
     return out
 
 
-def factor_differences(claim: Claim, result: CheckResult) -> tuple[FactorDifference, ...]:
-    recomputed = {f.name: f.value for f in result.factors}
-    recomputed["Ab"] = result.inputs.area
-    recomputed["KD"] = result.governing.kd
-    recomputed["length"] = result.check.contact.length
-    recomputed["width"] = result.check.contact.width
+def recomputed_factors(result: CheckResult, review: Review) -> dict[str, float]:
+    """The recomputed value of each factor a claim may state, under the claim's names (KB for the standard's
+    length factor: KB, Cb or kc,90)."""
+    out = {f.name: f.value for f in result.factors}
+    out["KB"] = result.inputs.kb
+    out["Ab"] = result.inputs.area
+    out["KD"] = result.governing.kd
+    out["length"] = result.check.contact.length
+    out["width"] = result.check.contact.width
+    return out
+
+
+def qr_slips_with_load(result: CheckResult, review: Review, load: Slip | None) -> list[Slip]:
+    """The resistance slips, diagnosed with the calc's own loads where a load slip reproduces its Qf: those loads
+    set the duration factor (O86's long-term KD, EC5's kmod of the actions present), so the calc's Qr is sought at
+    that factor, alone and with each resistance slip."""
+    if load is None or load.load is None:
+        return qr_slips(result, review)
+    g = result.governing
+    source = load.load
+    rerun = recheck(review, replace(result.check, forces=source.forces, envelope=source.envelope))
+    taken = source.combination or g.combination
+    kd = next((c.kd for c in rerun.combinations if c.combination == taken), g.kd)
+    if abs(kd - g.kd) <= 1e-9:
+        return qr_slips(result, review)
+    own = Slip(
+        "duration-of-calc-loads",
+        f"the calc's loads ({load.text}) give a duration factor of {kd:.2f} where the recomputed loads give {g.kd:.2f}",
+        resistance(result.inputs, kd),
+        {"KD": kd},
+    )
+    carried = [
+        replace(s, text=f"{s.text} (at the duration factor {kd:.2f} of the calc's loads)")
+        for s in qr_slips(result, review, kd)
+    ]
+    return [own, *carried]
+
+
+def factor_differences(claim: Claim, result: CheckResult, review: Review) -> tuple[FactorDifference, ...]:
+    recomputed = recomputed_factors(result, review)
     out = []
     for name, value in claim.factors.items():
         ours = recomputed.get(name)
         if ours is not None and abs(value - ours) > FACTOR_REL_TOL * abs(ours):
             out.append(FactorDifference(name, value, ours))
     return tuple(out)
-
-
-# ---------------------------------------------------------------- remedy
-
-
-def smallest_passing_length(result: CheckResult, review: Review) -> tuple[float, str] | None:
-    """(bearing length, the length factor it takes) at the present contact width that makes the check pass, or None."""
-    check = result.check
-    member = review.model.members[check.member]
-    # the governing combination stays governing as the length changes: Qr scales alike in all
-    combos = tuple(c for c in review.combinations if c.name == result.governing.combination)
-
-    def passes(length: float) -> tuple[bool, str]:
-        contact = check.contact
-        grown = length - contact.length
-        end_distance = contact.end_distance if contact.end_distance < 1e-9 else max(contact.end_distance - grown / 2, 0)
-        trial = replace(check, contact=replace(contact, length=length, end_distance=end_distance))
-        utilisation, factor = review.standard.trial(
-            trial, review.model, review.pack, review.cpack, review.readings, combos
-        )
-        return utilisation <= 1.0, factor
-
-    lo, hi = check.contact.length, member.length
-    if not passes(hi)[0]:
-        return None
-    while hi - lo > 2e-4:  # to a fifth of a millimetre
-        mid = 0.5 * (lo + hi)
-        if passes(mid)[0]:
-            hi = mid
-        else:
-            lo = mid
-    length = math.ceil(hi * 1000.0) / 1000.0  # whole millimetres, rounded up
-    return length, passes(length)[1]
-
-
-def remedy_text(result: CheckResult, review: Review) -> str:
-    check = result.check
-    found = smallest_passing_length(result, review)
-    width = check.contact.width * 1000
-    face = "support" if check.kind == NEAR else "bearing"
-    if found is None:
-        text = (
-            f"No {face} length along the grain makes it pass at {width:.0f} mm contact width; "
-            "a wider bearing, a stronger species or a reinforced contact is needed."
-        )
-        if check.kind == NEAR:
-            text += " The near-support area is limited by the bearing on the opposite face."
-        return text
-    length, factor = found
-    member = review.model.members[check.member]
-    text = f"Passes with a {face} length of at least {length * 1000:.0f} mm at {width:.0f} mm width ({factor})"
-    other = review.model.members.get(check.other_member)
-    if check.kind == LOCAL and other is not None and not other.vertical and length > other.b + 1e-9:
-        text += f" (longer than {other.id} is wide: a bearing plate, seat or blocking)"
-    if check.contact.width < member.b - 1e-9:
-        text += f", or with a bearing plate the full {member.b * 1000:.0f} mm width of {member.id}"
-    return text + "."
 
 
 # ---------------------------------------------------------------- reconcile
@@ -709,7 +777,7 @@ def _covered_outcome(result: CheckResult, claim: Claim, governing_id: str, revie
         finding = Finding(
             "covered",
             KINDS["covered"].severity,
-            wording.covered(_kind_word(check), check.member, where, claim.label, claim.where.cite(), governing_id),
+            wording.covered(_name(check, review), where, claim.label, claim.where.cite(), governing_id),
             numbers={"qf": g.qf, "qr": g.qr},
             **common,
         )
@@ -718,7 +786,7 @@ def _covered_outcome(result: CheckResult, claim: Claim, governing_id: str, revie
     finding = Finding(
         "not-covered",
         severity,
-        wording.not_covered(_kind_word(check), check.member, where, claim.label, claim.where.cite(), reasons),
+        wording.not_covered(_name(check, review), where, claim.label, claim.where.cite(), reasons),
         numbers={"qf": g.qf, "qr": g.qr},
         **common,
     )
@@ -732,8 +800,9 @@ def display_for(review: Review, claim: Claim | None = None) -> Display:
     return review.display
 
 
-def _kind_word(check: RequiredCheck) -> str:
-    return "Near-support check" if check.kind == NEAR else "Local check"
+def _name(check: RequiredCheck, review: Review) -> str:
+    """The check as engineers name it (``wording.check_name``)."""
+    return wording.check_name(check, review.model.members.get(check.other_member))
 
 
 def _location(result: CheckResult, review: Review) -> str:
@@ -776,7 +845,7 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
                 "failing",
                 severity,
                 wording.failing(
-                    check.kind, check.member, where, g.qf, g.qr, g.utilisation, g.combination, stance, remedy, d
+                    _name(check, review), where, g.qf, g.qr, g.utilisation, g.combination, stance, remedy, d
                 ),
                 hint=remedy,
                 numbers={"qf": g.qf, "qr": g.qr},
@@ -788,7 +857,7 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
             Finding(
                 "missing",
                 KINDS["missing"].severity,
-                wording.missing(check.kind, check.member, where, check.why, g.qf, g.qr, g.combination, d),
+                wording.missing(_name(check, review), where, check.why, g.qf, g.qr, g.combination, d),
                 numbers={"qf": g.qf, "qr": g.qr},
                 **common,
             )
@@ -798,11 +867,15 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
 
     qf_cmp = None
     if claim.qf is not None:
-        qf_cmp = _compare("Qf", claim.qf, g.qf, lambda: qf_slips(result, review), review, claim.factors)
+        qf_cmp = _compare("Qf", claim.qf, g.qf, lambda: qf_slips(result, review), review)
     claimed_qr = claim.claimed_qr
     qr_cmp = None
     if claimed_qr is not None:
-        qr_cmp = _compare("Qr", claimed_qr, g.qr, lambda: qr_slips(result, review), review, claim.factors)
+        ours = recomputed_factors(result, review)
+        load = next((s for s in qf_cmp.slips if s.load is not None), None) if qf_cmp is not None else None
+        qr_cmp = _compare(
+            "Qr", claimed_qr, g.qr, lambda: qr_slips_with_load(result, review, load), review, claim.factors, ours
+        )
     if qf_cmp is None and qr_cmp is None and claim.utilisation is not None:
         # a claim that states only Qf/Qr confirms nothing unless that ratio agrees
         util_cmp = _compare_utilisation(claim.utilisation, g.utilisation, review)
@@ -812,8 +885,7 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
                     "resistance-differs",
                     "revise" if util_cmp.direction == "unconservative" else "clarify",
                     wording.ratio_only(
-                        check.kind,
-                        check.member,
+                        _name(check, review),
                         where,
                         claim.utilisation,
                         g.utilisation,
@@ -828,7 +900,7 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
                     **common,
                 )
             )
-    diffs = factor_differences(claim, result)
+    diffs = factor_differences(claim, result, review)
     for cmp, kind in ((qf_cmp, "mis-loaded"), (qr_cmp, "resistance-differs")):
         if cmp is None or cmp.within:
             continue
@@ -837,7 +909,14 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
             Finding(
                 kind,
                 severity,
-                _difference_message(cmp, check, where, diffs if kind == "resistance-differs" else (), d),
+                _difference_message(
+                    cmp,
+                    _name(check, review),
+                    where,
+                    diffs if kind == "resistance-differs" else (),
+                    d,
+                    review.standard.length_factor,
+                ),
                 numbers={"claimed": cmp.claimed, "recomputed": cmp.recomputed},
                 quantity=cmp.quantity,
                 **common,
@@ -853,21 +932,21 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
             Finding(
                 "confirmed",
                 "record",
-                wording.confirmed(check.kind, check.member, where, g.qf, g.qr, d),
+                wording.confirmed(_name(check, review), where, g.qf, g.qr, d),
                 **common,
             )
         )
     return CheckOutcome(check.id, claim.id, status, tuple(findings), qf_cmp, qr_cmp, diffs, remedy)
 
 
-def _difference_message(cmp: Comparison, check: RequiredCheck, where: str, diffs, d: Display) -> str:
+def _difference_message(cmp: Comparison, name: str, where: str, diffs, d: Display, length_factor: str = "KB") -> str:
     notes = [
-        f"{x.name} claimed {_fmt_factor(x.name, x.claimed)}, recomputed {_fmt_factor(x.name, x.recomputed)}"
+        f"{length_factor if x.name == 'KB' else x.name} claimed {_fmt_factor(x.name, x.claimed)}, "
+        f"recomputed {_fmt_factor(x.name, x.recomputed)}"
         for x in diffs
     ]
     return wording.differs(
-        check.kind,
-        check.member,
+        name,
         where,
         cmp.quantity,
         cmp.claimed,

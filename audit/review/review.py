@@ -13,8 +13,8 @@ from audit.inputs.read_model import read_model
 from audit.review import wording
 from audit.review.findings import KINDS, Finding
 from audit.standards.base import Standard
-from audit.standards.checks import NO_LENGTH, CheckList
-from audit.standards.o86 import CheckResult, LoadCombination, load_combinations
+from audit.standards.checks import NO_LENGTH, CheckList, RequiredCheck
+from audit.standards.o86 import CheckResult, LoadCombination, counteracted, load_combinations
 from audit.standards.packs import CombinationPack, PackCore
 from audit.standards.registry import standard_named
 
@@ -40,6 +40,14 @@ class Review:
     @cached_property
     def _by_place(self) -> dict[tuple[str, str, str], CheckResult]:
         return {(r.check.bearing, r.check.member, r.check.kind): r for r in self.results}
+
+    @cached_property
+    def checks_on(self) -> dict[str, tuple[RequiredCheck, ...]]:
+        """Member id -> the checks of that member."""
+        out: dict[str, list[RequiredCheck]] = {}
+        for r in self.results:
+            out.setdefault(r.check.member, []).append(r.check)
+        return {member: tuple(checks) for member, checks in out.items()}
 
     def result(self, check_id: str) -> CheckResult:
         return self._by_id[check_id]
@@ -94,7 +102,7 @@ def review_built(model: Model, pack: PackCore, cpack: CombinationPack) -> Review
     factors = {c.name: c.factors for c in load_combinations(model, cpack)}
     display = Display.for_project(model.project.units)
     engine = (
-        uplift_findings(results, threshold, whose, factors, display)
+        uplift_findings(results, threshold, whose, factors, display, cpack.counteracting_dead.value)
         + unseen_support_findings(checklist)
         + calc_force_findings(model, flow, display)
     )
@@ -171,14 +179,19 @@ def unseen_support_findings(checklist: CheckList) -> tuple[Finding, ...]:
     return tuple(out)
 
 
-def _as_placed(combination: str, result: CheckResult, factors: dict[str, float]) -> str:
-    """The combination as uplift is looked for: the dead load counteracting, patterned cases at their least."""
+def _as_placed(combination: str, result: CheckResult, factors: dict[str, float], counteracting: float = 1.0) -> str:
+    """The combination as uplift is looked for, named with the dead-load factor it takes ('0.9D+1.4W, from
+    1.25D+1.4W with the dead load counteracting'), patterned cases at their least."""
     placed = [
         f"{case} {env.placing(False)}"
         for case, env in sorted(result.check.envelope.items())
         if factors.get(case, 0.0) > 0
     ]
-    return f"{combination} (dead load counteracting" + (f"; {'; '.join(placed)})" if placed else ")")
+    dead = factors.get("D", 0.0)
+    has_dead = result.check.forces.get("D", 0.0) > 0.0
+    named = counteracted(combination, dead, counteracting) if has_dead else combination
+    origin = f", from {combination} with the dead load counteracting" if named != combination else ""
+    return named + origin + (f" ({'; '.join(placed)})" if placed else "")
 
 
 def uplift_threshold(model: Model, pack: PackCore) -> tuple[float, str]:
@@ -194,6 +207,7 @@ def uplift_findings(
     whose: str = "the note threshold",
     factors: dict[str, dict[str, float]] | None = None,
     display: Display | None = None,
+    counteracting: float = 1.0,
 ) -> tuple[Finding, ...]:
     """One finding per bearing with uplift; below the project's threshold it is a minor note that says so."""
     factors = factors or {}
@@ -204,8 +218,12 @@ def uplift_findings(
         if not r.uplift or r.check.bearing in seen or r.check.kind != "local" or r.check.load:  # loads: not bearings
             continue
         seen.add(r.check.bearing)
-        worst = min(r.combinations, key=lambda c: c.qf_low)
-        placed = _as_placed(worst.combination, r, factors.get(worst.combination, {}))
+        # of equal uplifts, the combination whose own name carries the counteracting dead load
+        worst = min(
+            r.combinations,
+            key=lambda c: (round(c.qf_low, 3), factors.get(c.combination, {}).get("D", 0.0) > counteracting + 1e-9),
+        )
+        placed = _as_placed(worst.combination, r, factors.get(worst.combination, {}), counteracting)
         small = -worst.qf_low < note_below
         out.append(
             Finding(

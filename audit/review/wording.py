@@ -9,6 +9,51 @@ in lbf), else in the project's (``Display``).
 from __future__ import annotations
 
 from audit.core.units import Display
+from audit.engine.model import Member
+from audit.standards.checks import NEAR, RequiredCheck
+
+
+def support_word(other: Member | None) -> str:
+    """What a vertical support is called before its id: 'post ', 'stud ', 'stud pack '; nothing for a beam."""
+    if other is None or not other.vertical:
+        return ""
+    if other.label.startswith("stud pack"):
+        return "stud pack "
+    if other.label.startswith("stud "):
+        return "stud "
+    return "post "
+
+
+def check_name(check: RequiredCheck, other: Member | None) -> str:
+    """A check as engineers name it: 'bearing of GB2 on post P1' (the member above crushed on its support),
+    'B1 under J1' (the member below crushed under the one on it), 'near-support check of GB2 over P1',
+    'B under point load leg' (``other`` is None where the other side is a load, not a member)."""
+    if check.load:
+        return f"{check.member} under point load {check.load}"
+    if check.kind == NEAR:
+        return f"near-support check of {check.member} over {check.other_member}"
+    if check.face == "bottom":
+        return f"bearing of {check.member} on {support_word(other)}{check.other_member}"
+    return f"{check.member} under {check.other_member}"
+
+
+def group_name(checks: list[RequiredCheck], other: Member | None) -> str:
+    """Alike checks named together: 'bearings of J1, J2 and J3 on B1', 'B1 under J1 and J2'."""
+    first = checks[0]
+    if len(checks) == 1:
+        return check_name(first, other)
+    if first.load:
+        return f"{first.member} under point loads {_names(c.load for c in checks)}"
+    if first.kind == NEAR:
+        return f"near-support checks of {first.member} over {_names(c.other_member for c in checks)}"
+    if first.face == "bottom":
+        return f"bearings of {_names(c.member for c in checks)} on {support_word(other)}{first.other_member}"
+    return f"{first.member} under {_names(c.other_member for c in checks)}"
+
+
+def _names(items) -> str:
+    names = list(dict.fromkeys(items))
+    return ", ".join(names[:-1]) + (" and " if len(names) > 1 else "") + names[-1]
 
 
 def _cap(text: str) -> str:
@@ -37,8 +82,7 @@ def force_differs(
 
 
 def failing(
-    kind: str,
-    member: str,
+    name: str,
     where: str,
     qf: float,
     qr: float,
@@ -49,21 +93,20 @@ def failing(
     d: Display,
 ) -> str:
     return (
-        f"{_cap(kind)} bearing of {member} at {where} fails: recomputed Qf = {d.force(qf)} > Qr = {d.force(qr)} "
+        f"{_cap(name)} at {where} fails: recomputed Qf = {d.force(qf)} > Qr = {d.force(qr)} "
         f"(Qf/Qr = {util:.2f}, {combo}); {stance}. {remedy}"
     )
 
 
-def missing(kind: str, member: str, where: str, why: str, qf: float, qr: float, combo: str, d: Display) -> str:
+def missing(name: str, where: str, why: str, qf: float, qr: float, combo: str, d: Display) -> str:
     return (
-        f"Missing {kind} check of {member} at {where}: required because {why}. "
+        f"Missing from the calc: {name} at {where}, required because {why}. "
         f"Recomputed Qf = {d.force(qf)}, Qr = {d.force(qr)} ({combo})."
     )
 
 
 def ratio_only(
-    kind: str,
-    member: str,
+    name: str,
     where: str,
     claimed: float,
     util: float,
@@ -74,14 +117,13 @@ def ratio_only(
     d: Display,
 ) -> str:
     return (
-        f"{_cap(kind)} check of {member} at {where}: the calc states only Qf/Qr = {claimed:.2f}; recomputed "
+        f"{_cap(name)} at {where}: the calc states only Qf/Qr = {claimed:.2f}; recomputed "
         f"Qf/Qr = {util:.2f} ({direction}; recomputed Qf = {d.force(qf)}, Qr = {d.force(qr)}, {combo})."
     )
 
 
 def differs(
-    kind: str,
-    member: str,
+    name: str,
     where: str,
     quantity: str,
     claimed: float,
@@ -94,7 +136,7 @@ def differs(
 ) -> str:
     what = "factored load" if quantity == "Qf" else "resistance"
     text = (
-        f"{_cap(kind)} check of {member} at {where}: claimed {quantity} = {d.force(claimed)}, recomputed "
+        f"{_cap(name)} at {where}: claimed {quantity} = {d.force(claimed)}, recomputed "
         f"{d.force(recomputed)} ({relative:+.0%}, {direction}). "
     )
     if factor_notes:
@@ -102,29 +144,26 @@ def differs(
     if causes:
         text += "Likely cause: " + "; or ".join(causes) + "."
     else:
-        text += f"No single common slip reproduces the claimed {what}."
+        readings = " (alone, or with every span loaded, only the bearings in Qf' or unfactored loads)"
+        text += f"No common slip{readings if quantity == 'Qf' else ''} reproduces the claimed {what}."
     return text
 
 
-def confirmed(kind: str, member: str, where: str, qf: float, qr: float, d: Display) -> str:
+def confirmed(name: str, where: str, qf: float, qr: float, d: Display) -> str:
     return (
-        f"{_cap(kind)} check of {member} at {where} confirmed: claimed and recomputed agree within tolerance "
+        f"{_cap(name)} at {where} confirmed: claimed and recomputed agree within tolerance "
         f"(Qf = {d.force(qf)}, Qr = {d.force(qr)})."
     )
 
 
-def covered(check_words: str, member: str, where: str, label: str, page: str, governing: str) -> str:
+def covered(name: str, where: str, label: str, page: str, governing: str) -> str:
     return (
-        f"{check_words} of {member} at {where}: covered by typical claim '{label}' ({page}), whose governing "
-        f"check is {governing}."
+        f"{_cap(name)} at {where}: covered by typical claim '{label}' ({page}), whose governing check is {governing}."
     )
 
 
-def not_covered(check_words: str, member: str, where: str, label: str, page: str, reasons: list[str]) -> str:
-    return (
-        f"{check_words} of {member} at {where} is not covered by typical claim '{label}' ({page}): "
-        f"{'; '.join(reasons)}."
-    )
+def not_covered(name: str, where: str, label: str, page: str, reasons: list[str]) -> str:
+    return f"{_cap(name)} at {where} is not covered by typical claim '{label}' ({page}): {'; '.join(reasons)}."
 
 
 def exceeds(quantity: str, ours: float, claimed: float, d: Display) -> str:

@@ -38,6 +38,10 @@ class Standard(Protocol):
         ...
 
     @property
+    def length_factor(self) -> str:  # the name of its factor that changes with the bearing length (KB, Cb, kc,90)
+        ...
+
+    @property
     def combination_formats(self) -> tuple[str, ...]:  # formats of combination pack it reads
         ...
 
@@ -66,16 +70,4 @@ class Standard(Protocol):
         self, check: Any, forces: dict[str, float], combination: Any, model: Model, pack: PackCore
     ) -> str:
         """Why the load-duration (or modification) factor took its value at a check under one combination."""
-        ...
-
-    def trial(
-        self,
-        check: Any,
-        model: Model,
-        pack: PackCore,
-        cpack: CombinationPack,
-        readings: dict[str, str],
-        combinations: tuple,
-    ) -> tuple[float, str]:
-        """A check with another contact: (its governing Qf/Qr, the length factor it takes, e.g. 'KB = 1.10')."""
         ...

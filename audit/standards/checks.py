@@ -239,9 +239,7 @@ def _no_check_reason(model: Model, member: Member, pack: PackCore) -> str:
 def _local_why(member: Member, other: Member, face: str) -> str:
     if face == "top":
         return f"{other.id} bears on the side grain of {member.id}: the supporting member is crushed"
-    return (
-        f"{member.id} bears on {other.id}: the reverse-direction check, the member above crushed on its own side grain"
-    )
+    return f"{member.id} bears on {other.id}: the member above is crushed on its own side grain at its support"
 
 
 def _near_support_checks(model: Model, flow: TakeDown, pack: ResistancePack, count_spread: bool) -> list[RequiredCheck]:

@@ -36,7 +36,6 @@ from audit.standards.o86 import (
     Factor,
     LoadCombination,
     ResistanceInputs,
-    evaluate_with,
     pack_as,
     resist_each,
 )
@@ -346,6 +345,7 @@ class _Ec5:
     title: str = "EN 1995-1-1"
     check_kinds: dict[str, str] = field(default_factory=lambda: {LOCAL: "compression perpendicular to the grain"})
     slip_recipes: tuple[str, ...] = ()
+    length_factor: str = "kc,90"
     combination_formats: tuple[str, ...] = ("EN 1990",)
     claim_headers: dict[str, str] = field(
         default_factory=lambda: {
@@ -429,22 +429,6 @@ class _Ec5:
         self, check: RequiredCheck, forces: Forces, combination: Any, model: Model, pack: PackCore
     ) -> str:
         return kmod_rule(ec5_pack(pack), model.members[check.member].service)(forces, combination)[1]
-
-    def trial(
-        self,
-        check: RequiredCheck,
-        model: Model,
-        pack: PackCore,
-        cpack: CombinationPack,
-        readings: dict[str, str],
-        combinations: tuple,
-    ) -> tuple[float, str]:
-        p = ec5_pack(pack)
-        reach = effective_reach(check.contact, [], model.members[check.member].length, p.extension.value)
-        inputs, _, _ = ec5_inputs(check, model, p, reach)
-        service = model.members[check.member].service
-        _, governing, _ = evaluate_with(check, inputs, combinations, kmod_rule(p, service), 1.0)
-        return governing.utilisation, f"kc,90 = {inputs.kb:.2f}"
 
 
 def ec5_pack(pack: PackCore) -> Ec5Pack:

@@ -27,7 +27,6 @@ from audit.standards.o86 import (
     Factor,
     LoadCombination,
     ResistanceInputs,
-    evaluate_with,
     fcp_on_face,
     pack_as,
     resist_each,
@@ -268,6 +267,7 @@ class _Nds:
     title: str = "US NDS"
     check_kinds: dict[str, str] = field(default_factory=lambda: {LOCAL: "bearing perpendicular to grain"})
     slip_recipes: tuple[str, ...] = ()
+    length_factor: str = "Cb"
     combination_formats: tuple[str, ...] = ("ASD", "LRFD")
     claim_headers: dict[str, str] = field(
         default_factory=lambda: {
@@ -338,19 +338,6 @@ class _Nds:
         self, check: RequiredCheck, forces: Forces, combination: Any, model: Model, pack: PackCore
     ) -> str:
         return _no_duration(forces, combination)[1]
-
-    def trial(
-        self,
-        check: RequiredCheck,
-        model: Model,
-        pack: PackCore,
-        cpack: CombinationPack,
-        readings: dict[str, str],
-        combinations: tuple,
-    ) -> tuple[float, str]:
-        inputs, _, _ = nds_inputs(check, model, nds_pack(pack), cpack.format == "LRFD", readings)
-        _, governing, _ = evaluate_with(check, inputs, combinations, _no_duration, 1.0)
-        return governing.utilisation, f"Cb = {inputs.kb:.2f}"
 
 
 def nds_pack(pack: PackCore) -> NdsPack:

@@ -13,6 +13,7 @@ from __future__ import annotations
 
 import itertools
 import math
+import re
 from collections.abc import Callable
 from dataclasses import dataclass, field, replace
 from functools import cached_property
@@ -199,19 +200,54 @@ def load_combinations(model: Model, cpack: CombinationPack) -> tuple[LoadCombina
         if STORAGE_LIVE in cases and live and STORAGE_LIVE not in factors:  # a combination may state its own
             leads = live >= max(f for case, f in factors.items() if case != LONG_TERM_CASE)
             factors[STORAGE_LIVE] = live if leads else cpack.storage_companion.value
+        name = labelled(c.name, factors, "L" in cases)
         wind = factors.get("W", 0.0)
         directions = [d for d in (WIND_PRESSURE, WIND_SUCTION) if d in cases]
         if wind and directions:
             for direction in directions:
                 way = direction.split(":")[1]
                 out.append(
-                    LoadCombination(f"{c.name} (wind {way})", {**factors, direction: wind}, c.duration, c.source.clause)
+                    LoadCombination(f"{name} (wind {way})", {**factors, direction: wind}, c.duration, c.source.clause)
                 )
             continue
-        out.append(LoadCombination(c.name, factors, c.duration, c.source.clause))
+        out.append(LoadCombination(name, factors, c.duration, c.source.clause))
     for group in sorted(model.factored_groups.values(), key=lambda g: g.label):
         out.append(LoadCombination(group.label, {FACTORED_PREFIX + group.label: 1.0}, group.duration, "", True))
     return tuple(out)
+
+
+LOAD_TERM = re.compile(r"(?:(?<=^)|(?<=\+))(\d+(?:\.\d+)?)([A-Z])(?=\+|$|\s)")
+
+
+def factor_text(value: float) -> str:
+    """A load factor as combination names print it: 1.0, 0.5, 1.05."""
+    text = f"{value:.2f}".rstrip("0")
+    return text + "0" if text.endswith(".") else text
+
+
+def labelled(name: str, factors: dict[str, float], plain_live: bool) -> str:
+    """The pack's name of a combination, stating storage live load at the factor it takes where that is not the
+    live-load factor the name prints: '1.25D+1.5S+1.0L' where all live load is storage, else '+1.0L (storage)'."""
+    storage, live = factors.get(STORAGE_LIVE), factors.get("L", 0.0)
+    if storage is None or abs(storage - live) < 1e-9:
+        return name
+    terms = [m for m in LOAD_TERM.finditer(name) if abs(float(m.group(1)) - live) < 1e-9 and m.group(2) != "D"]
+    live_term = next((m for m in terms if m.group(2) in ("L", "Q")), None)
+    letter = live_term.group(2) if live_term else "L"
+    if live_term is not None and not plain_live:
+        return name[: live_term.start(1)] + factor_text(storage) + name[live_term.end(1) :]
+    return f"{name}+{factor_text(storage)}{letter} (storage)"
+
+
+def counteracted(name: str, dead: float, counteracting: float) -> str:
+    """The name of a combination as uplift is looked for: its dead-load factor lowered to the counteracting one
+    ('1.25D+1.4W' -> '0.9D+1.4W'); the name unchanged where the dead load is already at or below it."""
+    if dead <= counteracting + 1e-9:
+        return name
+    match = LOAD_TERM.match(name)
+    if match is None or match.group(2) not in ("D", "G") or abs(float(match.group(1)) - dead) > 1e-9:
+        return f"{name} with {factor_text(counteracting)}D"
+    return factor_text(counteracting) + name[match.end(1) :]
 
 
 def factored_force(forces: Forces, combo: LoadCombination) -> float:
@@ -490,6 +526,12 @@ def _principal_present(combo: LoadCombination, forces: Forces) -> bool:
     return any(abs(forces.get(case, 0.0)) > FORCE_RESOLUTION for case in combo.principal_cases)
 
 
+def _wind_absent(combo: LoadCombination, forces: Forces, envelope: dict) -> bool:
+    """A combination with wind at a check no wind reaches only repeats the one without it: skip it."""
+    wind = [case for case, factor in combo.factors.items() if factor and base_case(case) == "W"]
+    return bool(wind) and all(abs(forces.get(case, 0.0)) <= FORCE_RESOLUTION and case not in envelope for case in wind)
+
+
 DurationRule = Callable[[Forces, LoadCombination], tuple[float, str]]
 
 
@@ -532,7 +574,7 @@ def evaluate_with(
     reasons = []  # kept aside: only the governing combination's reason is stored (memory on large buildings)
     uplift = []
     for combo in combos:
-        if not _principal_present(combo, forces):
+        if not _principal_present(combo, forces) or _wind_absent(combo, forces, envelope):
             continue
         low = least_force(forces, envelope, combo, counteracting)
         if low < -FORCE_RESOLUTION:
@@ -642,6 +684,7 @@ class _O86:
         default_factory=lambda: {LOCAL: "local bearing", NEAR: "near-support bearing (loads within d of a support)"}
     )
     slip_recipes: tuple[str, ...] = ("o86-factors",)
+    length_factor: str = "KB"
     combination_formats: tuple[str, ...] = ("limit-states",)
     claim_headers: dict[str, str] = field(default_factory=dict)  # the default headers are O86's (Qf, Qr, KB)
 
@@ -683,19 +726,6 @@ class _O86:
         self, check: RequiredCheck, forces: Forces, combination: Any, model: Model, pack: PackCore
     ) -> str:
         return load_duration_factor(forces, combination, o86_pack(pack))[1]
-
-    def trial(
-        self,
-        check: RequiredCheck,
-        model: Model,
-        pack: PackCore,
-        cpack: CombinationPack,
-        readings: dict[str, str],
-        combinations: tuple,
-    ) -> tuple[float, str]:
-        inputs, _, _ = resistance_inputs(check, model, o86_pack(pack), readings)
-        _, governing, _ = evaluate(check, inputs, combinations, o86_pack(pack))
-        return governing.utilisation, f"KB = {inputs.kb:.2f}"
 
 
 def o86_pack(pack: PackCore) -> ResistancePack:

@@ -260,6 +260,10 @@ def unit_cases() -> list[Case]:
 
 def all_cases() -> list[Case]:
     from tests.verification.details import detail_cases  # it builds on Case: imported here, not at the top
+    from tests.verification.diagnosis import diagnosis_cases
+    from tests.verification.remedies import remedy_cases
     from tests.verification.standards import ec5_rule_cases, standards_cases
 
-    return kb_cases() + statics_cases() + unit_cases() + detail_cases() + standards_cases() + ec5_rule_cases()
+    return (kb_cases() + statics_cases() + unit_cases() + detail_cases() + standards_cases() + ec5_rule_cases()) + (
+        remedy_cases() + diagnosis_cases()
+    )

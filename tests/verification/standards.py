@@ -118,7 +118,7 @@ def ec5_rule_cases() -> list[Case]:
         )
     )
     storage["loads"][0]["specified"]["S"] = "1 kN/m"
-    row = {c.combination: c for c in result(storage).combinations}["1.35G+1.5S+1.05Q"]
+    row = {c.combination: c for c in result(storage).combinations}["1.35G+1.5S+1.5Q"]
     qf = 1.35 * 3000 + 1.5 * 1500 + 1.5 * 4500
     out.append(
         Case(
