@@ -35,8 +35,8 @@ STATUS_WORDS = {
     "not-covered": "NOT COVERED",
     "computed": "PASSES",
 }
-LETTER_PLACES = 8  # places a comment names in the letter; the appendix lists every place of a longer one
-EVERY_CHECK_LIMIT = 3000  # above this many checks the appendix's every-check table moves to the workbook
+LETTER_PLACES = 5  # places a comment names in the letter; the appendix lists every place of a longer one
+EVERY_CHECK_LIMIT = 2000  # above this many checks the appendix lists the checks with comments; every check: workbook
 TABLE_ROWS = 150  # rows per table in the appendix: long tables are split so a browser prints them in pieces
 DERIVATION_LIMIT = 2000  # above this many checks the appendix derives failing checks only,
 LARGE_DERIVATIONS = 300  # at most this many
@@ -323,9 +323,9 @@ def _claim_rows(rec: Reconciliation | None, claims: tuple[Claim, ...], numbers: 
     if rec is None:
         return []
     covers: dict[str, list[str]] = {}
-    for o in rec.checks:
-        if o.claim_id:
-            covers.setdefault(o.claim_id, []).append(o.check_id)
+    for check in rec.checks:
+        if check.claim_id:
+            covers.setdefault(check.claim_id, []).append(check.check_id)
     by_id = {c.id: c for c in claims}
     rows = []
     for o in rec.claims:
@@ -479,8 +479,6 @@ def letter_view(
         "appendix": options.appendix,
         "letter_places": LETTER_PLACES,
         "assumptions": assumptions(review),
-        "kinds": list(KINDS.values()),
-        "weight_words": WEIGHT_WORDS,
     }
 
 
@@ -530,7 +528,8 @@ def appendix_view(
             if len(c.places) > LETTER_PLACES
         ],
         "letter_places": LETTER_PLACES,
-        "for_record": [_comment_view(c) for c in ctx.comments if c.quiet],
+        "for_record": [] if large else [_comment_view(c) for c in ctx.comments if c.quiet],
+        "record_elsewhere": sum(c.quiet for c in ctx.comments) if large else 0,
         "every_derivation": options.all_derivations,
         "groups": _check_rows(review, reconciliation, claims_by_id, ctx.numbers, only),
         "every_check": _every_check_words(review, options, len(on_comment)),
@@ -551,6 +550,8 @@ def appendix_view(
         "derivation_limit": DERIVATION_LIMIT,
         "large_derivations": LARGE_DERIVATIONS,
         "has_claims": reconciliation is not None,
+        "kinds": list(KINDS.values()),
+        "weight_words": WEIGHT_WORDS,
     }
 
 
