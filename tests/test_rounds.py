@@ -259,3 +259,40 @@ def test_a_comment_log_without_the_response_column_is_refused_with_its_name(tmp_
         "review", tmp_path / "r1-model.yaml", "--previous", tmp_path / "r1.json", "--responses", tmp_path / "log.csv"
     )
     assert result.exit_code == 2 and "no column 'designer_response'" in result.output
+
+
+def test_the_history_of_a_comment_reads_as_a_sentence():
+    from audit.report.memo import history_sentence
+    from audit.review.rounds import Step
+
+    grouped = (
+        Step(1, "new", "ABSENT", "ABSENT (claimed / recomputed: Qf - / 3.20; Qr - / 12.00; Qf - / 2.90)"),
+        Step(2, "open", "ABSENT", "ABSENT (claimed / recomputed: Qf - / 3.20; Qr - / 12.00; Qf - / 2.90)"),
+    )
+    assert history_sentence(grouped, grouped=True) == "Raised in round 1 as ABSENT; still open in round 2."
+    single = (
+        Step(1, "new", "LOAD", "LOAD (claimed / recomputed: Qf 2.00 / 8.50)"),
+        Step(2, "changed", "LOAD", "LOAD (claimed / recomputed: Qf 3.00 / 8.50)"),
+        Step(3, "open", "LOAD", "LOAD (claimed / recomputed: Qf 3.00 / 8.50)"),
+    )
+    assert history_sentence(single, grouped=False) == (
+        "Raised in round 1 as LOAD (claimed / recomputed: Qf 2.00 / 8.50); changed in round 2, now LOAD "
+        "(claimed / recomputed: Qf 3.00 / 8.50); still open in round 3."
+    )
+
+
+def test_a_grouped_comment_in_round_two_shows_its_history_as_a_sentence(tmp_path, run_cli):
+    from tests.conftest import DEMO, ROOT
+
+    claims = ROOT / "fixtures" / "demo" / "claims.yaml"
+    run_cli("review", DEMO, "--claims", claims, "--json", tmp_path / "r1.json")
+    run_cli("review", DEMO, "--claims", claims, "--previous", tmp_path / "r1.json", "--memo", tmp_path / "r2.html")
+    html = (tmp_path / "r2.html").read_text(encoding="utf-8")
+    first = json.loads((tmp_path / "r1.json").read_text())["round_comments"]
+    grouped = [c for c in first if len(c["keys"]) > 1 and c["weight"] in ("critical", "major")]
+    assert grouped  # the demo's reverse-direction checks of J1, J3 and J4 on GB1, and others
+    for c in grouped:
+        assert (
+            f"<td>{c['number']}</td><td>open</td><td>Raised in round 1 as {c['code']}; still open in round 2." in html
+        )
+    assert "History: Raised in round 1 as ABSENT; still open in round 2." in html

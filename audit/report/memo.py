@@ -193,17 +193,19 @@ HISTORY_WORDS = {
 
 
 def history_sentence(steps, grouped: bool) -> str:
-    """A comment's history as one sentence: 'Raised in round 1 (ABSENT); still open in round 2.'
+    """A comment's history as one sentence: 'Raised in round 1 as ABSENT; still open in round 2.'
 
-    A comment of one place says its numbers where a round set or changed them; a grouped comment's
-    numbers belong to many places (the places are listed with the comment), so only its code is said."""
+    A comment of one place says its numbers where a round raised or changed it; a grouped comment's
+    numbers belong to many places (listed with the comment), so only its code is said."""
     parts = []
     for i, s in enumerate(steps):
         text = HISTORY_WORDS.get(s.status, s.status + " in round {round}").format(round=s.round)
-        earlier = steps[i - 1] if i else None
-        if s.status in ("new", "changed") or (earlier is not None and earlier.code != s.code):
-            detail = s.code if grouped else s.summary
-            text += f" ({'now ' if s.status == 'changed' else ''}{detail})"
+        numbers = s.summary[len(s.code) :].strip().strip("()") if s.summary.startswith(s.code) else s.summary
+        detail = "" if grouped or not numbers else f" ({numbers})"
+        if s.status == "new":
+            text += f" as {s.code}{detail}"
+        elif s.status == "changed" or (i and steps[i - 1].code != s.code):
+            text += f", now {s.code}{detail}"
         parts.append(text)
     sentence = "; ".join(parts)
     return (sentence[:1].upper() + sentence[1:] + ".") if sentence else ""

@@ -11,6 +11,7 @@ from __future__ import annotations
 from collections import defaultdict
 from dataclasses import dataclass, replace
 
+from audit.core.natural import natural_key
 from audit.core.units import Display
 from audit.inputs.read_claims import Claim
 from audit.review.findings import KINDS, Finding, severity_rank
@@ -165,14 +166,14 @@ def build_comments(review: Review, rec: Reconciliation | None, claims: tuple[Cla
         groups[key].append((check, fs))
     drafts: list[tuple[tuple, Comment]] = []
     for key, members in groups.items():
-        members.sort(key=lambda m: m[0].id)
+        members.sort(key=lambda m: natural_key(m[0].id))  # stud2 before stud10
         lead_kind, weight = key[0], key[1]
         places = [_place(fs, review, units) for _, fs in members]
         what = _group_words([c for c, _ in members])
         what = what[:1].upper() + what[1:]
         clause = next((f.clause for _, fs in members for f in fs if f.clause), "")
         comment = Comment(0, lead_kind, weight, _title(lead_kind, what, places), tuple(places), clause)
-        drafts.append(((lead_kind in QUIET, severity_rank(weight), lead_kind, members[0][0].id), comment))
+        drafts.append(((lead_kind in QUIET, severity_rank(weight), lead_kind, natural_key(members[0][0].id)), comment))
     for f in loose:
         place = _place([f], review, units)
         if f.claim_id:
@@ -182,7 +183,7 @@ def build_comments(review: Review, rec: Reconciliation | None, claims: tuple[Cla
             head = f"{_where(place)} \u2014 " + KINDS[f.kind].title.format(what=f.member or f.bearing)
         drafts.append(
             (
-                (f.kind in QUIET, severity_rank(f.severity), f.kind, f.bearing or f.claim_id),
+                (f.kind in QUIET, severity_rank(f.severity), f.kind, natural_key(f.bearing or f.claim_id)),
                 Comment(0, f.kind, f.severity, head, (place,), f.clause),
             )
         )
