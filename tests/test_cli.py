@@ -157,3 +157,16 @@ def test_grades_and_species_are_read_whatever_their_case():
     data["materials"]["SPF"]["species"] = "s-p-f"
     review = review_dict(data)
     assert review.model.materials["GL"].grade == "24f-EX" and review.model.materials["SPF"].species == "S-P-F"
+
+
+def test_the_appendix_may_not_be_the_letter_itself(run_cli, tmp_path):
+    same = tmp_path / "memo.html"
+    result = run_cli("review", DEMO, "--memo", same, "--appendix", same)
+    assert result.exit_code == 2 and "--appendix" in result.stderr and not same.exists()
+
+
+def test_review_writes_the_letter_and_the_appendix_it_names(run_cli, tmp_path):
+    result = run_cli("review", DEMO, "--memo", tmp_path / "letter.html", "--appendix", tmp_path / "rest.html")
+    assert result.exit_code == 1  # the demo has a failing check
+    assert "accompanied by its appendix, rest.html" in (tmp_path / "letter.html").read_text(encoding="utf-8")
+    assert 'id="checks"' in (tmp_path / "rest.html").read_text(encoding="utf-8")

@@ -342,6 +342,7 @@ def test_committed_layout_demo_outputs_are_byte_identical_to_a_fresh_run(tmp_pat
     assert run_cli("expand", model, "-o", tmp_path / "layout-demo-explicit.yaml").exit_code == 0
     files = [
         ("--memo", "layout-demo-memo.html"),
+        ("--appendix", "layout-demo-appendix.html"),
         ("--json", "layout-demo-findings.json"),
         ("--csv", "layout-demo-findings.csv"),
     ]
@@ -350,6 +351,11 @@ def test_committed_layout_demo_outputs_are_byte_identical_to_a_fresh_run(tmp_pat
     for name in ["layout-demo-explicit.yaml", *(n for _, n in files)]:
         fresh, committed = (tmp_path / name).read_bytes(), (ROOT / "reports" / name).read_bytes()
         assert fresh == committed, f"reports/{name} is stale: run the layout demo commands in the README"
+    appendix = (tmp_path / "layout-demo-appendix.html").read_text(encoding="utf-8")
+    table = appendix.split('id="checks"')[1].split('id="claims"')[0]
+    checks = json.loads((tmp_path / "layout-demo-findings.json").read_text(encoding="utf-8"))["checks"]
+    assert checks and all(table.count(f"<tr><td>{c['id']}</td>") == 1 for c in checks)  # every check, once
+    assert 'id="checks"' not in (tmp_path / "layout-demo-memo.html").read_text(encoding="utf-8")
 
 
 def test_the_readme_layout_example_reviews_and_places_what_it_says():
