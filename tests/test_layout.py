@@ -298,18 +298,23 @@ def test_reviewing_the_expanded_model_gives_byte_identical_outputs(tmp_path, run
     explicit = tmp_path / "explicit.yaml"
     assert run_cli("expand", model, "-o", explicit).exit_code == 0
     outputs = {}
+    files = ("memo.html", "findings.json", "findings.csv", "appendix.html")
     for name, path in (("layout", model), ("explicit", explicit)):
+        out = tmp_path / name  # one folder each: the letter names its appendix and JSON by file name
+        out.mkdir()
         args = [
             "--memo",
-            tmp_path / f"{name}.html",
+            out / files[0],
             "--json",
-            tmp_path / f"{name}.json",
+            out / files[1],
             "--csv",
-            tmp_path / f"{name}.csv",
+            out / files[2],
+            "--appendix",
+            out / files[3],
         ]
         result = run_cli("review", path, "--claims", claims, *args)
         assert result.exit_code == 1  # the demo has failing checks by design
-        outputs[name] = [(tmp_path / f"{name}.{ext}").read_bytes() for ext in ("html", "json", "csv")]
+        outputs[name] = [(out / f).read_bytes() for f in files]
     # the JSON names each input by its hash (for review rounds), and the two model files differ by design
     for name in outputs:
         data = json.loads(outputs[name][1])

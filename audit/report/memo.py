@@ -39,7 +39,7 @@ LETTER_PLACES = 5  # places a comment names in the letter; the appendix lists ev
 EVERY_CHECK_LIMIT = 2000  # above this many checks the appendix lists the checks with comments; every check: workbook
 TABLE_ROWS = 150  # rows per table in the appendix: long tables are split so a browser prints them in pieces
 DERIVATION_LIMIT = 2000  # above this many checks the appendix derives failing checks only,
-LARGE_DERIVATIONS = 300  # at most this many
+LARGE_DERIVATIONS = 100  # at most this many
 SKETCH_LIMIT = 400  # members drawn; a larger building draws those with comments, at most LARGE_SKETCHES
 LARGE_SKETCHES = 40
 
