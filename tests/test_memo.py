@@ -84,7 +84,8 @@ def test_the_letter_says_where_the_appendix_is_or_which_option_writes_it():
     alone = render_memo(review, rec, claims, MemoOptions())
     assert "was not written with this letter: give --appendix FILE" in alone
     written = render_memo(review, rec, claims, MemoOptions(appendix="demo-appendix.html"))
-    assert "accompanied by its appendix, demo-appendix.html" in written and "was not written" not in written
+    assert "accompanied by its appendix, demo-appendix.html, which holds every required check" in written
+    assert "was not written" not in written
 
 
 def test_a_comment_with_many_places_names_the_first_in_the_letter_and_all_in_the_appendix():
@@ -175,3 +176,37 @@ def test_json_accounts_for_every_check_and_every_claim(run_cli, tmp_path):
     claims = read_claims(CLAIMS)
     assert sorted(o["check"] for o in data["check_outcomes"]) == sorted(r.check.id for r in review.results)
     assert sorted(o["claim"] for o in data["claim_outcomes"]) == sorted(c.id for c in claims)
+
+
+def test_above_the_size_limit_the_appendix_lists_checks_with_comments_and_names_the_workbook(monkeypatch):
+    import io
+    from html import unescape
+
+    from openpyxl import load_workbook
+
+    from audit.report import memo
+    from audit.report.comment_log import comments_xlsx
+    from audit.review.comments import build_comments
+
+    monkeypatch.setattr(memo, "EVERY_CHECK_LIMIT", 10)  # the demo's 35 checks count as a large building
+    review = review_model(DEMO)
+    claims = read_claims(CLAIMS)
+    rec = reconcile(review, claims)
+    comments = build_comments(review, rec, claims)
+    on_comment = {p.check_id for c in comments if not c.quiet for p in c.places if p.check_id}
+    html = unescape(render_appendix(review, rec, claims, MemoOptions(workbook="log.xlsx", json="f.json")))
+    assert "This building has 35 required checks, more than 10" in html
+    assert f"lists the {len(on_comment)} checks that a comment is on" in html
+    assert "the sheet 'Checks' of the workbook log.xlsx, and in the JSON export (f.json)" in html
+    table = html.split('id="checks"')[1].split('id="claims"')[0]
+    for r in review.results:
+        assert (f"<tr><td>{r.check.id}</td>" in table) == (r.check.id in on_comment), r.check.id
+    assert 0 < len(on_comment) < len(review.results)
+    sheet = load_workbook(io.BytesIO(comments_xlsx(review, rec, comments)))["Checks"]
+    assert sorted(row[0] for row in sheet.iter_rows(min_row=2, values_only=True)) == sorted(
+        r.check.id for r in review.results
+    )
+    unwritten = render_appendix(review, rec, claims, MemoOptions())
+    assert "(not written with this appendix: --xlsx FILE writes it)" in unwritten
+    letter = unescape(render_memo(review, rec, claims, MemoOptions(appendix="a.html")))
+    assert "which holds the checks a comment is on (every check is in the workbook's sheet 'Checks')" in letter

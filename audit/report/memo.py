@@ -448,18 +448,32 @@ def _count_rows(counts: dict[str, int]) -> list[list[tuple[str, str, int]]]:
 
 
 def _where_the_rest_is(review: Review, options: MemoOptions) -> str:
+    if len(review.results) > EVERY_CHECK_LIMIT:  # the appendix of a large building: see _every_check_words
+        also = " and the JSON" if options.json else ""
+        listed = (
+            f"the checks a comment is on (every check is in the workbook's sheet 'Checks'{also}), "
+            f"every place of a comment that names more than {LETTER_PLACES}, "
+        )
+    else:
+        listed = (
+            "every required check with its outcome, every claim of the calc, every place of a comment that names "
+            f"more than {LETTER_PLACES}, the comments for the record, "
+        )
     what = (
-        "every required check with its outcome, every claim of the calc, every place of a comment that names "
-        f"more than {LETTER_PLACES}, the comments for the record, "
+        listed
         + ("the level plans, " if review.model.frame is not None else "")
         + "the elevations of the members with comments and the derivation of each check with a comment"
     )
-    json_words = f" (and in the JSON export, {options.json})" if options.json else ""
+    json_words = (
+        f" Every check and finding is also in the JSON export, {options.json}."
+        if options.json
+        else " --json FILE writes every check and finding as JSON."
+    )
     if options.appendix:
-        return f"This letter is accompanied by its appendix, {options.appendix}: {what}{json_words}."
+        return f"This letter is accompanied by its appendix, {options.appendix}, which holds {what}.{json_words}"
     return (
-        f"The appendix ({what}) was not written with this letter: give --appendix FILE to bearing-audit review to "
-        f"write it{json_words or '; --json FILE writes every check and finding as JSON'}."
+        "The appendix was not written with this letter: give --appendix FILE to bearing-audit review to write it. "
+        f"It holds {what}.{json_words}"
     )
 
 
@@ -476,6 +490,7 @@ def letter_view(
         "by_weight": {WEIGHT_WORDS[w]: sum(c.weight == w for c in asking) for w in SEVERITIES[:3]},
         "comments": [_comment_view(c, ctx.standing.get(c.number), LETTER_PLACES) for c in asking],
         "for_record": sum(c.quiet for c in ctx.comments),
+        "record_where": "in the JSON export" if len(review.results) > EVERY_CHECK_LIMIT else "in the appendix",
         "round": _round_view(options.round),
         "rest": _where_the_rest_is(review, options),
         "appendix": options.appendix,
