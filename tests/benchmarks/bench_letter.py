@@ -6,8 +6,9 @@ Prints the letter and the appendix of the plain demo and of the layout demo to P
 browser's default paper) and counts their pages; then generates the synthetic building of
 tests/benchmarks/make_building.py (10k bearings by default), writes its letter, appendix, JSON and
 workbook, and prints the appendix to PDF with Chromium's default print settings, measuring the
-wall time and the peak memory of Chromium's whole process tree (the sum of the proportional set
-size of every process, sampled every 0.1 s). Nothing is asserted about speed.
+wall time (best of two prints) and the peak memory of Chromium's whole process tree (the sum of
+the proportional set size of every process, sampled every 0.1 s; the higher of the two). Nothing
+is asserted about speed.
 """
 
 from __future__ import annotations
@@ -106,6 +107,24 @@ def comments_asking(letter: Path) -> int:
     return letter.read_text(encoding="utf-8").count('<div class="finding ')
 
 
+def first_comments_letter(model: Path, claims: Path, out: Path, count: int = 30) -> Path:
+    """The layout demo's letter with only its first ``count`` comments that ask for something: the size of
+    letter a grouped review gives, measured on today's comments."""
+    from audit.inputs.read_claims import read_claims
+    from audit.report.memo import MemoOptions, render_memo
+    from audit.review.comments import build_comments
+    from audit.review.reconcile import reconcile
+    from audit.review.review import review_model
+
+    result = review_model(model)
+    claim_list = read_claims(claims)
+    rec = reconcile(result, claim_list)
+    asking = tuple(c for c in build_comments(result, rec, claim_list) if not c.quiet)[:count]
+    page = out / f"letter-first-{count}.html"
+    page.write_text(render_memo(result, rec, claim_list, MemoOptions(comments=asking, appendix="appendix.html")))
+    return page
+
+
 def run(bearings: int) -> str:
     rows = []
     with tempfile.TemporaryDirectory() as tmp:
@@ -114,14 +133,19 @@ def run(bearings: int) -> str:
             out.mkdir()
             letter, appendix = review(ROOT / model, ROOT / claims, out)
             printed = [print_pdf(page, page.with_suffix(".pdf")) for page in (letter, appendix)]
-            rows.append((name, comments_asking(letter), printed[0]["pages"], printed[1]["pages"]))
+            rows.append((name, str(comments_asking(letter)), printed[0]["pages"], printed[1]["pages"]))
+            if name == "layout demo":
+                first = first_comments_letter(ROOT / model, ROOT / claims, out)
+                pages = print_pdf(first, first.with_suffix(".pdf"))["pages"]
+                rows.append((f"{name}, its first {comments_asking(first)} comments only", "30", pages, "-"))
         folder = Path(tmp) / "building"
         model, claims, count = write(folder, bearings)
         out = folder / "out"
         out.mkdir()
         extra = ("--json", str(out / "findings.json"), "--xlsx", str(out / "log.xlsx"))
         _, appendix = review(model, claims, out, extra)
-        big = print_pdf(appendix, out / "appendix.pdf")
+        runs = [print_pdf(appendix, out / "appendix.pdf") for _ in range(2)]  # the machine may be shared
+        big = {**min(runs, key=lambda r: r["seconds"]), "peak_mb": max(r["peak_mb"] for r in runs)}
         appendix_mb = appendix.stat().st_size / 1e6
     lines = [
         "## The letter and its appendix in print (`python -m tests.benchmarks.bench_letter`)",
@@ -134,12 +158,14 @@ def run(bearings: int) -> str:
         "|---|---|---|---|",
         *(f"| {name} | {n} | {letter} | {appendix} |" for name, n, letter, appendix in rows),
         "",
-        "Target: the letter of the layout demo on at most 10 pages once its comments are grouped (at most 30).",
+        "Target: the letter of the layout demo on at most 10 pages once its comments are grouped (at most 30); "
+        "the row of its first 30 comments stands in for the grouped letter until the grouping lands.",
         "",
         f"The appendix of the synthetic building of `make_building` with {count:,} bearings ({appendix_mb:.1f} MB of "
         f"HTML; above 2,000 checks it lists the checks with comments and leaves every check to the workbook): "
-        f"printed in **{big['seconds']:.1f} s** with a peak of **{big['peak_mb']:,.0f} MB** over Chromium's "
-        f"processes (summed proportional set size), {big['pages']:,} pages, exit status {big['exit']}. "
+        f"printed in **{big['seconds']:.1f} s** (best of 2; slowest {max(r['seconds'] for r in runs):.1f} s) with a "
+        f"peak of **{big['peak_mb']:,.0f} MB** (the higher of the 2) over Chromium's processes (summed proportional "
+        f"set size), {big['pages']:,} pages, exit status {big['exit']}. "
         "Target: under 90 s and under 2 GB.",
     ]
     return "\n".join(lines) + "\n"
