@@ -126,9 +126,10 @@ def test_markup_in_labels_is_escaped_in_the_memo():
     data["bearings"][2]["aliases"] = [evil]
     review = review_dict(data)
     claims = claims_from([{"location": evil, "member": "J1", "Qf": "1 kN", "text": evil, "where": {"table": evil}}])
-    html = render_memo(review, reconcile(review, claims), claims, MemoOptions())
-    assert "<script>alert" not in html and "<img src=x" not in html
-    assert "&lt;script&gt;alert(1)&lt;/script&gt;" in html
+    rec = reconcile(review, claims)
+    for html in (render_memo(review, rec, claims, MemoOptions()), render_appendix(review, rec, claims, MemoOptions())):
+        assert "<script>alert" not in html and "<img src=x" not in html
+        assert "&lt;script&gt;alert(1)&lt;/script&gt;" in html
 
 
 def test_comment_log_csv_has_a_row_per_number_compared_and_neutralises_formulas(run_cli, tmp_path):

@@ -91,15 +91,17 @@ def test_markup_in_any_field_is_text_in_the_dom_and_runs_nothing(tmp_path):
     assert "<script>" not in dom and "<img" not in dom
 
 
-def test_memo_makes_no_network_request(tmp_path):
+def test_letter_and_appendix_make_no_network_request(tmp_path):
     review = review_model(DEMO)
     claims = read_claims(CLAIMS)
-    page = tmp_path / "memo.html"
-    page.write_text(render_memo(review, reconcile(review, claims), claims, MemoOptions()), encoding="utf-8")
-    netlog = tmp_path / "net.json"
-    dom = browser.dump_dom(page, tmp_path / "profile", netlog)
-    assert "Bearing review memo" in dom
-    assert browser.page_requests(netlog) == set()
+    rec = reconcile(review, claims)
+    for name, render in (("memo", render_memo), ("appendix", render_appendix)):
+        page = tmp_path / f"{name}.html"
+        page.write_text(render(review, rec, claims, MemoOptions()), encoding="utf-8")
+        netlog = tmp_path / f"net-{name}.json"
+        dom = browser.dump_dom(page, tmp_path / f"profile-{name}", netlog)
+        assert "Bearing review memo" in dom
+        assert browser.page_requests(netlog) == set()
 
 
 def test_network_check_detects_a_page_that_does_request(tmp_path):
