@@ -175,10 +175,6 @@ def _round_view(r: Round | None) -> dict[str, Any] | None:
         "previous": r.previous.number,
         "counts": r.counts(),
         "ended": sorted(ended, key=lambda t: t.number),
-        "open": [
-            {"number": t.number, "status": t.status, "history": history_sentence(t.history, len(t.keys) > 1)}
-            for t in sorted((t for t in r.tracked if t.status in ("open", "changed")), key=lambda t: t.number)
-        ],
         "flagged": sum(t.flagged for t in r.tracked),
     }
 
