@@ -360,6 +360,9 @@ def test_committed_layout_demo_outputs_are_byte_identical_to_a_fresh_run(tmp_pat
     table = appendix.split('id="checks"')[1].split('id="claims"')[0]
     checks = json.loads((tmp_path / "layout-demo-findings.json").read_text(encoding="utf-8"))["checks"]
     assert checks and all(table.count(f"<tr><td>{c['id']}</td>") == 1 for c in checks)  # every check, once
+    claim_table = appendix.split('id="claims"')[1].split("</section>")[0]
+    outcomes = json.loads((tmp_path / "layout-demo-findings.json").read_text(encoding="utf-8"))["claim_outcomes"]
+    assert outcomes and all(claim_table.count(f"<tr><td>{o['claim']}</td>") == 1 for o in outcomes)  # every claim
     assert 'id="checks"' not in (tmp_path / "layout-demo-memo.html").read_text(encoding="utf-8")
 
 
