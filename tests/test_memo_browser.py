@@ -39,6 +39,9 @@ def test_printed_letter_and_appendix_carry_every_finding_and_no_table_runs_off_t
             browser.screenshot(page, ARTEFACTS / "memo-first-page.png", tmp_path / "profile2")
         with pdfplumber.open(pdf_path) as pdf:
             text += _squash("\n".join(p.extract_text() or "" for p in pdf.pages))
+            words = {w["text"] for p in pdf.pages for w in p.extract_words()}
+            if name == "appendix":  # status words are printed whole in the check table
+                assert {"CONFIRMED", "MISSING", "FAILS"} <= words and not {"CONFIRME", "MISSIN"} & words
             for p in pdf.pages:
                 xs = [o["x1"] for o in (*p.chars, *p.rects, *p.lines)]
                 x0s = [o["x0"] for o in (*p.chars, *p.rects, *p.lines)]
