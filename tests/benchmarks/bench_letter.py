@@ -126,6 +126,7 @@ def first_comments_letter(model: Path, claims: Path, out: Path, count: int = 30)
 
 
 def run(bearings: int) -> str:
+    load = os.getloadavg()[0]  # the machine may be shared: timings are read against it
     rows = []
     with tempfile.TemporaryDirectory() as tmp:
         for name, (model, claims) in DEMOS.items():
@@ -150,7 +151,7 @@ def run(bearings: int) -> str:
     lines = [
         "## The letter and its appendix in print (`python -m tests.benchmarks.bench_letter`)",
         "",
-        f"Machine: {machine()}.",
+        f"Machine: {machine()}; load average {load:.1f} when the run began.",
         "",
         "Each printed to PDF by headless Chromium with its default print settings (Letter paper), pages counted.",
         "",
