@@ -68,9 +68,20 @@ def review(
         None, "--pages", help="With --calc-pdf: pages to read, e.g. 12-30,35.", metavar="PAGES"
     ),
     column_map: Path | None = typer.Option(None, "--map", help="With --calc-pdf: a column map (YAML).", metavar="FILE"),
-    memo: Path | None = typer.Option(None, "--memo", help="Write the HTML review memo here.", metavar="FILE"),
+    memo: Path | None = typer.Option(
+        None,
+        "--memo",
+        metavar="FILE",
+        help="Write the review letter as HTML: summary, comments, assumptions, cautions.",
+    ),
+    appendix: Path | None = typer.Option(
+        None,
+        "--appendix",
+        help="Write the letter's appendix as HTML: every check and claim, plans, elevations, derivations.",
+        metavar="FILE",
+    ),
     all_derivations: bool = typer.Option(
-        False, "--all-derivations", help="In the memo, derive confirmed and covered checks too."
+        False, "--all-derivations", help="In the appendix, derive confirmed and covered checks too."
     ),
     json_out: Path | None = typer.Option(None, "--json", help="Write every check and finding as JSON.", metavar="FILE"),
     csv_out: Path | None = typer.Option(
@@ -108,7 +119,7 @@ def review(
     from audit.inputs.read_claims import merge_claim_sources, read_claims
     from audit.report.comment_log import comments_csv, comments_xlsx
     from audit.report.export import check_table, summary_line
-    from audit.report.memo import MemoOptions, findings_json_chunks, memo_chunks
+    from audit.report.memo import MemoOptions, appendix_chunks, findings_json_chunks, memo_chunks
     from audit.review.comments import build_comments
     from audit.review.reconcile import reconcile
     from audit.review.review import review_model
@@ -142,7 +153,7 @@ def review(
                 "--responses": responses,
                 "--dispositions": dispositions,
             },
-            {"--memo": memo, "--json": json_out, "--csv": csv_out, "--xlsx": xlsx_out},
+            {"--memo": memo, "--appendix": appendix, "--json": json_out, "--csv": csv_out, "--xlsx": xlsx_out},
         )
         result = review_model(model, _dirs(rules_dir), rule_pack)
         claim_list = read_claims(claims) if claims else ()
@@ -185,19 +196,19 @@ def review(
         counts = rec.counts()
         typer.echo("findings: " + ", ".join(f"{n} {k}" for k, n in counts.items()))
     outputs = []
+    memo_options = MemoOptions(
+        date=memo_date,
+        all_derivations=all_derivations,
+        comments=comments,
+        round=round_,
+        appendix=appendix.name if appendix else None,  # the letter names its appendix by the file's name
+        workbook=xlsx_out.name if xlsx_out else None,
+        json=json_out.name if json_out else None,
+    )
     if memo:
-        outputs.append(
-            Output(
-                "--memo",
-                memo,
-                lambda: memo_chunks(
-                    result,
-                    rec,
-                    claim_list,
-                    MemoOptions(date=memo_date, all_derivations=all_derivations, comments=comments, round=round_),
-                ),
-            )
-        )
+        outputs.append(Output("--memo", memo, lambda: memo_chunks(result, rec, claim_list, memo_options)))
+    if appendix:
+        outputs.append(Output("--appendix", appendix, lambda: appendix_chunks(result, rec, claim_list, memo_options)))
     if json_out:
         outputs.append(
             Output("--json", json_out, lambda: findings_json_chunks(result, rec, findings, comments, round_))
@@ -337,7 +348,10 @@ def explain(
     rules_dir: list[Path] | None = RulesDir,
     rule_pack: str | None = RulePack,
 ) -> None:
-    """Print one check's full derivation: geometry, every factor and why, every combination."""
+    """Print a check's full derivation: geometry, every factor and why, every combination.
+
+    Given a bearing id or a calc label with several checks there, prints each of them."""
+    from audit.core.natural import natural_sorted
     from audit.report.export import explain as explain_text
     from audit.review.review import review_model
 
@@ -346,25 +360,21 @@ def explain(
     except InputError as exc:
         _fail(exc)
     ids = [r.check.id for r in result.results]
+    chosen = [check_id]
     if check_id not in ids:
         from audit.engine.model import normalise_label
         from audit.review.reconcile import label_index
 
         bearing = label_index(result).get(normalise_label(check_id))
-        at = [i for i in ids if bearing is not None and i.split(":")[0] == bearing]
-        if len(at) == 1:
-            check_id = at[0]
-        else:
-            close = at or [i for i in ids if check_id.split(":")[0] in i][:5]
-            what = f"'{check_id}' is bearing {bearing}, which has {len(at)} checks" if at else f"no check '{check_id}'"
-            hint = (
-                f" (choose one of: {', '.join(close)})"
-                if at
-                else (f" (did you mean: {', '.join(close)})" if close else "")
-            )
-            typer.echo(f"error: {model}: {what}{hint}", err=True)
+        chosen = natural_sorted(i for i in ids if bearing is not None and i.split(":")[0] == bearing)
+        if not chosen:
+            close = [i for i in ids if check_id.split(":")[0] in i][:5]
+            hint = f" (did you mean: {', '.join(close)})" if close else ""
+            typer.echo(f"error: {model}: no check '{check_id}'{hint}", err=True)
             raise typer.Exit(2)
-    typer.echo(explain_text(result, check_id))
+        if len(chosen) > 1:
+            typer.echo(f"'{check_id}' is bearing {bearing}, which has {len(chosen)} checks: {', '.join(chosen)}\n")
+    typer.echo("\n\n".join(explain_text(result, i) for i in chosen))
 
 
 @app.command()

@@ -59,8 +59,10 @@ def test_explain_unknown_check_suggests_close_ids(run_cli):
     result = run_cli("explain", DEMO, "GB2/P1:P1")
     assert result.exit_code == 2
     assert "did you mean" in result.stderr and "GB2/P1:GB2" in result.stderr
-    several = run_cli("explain", DEMO, "GB2/P1")  # a bearing id with two checks
-    assert several.exit_code == 2 and "choose one of" in several.stderr
+    several = run_cli("explain", DEMO, "GB2/P1")  # a bearing id with two checks (P1 is a post): each is printed
+    assert several.exit_code == 0
+    headings = [line.split(": ")[0] for line in several.output.splitlines() if line.startswith("Check ")]
+    assert headings == ["Check GB2/P1:GB2", "Check GB2/P1:GB2:near"]
 
 
 def test_rules_lists_values_with_provenance(run_cli):
@@ -136,11 +138,15 @@ def test_explain_accepts_the_calcs_label_for_a_bearing_with_one_check(run_cli, w
     assert result.exit_code == 0 and "Check B1/C1:B1" in result.output
 
 
-def test_explain_lists_the_checks_where_a_label_names_several(run_cli, write_model):
+def test_explain_prints_each_check_where_a_calc_label_names_several(run_cli, write_model):
     data = base_model()
     data["bearings"][2]["aliases"] = ["J1 on B1"]
     result = run_cli("explain", write_model(data), "J1 on B1")
-    assert result.exit_code == 2 and "J1/B1:B1" in result.stderr and "J1/B1:J1" in result.stderr
+    assert result.exit_code == 0, result.output
+    assert "'J1 on B1' is bearing J1/B1, which has 2 checks: J1/B1:B1, J1/B1:J1" in result.output
+    headings = [line for line in result.output.splitlines() if line.startswith("Check ")]
+    assert [h.split(":")[0] + ":" + h.split(":")[1] for h in headings] == ["Check J1/B1:B1", "Check J1/B1:J1"]
+    assert result.output.count("Result: ") == 2  # each check's derivation in full, to its result line
 
 
 def test_grades_and_species_are_read_whatever_their_case():
@@ -151,3 +157,16 @@ def test_grades_and_species_are_read_whatever_their_case():
     data["materials"]["SPF"]["species"] = "s-p-f"
     review = review_dict(data)
     assert review.model.materials["GL"].grade == "24f-EX" and review.model.materials["SPF"].species == "S-P-F"
+
+
+def test_the_appendix_may_not_be_the_letter_itself(run_cli, tmp_path):
+    same = tmp_path / "memo.html"
+    result = run_cli("review", DEMO, "--memo", same, "--appendix", same)
+    assert result.exit_code == 2 and "--appendix" in result.stderr and not same.exists()
+
+
+def test_review_writes_the_letter_and_the_appendix_it_names(run_cli, tmp_path):
+    result = run_cli("review", DEMO, "--memo", tmp_path / "letter.html", "--appendix", tmp_path / "rest.html")
+    assert result.exit_code == 1  # the demo has a failing check
+    assert "accompanied by its appendix, rest.html" in (tmp_path / "letter.html").read_text(encoding="utf-8")
+    assert 'id="checks"' in (tmp_path / "rest.html").read_text(encoding="utf-8")

@@ -43,14 +43,14 @@ def test_a_claim_made_in_lbf_is_compared_and_shown_in_lbf():
 
 
 def test_a_us_project_shows_forces_in_kip():
-    from audit.report.memo import MemoOptions, render_memo
+    from audit.report.memo import MemoOptions, render_appendix
 
     data = base_model()
     data["project"]["units"] = "US"
     review, claims, rec = reconcile_dicts(data, [])
     missing = next(f for f in rec.findings if f.kind == "missing" and f.check_id == "J1/B1:J1")
     assert f"Qf = {QF_J1 / (1000 * LBF):.2f} kip" in missing.message
-    html = render_memo(review, rec, claims, MemoOptions())
+    html = render_appendix(review, rec, claims, MemoOptions())
     assert "Qf and Qr in kip" in html
 
 

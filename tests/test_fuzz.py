@@ -141,14 +141,25 @@ def _run(model_text: bytes, claims: list | dict | str) -> None:
         model.write_bytes(model_text)
         claims_path = folder / "claims.yaml"
         claims_path.write_text(claims if isinstance(claims, str) else yaml.safe_dump(claims, allow_unicode=True))
-        out, memo = folder / "out.json", folder / "memo.html"
+        out, memo, appendix = folder / "out.json", folder / "memo.html", folder / "appendix.html"
         import contextlib
         import io
 
         err = io.StringIO()
         with contextlib.redirect_stderr(err), contextlib.redirect_stdout(io.StringIO()):
             code = cli.run(
-                ["review", str(model), "--claims", str(claims_path), "--json", str(out), "--memo", str(memo)]
+                [
+                    "review",
+                    str(model),
+                    "--claims",
+                    str(claims_path),
+                    "--json",
+                    str(out),
+                    "--memo",
+                    str(memo),
+                    "--appendix",
+                    str(appendix),
+                ]
             )
         text = err.getvalue()
         assert code in (0, 1, 2), code
@@ -162,7 +173,8 @@ def _run(model_text: bytes, claims: list | dict | str) -> None:
         items = yaml.safe_load(claims_path.read_text())["claims"] or []
         claim_ids = [_as_written(c["id"]) if "id" in c else f"claim{n + 1}" for n, c in enumerate(items)]
         assert sorted(o["claim"] for o in data["claim_outcomes"]) == sorted(claim_ids)
-        html = memo.read_text()
+        assert memo.read_text().rstrip().endswith("</html>")
+        html = appendix.read_text()  # the appendix lists every check
         assert all(f"<td>{cid}</td>" in html for cid in check_ids if "<" not in cid and "&" not in cid)
 
 

@@ -298,18 +298,23 @@ def test_reviewing_the_expanded_model_gives_byte_identical_outputs(tmp_path, run
     explicit = tmp_path / "explicit.yaml"
     assert run_cli("expand", model, "-o", explicit).exit_code == 0
     outputs = {}
+    files = ("memo.html", "findings.json", "findings.csv", "appendix.html")
     for name, path in (("layout", model), ("explicit", explicit)):
+        out = tmp_path / name  # one folder each: the letter names its appendix and JSON by file name
+        out.mkdir()
         args = [
             "--memo",
-            tmp_path / f"{name}.html",
+            out / files[0],
             "--json",
-            tmp_path / f"{name}.json",
+            out / files[1],
             "--csv",
-            tmp_path / f"{name}.csv",
+            out / files[2],
+            "--appendix",
+            out / files[3],
         ]
         result = run_cli("review", path, "--claims", claims, *args)
         assert result.exit_code == 1  # the demo has failing checks by design
-        outputs[name] = [(tmp_path / f"{name}.{ext}").read_bytes() for ext in ("html", "json", "csv")]
+        outputs[name] = [(out / f).read_bytes() for f in files]
     # the JSON names each input by its hash (for review rounds), and the two model files differ by design
     for name in outputs:
         data = json.loads(outputs[name][1])
@@ -342,6 +347,7 @@ def test_committed_layout_demo_outputs_are_byte_identical_to_a_fresh_run(tmp_pat
     assert run_cli("expand", model, "-o", tmp_path / "layout-demo-explicit.yaml").exit_code == 0
     files = [
         ("--memo", "layout-demo-memo.html"),
+        ("--appendix", "layout-demo-appendix.html"),
         ("--json", "layout-demo-findings.json"),
         ("--csv", "layout-demo-findings.csv"),
     ]
@@ -350,6 +356,14 @@ def test_committed_layout_demo_outputs_are_byte_identical_to_a_fresh_run(tmp_pat
     for name in ["layout-demo-explicit.yaml", *(n for _, n in files)]:
         fresh, committed = (tmp_path / name).read_bytes(), (ROOT / "reports" / name).read_bytes()
         assert fresh == committed, f"reports/{name} is stale: run the layout demo commands in the README"
+    appendix = (tmp_path / "layout-demo-appendix.html").read_text(encoding="utf-8")
+    table = appendix.split('id="checks"')[1].split('id="claims"')[0]
+    checks = json.loads((tmp_path / "layout-demo-findings.json").read_text(encoding="utf-8"))["checks"]
+    assert checks and all(table.count(f"<tr><td>{c['id']}</td>") == 1 for c in checks)  # every check, once
+    claim_table = appendix.split('id="claims"')[1].split("</section>")[0]
+    outcomes = json.loads((tmp_path / "layout-demo-findings.json").read_text(encoding="utf-8"))["claim_outcomes"]
+    assert outcomes and all(claim_table.count(f"<tr><td>{o['claim']}</td>") == 1 for o in outcomes)  # every claim
+    assert 'id="checks"' not in (tmp_path / "layout-demo-memo.html").read_text(encoding="utf-8")
 
 
 def test_the_readme_layout_example_reviews_and_places_what_it_says():

@@ -8,7 +8,9 @@ import shutil
 import pdfplumber
 
 from audit.inputs.read_claims import read_claims
-from audit.report.memo import MemoOptions, render_memo
+from audit.report.memo import MemoOptions, render_appendix, render_memo
+from audit.review.comments import build_comments
+from audit.review.findings import KINDS
 from audit.review.reconcile import reconcile
 from audit.review.review import review_model
 from tests import browser
@@ -22,24 +24,29 @@ def _squash(text: str) -> str:
     return re.sub(r"\s+", "", text)
 
 
-def test_printed_memo_carries_every_finding_and_no_table_runs_off_the_page(tmp_path):
+def test_printed_letter_and_appendix_carry_every_finding_and_no_table_runs_off_the_page(tmp_path):
     review = review_model(DEMO)
     claims = read_claims(CLAIMS)
     rec = reconcile(review, claims)
-    page = tmp_path / "memo.html"
-    page.write_text(render_memo(review, rec, claims, MemoOptions()), encoding="utf-8")
-    pdf_path = browser.print_pdf(page, tmp_path / "memo.pdf", tmp_path / "profile")
-    ARTEFACTS.mkdir(parents=True, exist_ok=True)
-    browser.screenshot(page, ARTEFACTS / "memo-first-page.png", tmp_path / "profile2")
-    shutil.copy(pdf_path, ARTEFACTS / "memo.pdf")
-
-    with pdfplumber.open(pdf_path) as pdf:
-        text = _squash("\n".join(p.extract_text() or "" for p in pdf.pages))
-        for p in pdf.pages:
-            xs = [o["x1"] for o in (*p.chars, *p.rects, *p.lines)]
-            x0s = [o["x0"] for o in (*p.chars, *p.rects, *p.lines)]
-            assert not xs or max(xs) <= p.width + 0.5, f"page {p.page_number} runs off the right edge"
-            assert not x0s or min(x0s) >= -0.5, f"page {p.page_number} runs off the left edge"
+    text = ""
+    for name, render in (("memo", render_memo), ("appendix", render_appendix)):
+        page = tmp_path / f"{name}.html"
+        page.write_text(render(review, rec, claims, MemoOptions(appendix="appendix.html")), encoding="utf-8")
+        pdf_path = browser.print_pdf(page, tmp_path / f"{name}.pdf", tmp_path / f"profile-{name}")
+        ARTEFACTS.mkdir(parents=True, exist_ok=True)
+        shutil.copy(pdf_path, ARTEFACTS / f"{name}.pdf")
+        if name == "memo":
+            browser.screenshot(page, ARTEFACTS / "memo-first-page.png", tmp_path / "profile2")
+        with pdfplumber.open(pdf_path) as pdf:
+            text += _squash("\n".join(p.extract_text() or "" for p in pdf.pages))
+            words = {w["text"] for p in pdf.pages for w in p.extract_words()}
+            if name == "appendix":  # status words are printed whole in the check table
+                assert {"CONFIRMED", "MISSING", "FAILS"} <= words and not {"CONFIRME", "MISSIN"} & words
+            for p in pdf.pages:
+                xs = [o["x1"] for o in (*p.chars, *p.rects, *p.lines)]
+                x0s = [o["x0"] for o in (*p.chars, *p.rects, *p.lines)]
+                assert not xs or max(xs) <= p.width + 0.5, f"{name} page {p.page_number} runs off the right edge"
+                assert not x0s or min(x0s) >= -0.5, f"{name} page {p.page_number} runs off the left edge"
     shown = [f for f in rec.findings if f.kind != "confirmed"]
     assert shown
     for f in shown:
@@ -50,18 +57,20 @@ def test_printed_memo_carries_every_finding_and_no_table_runs_off_the_page(tmp_p
             assert f"{value / 1000:.2f}".lstrip("-") in text, (f.kind, value)
 
 
-def test_memo_fits_an_a4_page_as_well_as_letter(tmp_path):
+def test_letter_and_appendix_fit_an_a4_page_as_well_as_letter(tmp_path):
     review = review_model(DEMO)
     claims = read_claims(CLAIMS)
-    html = render_memo(review, reconcile(review, claims), claims, MemoOptions())
-    page = tmp_path / "a4.html"
-    page.write_text(html.replace("@page { margin", "@page { size: A4; margin"), encoding="utf-8")
-    pdf_path = browser.print_pdf(page, tmp_path / "a4.pdf", tmp_path / "profile")
-    with pdfplumber.open(pdf_path) as pdf:
-        assert round(pdf.pages[0].width) == 595  # A4 in points
-        for p in pdf.pages:
-            xs = [o["x1"] for o in (*p.chars, *p.rects, *p.lines)]
-            assert not xs or max(xs) <= p.width + 0.5, f"page {p.page_number} runs off the right edge"
+    rec = reconcile(review, claims)
+    for name, render in (("memo", render_memo), ("appendix", render_appendix)):
+        html = render(review, rec, claims, MemoOptions())
+        page = tmp_path / f"a4-{name}.html"
+        page.write_text(html.replace("@page { margin", "@page { size: A4; margin"), encoding="utf-8")
+        pdf_path = browser.print_pdf(page, tmp_path / f"a4-{name}.pdf", tmp_path / f"profile-{name}")
+        with pdfplumber.open(pdf_path) as pdf:
+            assert round(pdf.pages[0].width) == 595  # A4 in points
+            for p in pdf.pages:
+                xs = [o["x1"] for o in (*p.chars, *p.rects, *p.lines)]
+                assert not xs or max(xs) <= p.width + 0.5, f"{name} page {p.page_number} runs off the right edge"
 
 
 def test_markup_in_any_field_is_text_in_the_dom_and_runs_nothing(tmp_path):
@@ -85,15 +94,17 @@ def test_markup_in_any_field_is_text_in_the_dom_and_runs_nothing(tmp_path):
     assert "<script>" not in dom and "<img" not in dom
 
 
-def test_memo_makes_no_network_request(tmp_path):
+def test_letter_and_appendix_make_no_network_request(tmp_path):
     review = review_model(DEMO)
     claims = read_claims(CLAIMS)
-    page = tmp_path / "memo.html"
-    page.write_text(render_memo(review, reconcile(review, claims), claims, MemoOptions()), encoding="utf-8")
-    netlog = tmp_path / "net.json"
-    dom = browser.dump_dom(page, tmp_path / "profile", netlog)
-    assert "Bearing review memo" in dom
-    assert browser.page_requests(netlog) == set()
+    rec = reconcile(review, claims)
+    for name, render in (("memo", render_memo), ("appendix", render_appendix)):
+        page = tmp_path / f"{name}.html"
+        page.write_text(render(review, rec, claims, MemoOptions()), encoding="utf-8")
+        netlog = tmp_path / f"net-{name}.json"
+        dom = browser.dump_dom(page, tmp_path / f"profile-{name}", netlog)
+        assert "Bearing review memo" in dom
+        assert browser.page_requests(netlog) == set()
 
 
 def test_network_check_detects_a_page_that_does_request(tmp_path):
@@ -105,15 +116,31 @@ def test_network_check_detects_a_page_that_does_request(tmp_path):
     assert browser.page_requests(netlog) == {"http://127.0.0.1:9/probe.png"}
 
 
-def test_the_comment_part_of_the_demo_memo_prints_on_a_few_pages(tmp_path):
-    # the memo before its appendix (summary, comments, assumptions, cautions): at most 9 Letter
-    # pages, a third of the 27 the whole memo took when every check was derived in the body
+def _print_letter(tmp_path, review, rec, claims, comments=None):
+    page = tmp_path / "letter.html"
+    options = MemoOptions(appendix="demo-appendix.html", comments=comments)
+    page.write_text(render_memo(review, rec, claims, options), encoding="utf-8")
+    return browser.print_pdf(page, tmp_path / "letter.pdf", tmp_path / "profile")
+
+
+def test_the_demo_letter_prints_on_six_letter_pages_with_the_summary_and_first_comment_on_page_1(tmp_path):
+    # the whole memo took 25 pages when the appendix was part of it; the letter alone takes 6
     review = review_model(DEMO)
     claims = read_claims(CLAIMS)
-    page = tmp_path / "memo.html"
-    page.write_text(render_memo(review, reconcile(review, claims), claims, MemoOptions()), encoding="utf-8")
-    pdf_path = browser.print_pdf(page, tmp_path / "memo.pdf", tmp_path / "profile")
-    with pdfplumber.open(pdf_path) as pdf:
-        starts = [p.page_number for p in pdf.pages if (p.extract_text() or "").lstrip().startswith("Appendix")]
-        assert starts, "the appendix starts on a page of its own"
-        assert starts[0] - 1 <= 9, f"the comment part takes {starts[0] - 1} pages"
+    rec = reconcile(review, claims)
+    first = next(c for c in build_comments(review, rec, claims) if not c.quiet)
+    with pdfplumber.open(_print_letter(tmp_path, review, rec, claims)) as pdf:
+        assert (round(pdf.pages[0].width), round(pdf.pages[0].height)) == (612, 792)  # Letter, in points
+        assert len(pdf.pages) <= 6, f"the letter takes {len(pdf.pages)} pages"
+        page_1 = _squash(pdf.pages[0].extract_text() or "")
+    assert "Summary" in page_1 and "Reviewcomments" in page_1
+    assert _squash(f"{first.number}. {first.weight_word.upper()}") in page_1 and _squash(first.title[:40]) in page_1
+
+
+def test_no_header_or_name_of_the_summary_table_is_split_mid_word_on_letter(tmp_path):
+    review = review_model(DEMO)
+    claims = read_claims(CLAIMS)
+    with pdfplumber.open(_print_letter(tmp_path, review, reconcile(review, claims), claims)) as pdf:
+        words = {w["text"] for w in pdf.pages[0].extract_words()}
+    for word in ("finding", "code", "count", *(k.name for k in KINDS.values()), *(k.code for k in KINDS.values())):
+        assert word in words, f"'{word}' is not printed whole on page 1"

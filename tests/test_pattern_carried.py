@@ -184,11 +184,11 @@ def test_the_least_snow_placing_governs_where_it_brings_kd_down_most():
 
 
 def test_the_memo_derivation_of_the_sill_names_the_pattern_and_the_range():
-    from audit.report.memo import MemoOptions, render_memo
+    from audit.report.memo import MemoOptions, render_appendix
     from tests.conftest import reconcile_dicts
 
     review, claims, rec = reconcile_dicts(four_span_on_sill(), [])
-    html = render_memo(review, rec, claims, MemoOptions(all_derivations=True))
+    html = render_appendix(review, rec, claims, MemoOptions(all_derivations=True))
     # every span 0.393 x 8 kN = 3.14 kN, the worst 0.446 x 8 = 3.57 kN, the least (spans 2 and 4) -0.054 x 8
     assert "Governing: 1.25D+1.5L with L at the worst pattern of B at B/P1" in html
     assert "L 3.14 kN (every span loaded; -0.43 kN to 3.57 kN by pattern)" in html

@@ -19,8 +19,9 @@ def memo(tmp_path_factory) -> str:
 
     from audit.cli import app
 
-    out = tmp_path_factory.mktemp("plans") / "memo.html"
-    args = ["review", str(LAYOUT_DEMO / "model.yaml"), "--claims", str(LAYOUT_DEMO / "claims.yaml"), "--memo", str(out)]
+    out = tmp_path_factory.mktemp("plans") / "appendix.html"
+    model, claims = str(LAYOUT_DEMO / "model.yaml"), str(LAYOUT_DEMO / "claims.yaml")
+    args = ["review", model, "--claims", claims, "--appendix", str(out)]
     CliRunner().invoke(app, args, catch_exceptions=False)
     return out.read_text(encoding="utf-8")
 
@@ -63,6 +64,6 @@ def test_the_failing_bearing_is_drawn_as_a_cross_and_a_passing_one_as_a_circle(m
 
 
 def test_a_model_without_a_layout_has_no_plans(tmp_path, run_cli):
-    out = tmp_path / "memo.html"
-    run_cli("review", ROOT / "fixtures" / "demo" / "model.yaml", "--memo", out)
+    out = tmp_path / "appendix.html"
+    run_cli("review", ROOT / "fixtures" / "demo" / "model.yaml", "--appendix", out)
     assert 'id="plans"' not in out.read_text(encoding="utf-8")

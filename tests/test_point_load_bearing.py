@@ -69,8 +69,8 @@ def test_a_point_load_within_d_of_a_support_is_still_in_the_near_support_check()
 def test_the_point_load_check_is_in_the_memo_the_json_and_the_comment_log(run_cli, write_model, tmp_path):
     model = write_model(beam_with_leg("o86"))
     claims = write_model({"claims": [{"id": "C1", "location": "B/P1", "member": "B", "Qf": "10 kN"}]}, "claims.yaml")
-    out_json, out_csv, memo = tmp_path / "out.json", tmp_path / "out.csv", tmp_path / "memo.html"
-    result = run_cli("review", model, "--claims", claims, "--json", out_json, "--csv", out_csv, "--memo", memo)
+    out_json, out_csv, memo = tmp_path / "out.json", tmp_path / "out.csv", tmp_path / "appendix.html"
+    result = run_cli("review", model, "--claims", claims, "--json", out_json, "--csv", out_csv, "--appendix", memo)
     assert result.exit_code in (0, 1)
     checks = {c["id"]: c for c in json.loads(out_json.read_text(encoding="utf-8"))["checks"]}
     assert checks["leg:B"]["point_load"] == "leg" and checks["leg:B"]["bearing"] == "leg"

@@ -450,3 +450,39 @@ def test_a_comment_closed_by_response_reopens_when_it_changes(disposed_rounds, r
     fourth = {c["number"]: c for c in four["round_comments"]}
     assert fourth[accepted]["status"] == "changed" and fourth[accepted]["closed_by_response"] is False
     assert fourth[accepted]["reason"].startswith("reopened: changed since its response was accepted")
+
+
+def test_the_history_of_a_comment_reads_as_a_sentence():
+    from audit.report.memo import history_sentence
+    from audit.review.rounds import Step
+
+    grouped = (
+        Step(1, "new", "missing", "missing (claimed / recomputed: Qf - / 3.20; Qr - / 12.00; Qf - / 2.90)"),
+        Step(2, "open", "missing", "missing (claimed / recomputed: Qf - / 3.20; Qr - / 12.00; Qf - / 2.90)"),
+    )
+    assert history_sentence(grouped, grouped=True) == "Raised in round 1 as missing; still open in round 2."
+    single = (
+        Step(1, "new", "mis-loaded", "mis-loaded (claimed / recomputed: Qf 2.00 / 8.50)"),
+        Step(2, "changed", "mis-loaded", "mis-loaded (claimed / recomputed: Qf 3.00 / 8.50)"),
+        Step(3, "open", "mis-loaded", "mis-loaded (claimed / recomputed: Qf 3.00 / 8.50)"),
+    )
+    assert history_sentence(single, grouped=False) == (
+        "Raised in round 1 as mis-loaded (claimed / recomputed: Qf 2.00 / 8.50); changed in round 2, now mis-loaded "
+        "(claimed / recomputed: Qf 3.00 / 8.50); still open in round 3."
+    )
+
+
+def test_a_grouped_comment_in_round_two_shows_its_history_as_a_sentence(tmp_path, run_cli):
+    from tests.conftest import DEMO, ROOT
+
+    claims = ROOT / "fixtures" / "demo" / "claims.yaml"
+    run_cli("review", DEMO, "--claims", claims, "--json", tmp_path / "r1.json")
+    run_cli("review", DEMO, "--claims", claims, "--previous", tmp_path / "r1.json", "--memo", tmp_path / "r2.html")
+    html = (tmp_path / "r2.html").read_text(encoding="utf-8")
+    first = json.loads((tmp_path / "r1.json").read_text())["round_comments"]
+    grouped = [c for c in first if len(c["keys"]) > 1 and c["weight"] in ("safety", "revise")]
+    assert grouped  # the demo's bearings of J1, J3 and J4 on GB1, and others
+    heads = {d.split("</span>")[0].split(">")[-1].split(".")[0]: d for d in html.split('<div class="finding ')[1:]}
+    for c in grouped:
+        assert f"History: Raised in round 1 as {c['kind']}; still open in round 2." in heads[str(c["number"])]
+    assert "History: Raised in round 1 as missing; still open in round 2." in html

@@ -1,4 +1,5 @@
-"""The member sketches as geometry: no two text boxes overlap, loads carry their size, markers run left to right."""
+"""The member sketches as geometry: no two text boxes overlap, loads carry their size, checks are listed left to
+right and each marker carries the number of the comment on its check."""
 
 from __future__ import annotations
 
@@ -7,8 +8,9 @@ import re
 import pytest
 
 from audit.inputs.read_claims import read_claims
-from audit.report.memo import MemoOptions, render_memo
+from audit.report.memo import MemoOptions, appendix_view, render_appendix
 from audit.report.sketch import _Item, place_in_rows
+from audit.review.comments import build_comments
 from audit.review.reconcile import reconcile
 from audit.review.review import review_model
 from tests.conftest import DEMO, ROOT, review_dict
@@ -34,7 +36,7 @@ def _svgs(html: str) -> list[str]:
 
 def _memo(review, claims=()):
     rec = reconcile(review, claims) if claims else None
-    return render_memo(review, rec, claims, MemoOptions())
+    return render_appendix(review, rec, claims, MemoOptions())
 
 
 @pytest.mark.parametrize(
@@ -63,14 +65,31 @@ def test_every_load_is_labelled_with_its_size():
     assert "P/WP: D 10.00 + S 20.00 kN" in text  # the post's load on the plate, by case
 
 
-def test_markers_are_numbered_left_to_right():
-    html = _memo(review_dict(beam_on_posts([3.0, 3.0])))
-    svg = _svgs(html)[0]
-    mark = r'<circle cx="([\d.]+)" cy="[\d.]+" r="7"[^>]*/>'
-    number = r'<text x="[\d.]+" y="[\d.]+" font-size="8" text-anchor="middle">(\d+)</text>'
-    marks = re.findall(mark + number, svg)
-    xs = [float(x) for x, n in sorted(marks, key=lambda m: int(m[1]))]
+def test_checks_are_listed_left_to_right_beneath_the_sketch():
+    review = review_dict(beam_on_posts([3.0, 3.0]))
+    sketch = appendix_view(review, None, (), MemoOptions())["sketches"][0]
+    centre = {r.check.id: r.check.contact.centre for r in review.results}
+    xs = [centre[row["id"]] for row in sketch["legend"]]
     assert xs == sorted(xs) and len(xs) == 3
+
+
+def test_each_marker_carries_the_number_of_the_comment_on_its_check():
+    review = review_model(DEMO)
+    claims = read_claims(ROOT / "fixtures/demo/claims.yaml")
+    rec = reconcile(review, claims)
+    on_check = {p.check_id: c.number for c in build_comments(review, rec, claims) for p in c.places}
+    sketches = appendix_view(review, rec, claims, MemoOptions())["sketches"]
+    numbered = 0
+    for s in sketches:
+        assert sorted(str(m["n"]) for m in s["marks"]) == sorted(str(row["n"]) for row in s["legend"])
+        for row in s["legend"]:
+            assert str(row["n"]) == str(on_check.get(row["id"], "")), row["id"]
+            numbered += bool(row["n"])
+    assert numbered >= 10  # the demo's sketches carry comment numbers, not 1, 2, 3 per sketch
+    html = render_appendix(review, rec, claims, MemoOptions())
+    wp1 = next(svg for svg in _svgs(html) if 'aria-label="Elevation of member WP1"' in svg)
+    drawn = re.findall(r'<text x="[\d.]+" y="[\d.]+" font-size="8" text-anchor="middle">(\d+)</text>', wp1)
+    assert sorted(drawn) == sorted(str(on_check[i]) for i in ("GB1/WP1:WP1", "WP1/W1-pack:WP1", "WP1/W1-pack:WP1:near"))
 
 
 def test_labels_in_a_row_never_overlap_even_when_crowded():

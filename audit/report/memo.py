@@ -15,6 +15,7 @@ from typing import Any
 import jinja2
 
 from audit import __version__
+from audit.core.natural import natural_key, natural_sorted
 from audit.core.units import Display
 from audit.inputs.read_claims import Claim
 from audit.report.export import check_record, name_of
@@ -34,9 +35,12 @@ STATUS_WORDS = {
     "not-covered": "NOT COVERED",
     "computed": "PASSES",
 }
-SKETCH_LIMIT = 400  # members drawn; a larger building lists the rest in the table only
-DERIVATION_LIMIT = 2000  # above this many checks the memo is trimmed to stay quick to open:
-LARGE_DERIVATIONS = 300  # derivations of failing checks only, at most this many
+LETTER_PLACES = 5  # places a comment names in the letter; the appendix lists every place of a longer one
+EVERY_CHECK_LIMIT = 2000  # above this many checks the appendix lists the checks with comments; every check: workbook
+TABLE_ROWS = 150  # rows per table in the appendix: long tables are split so a browser prints them in pieces
+DERIVATION_LIMIT = 2000  # above this many checks the appendix derives failing checks only,
+LARGE_DERIVATIONS = 100  # at most this many
+SKETCH_LIMIT = 400  # members drawn; a larger building draws those with comments, at most LARGE_SKETCHES
 LARGE_SKETCHES = 40
 
 STRENGTHS = ("fcp", "Fc-perp", "fc,90,k")  # factors that are strengths, shown in MPa
@@ -58,6 +62,9 @@ class MemoOptions:
     all_derivations: bool = False  # derivations of confirmed and covered checks too (they are in the JSON)
     comments: tuple[Comment, ...] | None = None  # the review's comments, where the caller has built them already
     round: Round | None = None  # where each comment stands against the last review round
+    appendix: str | None = None  # the appendix's file name, as the letter names it; None: not written
+    workbook: str | None = None  # the workbook's file name, where one is written beside the appendix
+    json: str | None = None  # the JSON export's file name, where one is written
 
 
 def _env() -> jinja2.Environment:
@@ -211,48 +218,110 @@ def _round_view(r: Round | None) -> dict[str, Any] | None:
     }
 
 
-def _comment_view(c: Comment, standing: Any = None) -> dict[str, Any]:
-    places = []
-    for p in c.places:
-        numbers = [
-            (
-                n.quantity,
-                n.unit,
-                "not claimed" if n.claimed is None else f"{n.claimed:.2f}",
-                "" if n.recomputed is None else f"{n.recomputed:.2f}",
-            )
-            for n in p.compared
-        ]
-        places.append(
-            {
-                "where": p.calc_label or p.bearing or p.claim_id,
-                "id": p.check_id or p.bearing,
-                "page": p.page,
-                "numbers": numbers,
-                "points": p.points,
-            }
+HISTORY_WORDS = {
+    "new": "raised in round {round}",
+    "open": "still open in round {round}",
+    "changed": "changed in round {round}",
+    "closed": "closed in round {round}",
+    "withdrawn": "withdrawn in round {round}",
+    "split": "split off in round {round}",
+    "merged": "merged into another comment in round {round}",
+    "deferred": "deferred in round {round}",
+}
+
+
+def history_sentence(steps, grouped: bool) -> str:
+    """A comment's history as one sentence: 'Raised in round 1 as ABSENT; still open in round 2.'
+
+    A comment of one place says its numbers where a round raised or changed it; a grouped comment's
+    numbers belong to many places (listed with the comment), so only its code is said."""
+    parts = []
+    for i, s in enumerate(steps):
+        text = HISTORY_WORDS.get(s.status, s.status + " in round {round}").format(round=s.round)
+        numbers = s.summary[len(s.code) :].strip().strip("()") if s.summary.startswith(s.code) else s.summary
+        detail = "" if grouped or not numbers else f" ({numbers})"
+        if s.status == "new":
+            text += f" as {s.code}{detail}"
+        elif s.status == "changed" or (i and steps[i - 1].code != s.code):
+            text += f", now {s.code}{detail}"
+        parts.append(text)
+    sentence = "; ".join(parts)
+    return (sentence[:1].upper() + sentence[1:] + ".") if sentence else ""
+
+
+def _place_view(p) -> dict[str, Any]:
+    numbers = [
+        (
+            n.quantity,
+            n.unit,
+            "not claimed" if n.claimed is None else f"{n.claimed:.2f}",
+            "" if n.recomputed is None else f"{n.recomputed:.2f}",
         )
+        for n in p.compared
+    ]
+    return {
+        "where": p.calc_label or p.bearing or p.claim_id,
+        "id": p.check_id or p.bearing,
+        "page": p.page,
+        "numbers": numbers,
+        "points": p.points,
+    }
+
+
+def _comment_view(c: Comment, standing: Any = None, shown: int | None = None) -> dict[str, Any]:
+    """A comment as the letter shows it: its first ``shown`` places (all by default), the rest counted."""
+    places = [_place_view(p) for p in (c.places if shown is None else c.places[:shown])]
+    history = standing.history if standing is not None and len(standing.history) > 1 else ()
     return {
         "number": c.number,
         "weight": c.weight,
         "weight_word": c.weight_word,
         "code": c.code,
+        "kind": c.kind,
         "title": c.title,
         "ask": c.ask,
         "clause": c.clause,
         "places": places,
+        "count": len(c.places),
+        "more": len(c.places) - len(places),
         "status": standing.status if standing is not None else "",
         "reason": standing.reason if standing is not None else "",
         "response": standing.response if standing is not None else "",
         "flagged": bool(standing.flagged) if standing is not None else False,
-        "history": standing.history if standing is not None and len(standing.history) > 1 else (),
+        "history": history_sentence(history, len(c.places) > 1) if history else "",
     }
 
 
-def _check_rows(review: Review, reconciliation: Reconciliation | None, claims: dict[str, Claim]):
+def _status_of(review: Review, rec: Reconciliation | None) -> dict[str, str]:
+    if rec is not None:
+        return {o.check_id: o.status for o in rec.checks}
+    return {r.check.id: ("failing" if not r.passes else "computed") for r in review.results}
+
+
+def comment_numbers_by_check(comments) -> dict[str, int]:
+    """The number of the comment on each check (every check is in one comment at most)."""
+    out: dict[str, int] = {}
+    for c in comments:
+        for p in c.places:
+            if p.check_id:
+                out.setdefault(p.check_id, c.number)
+    return out
+
+
+def _check_rows(
+    review: Review,
+    reconciliation: Reconciliation | None,
+    claims: dict[str, Claim],
+    numbers: dict[str, int],
+    only: set[str] | None = None,
+):
+    """The every-check table (of the checks in ``only``, where given) by level and member, in tables of at
+    most TABLE_ROWS rows: a browser prints many short tables in pieces, one long one all at once."""
     display = review.display
     groups: dict[tuple[str, str], list[dict[str, Any]]] = {}
     for r in review.results:
+        if only is not None and r.check.id not in only:
+            continue
         member = review.model.members[r.check.member]
         outcome = reconciliation.outcome(r.check.id) if reconciliation else None
         status = outcome.status if outcome else ("failing" if not r.passes else "computed")
@@ -268,29 +337,73 @@ def _check_rows(review: Review, reconciliation: Reconciliation | None, claims: d
                 "claim": f"{claim.id} ({claim.where.cite()})" if claim else "—",
                 "status": STATUS_WORDS[status],
                 "status_class": status,
+                "comment": numbers.get(r.check.id, ""),
             }
         )
-    out = []
     rank = {m: i for i, m in enumerate(review.flow.order)}  # the take-down order: the top of the building first
     top_of_level: dict[str, int] = {}
     for level, m in groups:
         top_of_level[level] = min(top_of_level.get(level, len(rank)), rank.get(m, len(rank)))
-    for level in sorted(top_of_level, key=lambda lv: (top_of_level[lv], lv)):
-        members = sorted((m for lv, m in groups if lv == level), key=lambda m: (rank.get(m, len(rank)), m))
-        out.append({"level": level, "members": [{"id": m, "rows": groups[(level, m)]} for m in members]})
+    out = []
+    for level in sorted(top_of_level, key=lambda lv: (top_of_level[lv], natural_key(lv))):
+        members = sorted((m for lv, m in groups if lv == level), key=lambda m: (rank.get(m, len(rank)), natural_key(m)))
+        tables: list[list[dict[str, Any]]] = [[]]
+        rows_in_table = 0
+        for m in members:
+            rows = natural_sorted(groups[(level, m)], key=lambda row: row["id"])
+            if rows_in_table and rows_in_table + len(rows) > TABLE_ROWS:
+                tables.append([])
+                rows_in_table = 0
+            tables[-1].append({"id": m, "rows": rows})
+            rows_in_table += len(rows) + 1
+        out.append({"level": level, "tables": tables})
     return out
+
+
+def _claim_rows(rec: Reconciliation | None, claims: tuple[Claim, ...], numbers: dict[str, int]) -> list[dict]:
+    """Every claim once, in natural order of its id: the check it matched, or that it matched none."""
+    if rec is None:
+        return []
+    covers: dict[str, list[str]] = {}
+    for check in rec.checks:
+        if check.claim_id:
+            covers.setdefault(check.claim_id, []).append(check.check_id)
+    by_id = {c.id: c for c in claims}
+    rows = []
+    for o in rec.claims:
+        claim = by_id.get(o.claim_id)
+        checks = natural_sorted(covers.get(o.claim_id, []))
+        if len(checks) > 1:
+            matched = f"covers {len(checks)} checks ({checks[0]} to {checks[-1]})"
+        elif checks or o.check_id:
+            matched = checks[0] if checks else o.check_id
+        else:
+            matched = "matches no required check"
+        comment = next((numbers[c] for c in checks if c in numbers), numbers.get(o.check_id, ""))
+        rows.append(
+            {
+                "id": o.claim_id,
+                "where": claim.where.cite() if claim else "",
+                "label": claim.label if claim else "",
+                "matched": matched,
+                "comment": comment,
+            }
+        )
+    return natural_sorted(rows, key=lambda row: row["id"])
 
 
 QUIET_STATUSES = ("confirmed", "covered", "computed")
 
 
-def _derivations(review: Review, status_of: dict[str, str], every: bool = False) -> tuple[list[dict[str, Any]], bool]:
+def _derivations(
+    review: Review, status_of: dict[str, str], every: bool, numbers: dict[str, int]
+) -> tuple[list[dict[str, Any]], bool]:
     """Derivations of the checks with findings (of every check on request), or on a large building of the
     first failing ones."""
     display = review.display
     out: list[dict[str, Any]] = []
     all_checks = len(review.results) <= DERIVATION_LIMIT
-    for r in review.results:
+    for r in natural_sorted(review.results, key=lambda r: r.check.id):
         if not all_checks and (status_of.get(r.check.id) != "failing" or len(out) >= LARGE_DERIVATIONS):
             continue
         if all_checks and not every and status_of.get(r.check.id) in QUIET_STATUSES:
@@ -299,6 +412,7 @@ def _derivations(review: Review, status_of: dict[str, str], every: bool = False)
         out.append(
             {
                 "id": r.check.id,
+                "comment": numbers.get(r.check.id, ""),
                 "why": r.check.why,
                 "formula": review.standard.formula(r.check.kind),
                 "area": r.area_reason,
@@ -335,60 +449,179 @@ def _force_text(case: str, value: float, envelope: dict, display: Display) -> st
     return f"{case} {display.force(value)} (every span loaded; {span} by pattern)"
 
 
-def build_view(
-    review: Review, reconciliation: Reconciliation | None, claims: tuple[Claim, ...], options: MemoOptions
-) -> dict[str, Any]:
-    from audit.report.plans import SHAPES, level_plans
-    from audit.report.sketch import MAX_CHECKS_DRAWN, member_sketches
+@dataclass(frozen=True)
+class _Context:
+    """What both the letter and the appendix are built from."""
 
-    p = review.model.project
-    claims_by_id = {c.id: c for c in claims}
+    comments: tuple[Comment, ...]
+    status_of: dict[str, str]
+    numbers: dict[str, int]  # check id -> its comment's number
+    standing: dict[int, Any]  # comment number -> where it stands against the last round
+    counts: dict[str, int]  # findings by kind
+
+
+def _context(
+    review: Review, reconciliation: Reconciliation | None, claims: tuple[Claim, ...], options: MemoOptions
+) -> _Context:
     findings = reconciliation.findings if reconciliation else review.engine_findings
     counts = {k: 0 for k in KINDS}
     for f in findings:
         counts[f.kind] += 1
-    date = options.date or p.date
-    status_of = (
-        {o.check_id: o.status for o in reconciliation.checks}
-        if reconciliation
-        else {r.check.id: ("failing" if not r.passes else "computed") for r in review.results}
-    )
-    derivations, all_derivations = _derivations(review, status_of, options.all_derivations)
     comments = options.comments if options.comments is not None else build_comments(review, reconciliation, claims)
     shown_round = options.round if options.round is not None and options.round.previous is not None else None
-    standing = {t.number: t for t in shown_round.tracked} if shown_round else {}
-    sketch_limit = SKETCH_LIMIT if all_derivations else LARGE_SKETCHES
+    return _Context(
+        comments=comments,
+        status_of=_status_of(review, reconciliation),
+        numbers=comment_numbers_by_check(comments),
+        standing={t.number: t for t in shown_round.tracked} if shown_round else {},
+        counts=counts,
+    )
+
+
+def _head(review: Review, options: MemoOptions) -> dict[str, Any]:
+    p = review.model.project
+    date = options.date or p.date
     return {
-        "title": options.title,
         "project": p,
         "date": date.isoformat() if date else "undated",
         "version": __version__,
         "pack": review.pack,
         "cpack": review.cpack,
-        "summary": _summary(review, reconciliation, counts, claims),
-        "counts": [(KINDS[k].code, k, n) for k, n in counts.items()],
-        "by_weight": {WEIGHT_WORDS[w]: sum(c.weight == w and not c.quiet for c in comments) for w in SEVERITIES[:3]},
-        "comments": [_comment_view(c, standing.get(c.number)) for c in comments if not c.quiet],
+        "cautions": [c.format(standard=review.standard.title) for c in CAUTIONS],
+        "force_unit": review.display.force_unit,
+    }
+
+
+def _count_rows(counts: dict[str, int]) -> list[list[tuple[str, int]]]:
+    """The findings by kind in rows of two (kind, count): a table that reads on a Letter page."""
+    items = [(KINDS[k].name, n) for k, n in counts.items()]
+    half = (len(items) + 1) // 2
+    return [[items[i], *([items[i + half]] if i + half < len(items) else [])] for i in range(half)]
+
+
+def _where_the_rest_is(review: Review, options: MemoOptions) -> str:
+    if len(review.results) > EVERY_CHECK_LIMIT:  # the appendix of a large building: see _every_check_words
+        also = " and the JSON" if options.json else ""
+        listed = (
+            f"the checks a comment is on (every check is in the workbook's sheet 'Checks'{also}), "
+            f"every place of a comment that names more than {LETTER_PLACES}, "
+        )
+    else:
+        listed = (
+            "every required check with its outcome, every claim of the calc, every place of a comment that names "
+            f"more than {LETTER_PLACES}, the comments for the record, "
+        )
+    what = (
+        listed
+        + ("the level plans, " if review.model.frame is not None else "")
+        + "the elevations of the members with comments and the derivation of each check with a comment"
+    )
+    json_words = (
+        f" Every check and finding is also in the JSON export, {options.json}."
+        if options.json
+        else " --json FILE writes every check and finding as JSON."
+    )
+    if options.appendix:
+        return f"This letter is accompanied by its appendix, {options.appendix}, which holds {what}.{json_words}"
+    return (
+        "The appendix was not written with this letter: give --appendix FILE to bearing-audit review to write it. "
+        f"It holds {what}.{json_words}"
+    )
+
+
+def letter_view(
+    review: Review, reconciliation: Reconciliation | None, claims: tuple[Claim, ...], options: MemoOptions
+) -> dict[str, Any]:
+    ctx = _context(review, reconciliation, claims, options)
+    asking = [c for c in ctx.comments if not c.quiet]
+    return {
+        **_head(review, options),
+        "title": options.title,
+        "summary": _summary(review, reconciliation, ctx.counts, claims),
+        "count_rows": _count_rows(ctx.counts),
+        "by_weight": {WEIGHT_WORDS[w]: sum(c.weight == w for c in asking) for w in SEVERITIES[:3]},
+        "comments": [_comment_view(c, ctx.standing.get(c.number), LETTER_PLACES) for c in asking],
+        "for_record": sum(c.quiet for c in ctx.comments),
+        "record_where": "in the JSON export" if len(review.results) > EVERY_CHECK_LIMIT else "in the appendix",
         "round": _round_view(options.round),
-        "for_record": [_comment_view(c) for c in comments if c.quiet],
+        "rest": _where_the_rest_is(review, options),
+        "appendix": options.appendix,
+        "letter_places": LETTER_PLACES,
+        "assumptions": assumptions(review),
+    }
+
+
+def _every_check_words(review: Review, options: MemoOptions, listed: int) -> str:
+    n = len(review.results)
+    if n <= EVERY_CHECK_LIMIT:
+        return ""
+    where = (
+        f"the sheet 'Checks' of the workbook {options.workbook}"
+        if options.workbook
+        else "the sheet 'Checks' of the comment log workbook (not written with this appendix: --xlsx FILE writes it)"
+    )
+    return (
+        f"This building has {n:,} required checks, more than {EVERY_CHECK_LIMIT:,}: a table of all of them would "
+        f"take hundreds of printed pages, so this appendix lists the {listed:,} checks that a comment is on. Every "
+        f"check, with its outcome, is in {where}, and in the JSON export{f' ({options.json})' if options.json else ''}."
+    )
+
+
+def appendix_view(
+    review: Review, reconciliation: Reconciliation | None, claims: tuple[Claim, ...], options: MemoOptions
+) -> dict[str, Any]:
+    from audit.report.plans import SHAPES, level_plans
+    from audit.report.sketch import MAX_CHECKS_DRAWN, member_sketches
+
+    ctx = _context(review, reconciliation, claims, options)
+    claims_by_id = {c.id: c for c in claims}
+    derivations, small = _derivations(review, ctx.status_of, options.all_derivations, ctx.numbers)
+    large = len(review.results) > EVERY_CHECK_LIMIT
+    asking = [c for c in ctx.comments if not c.quiet]
+    on_comment = {p.check_id for c in asking for p in c.places if p.check_id}
+    only = on_comment if large else None
+    sketch_limit = SKETCH_LIMIT if small else LARGE_SKETCHES  # small: at most DERIVATION_LIMIT checks
+    with_comments = {p.member for c in asking for p in c.places if p.member}
+    return {
+        **_head(review, options),
+        "title": f"{options.title}: appendix",
+        "letter_title": options.title,
+        "places": [
+            {
+                "number": c.number,
+                "title": c.title,
+                "code": c.code,
+                "kind": c.kind,
+                "places": natural_sorted((_place_view(p) for p in c.places), key=lambda p: f"{p['where']} {p['id']}"),
+            }
+            for c in asking
+            if len(c.places) > LETTER_PLACES
+        ],
+        "letter_places": LETTER_PLACES,
+        "for_record": [] if large else [_comment_view(c) for c in ctx.comments if c.quiet],
+        "record_elsewhere": sum(c.quiet for c in ctx.comments) if large else 0,
         "every_derivation": options.all_derivations,
-        "groups": _check_rows(review, reconciliation, claims_by_id),
-        "exempt": review.checklist.exempt,
-        "sketches": member_sketches(review, status_of, STATUS_WORDS, sketch_limit),
+        "groups": _check_rows(review, reconciliation, claims_by_id, ctx.numbers, only),
+        "every_check": _every_check_words(review, options, len(on_comment)),
+        "claim_rows": [] if large else _claim_rows(reconciliation, claims, ctx.numbers),
+        "claims_elsewhere": large and reconciliation is not None,
+        "json": options.json,
+        "exempt": natural_sorted(review.checklist.exempt, key=lambda e: f"{e.bearing} {e.member}"),
+        "sketches": member_sketches(
+            review, ctx.status_of, STATUS_WORDS, sketch_limit, ctx.numbers, None if small else with_comments
+        ),
         "sketch_limit": sketch_limit,
-        "plans": level_plans(review, status_of, list(comments)),
+        "sketch_only_commented": not small,
+        "plans": level_plans(review, ctx.status_of, list(ctx.comments)),
         "plan_legend": [(shape, words) for shape, words in SHAPES.values() if words],
         "max_checks_drawn": MAX_CHECKS_DRAWN,
         "derivations": derivations,
-        "all_derivations": all_derivations,
+        "all_derivations": small,
         "derivation_limit": DERIVATION_LIMIT,
         "large_derivations": LARGE_DERIVATIONS,
-        "assumptions": assumptions(review),
-        "cautions": [c.format(standard=review.standard.title) for c in CAUTIONS],
+        "has_claims": reconciliation is not None,
         "kinds": list(KINDS.values()),
         "weight_words": WEIGHT_WORDS,
-        "force_unit": review.display.force_unit,
-        "has_claims": reconciliation is not None,
     }
 
 
@@ -409,15 +642,30 @@ def _summary(review: Review, rec: Reconciliation | None, counts: dict[str, int],
 def render_memo(
     review: Review, reconciliation: Reconciliation | None, claims: tuple[Claim, ...], options: MemoOptions
 ) -> str:
+    """The letter: summary, comments, assumptions and cautions."""
     return "".join(memo_chunks(review, reconciliation, claims, options))
 
 
 def memo_chunks(
     review: Review, reconciliation: Reconciliation | None, claims: tuple[Claim, ...], options: MemoOptions
 ) -> Iterator[str]:
-    """The memo in pieces, for writing a large one without holding it whole."""
-    view = build_view(review, reconciliation, claims, options)
+    """The letter in pieces, for writing without holding it whole."""
+    view = letter_view(review, reconciliation, claims, options)
     return _env().get_template("memo.html.j2").generate(**view)
+
+
+def render_appendix(
+    review: Review, reconciliation: Reconciliation | None, claims: tuple[Claim, ...], options: MemoOptions
+) -> str:
+    """The appendix: every check and claim, the long place lists, plans, elevations and derivations."""
+    return "".join(appendix_chunks(review, reconciliation, claims, options))
+
+
+def appendix_chunks(
+    review: Review, reconciliation: Reconciliation | None, claims: tuple[Claim, ...], options: MemoOptions
+) -> Iterator[str]:
+    view = appendix_view(review, reconciliation, claims, options)
+    return _env().get_template("appendix.html.j2").generate(**view)
 
 
 # ---------------------------------------------------------------- exports

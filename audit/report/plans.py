@@ -14,6 +14,7 @@ from collections import defaultdict
 from dataclasses import dataclass
 from typing import Any
 
+from audit.core.natural import natural_key
 from audit.engine.model import Member
 from audit.engine.plan_geometry import Axis, box, strip
 from audit.report.sketch import FONT, text_width
@@ -141,7 +142,7 @@ def _plan(review: Review, level: str, members: list[Member], outcome: dict[str, 
         x, y = f.xy(*Axis.between(p.start, p.end).point(b.upper.at or 0.0))
         marks.append({"x": x, "y": y, "shape": SHAPES[outcome.get(b.id, "")][0], "bearing": b.id})
     missed = []
-    for m in sorted(members, key=lambda m: (not numbers.get(m.id), m.id)):
+    for m in sorted(members, key=lambda m: (not numbers.get(m.id), natural_key(m.id))):
         nums = numbers.get(m.id)
         text = ("#" + ", #".join(str(n) for n in nums[:4]) + ("…" if len(nums) > 4 else "")) if nums else ""
         if not text and (m.note.startswith("member ") or m.vertical):

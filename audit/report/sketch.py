@@ -4,7 +4,9 @@ The memo template turns the descriptors into inline SVG; nothing here knows abou
 or escaping. Every load is labelled with its size; labels are laid out in rows away from the
 member so that no two overlap and no load's leader line crosses a label; check markers are
 numbered from left to right. Members that would be drawn alike (same size, supports, loads
-and check statuses) are drawn once, named as typical.
+and check statuses) are drawn once, named as typical. Each check's marker carries the number of
+the comment on it (the letter's numbering), so a sketch is read beside the letter; a check no
+comment is on has a plain marker, and the table under the sketch lists every check left to right.
 """
 
 from __future__ import annotations
@@ -12,6 +14,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any
 
+from audit.core.natural import natural_key, natural_sorted
 from audit.core.units import FORCE_UNITS
 from audit.review.review import Review
 from audit.standards.checks import NEAR
@@ -85,33 +88,46 @@ def _force_text(forces: dict[str, float], unit: str, scale: float) -> str:
     return (" + ".join(parts) or "0") + f" {unit}"
 
 
-def member_sketches(review: Review, status_of: dict[str, str], words: dict[str, str], limit: int) -> list[dict]:
-    """Sketches of up to ``limit`` members, those with failing checks first; alike members drawn once."""
+def member_sketches(
+    review: Review,
+    status_of: dict[str, str],
+    words: dict[str, str],
+    limit: int,
+    numbers: dict[str, int] | None = None,
+    only: set[str] | None = None,
+) -> list[dict]:
+    """Sketches of up to ``limit`` members (of those in ``only``, where given), those with failing checks first;
+    alike members drawn once. ``numbers`` gives the comment number on each check, drawn in its marker."""
+    numbers = numbers or {}
     checks_by_member: dict[str, list] = {}
     for r in review.results:
         checks_by_member.setdefault(r.check.member, []).append(r)
 
-    def failing_first(member_id: str) -> tuple[bool, str]:
-        return (not any(status_of.get(r.check.id) == "failing" for r in checks_by_member[member_id]), member_id)
+    def failing_first(member_id: str) -> tuple[bool, tuple]:
+        failing = any(status_of.get(r.check.id) == "failing" for r in checks_by_member[member_id])
+        return (not failing, natural_key(member_id))
 
     drawable = [
         m
         for m in checks_by_member
-        if not review.model.members[m].vertical and len(checks_by_member[m]) <= MAX_CHECKS_DRAWN
+        if not review.model.members[m].vertical
+        and len(checks_by_member[m]) <= MAX_CHECKS_DRAWN
+        and (only is None or m in only)
     ]
     supports_of = review.supports_of
     alike: dict[tuple, list[str]] = {}
-    for m in sorted(drawable):
-        alike.setdefault(_signature(review, m, checks_by_member[m], status_of, supports_of.get(m, [])), []).append(m)
+    for m in natural_sorted(drawable):
+        signature = _signature(review, m, checks_by_member[m], status_of, supports_of.get(m, []), numbers)
+        alike.setdefault(signature, []).append(m)
     firsts = {ms[0]: ms for ms in alike.values()}
     chosen = sorted(firsts, key=failing_first)[:limit]
     return [
-        _sketch(review, m, firsts[m], checks_by_member[m], status_of, words, supports_of.get(m, []))
-        for m in sorted(chosen)
+        _sketch(review, m, firsts[m], checks_by_member[m], status_of, words, supports_of.get(m, []), numbers)
+        for m in natural_sorted(chosen)
     ]
 
 
-def _signature(review: Review, member_id: str, results, status_of, supports_below) -> tuple:
+def _signature(review: Review, member_id: str, results, status_of, supports_below, numbers) -> tuple:
     """What a sketch shows, without the member's own name: members with one signature look the same."""
     model = review.model
     member = model.members[member_id]
@@ -130,7 +146,13 @@ def _signature(review: Review, member_id: str, results, status_of, supports_belo
     )
     checks = tuple(
         sorted(
-            (r.check.kind, r.check.face, round(r.check.contact.centre or 0.0, 4), status_of.get(r.check.id, "computed"))
+            (
+                r.check.kind,
+                r.check.face,
+                round(r.check.contact.centre or 0.0, 4),
+                status_of.get(r.check.id, "computed"),
+                numbers.get(r.check.id, 0),  # drawn alike only where the same comments are on them
+            )
             for r in results
         )
     )
@@ -138,7 +160,7 @@ def _signature(review: Review, member_id: str, results, status_of, supports_belo
 
 
 def _sketch(
-    review: Review, member_id: str, same: list[str], results, status_of, words, supports_below
+    review: Review, member_id: str, same: list[str], results, status_of, words, supports_below, numbers
 ) -> dict[str, Any]:
     model = review.model
     member = model.members[member_id]
@@ -179,18 +201,22 @@ def _sketch(
         cz = (z1 + z2) / 2
         bottom.append(_Item(cz - wz / 2, cz + wz / 2, None, payload={"kind": "zone", "x": cz, "text": words_d}))
     ordered = sorted(
-        results, key=lambda r: (r.check.contact.centre if r.check.contact.centre is not None else 0.0, r.check.id)
+        results,
+        key=lambda r: (r.check.contact.centre if r.check.contact.centre is not None else 0.0, natural_key(r.check.id)),
     )
     legend = []
-    for number, r in enumerate(ordered, start=1):
+    for r in ordered:
         c = r.check
         x = px(c.contact.centre if c.contact.centre is not None else 0.0)
         status = status_of.get(c.id, "computed")
         word = words[status]
-        w = 2 * MARK_R + 4 + text_width(word, 8.0) * BOLD
-        x0 = min(max(x - MARK_R, 2.0), WIDTH - 2.0 - w)
+        number = str(numbers.get(c.id, ""))
+        mark_w = mark_width(number)
+        w = mark_w + 4 + text_width(word, 8.0) * BOLD
+        x0 = min(max(x - mark_w / 2, 2.0), WIDTH - 2.0 - w)
         target = bottom if (c.face == "bottom" or c.kind == NEAR) else top
-        target.append(_Item(x0, x0 + w, None, payload={"kind": "mark", "n": number, "status": status, "word": word}))
+        payload = {"kind": "mark", "n": number, "w": mark_w, "status": status, "word": word}
+        target.append(_Item(x0, x0 + w, None, payload=payload))
         legend.append(
             {
                 "n": number,
@@ -246,15 +272,21 @@ def _sketch(
     }
 
 
+def mark_width(number: str) -> float:
+    """A marker's width: a circle for no number or up to two digits, a longer pill for more."""
+    return max(2 * MARK_R, text_width(number, 8.0) + 6.0)
+
+
 def _mark(item: _Item, y: float) -> dict[str, Any]:
     p = item.payload
-    cx = item.x0 + MARK_R
+    cx = item.x0 + p["w"] / 2
     return {
         "x": round(cx, 1),
         "y": round(y - 3.0, 1),
+        "w": round(p["w"], 1),
         "n": p["n"],
         "status": p["status"],
         "word": p["word"],
-        "tx": round(cx + MARK_R + 4, 1),
+        "tx": round(item.x0 + p["w"] + 4, 1),
         "ty": round(y, 1),
     }

@@ -24,6 +24,7 @@ from __future__ import annotations
 from collections import defaultdict
 from dataclasses import dataclass, replace
 
+from audit.core.natural import natural_key
 from audit.core.units import Display
 from audit.inputs.read_claims import Claim
 from audit.review import wording
@@ -187,7 +188,7 @@ def build_comments(review: Review, rec: Reconciliation | None, claims: tuple[Cla
         groups[_group_key(checks[check_id], fs, review, typical, threshold, roles)].append((checks[check_id], fs))
     drafts: list[tuple[tuple, Comment]] = []
     for key, members in groups.items():
-        members.sort(key=lambda m: m[0].id)
+        members.sort(key=lambda m: natural_key(m[0].id))  # stud2 before stud10
         drafts.append(_draft(key, members, review, units, claim_of, roles))
     by_member: dict[tuple, list[Finding]] = defaultdict(list)
     for f in loose:
@@ -279,7 +280,13 @@ def _draft(key: tuple, members, review: Review, units, claim_of, roles) -> tuple
             title += f" (recomputes at Qf/Qr {_ratio(worst, review):.2f})"
             ask = f"Provide the check at {_where(places[0])}."
     comment = Comment(0, lead.kind, lead.severity, title, tuple(places), clause, ask)
-    order = (lead.kind in QUIET, severity_rank(lead.severity), TIER[tier], -_ratio(worst, review), checks[0].id)
+    order = (
+        lead.kind in QUIET,
+        severity_rank(lead.severity),
+        TIER[tier],
+        -_ratio(worst, review),
+        natural_key(checks[0].id),
+    )
     return order, comment
 
 
