@@ -105,7 +105,8 @@ def review(
     from audit.review.comments import build_comments
     from audit.review.reconcile import reconcile
     from audit.review.review import review_model
-    from audit.review.rounds import first_round, input_hashes, next_round, read_last_round, read_responses
+    from audit.review.round_files import responses_left_out
+    from audit.review.rounds import ASKING, first_round, input_hashes, next_round, read_last_round, read_responses
 
     if responses and not previous:
         typer.echo("error: --responses: give the last round's JSON with --previous too", err=True)
@@ -126,6 +127,7 @@ def review(
                 "--responses": responses,
             },
             {"--memo": memo, "--json": json_out, "--csv": csv_out, "--xlsx": xlsx_out},
+            _dirs(rules_dir),
         )
         result = review_model(model, _dirs(rules_dir), rule_pack)
         claim_list = read_claims(claims) if claims else ()
@@ -145,6 +147,9 @@ def review(
         if previous:
             last = read_last_round(previous, title)
             answers = read_responses(responses) if responses else {}
+            asked = {e.number for e in last.comments if e.status in ASKING}
+            for warning in responses_left_out(answers, asked, {e.number for e in last.comments}, str(responses)):
+                typer.echo(f"warning: {warning}", err=True)
             comments, round_ = next_round(comments, last, result.model, inputs, answers)
         else:
             round_ = first_round(comments, title, inputs)
@@ -191,15 +196,24 @@ def review(
     raise typer.Exit(1 if serious or failing else 0)
 
 
-def _check_files(inputs: dict[str, Path | None], outputs: dict[str, Path | None]) -> int:
+def _check_files(
+    inputs: dict[str, Path | None], outputs: dict[str, Path | None], rules_dirs: tuple[Path, ...] | None = None
+) -> int:
     """Inputs must be readable regular files; outputs may destroy nothing. Before any reading.
 
-    Returns the inputs' total size, which bounds the outputs."""
+    With ``rules_dirs`` (a command that reads rule packs), every pack file, the reviewer's and the
+    bundled ones, is an input too: an output onto a pack would replace it. Returns the inputs'
+    total size (packs left out), which bounds the outputs."""
     from audit.core.outfiles import check_outputs, require_input_file
 
     given_inputs = [(option, path) for option, path in inputs.items() if path is not None]
     total = sum(require_input_file(path, option).st_size for option, path in given_inputs)
-    check_outputs([(o, p) for o, p in outputs.items() if p is not None], given_inputs)
+    packs: list[tuple[str, Path]] = []
+    if rules_dirs is not None:
+        from audit.standards.packs import pack_files
+
+        packs = [("rule pack", path) for path in pack_files(rules_dirs)]
+    check_outputs([(o, p) for o, p in outputs.items() if p is not None], given_inputs + packs)
     return total
 
 
@@ -262,7 +276,7 @@ def expand(
     from audit.inputs.expand_layout import explicit_model_file
 
     try:
-        input_bytes = _check_files({"MODEL": model}, {"--out": out})
+        input_bytes = _check_files({"MODEL": model}, {"--out": out}, _dirs(rules_dir))
         text = explicit_model_file(model, _dirs(rules_dir), rule_pack)
         write_outputs([Output("--out", out, lambda: [text])], output_limit(input_bytes))
     except InputError as exc:

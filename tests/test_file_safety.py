@@ -231,3 +231,29 @@ def test_an_output_over_its_bound_writes_nothing(tmp_path):
     with pytest.raises(OutputError, match="nothing was written"):
         write_outputs([Output("--memo", memo, lambda: ("x" * 10 for _ in range(10)))], limit=64)
     assert list(tmp_path.iterdir()) == []
+
+
+def test_an_output_onto_a_bundled_rule_pack_is_refused_and_the_pack_kept(model_file, capsys):
+    from audit.standards.packs import builtin_rules_dir
+
+    pack = builtin_rules_dir() / "o86-2019-recalled.yaml"
+    before = pack.read_bytes()
+    code, err = _review(capsys, model_file, "--memo", pack)
+    assert code == 2 and _one_clear_line(err) and "rule pack" in err
+    assert pack.read_bytes() == before
+
+
+def test_expand_refuses_an_output_onto_a_pack_of_the_rules_dir(tmp_path, capsys):
+    from audit.standards.packs import builtin_rules_dir
+
+    own = tmp_path / "own"
+    own.mkdir()
+    pack = own / "mine.yaml"
+    pack.write_text(
+        (builtin_rules_dir() / "o86-2019-recalled.yaml").read_text().replace("id: o86-2019-recalled", "id: mine", 1)
+    )
+    before = pack.read_bytes()
+    model = ROOT / "fixtures" / "demo-layout" / "model.yaml"
+    code = run(["expand", str(model), "--rules-dir", str(own), "-o", str(pack)])
+    err = capsys.readouterr().err
+    assert code == 2 and _one_clear_line(err) and "rule pack" in err and pack.read_bytes() == before

@@ -16,10 +16,7 @@ a later round refuses a file that is not an earlier round of the same project.
 
 from __future__ import annotations
 
-import csv
 import hashlib
-import io
-import json
 from dataclasses import dataclass, replace
 from pathlib import Path
 from typing import Any
@@ -28,6 +25,7 @@ from audit.core.errors import InputError, Location
 from audit.core.outfiles import require_input_file
 from audit.engine.model import Model, normalise_label
 from audit.review.comments import Comment
+from audit.review.round_files import check_response_rows, load_round_json, read_csv_rows, read_workbook_rows
 
 STATUSES = ("new", "open", "changed", "closed", "withdrawn")
 ASKING = ("new", "open", "changed")  # statuses of a comment that still asks for something
@@ -302,16 +300,8 @@ def _ended(mapped: list[tuple[Key | None, str]], quiet_at: dict[Key, str]) -> tu
 def read_last_round(path: Path, project: str) -> LastRound:
     """The comments of an earlier round's JSON; refused unless it is an earlier round of this project."""
     where = Location(str(path))
-    require_input_file(path, "--previous")
-    try:
-        data = json.loads(path.read_text(encoding="utf-8"))
-    except (UnicodeDecodeError, json.JSONDecodeError) as exc:
-        raise InputError(f"--previous: not the JSON of a review ({exc.__class__.__name__})", where) from None
-    if not isinstance(data, dict) or data.get("tool", {}).get("name") != "bearing-audit":
-        raise InputError("--previous: not the JSON of a bearing-audit review (no 'tool')", where)
-    round_ = data.get("round")
-    if not isinstance(round_, dict) or not isinstance(round_.get("number"), int):
-        raise InputError("--previous: the JSON states no review round (written by an older version?)", where)
+    data = load_round_json(path)  # every value read below is checked there, each fault located
+    round_ = data["round"]
     theirs = str(round_.get("project", ""))
     if normalise_label(theirs) != normalise_label(project):
         raise InputError(
@@ -385,29 +375,12 @@ def read_responses(path: Path) -> dict[int, str]:
     require_input_file(path, "--responses")
     if path.suffix.lower() == ".xlsx":
         return _responses_from_workbook(path)
-    try:
-        text = path.read_text(encoding="utf-8-sig")
-    except UnicodeDecodeError:
-        raise InputError("--responses: not a UTF-8 CSV comment log", Location(str(path))) from None
-    rows = list(csv.reader(io.StringIO(text)))
+    rows = read_csv_rows(path)
     return _responses(rows, "comment", "designer_response", str(path))
 
 
 def _responses_from_workbook(path: Path) -> dict[int, str]:
-    from zipfile import BadZipFile
-
-    from openpyxl import load_workbook
-
-    try:
-        book = load_workbook(path, read_only=True, data_only=True)
-    except (BadZipFile, OSError, KeyError, ValueError) as exc:
-        raise InputError(
-            f"--responses: not a readable workbook ({exc.__class__.__name__})", Location(str(path))
-        ) from None
-    if "Comments" not in book.sheetnames:
-        raise InputError("--responses: the workbook has no sheet 'Comments'", Location(str(path)))
-    rows = [["" if v is None else str(v) for v in row] for row in book["Comments"].iter_rows(values_only=True)]
-    book.close()
+    rows = read_workbook_rows(path, "Comments", ("No.", "Designer's response"))
     return _responses(rows, "No.", "Designer's response", f"{path} [Comments]")
 
 
@@ -418,6 +391,7 @@ def _responses(rows: list[list[str]], number_col: str, response_col: str, name: 
     for col in (number_col, response_col):
         if col not in head:
             raise InputError(f"--responses: no column '{col}' in the comment log", Location(name, 1))
+    check_response_rows(rows, number_col, response_col, name)
     n_at, r_at = head.index(number_col), head.index(response_col)
     out: dict[int, list[str]] = {}
     for line, row in enumerate(rows[1:], start=2):
