@@ -382,6 +382,7 @@ def _read_members(
 ) -> tuple[dict[str, Member], frozenset[str], tuple[StudWall, ...]]:
     out: dict[str, Member] = {}
     broken: set[str] = set()
+    twins: dict[str, str] = {}
     walls: list[StudWall] = []
     for item in list_items(node, "members", errors):
         f = FieldReader(item, MEMBER_KEYS, errors, "member")
@@ -405,6 +406,9 @@ def _read_members(
         place = _read_place(f, orientation == "vertical", length) if f.has("place") else None
         if member_id in out:
             errors.add(f"duplicate member id '{member_id}'", f.loc("id"))
+            continue
+        if _case_twin(member_id, "member", twins, f.loc("id"), errors):
+            broken.add(member_id)  # named elsewhere, it is known: one error, not one per reference
             continue
         if not f.ok or b is None or d is None or length is None:
             if member_id:
@@ -620,11 +624,28 @@ def _read_side(node: Node, role: str, known: KnownMembers, errors: ErrorCollecto
     return Side(member_id, at, length, angle, width, node.loc)
 
 
+def _case_twin(item_id: str, what: str, twins: dict[str, str], where: Location, errors: ErrorCollector) -> bool:
+    """Refuse an id that differs from an earlier one only in case or spacing: labels and claims are matched
+    without either, so a claim meant for one would land on the other (as an alias that is another's id would)."""
+    if not item_id:
+        return False
+    first = twins.setdefault(normalise_label(item_id), item_id)
+    if first == item_id:
+        return False
+    errors.add(
+        f"{what} id '{item_id}' differs from {what} '{first}' only in case or spacing; calc labels are matched "
+        "without either, so give it an id of its own",
+        where,
+    )
+    return True
+
+
 def _read_bearings(
     node: Node, known: KnownMembers, combos: CombinationPack, errors: ErrorCollector
 ) -> tuple[Bearing, ...]:
     out: list[Bearing] = []
     seen: dict[str, Location] = {}
+    twins: dict[str, str] = {}
     aliases_seen: dict[str, str] = {}
     for item in list_items(node, "bearings", errors):
         f = FieldReader(item, BEARING_KEYS, errors, "bearing")
@@ -653,6 +674,8 @@ def _read_bearings(
         if bearing_id in seen:
             hint = "" if f.has("id") else " (two bearings join the same members: give each an 'id')"
             errors.add(f"duplicate bearing id '{bearing_id}'{hint}", f.loc("id") if f.has("id") else item.loc)
+            continue
+        if _case_twin(bearing_id, "bearing", twins, f.loc("id") if f.has("id") else item.loc, errors):
             continue
         seen[bearing_id] = item.loc
         for alias in aliases:
