@@ -49,6 +49,7 @@ def last_round(tmp_path_factory) -> Path:
 def _argv(kind: str, path: Path, model: Path, last: Path, out: Path) -> list[str]:
     given = {
         "model": [str(path)],
+        "model-warns": [str(path)],
         "claims": [str(model), "--claims", str(path)],
         "previous": [str(model), "--previous", str(path)],
         "responses": [str(model), "--previous", str(last), "--responses", str(path)],
@@ -69,11 +70,14 @@ def test_malformed_file_gives_exit_2_and_a_located_line(name, valid_model, last_
     case = MANIFEST[name]
     path = CORPUS / name
     before = path.read_bytes()
-    assert cli.run(_argv(case["input"], path, valid_model, last_round, tmp_path / "out.json")) == 2
+    warns = case["input"].endswith("-warns")  # plausible but most likely a typo: reviewed, with a located warning
+    code = cli.run(_argv(case["input"], path, valid_model, last_round, tmp_path / "out.json"))
+    assert code in (0, 1) if warns else code == 2
     assert path.read_bytes() == before
     err = capsys.readouterr().err
     assert "Traceback" not in err and "internal error" not in err
-    lines = [ln for ln in err.splitlines() if ln.startswith("error: ")]
+    lines = [ln.replace("warning: ", "error: ", 1) for ln in err.splitlines() if ln.startswith("warning: ")]
+    lines = lines if warns else [ln for ln in err.splitlines() if ln.startswith("error: ")]
     match = next((LINE.match(ln) for ln in lines if case["message"] in ln), None)
     assert match, f"no located line with {case['message']!r} in:\n{err}"
     assert match["file"] in (str(path), f"{path} [Comments]")

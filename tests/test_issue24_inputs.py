@@ -42,3 +42,38 @@ def test_a_member_id_differing_only_in_case_is_refused_once(tmp_path, capsys):
     errors = [m for m in map(ERROR.match, err.splitlines()) if m]
     assert code == 2 and [e["key"] for e in errors] == [f"members[{len(model['members']) - 1}].id"]
     assert "differs from member 'J1' only in case" in errors[0]["msg"]
+
+
+def _area_load_kn(tmp_path, openings: str) -> float:
+    """The D load (kN) that the members take from area F of the hostile layout base, as expanded."""
+    from fixtures.make_hostile_corpus import LAYOUT
+
+    model = tmp_path / "layout.yaml"
+    model.write_text(LAYOUT.replace("span: y, loads", f"span: y, openings: {openings}, loads"), encoding="utf-8")
+    out = tmp_path / "explicit.yaml"
+    assert cli.run(["expand", str(model), "-o", str(out)]) == 0
+    total = 0.0
+    for load in yaml.safe_load(out.read_text(encoding="utf-8"))["loads"]:
+        if str(load["id"]).startswith("F:"):
+            per_metre = float(load["specified"]["D"].split()[0])  # written in N/m
+            total += per_metre * (float(load["to"].split()[0]) - float(load["from"].split()[0]))
+    return total / 1000
+
+
+# Area F is 2 m x 4 m under 1 kPa of D: 8 kN (hand calculation: pressure times area).
+ONE_OPENING = "[[0.5 m, 1 m], [1.5 m, 3 m]]"  # 1 m x 2 m = 2 m2
+
+
+def test_an_opening_listed_twice_takes_its_area_away_once(tmp_path):
+    assert abs(_area_load_kn(tmp_path, f"[{ONE_OPENING}, {ONE_OPENING}]") - 6.0) < 1e-6  # 1 kPa x (8 - 2) m2
+
+
+def test_overlapping_openings_take_their_union_away(tmp_path):
+    # 2 m2 and [0.5, 2] .. [1.5, 4] (2 m2) overlap over [0.5, 2] .. [1.5, 3] (1 m2): union 3 m2
+    both = f"[{ONE_OPENING}, [[0.5 m, 2 m], [1.5 m, 4 m]]]"
+    assert abs(_area_load_kn(tmp_path, both) - 5.0) < 1e-6  # 1 kPa x (8 - 3) m2
+
+
+def test_an_opening_partly_outside_takes_away_only_the_part_inside(tmp_path, capsys):
+    # [1.5, 1] .. [2.5, 3]: the area ends at x = 2 m, so 0.5 m x 2 m = 1 m2 lies inside
+    assert abs(_area_load_kn(tmp_path, "[[[1.5 m, 1 m], [2.5 m, 3 m]]]") - 7.0) < 1e-6
