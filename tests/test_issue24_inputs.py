@@ -5,6 +5,7 @@ Each case runs the command line and checks the exit status, the located line and
 
 from __future__ import annotations
 
+import contextlib
 import re
 
 import yaml
@@ -77,3 +78,69 @@ def test_overlapping_openings_take_their_union_away(tmp_path):
 def test_an_opening_partly_outside_takes_away_only_the_part_inside(tmp_path, capsys):
     # [1.5, 1] .. [2.5, 3]: the area ends at x = 2 m, so 0.5 m x 2 m = 1 m2 lies inside
     assert abs(_area_load_kn(tmp_path, "[[[1.5 m, 1 m], [2.5 m, 3 m]]]") - 7.0) < 1e-6
+
+
+# The units the README names, each with its SI value (exact definitions: the inch is 25.4 mm, the
+# pound-force 4.4482216152605 N, the foot 12 in; kip = 1000 lbf; common practice for psf, plf, klf).
+LBF, FT = 4.4482216152605, 0.3048
+README_UNITS = {
+    "length": {"m": 1.0, "mm": 1e-3, "in": 0.0254, "ft": FT},
+    "force": {"N": 1.0, "kN": 1e3, "lbf": LBF, "kip": 1e3 * LBF},
+    "line_load": {"N/m": 1.0, "kN/m": 1e3, "plf": LBF / FT, "klf": 1e3 * LBF / FT, "lbf/ft": LBF / FT},
+    "stress": {
+        "Pa": 1.0,
+        "kPa": 1e3,
+        "MPa": 1e6,
+        "psf": LBF / FT**2,
+        "ksf": 1e3 * LBF / FT**2,
+        "psi": LBF / 0.0254**2,
+        "ksi": 1e3 * LBF / 0.0254**2,
+        "lbf/ft**2": LBF / FT**2,
+    },
+    "area": {"m**2": 1.0, "mm**2": 1e-6, "in**2": 0.0254**2},
+    "angle": {"deg": 3.141592653589793 / 180, "rad": 1.0},
+}
+
+
+def test_every_unit_the_readme_names_is_read_at_its_si_value():
+    from audit.core.errors import Location
+    from audit.core.units import parse_quantity
+    from tests.conftest import ROOT
+
+    readme = (ROOT / "README.md").read_text(encoding="utf-8")
+    named = readme.split("The units read", 1)[1].split("\n\n", 1)[0]
+    listed = set(re.findall(r"`([^`]+)`", named))
+    assert listed <= {u for units in README_UNITS.values() for u in units}, "a unit the README names is untested"
+    for dimension, units in README_UNITS.items():
+        for unit, si in units.items():
+            got = parse_quantity(f"2 {unit}", dimension, Location("t.yaml"))
+            assert abs(got - 2 * si) <= 1e-9 * 2 * si, (unit, got)
+
+
+def test_every_example_quantity_in_the_readme_is_read():
+    from audit.core.errors import InputError, Location
+    from audit.core.units import DIMENSIONS, parse_quantity
+    from tests.conftest import ROOT
+
+    readme = (ROOT / "README.md").read_text(encoding="utf-8")
+    examples = set(re.findall(r"`([-+]?\d[\d.]*\s+[A-Za-z][\w/*]*)`", readme))
+    assert {"290 plf", "2800 lbf", "7.0 MPa"} <= examples
+    for text in examples:
+        read = []
+        for dimension in DIMENSIONS:
+            with contextlib.suppress(InputError):
+                read.append(parse_quantity(text, dimension, Location("t.yaml")))
+        assert read, f"the README's {text!r} is read as no quantity"
+
+
+def test_a_floor_load_in_psf_is_the_same_as_in_lbf_per_square_foot(tmp_path):
+    from fixtures.make_hostile_corpus import LAYOUT
+
+    totals = []
+    for written in ("20 psf", "20 lbf/ft**2"):
+        model = tmp_path / "layout.yaml"
+        model.write_text(LAYOUT.replace("D: 1 kPa", f"D: {written}"), encoding="utf-8")
+        out = tmp_path / f"explicit-{len(totals)}.yaml"
+        assert cli.run(["expand", str(model), "-o", str(out)]) == 0
+        totals.append(out.read_text(encoding="utf-8").split("loads:", 1)[1])
+    assert totals[0] == totals[1]
