@@ -436,9 +436,12 @@ def _run(argv: list[str] | None) -> int:
 
     try:
         code = app(args=argv, standalone_mode=False)
-    except (KeyboardInterrupt, Interrupted):
+    except KeyboardInterrupt:
         typer.echo("error: interrupted; no output was written or replaced", err=True)
-        return 130
+        return 130  # 128 + SIGINT, as a shell reports it
+    except Interrupted as stop:
+        typer.echo("error: interrupted; no output was written or replaced", err=True)
+        return 128 + stop.signum  # 143 for SIGTERM, 129 for SIGHUP
     except typer.Exit as stop:
         return stop.exit_code
     except SystemExit as stop:

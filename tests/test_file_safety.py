@@ -174,7 +174,7 @@ CHILD = textwrap.dedent(
 )
 
 
-@pytest.mark.parametrize("signum", [signal.SIGINT, signal.SIGTERM], ids=["SIGINT", "SIGTERM"])
+@pytest.mark.parametrize("signum", [signal.SIGINT, signal.SIGTERM, signal.SIGHUP], ids=["SIGINT", "SIGTERM", "SIGHUP"])
 def test_an_interrupted_write_leaves_no_outputs_and_no_temporary_files(tmp_path, signum):
     child = subprocess.Popen([sys.executable, "-c", CHILD, str(tmp_path)], cwd=ROOT)
     deadline = time.monotonic() + 20
@@ -257,3 +257,16 @@ def test_expand_refuses_an_output_onto_a_pack_of_the_rules_dir(tmp_path, capsys)
     code = run(["expand", str(model), "--rules-dir", str(own), "-o", str(pack)])
     err = capsys.readouterr().err
     assert code == 2 and _one_clear_line(err) and "rule pack" in err and pack.read_bytes() == before
+
+
+@pytest.mark.parametrize(("signum", "status"), [(signal.SIGTERM, 143), (signal.SIGHUP, 129)])
+def test_a_run_ended_by_a_signal_exits_with_128_plus_its_number(monkeypatch, capsys, signum, status):
+    from audit import cli
+    from audit.core.outfiles import Interrupted
+
+    def ended(*args, **kwargs):
+        raise Interrupted(signum)  # as the handler raises it while outputs are written
+
+    monkeypatch.setattr(cli, "app", ended)
+    assert cli.run(["review", "x.yaml"]) == status  # the shell's convention: 128 + the signal's number
+    assert "interrupted" in capsys.readouterr().err

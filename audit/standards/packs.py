@@ -674,6 +674,7 @@ def load_all_packs(
 
     resistance: dict[str, PackCore] = {}
     combos: dict[str, CombinationPack] = {}
+    ids: dict[tuple[str, str], tuple[Path, Location]] = {}  # (kind, id) -> the file that gave it, and where
     for path in pack_files(extra_dirs):
         root = read_yaml_file(path)
         if not isinstance(root.value, dict):
@@ -686,13 +687,36 @@ def load_all_packs(
                 str(named.value) if named is not None else "o86", named.loc if named else root.loc
             )
             pack = standard.read_pack(root, str(path))
-            resistance.setdefault(pack.id, pack)
+            _refuse_same_id(("resistance", pack.id), path, root, ids)
+            resistance[pack.id] = pack
         elif kind_value == "combinations":
             cpack = read_combination_pack(root, str(path))
-            combos.setdefault(cpack.id, cpack)
+            _refuse_same_id(("combinations", cpack.id), path, root, ids)
+            combos[cpack.id] = cpack
         else:
             raise InputError("kind must be 'resistance' or 'combinations'", root.child_loc("kind"))
     return resistance, combos
+
+
+def _refuse_same_id(
+    key: tuple[str, str], path: Path, root: Node, ids: dict[tuple[str, str], tuple[Path, Location]]
+) -> None:
+    """Two packs of one id: whichever came first would win without a word, so neither is used. The
+    reviewer's own pack is blamed (the bundled one is not theirs to change)."""
+    node = root.value.get("id") if isinstance(root.value, dict) else None
+    where = node.loc if node is not None else root.child_loc("id")
+    if key not in ids:
+        ids[key] = (path, where)
+        return
+    earlier, earlier_where = ids[key]
+    bundled = path.parent == builtin_rules_dir()
+    other, blamed = (path, earlier_where) if bundled else (earlier, where)
+    whose = "a bundled pack" if bundled else "the pack"
+    raise InputError(
+        f"rule pack id '{key[1]}' is also the id of {whose} {other}; give each pack its own id (a pack of "
+        "your own is selected by its id: copy the bundled one and give the copy a new id)",
+        blamed,
+    )
 
 
 def select_packs(
