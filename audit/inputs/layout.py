@@ -507,6 +507,21 @@ class Placer:
             )
         return out
 
+    def foot_below_top(
+        self, f: FieldReader, what: str, base: tuple[str, float], drop: float, top: tuple[str, float]
+    ) -> bool:
+        """A drop (negative: raised) that puts the foot at or above the top is the post's or wall's own
+        error, not a fault of the member it was to carry."""
+        foot = base[1] - drop
+        if foot < top[1]:
+            return True
+        self.errors.add(
+            f"{what}: with drop {drop * 1000:g} mm below level {base[0]} its foot is at {foot:.3f} m, not below "
+            f"its top at level {top[0]} ({top[1]:.3f} m)",
+            f.loc("drop"),
+        )
+        return False
+
     def post(self, item: Node) -> list[Placed]:
         f = FieldReader(item, POST_KEYS, self.errors, "layout post")
         post_id = f.text("id", limit=120)
@@ -521,6 +536,8 @@ class Placer:
             return []
         if top[1] <= base[1]:
             self.errors.add(f"post '{post_id}': top level {top[0]} is not above base level {base[0]}", f.loc("top"))
+            return []
+        if not self.foot_below_top(f, f"post '{post_id}'", base, drop, top):
             return []
         b, d = section
         footprint = box(at, d, b) if d_along == "x" else box(at, b, d)
@@ -559,6 +576,8 @@ class Placer:
             return []
         if top[1] <= base[1]:
             self.errors.add(f"wall '{wall_id}': top level {top[0]} is not above base level {base[0]}", f.loc("top"))
+            return []
+        if not self.foot_below_top(f, f"wall '{wall_id}'", base, drop, top):
             return []
         axis = self.horizontal_axis(f, start, end, f"wall '{wall_id}'")
         if axis is None:
