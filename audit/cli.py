@@ -43,6 +43,10 @@ def _main(
 
 
 def _fail(error: InputError) -> NoReturn:
+    from audit.core.errors import visible
+
+    for warning in getattr(error, "warnings", ()):
+        typer.echo(f"warning: {visible(warning)}", err=True)
     lines = error.lines() if isinstance(error, InputErrors) else [error.one_line()]
     for line in lines:
         typer.echo(f"error: {line}", err=True)
@@ -136,8 +140,10 @@ def review(
             claim_list = merge_claim_sources(claim_list, extracted.claims, calc_pdf.name)
     except InputError as exc:
         _fail(exc)
+    from audit.core.errors import visible
+
     for warning in result.model.warnings:
-        typer.echo(f"warning: {warning}", err=True)
+        typer.echo(f"warning: {visible(warning)}", err=True)
     rec = reconcile(result, claim_list) if (claims or calc_pdf) else None
     findings = rec.findings if rec else result.engine_findings
     comments = build_comments(result, rec, claim_list)

@@ -144,3 +144,21 @@ def test_a_floor_load_in_psf_is_the_same_as_in_lbf_per_square_foot(tmp_path):
         assert cli.run(["expand", str(model), "-o", str(out)]) == 0
         totals.append(out.read_text(encoding="utf-8").split("loads:", 1)[1])
     assert totals[0] == totals[1]
+
+
+def test_an_invisible_character_is_shown_by_its_code_point_and_warned_even_when_the_run_stops(tmp_path, capsys):
+    model = base_model()
+    model["members"][0]["id"] = "B1\u200b"  # the bearings still name plain B1: three errors
+    code, err = _review(tmp_path, capsys, model)
+    assert code == 2 and "\u200b" not in err
+    assert "did you mean 'B1<U+200B>'?" in err
+    warning = next(ln for ln in err.splitlines() if ln.startswith("warning: "))
+    assert "members[0]" in warning and "U+200B" in warning
+    assert err.index("warning: ") < err.index("error: ")  # the explanation comes before what it explains
+
+
+def test_a_direction_override_in_a_message_is_written_as_its_code_point(tmp_path, capsys):
+    model = base_model()
+    model["bearings"][0]["upper"]["member"] = "B\u202e1"  # would reverse the rest of the terminal line
+    code, err = _review(tmp_path, capsys, model)
+    assert code == 2 and "\u202e" not in err and "B<U+202E>1" in err

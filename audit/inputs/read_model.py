@@ -161,11 +161,12 @@ def build_model(
             errors.add(f"bearing id '{b.id}' is also the bearing of a stud placed under '{b.upper.member}'", b.loc)
     bearings += placed
     loads, groups = _read_loads(_listed(sections.loads, root, "loads"), known, combos, errors)
+    errors.warnings.extend(_id_warnings(members, bearings, loads))  # shown even if errors stop the run
     errors.raise_if_any()
     _check_support_graph(members, bearings, errors)
     _check_loads_within_members(members, loads, errors)
     errors.raise_if_any()
-    warnings = sections.warnings + tuple(_id_warnings(members, bearings, loads))
+    warnings = sections.warnings + tuple(errors.warnings)
     frame = None
     if sections.layout is not None:
         frame = Frame(dict(sections.layout.levels), dict(sections.layout.grids.x), dict(sections.layout.grids.y))
