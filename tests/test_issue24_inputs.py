@@ -162,3 +162,31 @@ def test_a_direction_override_in_a_message_is_written_as_its_code_point(tmp_path
     model["bearings"][0]["upper"]["member"] = "B\u202e1"  # would reverse the rest of the terminal line
     code, err = _review(tmp_path, capsys, model)
     assert code == 2 and "\u202e" not in err and "B<U+202E>1" in err
+
+
+def test_errors_of_every_section_come_in_one_run_with_suggestions(tmp_path, capsys):
+    model = base_model()
+    model["materials"]["GL"]["species"] = "D.Fir-X"  # near D.Fir-L
+    model["materials"]["SPF"]["grade"] = "No.22"  # near No.2
+    model["members"][1]["material"] = "STEL"  # near STEEL
+    model["members"][3]["b"] = "38 kN"
+    model["loads"][0]["specified"]["D"] = "1 kN"  # a force on a uniform load
+    code, err = _review(tmp_path, capsys, model)
+    keys = [m["key"] for m in map(ERROR.match, err.splitlines()) if m]
+    assert code == 2
+    assert keys == [
+        "materials.GL.species",
+        "materials.SPF.grade",
+        "members[1].material",
+        "members[3].b",
+        "loads[0].specified.D",
+    ]
+    assert "did you mean 'D.Fir-L'?" in err and "did you mean 'No.2'?" in err and "did you mean 'STEEL'?" in err
+    assert "line_load" not in err and "not a line load" in err
+
+
+def test_a_member_of_a_material_with_an_error_gives_no_second_error(tmp_path, capsys):
+    model = base_model()
+    model["materials"]["SPF"]["species"] = "Oakish"  # J1 and W1 are SPF: named by bearings and loads
+    code, err = _review(tmp_path, capsys, model)
+    assert code == 2 and [m["key"] for m in map(ERROR.match, err.splitlines()) if m] == ["materials.SPF.species"]

@@ -149,9 +149,16 @@ def build_model(
     _check_readings(project, resistance, top.map["project"], errors)
 
     materials = _read_materials(top.map["materials"], resistance, errors)
+    # a material with an error is still known, so its members are read for their own errors (one pass)
+    named = top.map["materials"].value if isinstance(top.map["materials"].value, dict) else {}
+    broken_materials = frozenset(str(k) for k in named) - materials.keys()
+    found = len(errors.errors)
     sections = model_sections(top.map, root, errors)
-    errors.raise_if_any()  # the layout's own errors first: what it would have placed is not there to read
-    members, broken, walls = _read_members(_listed(sections.members, root, "members"), materials, project, errors)
+    if len(errors.errors) > found:
+        errors.raise_if_any()  # the layout's own errors first: what it would have placed is not there to read
+    members, broken, walls = _read_members(
+        _listed(sections.members, root, "members"), materials, project, errors, broken_materials
+    )
     placed = _place_walls(members, walls, errors)
     known = KnownMembers(members, broken)
     bearings = _read_bearings(_listed(sections.bearings, root, "bearings"), known, combos, errors)
@@ -329,7 +336,8 @@ def _material_of_family(
     species = next((name for name in table if name.casefold() == species.casefold()), species)
     if species not in table:
         errors.add(
-            f"species '{species}' is not in rule pack {pack.id} for {family} (known: {', '.join(table) or 'none'})",
+            f"species '{species}' is not in rule pack {pack.id} for {family}{did_you_mean(species, table)} "
+            f"(known: {', '.join(table) or 'none'})",
             f.loc("species"),
         )
         return None
@@ -337,8 +345,8 @@ def _material_of_family(
     grade = next((name for name in strength.grades if name.casefold() == grade.casefold()), grade)
     if strength.grades and grade not in strength.grades:
         errors.add(
-            f"grade '{grade}' is not listed for {family} {species} in rule pack {pack.id} "
-            f"(known: {', '.join(strength.grades)})",
+            f"grade '{grade}' is not listed for {family} {species} in rule pack {pack.id}"
+            f"{did_you_mean(grade, strength.grades)} (known: {', '.join(strength.grades)})",
             f.loc("grade"),
         )
         return None
@@ -379,7 +387,11 @@ class KnownMembers:
 
 
 def _read_members(
-    node: Node, materials: dict[str, Material], project: Project, errors: ErrorCollector
+    node: Node,
+    materials: dict[str, Material],
+    project: Project,
+    errors: ErrorCollector,
+    broken_materials: frozenset[str] = frozenset(),
 ) -> tuple[dict[str, Member], frozenset[str], tuple[StudWall, ...]]:
     out: dict[str, Member] = {}
     broken: set[str] = set()
@@ -389,7 +401,9 @@ def _read_members(
         f = FieldReader(item, MEMBER_KEYS, errors, "member")
         member_id = f.text("id", limit=120)
         material = f.text("material")
-        if f.ok and material not in materials:
+        if f.ok and material in broken_materials:
+            f.ok = False  # its material's error is reported where the material is; its other fields still are
+        elif f.ok and material not in materials:
             errors.add(f"unknown material '{material}'{did_you_mean(material, materials)}", f.loc("material"))
             f.ok = False
         b = f.quantity("b", "length", positive=True)
@@ -782,6 +796,8 @@ def _read_loads(
             continue
         found = known.resolve(member_id, f.loc("member"), errors)
         if found is None:
+            if member_id in known.broken:
+                _check_load_values(f, kind, combos, errors)  # its own errors too, in the same pass
             continue
         member = found
         load_id = f.text("id", required=False) or f"load{index + 1}"
@@ -840,6 +856,20 @@ def _read_loads(
         for case, value in entries:
             out.append(Load(load_id, member_id, kind, case, value, at, start, end, length, width, note, item.loc))
     return tuple(out), groups
+
+
+def _check_load_values(f: FieldReader, kind: str, combos: CombinationPack, errors: ErrorCollector) -> None:
+    """The values of a load on a member with an error of its own: read for their own errors only."""
+    dimension = "force" if kind == "point" else "line_load"
+    if f.has("specified"):
+        s = FieldReader(f.map["specified"], set(combos.cases), errors, "specified loads")
+        for case in s.map:
+            if case == "W" and isinstance(s.map[case].value, dict):
+                _wind_both_ways(s.map[case], dimension, errors)
+            elif case in combos.cases:
+                s.quantity(case, dimension)
+    elif f.has("factored"):
+        f.quantity("factored", dimension)
 
 
 def _wind_both_ways(node: Node, dimension: str, errors: ErrorCollector) -> list[tuple[str, float]]:
