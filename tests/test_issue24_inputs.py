@@ -190,3 +190,16 @@ def test_a_member_of_a_material_with_an_error_gives_no_second_error(tmp_path, ca
     model["materials"]["SPF"]["species"] = "Oakish"  # J1 and W1 are SPF: named by bearings and loads
     code, err = _review(tmp_path, capsys, model)
     assert code == 2 and [m["key"] for m in map(ERROR.match, err.splitlines()) if m] == ["materials.SPF.species"]
+
+
+def test_a_small_force_that_asks_for_action_is_never_printed_as_zero():
+    from audit.core.units import Display
+    from audit.review.wording import uplift
+
+    kn = Display("kN")
+    assert kn.force_not_zero(1.8) == "0.0018 kN"  # 1.8 N = 0.0018 kN (by hand)
+    assert kn.force_not_zero(12_340.0) == kn.force(12_340.0) == "12.34 kN"
+    assert kn.force_not_zero(0.0) == "0.00 kN"
+    assert Display("kip").force_not_zero(4.0) == "0.0009 kip"  # 4 N / 4448.2 N per kip = 0.00090
+    sentence = uplift("J1/B1", "1.25D+1.5L", 1.8, True, 500.0, "the note threshold", kn)
+    assert "0.0018 kN" in sentence and "0.00 kN" not in sentence

@@ -186,6 +186,13 @@ class Display:
         digits = DECIMALS[self.force_unit]
         return f"{self.value(newtons):,.{digits}f} {self.force_unit}"
 
+    def force_not_zero(self, newtons: float) -> str:
+        """As ``force``, but a force that is not zero is never shown as one: 1.8 N is '0.0018 kN', not '0.00 kN'."""
+        shown = self.force(newtons)
+        if newtons == 0 or any(ch in "123456789" for ch in shown.split(" ")[0]):
+            return shown
+        return f"{self.value(newtons):.2g} {self.force_unit}"
+
     def number(self, newtons: float) -> str:
         digits = DECIMALS[self.force_unit]
         return f"{self.value(newtons):,.{digits}f}"
