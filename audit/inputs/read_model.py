@@ -296,8 +296,14 @@ def _material_of_family(
 ) -> Material | None:
     loc = f.node.loc
     if family == "engineered":
+        from audit.standards import plausible
+
         fcp = f.quantity("fcp", "stress", positive=True)
         fc = f.quantity("fc", "stress", required=False, positive=True)
+        bounds = plausible.ranges()
+        for key, value, within in (("fcp", fcp, bounds.fcp), ("fc", fc, bounds.fc)):
+            if value is not None and not plausible.check(value, within.get(family), key, f.loc(key), errors):
+                return None
         source = f.text("source")
         applies: set[str] = set()
         if f.has("factors"):
@@ -409,6 +415,8 @@ def _read_members(
         b = f.quantity("b", "length", positive=True)
         d = f.quantity("d", "length", positive=True)
         length = f.quantity("length", "length", positive=True)
+        if not _plausible_section(f, b, d, length, errors):
+            f.ok = False
         orientation = f.choice("orientation", ("horizontal", "vertical"), required=False, default="horizontal")
         service = f.choice("service", SERVICES, required=False, default=project.service)
         kt = f.number("KT", 0.01, 1.5, 1.0)
@@ -637,6 +645,27 @@ def _read_side(node: Node, role: str, known: KnownMembers, errors: ErrorCollecto
     if not f.ok:
         return None
     return Side(member_id, at, length, angle, width, node.loc)
+
+
+def _plausible_section(
+    f: FieldReader, b: float | None, d: float | None, length: float | None, errors: ErrorCollector
+) -> bool:
+    """b and d within the plausible section range (refused outside: 38 m for 38 mm); one longer than the
+    member itself is a warning (a short block is possible, a slip likelier)."""
+    from audit.standards import plausible
+
+    ok = True
+    for key, value in (("b", b), ("d", d)):
+        if value is None:
+            continue
+        if not plausible.check(value, plausible.ranges().section, key, f.loc(key), errors):
+            ok = False
+        elif length is not None and value > length:
+            errors.warnings.append(
+                f"{f.loc(key)}: {key} = {value * 1000:g} mm is more than the member's length "
+                f"({length * 1000:g} mm): a unit slip?"
+            )
+    return ok
 
 
 def _case_twin(item_id: str, what: str, twins: dict[str, str], where: Location, errors: ErrorCollector) -> bool:
