@@ -392,6 +392,15 @@ def rules(rules_dir: list[Path] | None = RulesDir) -> None:
         for name, value in extras:
             shown = " or ".join(f"{v:g}" for v in value.value) if isinstance(value.value, tuple) else f"{value.value:g}"
             typer.echo(f"  {name} = {shown}  [{value.clause}; {value.source}; {value.status}]")
+    from audit.standards import plausible
+    from audit.standards.packs import builtin_rules_dir
+
+    bounds = plausible.ranges()
+    typer.echo(f"plausible ranges (a value outside is refused)\n  file: {builtin_rules_dir() / plausible.FILE}")
+    named = [(f"fcp of {fam}", r) for fam, r in bounds.fcp.items()] + [(f"fc of {f}", r) for f, r in bounds.fc.items()]
+    named += [("load factor", bounds.load_factor), ("section dimension", bounds.section)]
+    for name, r in named:
+        typer.echo(f"  {name}: {r.shown()}  [{r.source}]")
 
 
 def _shown(name: str, value: object) -> str:
