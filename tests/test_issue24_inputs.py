@@ -203,3 +203,23 @@ def test_a_small_force_that_asks_for_action_is_never_printed_as_zero():
     assert Display("kip").force_not_zero(4.0) == "0.0009 kip"  # 4 N / 4448.2 N per kip = 0.00090
     sentence = uplift("J1/B1", "1.25D+1.5L", 1.8, True, 500.0, "the note threshold", kn)
     assert "0.0018 kN" in sentence and "0.00 kN" not in sentence
+
+
+def test_a_load_lighter_than_its_member_is_warned_as_a_likely_unit_slip(tmp_path, capsys):
+    # J1 is 38 x 235 mm over 4 m: at 3.5 kN/m3 (the plausible-ranges file, common practice) it weighs
+    # 3500 x 0.038 x 0.235 = 31.3 N/m, 125 N in all (by hand). 12 N is under it, 12 kN far over.
+    for magnitude, warned in (("12 N", True), ("12 kN", False), ("200 N", False)):
+        model = base_model()
+        model["loads"].append({"id": "p", "member": "J1", "type": "point", "at": "1 m", "specified": {"D": magnitude}})
+        code, err = _review(tmp_path, capsys, model)
+        assert code in (0, 1)
+        assert ("less than the member's own weight (125 N for the whole member)" in err) is warned, (magnitude, err)
+
+
+def test_a_line_load_of_one_newton_per_metre_is_warned_and_a_real_floor_is_not(tmp_path, capsys):
+    model = base_model()
+    model["loads"][0]["specified"] = {"D": "1 N/m", "L": "2 N/m"}  # under 31.3 N/m (as above)
+    code, err = _review(tmp_path, capsys, model)
+    assert code in (0, 1) and "'floor' on 'J1' is 2 N/m at most" in err
+    code, err = _review(tmp_path, capsys, base_model())
+    assert "warning" not in err

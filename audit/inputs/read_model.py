@@ -169,6 +169,7 @@ def build_model(
     bearings += placed
     loads, groups = _read_loads(_listed(sections.loads, root, "loads"), known, combos, errors)
     errors.warnings.extend(_id_warnings(members, bearings, loads))  # shown even if errors stop the run
+    errors.warnings.extend(_light_load_warnings(members, materials, loads, resistance))
     errors.raise_if_any()
     _check_support_graph(members, bearings, errors)
     _check_loads_within_members(members, loads, errors)
@@ -645,6 +646,17 @@ def _read_side(node: Node, role: str, known: KnownMembers, errors: ErrorCollecto
     if not f.ok:
         return None
     return Side(member_id, at, length, angle, width, node.loc)
+
+
+def _light_load_warnings(
+    members: dict[str, Member], materials: dict[str, Material], loads: tuple[Load, ...], pack: PackCore
+) -> list[str]:
+    from audit.standards import plausible
+
+    def timber(m: Member) -> bool:
+        return m.material in materials and pack.is_timber(materials[m.material].family)
+
+    return plausible.light_load_warnings(members, loads, timber)
 
 
 def _plausible_section(

@@ -9,8 +9,10 @@ wrong number.
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
 from functools import lru_cache
+from typing import Any
 
 from audit.core.errors import ErrorCollector, InputError, Location
 from audit.core.located_yaml import Node, read_yaml_file
@@ -42,6 +44,7 @@ class Ranges:
     fc: dict[str, Range]
     load_factor: Range
     section: Range
+    least_load_unit_weight: float  # N/m3: a load on a timber member below its own weight at this is warned
 
 
 def _range(node: Node, dimension: str | None, unit: str) -> Range:
@@ -78,7 +81,7 @@ def ranges() -> Ranges:
             raise InputError(f"missing '{key}' by family", root.child_loc(key))
         return {fam: _range(n, "stress", "MPa") for fam, n in node.value.items()}
 
-    for key in ("load_factor", "section_dimension"):
+    for key in ("load_factor", "section_dimension", "least_load_unit_weight"):
         if get(key) is None:
             raise InputError(f"missing '{key}'", root.child_loc(key))
     return Ranges(
@@ -86,7 +89,44 @@ def ranges() -> Ranges:
         by_family("strength_parallel"),
         _range(get("load_factor"), None, ""),
         _range(get("section_dimension"), "length", "mm"),
+        _unit_weight(get("least_load_unit_weight")),
     )
+
+
+def _unit_weight(node: Node) -> float:
+    """A unit weight stated in kN/m**3 (the dimension no quantity of a model has), as N/m3."""
+    value = node.value.get("value") if isinstance(node.value, dict) else None
+    unit = node.value.get("unit") if isinstance(node.value, dict) else None
+    if value is None or isinstance(value.value, bool) or not isinstance(value.value, (int, float)) or value.value <= 0:
+        raise InputError("expected {value: <kN per cubic metre>, unit: kN/m**3, ...}", node.loc)
+    if unit is None or unit.value != "kN/m**3":
+        raise InputError("the unit weight is stated in kN/m**3", node.loc)
+    return float(value.value) * 1000.0
+
+
+def light_load_warnings(members: dict[str, Any], loads: tuple[Any, ...], timber: Callable[[Any], bool]) -> list[str]:
+    """One warning per load entry (a layout area's shares come from one entry) lighter than its member."""
+    unit_weight = ranges().least_load_unit_weight
+    out: dict[str, str] = {}
+    biggest: dict[tuple[str, str], float] = {}
+    for load in loads:
+        key = (load.id, load.member)
+        biggest[key] = max(biggest.get(key, 0.0), abs(load.magnitude))
+    for load in loads:
+        member = members.get(load.member)
+        where = str(load.loc)
+        if member is None or where in out or not timber(member):
+            continue
+        per_metre = unit_weight * member.b * member.d
+        own, what = (per_metre, "") if load.kind == "uniform" else (per_metre * member.length, " for the whole member")
+        largest = biggest[(load.id, load.member)]
+        if 0 < largest < own:
+            unit = "N/m" if load.kind == "uniform" else "N"
+            out[where] = (
+                f"{where}: load '{load.id}' on '{member.id}' is {largest:.3g} {unit} at most, less than the member's "
+                f"own weight ({own:.3g} {unit}{what}): kN or kPa meant?"
+            )
+    return list(out.values())
 
 
 def check(value: float, bounds: Range | None, what: str, where: Location, errors: ErrorCollector) -> bool:
