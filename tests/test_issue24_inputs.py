@@ -223,3 +223,25 @@ def test_a_line_load_of_one_newton_per_metre_is_warned_and_a_real_floor_is_not(t
     assert code in (0, 1) and "'floor' on 'J1' is 2 N/m at most" in err
     code, err = _review(tmp_path, capsys, base_model())
     assert "warning" not in err
+
+
+def test_a_layout_s_outputs_are_bounded_by_the_model_it_expands_to_not_by_its_few_lines(tmp_path):
+    from audit.cli import expanded_bytes
+    from audit.core.outfiles import OUTPUT_PER_INPUT
+    from audit.report.memo import findings_json_chunks
+    from audit.review.comments import build_comments
+    from audit.review.review import review_model
+    from audit.review.rounds import first_round
+    from tests.conftest import ROOT
+
+    model = ROOT / "fixtures" / "demo-layout" / "model.yaml"
+    result = review_model(model)
+    comments = build_comments(result, None, ())
+    json_size = sum(
+        len(c)
+        for c in findings_json_chunks(result, None, result.engine_findings, comments, first_round(comments, "", {}))
+    )
+    explicit = (ROOT / "reports" / "layout-demo-explicit.yaml").stat().st_size
+    assert OUTPUT_PER_INPUT * model.stat().st_size < json_size  # the layout alone would refuse its own JSON
+    assert expanded_bytes(result.model) <= explicit  # never more than the model it expands to
+    assert OUTPUT_PER_INPUT * expanded_bytes(result.model) > 2 * json_size  # and room to spare
