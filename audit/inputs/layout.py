@@ -28,6 +28,11 @@ from audit.inputs.fields import FieldReader, describe_value, did_you_mean, list_
 LAYOUT_KEYS = {"levels", "grids", "members", "runs", "posts", "walls", "areas"}
 # Fields a placed member passes to the member reader as written, so their errors point at the layout line.
 PASSED = ("material", "b", "d", "service", "KT", "support", "bears_on", "plies", "ply_thickness", "label", "studs")
+# The work is bounded per model, not per entry: ten runs each under its own cap would still place
+# hundreds of thousands of members from a few lines. Twice the largest building benchmarked
+# (50,000 bearings, about 25,000 members) is allowed.
+LAYOUT_MEMBERS = 50_000
+
 MEMBER_KEYS = {"id", "from", "to", "level", "drop", "extend", "free_ends", "calc_force", *PASSED}
 RUN_KEYS = {
     "id",
@@ -159,7 +164,13 @@ def read_layout(node: Node, errors: ErrorCollector) -> Layout | None:
     ):
         if f.has(key):
             for item in list_items(f.map[key], f"layout {key}", errors):
+                reader.room = LAYOUT_MEMBERS - len(placed)
+                if reader.room <= 0:
+                    errors.add(f"the layout places more than {LAYOUT_MEMBERS:,} members in all; split it", item.loc)
+                    return None
                 placed += read(item)
+                if reader.room < 0:  # the run that went past the bound said so: one error, no more work
+                    return None
     seen: dict[str, Location] = {}
     for p in placed:
         if p.id in seen:
@@ -224,6 +235,7 @@ class Placer:
         self.levels = levels
         self.grids = grids
         self.errors = errors
+        self.room = LAYOUT_MEMBERS  # members the layout may still place
 
     # ---- values
 
@@ -469,6 +481,13 @@ class Placer:
             return []
         if (reach - first) / spacing > 20000:
             self.errors.add(f"run '{run_id}' would place more than 20000 members", item.loc)
+            return []
+        if (reach - first) / spacing + 1 > self.room:
+            self.errors.add(
+                f"run '{run_id}' would take the layout past {LAYOUT_MEMBERS:,} members in all; split the layout",
+                item.loc,
+            )
+            self.room = -1
             return []
         offsets = [first + k * spacing for k in range(math.floor((reach - first) / spacing + 1e-9) + 1)]
         if reach - offsets[-1] >= b - 1e-9:
