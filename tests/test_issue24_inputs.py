@@ -245,3 +245,19 @@ def test_a_layout_s_outputs_are_bounded_by_the_model_it_expands_to_not_by_its_fe
     assert OUTPUT_PER_INPUT * model.stat().st_size < json_size  # the layout alone would refuse its own JSON
     assert expanded_bytes(result.model) <= explicit  # never more than the model it expands to
     assert OUTPUT_PER_INPUT * expanded_bytes(result.model) > 2 * json_size  # and room to spare
+
+
+def test_an_end_distance_tie_is_decided_at_a_micrometre_alike_in_si_and_us_input():
+    from tests.conftest import review_dict
+
+    # J1 (38 mm wide) sits on W1 centred 94 mm from W1's end: the contact starts 94 - 19 = 75 mm from
+    # the end, exactly O86's least end distance for KB (hand calculation). 3.700787 in is 93.99999 mm.
+    qr, reasons = [], []
+    for at in ("94 mm", "3.700787 in"):
+        model = base_model()
+        model["bearings"][3]["lower"]["at"] = at
+        result = review_dict(model).result("J1/W1:W1")
+        qr.append(result.governing.qr)
+        reasons.append(next(f.reason for f in result.factors if f.name == "KB"))
+    assert abs(qr[0] - qr[1]) <= 1e-9 * qr[0], reasons
+    assert all("less than" not in r for r in reasons)
