@@ -292,13 +292,17 @@ def expand(
     rule_pack: str | None = RulePack,
 ) -> None:
     """Write the model with its layout expanded: every member, bearing and load, each with where it came from."""
+    from audit.core.errors import visible
     from audit.core.outfiles import Output, output_limit, write_outputs
-    from audit.inputs.expand_layout import explicit_model_file
+    from audit.inputs.expand_layout import explicit_model_with_warnings
 
     try:
         input_bytes = _check_files({"MODEL": model}, {"--out": out}, _dirs(rules_dir))
-        text = explicit_model_file(model, _dirs(rules_dir), rule_pack)
-        write_outputs([Output("--out", out, lambda: [text])], output_limit(input_bytes))
+        text, warnings = explicit_model_with_warnings(model, _dirs(rules_dir), rule_pack)
+        for warning in warnings:  # what a review would warn of, said when the layout is expanded too
+            typer.echo(f"warning: {visible(warning)}", err=True)
+        # the explicit model is the expanded model itself, bounded by the layout's own limit on members
+        write_outputs([Output("--out", out, lambda: [text])], output_limit(max(input_bytes, len(text))))
     except InputError as exc:
         _fail(exc)
     typer.echo(f"wrote {out}")

@@ -261,3 +261,12 @@ def test_an_end_distance_tie_is_decided_at_a_micrometre_alike_in_si_and_us_input
         reasons.append(next(f.reason for f in result.factors if f.name == "KB"))
     assert abs(qr[0] - qr[1]) <= 1e-9 * qr[0], reasons
     assert all("less than" not in r for r in reasons)
+
+
+def test_expand_says_what_a_review_would_warn_of(tmp_path, capsys):
+    from fixtures.make_hostile_corpus import LAYOUT
+
+    model = tmp_path / "layout.yaml"
+    model.write_text(LAYOUT.replace("span: y, loads", "span: y, openings: [[[1.5 m, 1 m], [2.5 m, 3 m]]], loads"))
+    assert cli.run(["expand", str(model), "-o", str(tmp_path / "x.yaml")]) == 0
+    assert "warning: " in capsys.readouterr().err  # the opening partly outside its area
