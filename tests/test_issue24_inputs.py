@@ -270,3 +270,19 @@ def test_expand_says_what_a_review_would_warn_of(tmp_path, capsys):
     model.write_text(LAYOUT.replace("span: y, loads", "span: y, openings: [[[1.5 m, 1 m], [2.5 m, 3 m]]], loads"))
     assert cli.run(["expand", str(model), "-o", str(tmp_path / "x.yaml")]) == 0
     assert "warning: " in capsys.readouterr().err  # the opening partly outside its area
+
+
+def test_a_beam_a_hair_off_its_grid_line_gives_the_square_crossing_s_contacts(tmp_path, capsys):
+    from fixtures.make_hostile_corpus import LAYOUT
+
+    # 20 micrometres over 2 m is 0.0006 deg, far inside the half degree within which a crossing counts
+    # as square: the joists' contacts along the beam stay their 38 mm width, as on the grid line
+    lengths = []
+    for to in ("A/2", "[2 m, 0.02 mm]"):
+        model = tmp_path / "layout.yaml"
+        model.write_text(LAYOUT.replace("from: A/1, to: A/2, extend", f"from: A/1, to: {to}, extend"))
+        out = tmp_path / "explicit.yaml"
+        assert cli.run(["expand", str(model), "-o", str(out)]) == 0, capsys.readouterr().err
+        bearings = yaml.safe_load(out.read_text())["bearings"]
+        lengths.append(sorted(b["lower"]["length"] for b in bearings if b["lower"]["member"] == "BA"))
+    assert lengths[0] == lengths[1] and set(lengths[0]) == {"0.038 m"}
