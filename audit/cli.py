@@ -43,6 +43,10 @@ def _main(
 
 
 def _fail(error: InputError) -> NoReturn:
+    from audit.core.errors import visible
+
+    for warning in getattr(error, "warnings", ()):
+        typer.echo(f"warning: {visible(warning)}", err=True)
     lines = error.lines() if isinstance(error, InputErrors) else [error.one_line()]
     for line in lines:
         typer.echo(f"error: {line}", err=True)
@@ -123,7 +127,9 @@ def review(
     from audit.review.comments import build_comments
     from audit.review.reconcile import reconcile
     from audit.review.review import review_model
+    from audit.review.round_files import responses_left_out
     from audit.review.rounds import (
+        ASKING,
         check_dispositions,
         first_round,
         input_hashes,
@@ -154,6 +160,7 @@ def review(
                 "--dispositions": dispositions,
             },
             {"--memo": memo, "--appendix": appendix, "--json": json_out, "--csv": csv_out, "--xlsx": xlsx_out},
+            _dirs(rules_dir),
         )
         result = review_model(model, _dirs(rules_dir), rule_pack)
         claim_list = read_claims(claims) if claims else ()
@@ -162,8 +169,11 @@ def review(
             claim_list = merge_claim_sources(claim_list, extracted.claims, calc_pdf.name)
     except InputError as exc:
         _fail(exc)
+    from audit.core.errors import visible
+
     for warning in result.model.warnings:
-        typer.echo(f"warning: {warning}", err=True)
+        typer.echo(f"warning: {visible(warning)}", err=True)
+    input_bytes = max(input_bytes, expanded_bytes(result.model))
     rec = reconcile(result, claim_list) if (claims or calc_pdf) else None
     findings = rec.findings if rec else result.engine_findings
     comments = build_comments(result, rec, claim_list)
@@ -180,6 +190,11 @@ def review(
                         raise InputError(f"comment {number} has another disposition at {disposed[number].loc}", d.loc)
                     disposed[number] = d
             check_dispositions(disposed, last)
+            if answers:
+                asked = {e.number for e in last.comments if e.status in ASKING}
+                known = {e.number for e in last.comments}
+                for warning in responses_left_out(answers.responses, asked, known, str(responses)):
+                    typer.echo(f"warning: {warning}", err=True)
             comments, round_ = next_round(
                 comments, last, result.model, inputs, answers.responses if answers else {}, disposed
             )
@@ -228,15 +243,37 @@ def review(
     raise typer.Exit(1 if serious or failing else 0)
 
 
-def _check_files(inputs: dict[str, Path | None], outputs: dict[str, Path | None]) -> int:
+# A layout is short for the model it expands to (about 65 times smaller): outputs are bounded by
+# the expanded model as if it had been typed, each member, bearing and load entry counted at a
+# little less than the explicit model writes one (the layout demo: 545 entries in 96 KB, 176 each).
+BYTES_PER_ENTRY = 160
+
+
+def expanded_bytes(model) -> int:
+    """A lower estimate of the size of the explicit model a layout expands to (0 for a typed model)."""
+    if model.frame is None:
+        return 0
+    return BYTES_PER_ENTRY * (len(model.members) + len(model.bearings) + len(model.loads))
+
+
+def _check_files(
+    inputs: dict[str, Path | None], outputs: dict[str, Path | None], rules_dirs: tuple[Path, ...] | None = None
+) -> int:
     """Inputs must be readable regular files; outputs may destroy nothing. Before any reading.
 
-    Returns the inputs' total size, which bounds the outputs."""
+    With ``rules_dirs`` (a command that reads rule packs), every pack file, the reviewer's and the
+    bundled ones, is an input too: an output onto a pack would replace it. Returns the inputs'
+    total size (packs left out), which bounds the outputs."""
     from audit.core.outfiles import check_outputs, require_input_file
 
     given_inputs = [(option, path) for option, path in inputs.items() if path is not None]
     total = sum(require_input_file(path, option).st_size for option, path in given_inputs)
-    check_outputs([(o, p) for o, p in outputs.items() if p is not None], given_inputs)
+    packs: list[tuple[str, Path]] = []
+    if rules_dirs is not None:
+        from audit.standards.packs import pack_files
+
+        packs = [("rule pack", path) for path in pack_files(rules_dirs)]
+    check_outputs([(o, p) for o, p in outputs.items() if p is not None], given_inputs + packs)
     return total
 
 
@@ -295,13 +332,17 @@ def expand(
     rule_pack: str | None = RulePack,
 ) -> None:
     """Write the model with its layout expanded: every member, bearing and load, each with where it came from."""
+    from audit.core.errors import visible
     from audit.core.outfiles import Output, output_limit, write_outputs
-    from audit.inputs.expand_layout import explicit_model_file
+    from audit.inputs.expand_layout import explicit_model_with_warnings
 
     try:
-        input_bytes = _check_files({"MODEL": model}, {"--out": out})
-        text = explicit_model_file(model, _dirs(rules_dir), rule_pack)
-        write_outputs([Output("--out", out, lambda: [text])], output_limit(input_bytes))
+        input_bytes = _check_files({"MODEL": model}, {"--out": out}, _dirs(rules_dir))
+        text, warnings = explicit_model_with_warnings(model, _dirs(rules_dir), rule_pack)
+        for warning in warnings:  # what a review would warn of, said when the layout is expanded too
+            typer.echo(f"warning: {visible(warning)}", err=True)
+        # the explicit model is the expanded model itself, bounded by the layout's own limit on members
+        write_outputs([Output("--out", out, lambda: [text])], output_limit(max(input_bytes, len(text))))
     except InputError as exc:
         _fail(exc)
     typer.echo(f"wrote {out}")
@@ -408,6 +449,15 @@ def rules(rules_dir: list[Path] | None = RulesDir) -> None:
         for name, value in extras:
             shown = " or ".join(f"{v:g}" for v in value.value) if isinstance(value.value, tuple) else f"{value.value:g}"
             typer.echo(f"  {name} = {shown}  [{value.clause}; {value.source}; {value.status}]")
+    from audit.standards import plausible
+    from audit.standards.packs import builtin_rules_dir
+
+    bounds = plausible.ranges()
+    typer.echo(f"plausible ranges (a value outside is refused)\n  file: {builtin_rules_dir() / plausible.FILE}")
+    named = [(f"fcp of {fam}", r) for fam, r in bounds.fcp.items()] + [(f"fc of {f}", r) for f, r in bounds.fc.items()]
+    named += [("load factor", bounds.load_factor), ("section dimension", bounds.section)]
+    for name, r in named:
+        typer.echo(f"  {name}: {r.shown()}  [{r.source}]")
 
 
 def _shown(name: str, value: object) -> str:
@@ -458,9 +508,12 @@ def _run(argv: list[str] | None) -> int:
 
     try:
         code = app(args=argv, standalone_mode=False)
-    except (KeyboardInterrupt, Interrupted):
+    except KeyboardInterrupt:
         typer.echo("error: interrupted; no output was written or replaced", err=True)
-        return 130
+        return 130  # 128 + SIGINT, as a shell reports it
+    except Interrupted as stop:
+        typer.echo("error: interrupted; no output was written or replaced", err=True)
+        return 128 + stop.signum  # 143 for SIGTERM, 129 for SIGHUP
     except typer.Exit as stop:
         return stop.exit_code
     except SystemExit as stop:

@@ -174,7 +174,7 @@ CHILD = textwrap.dedent(
 )
 
 
-@pytest.mark.parametrize("signum", [signal.SIGINT, signal.SIGTERM], ids=["SIGINT", "SIGTERM"])
+@pytest.mark.parametrize("signum", [signal.SIGINT, signal.SIGTERM, signal.SIGHUP], ids=["SIGINT", "SIGTERM", "SIGHUP"])
 def test_an_interrupted_write_leaves_no_outputs_and_no_temporary_files(tmp_path, signum):
     child = subprocess.Popen([sys.executable, "-c", CHILD, str(tmp_path)], cwd=ROOT)
     deadline = time.monotonic() + 20
@@ -231,3 +231,42 @@ def test_an_output_over_its_bound_writes_nothing(tmp_path):
     with pytest.raises(OutputError, match="nothing was written"):
         write_outputs([Output("--memo", memo, lambda: ("x" * 10 for _ in range(10)))], limit=64)
     assert list(tmp_path.iterdir()) == []
+
+
+def test_an_output_onto_a_bundled_rule_pack_is_refused_and_the_pack_kept(model_file, capsys):
+    from audit.standards.packs import builtin_rules_dir
+
+    pack = builtin_rules_dir() / "o86-2019-recalled.yaml"
+    before = pack.read_bytes()
+    code, err = _review(capsys, model_file, "--memo", pack)
+    assert code == 2 and _one_clear_line(err) and "rule pack" in err
+    assert pack.read_bytes() == before
+
+
+def test_expand_refuses_an_output_onto_a_pack_of_the_rules_dir(tmp_path, capsys):
+    from audit.standards.packs import builtin_rules_dir
+
+    own = tmp_path / "own"
+    own.mkdir()
+    pack = own / "mine.yaml"
+    pack.write_text(
+        (builtin_rules_dir() / "o86-2019-recalled.yaml").read_text().replace("id: o86-2019-recalled", "id: mine", 1)
+    )
+    before = pack.read_bytes()
+    model = ROOT / "fixtures" / "demo-layout" / "model.yaml"
+    code = run(["expand", str(model), "--rules-dir", str(own), "-o", str(pack)])
+    err = capsys.readouterr().err
+    assert code == 2 and _one_clear_line(err) and "rule pack" in err and pack.read_bytes() == before
+
+
+@pytest.mark.parametrize(("signum", "status"), [(signal.SIGTERM, 143), (signal.SIGHUP, 129)])
+def test_a_run_ended_by_a_signal_exits_with_128_plus_its_number(monkeypatch, capsys, signum, status):
+    from audit import cli
+    from audit.core.outfiles import Interrupted
+
+    def ended(*args, **kwargs):
+        raise Interrupted(signum)  # as the handler raises it while outputs are written
+
+    monkeypatch.setattr(cli, "app", ended)
+    assert cli.run(["review", "x.yaml"]) == status  # the shell's convention: 128 + the signal's number
+    assert "interrupted" in capsys.readouterr().err

@@ -165,7 +165,9 @@ def _run(model_text: bytes, claims: list | dict | str) -> None:
         assert code in (0, 1, 2), code
         assert "Traceback" not in text and "internal error" not in text, text
         if code == 2:
-            assert text.startswith("error: "), text
+            # one line per error, after any warnings (an invisible character is named before the errors it causes)
+            rest = [line for line in text.splitlines() if not line.startswith("warning: ")]
+            assert rest and rest[0].startswith("error: "), text
             return
         data = json.loads(out.read_text())
         check_ids = [c["id"] for c in data["checks"]]
@@ -258,3 +260,49 @@ def test_the_rich_base_model_itself_reviews_cleanly():
 
     review = review_dict(_rich_model())
     assert review.result("WP/WP.pack1:WP:near") and review.model.project.units == "US"
+
+
+def _run_round(last: str, log: str) -> None:
+    """A review of the hostile base model against a (forged) last round and comment log."""
+    import contextlib
+    import io
+
+    from fixtures.make_hostile_corpus import MODEL
+
+    with tempfile.TemporaryDirectory() as tmp:
+        folder = Path(tmp)
+        (folder / "model.yaml").write_text(MODEL, encoding="utf-8")
+        (folder / "last.json").write_text(last, encoding="utf-8", errors="surrogatepass")
+        (folder / "log.csv").write_text(log, encoding="utf-8", errors="surrogatepass")
+        err = io.StringIO()
+        with contextlib.redirect_stderr(err):
+            args = ["review", str(folder / "model.yaml"), "--previous", str(folder / "last.json")]
+            args += ["--responses", str(folder / "log.csv"), "--json", str(folder / "r.json")]
+            code = cli.run([*args, "--xlsx", str(folder / "r.xlsx"), "--memo", str(folder / "r.html")])
+        text = err.getvalue()
+        assert code in (0, 1, 2), code
+        assert "Traceback" not in text and "internal error" not in text, text
+        lines = [ln for ln in text.splitlines() if ln]
+        assert all(ln.startswith(("error: ", "warning: ")) or ln.endswith("nothing was reviewed.") for ln in lines)
+        if code != 2:
+            again = json.loads((folder / "r.json").read_text(encoding="utf-8"))
+            assert again["round"]["number"] >= 2
+
+
+@SETTINGS
+@given(mutations, st.lists(st.tuples(st.integers(0, 3), st.integers(0, 1), JUNK), max_size=4))
+def test_forged_last_rounds_and_comment_logs_end_in_0_1_or_2(round_mutations, log_mutations):
+    import csv
+    import io
+
+    from fixtures.make_hostile_corpus import PREVIOUS, RESPONSES
+
+    last = json.loads(PREVIOUS)
+    for choice, junk, action in round_mutations:
+        last = _mutate(last, choice, junk, action)
+    rows = list(csv.reader(io.StringIO(RESPONSES)))
+    for row, col, junk in log_mutations:
+        rows[row % len(rows)][col] = str(junk)
+    buffer = io.StringIO()
+    csv.writer(buffer).writerows(rows)
+    _run_round(json.dumps(last), buffer.getvalue())

@@ -100,3 +100,60 @@ def test_a_pdf_of_only_blank_pages_says_no_checks_were_found(tmp_path):
     done = _capped_child(["extract", str(tmp_path / "blank.pdf"), "-o", str(tmp_path / "b.yaml")])
     assert done.returncode == 2 and "no bearing checks found" in done.stderr
     assert not (tmp_path / "b.yaml").exists()
+
+
+def _pdf_with_a_form_object(path: Path, drawn: int) -> None:
+    """Page 1 draws its objects through one form object (a Do of a form XObject); page 2 is plain."""
+    crowded = b"".join(b"%d %d 0.2 0.2 re f\n" % (i % 600, (i // 600) % 780) for i in range(drawn))
+    objects: list[bytes] = []
+
+    def add(body: bytes) -> int:
+        objects.append(body)
+        return len(objects)
+
+    def stream(data: bytes, head: bytes = b"") -> int:
+        packed = zlib.compress(data, 9)
+        return add(b"<< %s/Length %d /Filter /FlateDecode >>\nstream\n" % (head, len(packed)) + packed + b"\nendstream")
+
+    font = add(b"<< /Type /Font /Subtype /Type1 /BaseFont /Helvetica >>")
+    form = stream(crowded, b"/Type /XObject /Subtype /Form /BBox [0 0 612 792] ")
+    first, second = stream(text_lines(EQUATION) + b"q /Fm1 Do Q\n"), stream(text_lines(EQUATION))
+    pages_id = len(objects) + 3
+    resources = b"/Resources << /Font << /F1 %d 0 R >> /XObject << /Fm1 %d 0 R >> >>" % (font, form)
+    kids = [
+        add(b"<< /Type /Page /Parent %d 0 R /MediaBox [0 0 612 792] /Contents %d 0 R %s >>" % (pages_id, c, resources))
+        for c in (first, second)
+    ]
+    assert add(b"<< /Type /Pages /Kids [%d 0 R %d 0 R] /Count 2 >>" % tuple(kids)) == pages_id
+    catalog = add(b"<< /Type /Catalog /Pages %d 0 R >>" % pages_id)
+    out = bytearray(b"%PDF-1.7\n")
+    offsets = []
+    for number, body in enumerate(objects, start=1):
+        offsets.append(len(out))
+        out += b"%d 0 obj\n" % number + body + b"\nendobj\n"
+    xref = len(out)
+    out += b"xref\n0 %d\n0000000000 65535 f \n" % (len(objects) + 1)
+    out += b"".join(b"%010d 00000 n \n" % o for o in offsets)
+    out += b"trailer\n<< /Size %d /Root %d 0 R >>\nstartxref\n%d\n%%%%EOF\n" % (len(objects) + 1, catalog, xref)
+    path.write_bytes(bytes(out))
+
+
+def test_drawing_objects_inside_a_form_object_count_against_the_page_limit(tmp_path):
+    _pdf_with_a_form_object(tmp_path / "form.pdf", 150_000)  # over the 100,000 of the settings, all in one form
+    done = _capped_child(["extract", str(tmp_path / "form.pdf"), "-o", str(tmp_path / "f.yaml")])
+    assert done.returncode == 0, done.stderr
+    assert "page 1:" in done.stderr and "too many to read; skipped" in done.stderr
+    assert "page: 2" in (tmp_path / "f.yaml").read_text() and "page: 1" not in (tmp_path / "f.yaml").read_text()
+
+
+def test_pages_past_the_documents_text_bound_are_named_not_read(tmp_path, monkeypatch):
+    from dataclasses import replace
+
+    from audit.inputs.pdf import pages
+    from audit.inputs.pdf.extract import extract
+
+    monkeypatch.setattr(pages, "SETTINGS", replace(pages.SETTINGS, max_document_text=100))
+    raw_pdf(tmp_path / "three.pdf", [text_lines(EQUATION)] * 3)  # about 70 characters a page
+    result = extract(tmp_path / "three.pdf")
+    assert [c.where.page for c in result.claims] == [1, 2]  # 70, then 140 > 100: page 3 is not read
+    assert any(w.startswith("page 3: not read") for w in result.warnings)

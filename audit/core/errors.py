@@ -6,7 +6,16 @@ raise them together so the reviewer fixes a file in one pass.
 
 from __future__ import annotations
 
+import unicodedata
 from dataclasses import dataclass
+
+
+def visible(text: str) -> str:
+    """Text with every invisible format or control character written as <U+XXXX>: a message must show
+    what is in an id (a zero-width space, a direction override that would reorder the line), not hide it."""
+    if text.isascii() and text.isprintable():
+        return text
+    return "".join(f"<U+{ord(ch):04X}>" if unicodedata.category(ch) in ("Cf", "Cc") else ch for ch in text)
 
 
 @dataclass(frozen=True, slots=True)
@@ -37,14 +46,15 @@ class InputError(ValueError):
         text = " ".join(self.message.split())
         if len(text) > 300:
             text = text[:297] + "..."
-        return f"{self.location}: {text}" if self.location else text
+        return visible(f"{self.location}: {text}" if self.location else text)
 
 
 class InputErrors(InputError):
     """Several input errors found in one pass."""
 
-    def __init__(self, errors: list[InputError]) -> None:
+    def __init__(self, errors: list[InputError], warnings: tuple[str, ...] = ()) -> None:
         self.errors = list(errors)
+        self.warnings = warnings  # found before the errors stopped the run, printed with them
         super().__init__(self.errors[0].message, self.errors[0].location)
 
     def lines(self) -> list[str]:
@@ -56,6 +66,7 @@ class ErrorCollector:
 
     def __init__(self) -> None:
         self.errors: list[InputError] = []
+        self.warnings: list[str] = []  # raised with the errors, so a warning that explains one is not lost
 
     def add(self, message: str, location: Location | None) -> None:
         self.errors.append(InputError(message, location))
@@ -70,4 +81,4 @@ class ErrorCollector:
         """Raise every error collected, once each: the same cause met at several places is one line."""
         if self.errors:
             unique = list({e.one_line(): e for e in self.errors}.values())
-            raise InputErrors(unique)
+            raise InputErrors(unique, tuple(dict.fromkeys(self.warnings)))

@@ -2,8 +2,8 @@
 
 Outputs are checked before anything is read (an output that is an input, another output, a
 link, a device, a directory or a FIFO is refused), written to temporary files beside their
-targets, and moved into place together only when every one is complete. SIGINT and SIGTERM
-are held off while the moves run, so an interrupted run leaves all of the outputs or none,
+targets, and moved into place together only when every one is complete. SIGINT, SIGTERM and
+SIGHUP are held off while the moves run, so an interrupted run leaves all of the outputs or none,
 and never a temporary file.
 """
 
@@ -182,21 +182,33 @@ def _write_temporary(path: Path, text: Chunks, option: str, limit: int | None = 
 
 
 class Interrupted(BaseException):
-    """SIGTERM while writing, turned into an exception so the temporary files are removed."""
+    """SIGTERM or SIGHUP while writing, turned into an exception so the temporary files are removed."""
+
+    @property
+    def signum(self) -> int:
+        return int(self.args[0]) if self.args else int(signal.SIGTERM)
+
+
+# signals that end a run while it writes: each unwinds like SIGINT, so the temporaries are removed
+# (SIGHUP: the terminal closed)
+ENDING = (signal.SIGTERM, signal.SIGHUP)
 
 
 @contextmanager
 def _signals_as_interrupts() -> Iterator[None]:
-    """Let SIGTERM unwind like SIGINT does, so cleanup runs (main thread only)."""
+    """Let SIGTERM and SIGHUP unwind like SIGINT does, so cleanup runs (main thread only)."""
+    previous = {}
     try:
-        previous = signal.signal(signal.SIGTERM, _raise_interrupted)
+        for signum in ENDING:
+            previous[signum] = signal.signal(signum, _raise_interrupted)
     except ValueError:  # not the main thread: nothing to install
         yield
         return
     try:
         yield
     finally:
-        signal.signal(signal.SIGTERM, previous)
+        for signum, handler in previous.items():
+            signal.signal(signum, handler)
 
 
 def _raise_interrupted(signum: int, frame: object) -> None:
@@ -205,8 +217,8 @@ def _raise_interrupted(signum: int, frame: object) -> None:
 
 @contextmanager
 def _signals_held() -> Iterator[None]:
-    """Hold SIGINT and SIGTERM while the moves run; they arrive once all outputs are in place."""
-    held = {signal.SIGINT, signal.SIGTERM}
+    """Hold SIGINT, SIGTERM and SIGHUP while the moves run; they arrive once all outputs are in place."""
+    held = {signal.SIGINT, *ENDING}
     previous = signal.pthread_sigmask(signal.SIG_BLOCK, held)
     try:
         yield

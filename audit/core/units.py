@@ -19,6 +19,8 @@ from audit.core.errors import InputError, Location
 UREG: pint.UnitRegistry = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
 UREG.define("plf = lbf / foot")
 UREG.define("klf = kip / foot")
+UREG.define("psf = lbf / foot ** 2")  # floor and roof loads in US practice (pint has no psf)
+UREG.define("ksf = kip / foot ** 2")
 
 # Largest plausible magnitude per dimension (SI): beyond it a value is a typo or a hostile file.
 LIMITS = {"length": 1e3, "force": 1e10, "line_load": 1e9, "stress": 1e10, "angle": 7.0, "area": 1e4}
@@ -34,6 +36,14 @@ DIMENSIONS: dict[str, tuple[str, str, str]] = {
 }
 
 
+# how a message names each dimension: the reviewer's words, not the program's keys
+SAID = {"line_load": "line load (force per length)", "stress": "stress or pressure"}
+
+
+def _said(dimension: str) -> str:
+    return SAID.get(dimension, dimension)
+
+
 class UnitProblem(ValueError):
     """A quantity string that cannot be read as the wanted dimension."""
 
@@ -44,14 +54,14 @@ def _parse_cached(text: str, dimension: str) -> float:
     try:
         q: Any = UREG.Quantity(text)
     except Exception:  # pint raises many kinds for unreadable text
-        raise UnitProblem(f"cannot read '{text}' as a {dimension} (e.g. {example})") from None
+        raise UnitProblem(f"cannot read '{text}' as a {_said(dimension)} (e.g. {example})") from None
     if not isinstance(q, UREG.Quantity):
-        raise UnitProblem(f"'{text}' has no unit; give a {dimension} such as {example}")
+        raise UnitProblem(f"'{text}' has no unit; give a {_said(dimension)} such as {example}")
     if dimension == "angle":
         if not (q.dimensionless and str(q.units) in {"degree", "radian", "arcminute"}):
             raise UnitProblem(f"'{text}' is not an angle (e.g. {example})")
     elif q.dimensionality != UREG.get_dimensionality(dim):
-        raise UnitProblem(f"'{text}' is a {_describe(q)}, not a {dimension} (e.g. {example})")
+        raise UnitProblem(f"'{text}' is a {_describe(q)}, not a {_said(dimension)} (e.g. {example})")
     value = float(q.to(si_unit).magnitude)
     if not math.isfinite(value):
         raise UnitProblem(f"'{text}' is not a finite number")
@@ -61,7 +71,7 @@ def _parse_cached(text: str, dimension: str) -> float:
 def _describe(q: pint.Quantity) -> str:
     for name, (dim, _, _) in DIMENSIONS.items():
         if dim and q.dimensionality == UREG.get_dimensionality(dim):
-            return name
+            return _said(name)
     if q.dimensionless:
         return "plain number"
     return f"quantity of dimension {q.dimensionality}"
@@ -106,23 +116,24 @@ def is_number_and_unit(text: str) -> bool:
 def parse_quantity(value: object, dimension: str, loc: Location) -> float:
     """Read a quantity (a string with a unit) into an SI float, or raise InputError."""
     if isinstance(value, bool) or value is None:
-        raise InputError(f"expected a {dimension} with a unit, got {value!r}", loc)
+        raise InputError(f"expected a {_said(dimension)} with a unit, got {value!r}", loc)
     if isinstance(value, (int, float)):
         example = DIMENSIONS[dimension][2]
-        raise InputError(f"bare number {value!r}: give a {dimension} with a unit (e.g. {example})", loc)
+        raise InputError(f"bare number {value!r}: give a {_said(dimension)} with a unit (e.g. {example})", loc)
     if not isinstance(value, str):
-        raise InputError(f"expected a {dimension} with a unit, got a {type(value).__name__}", loc)
+        raise InputError(f"expected a {_said(dimension)} with a unit, got a {type(value).__name__}", loc)
     if len(value) > 200:
-        raise InputError(f"value is {len(value)} characters long; expected a {dimension}", loc)
+        raise InputError(f"value is {len(value)} characters long; expected a {_said(dimension)}", loc)
     text = value.strip()
     if re.match(r"^[-+]?(?:inf|infinity|nan)\b", text, re.IGNORECASE):
         raise InputError(f"'{value}' is not a finite number", loc)
     if not is_number_and_unit(text):
         example = DIMENSIONS[dimension][2]
         if re.match(rf"^{_NUMBER}$", text):
-            raise InputError(f"'{value}' has no unit; give a {dimension} such as {example}", loc)
+            raise InputError(f"'{value}' has no unit; give a {_said(dimension)} such as {example}", loc)
         raise InputError(
-            f"'{value}' is not one number and a unit (arithmetic is not read); give a {dimension} such as {example}",
+            f"'{value}' is not one number and a unit (arithmetic is not read); give a {_said(dimension)} "
+            f"such as {example}",
             loc,
         )
     try:
@@ -130,7 +141,7 @@ def parse_quantity(value: object, dimension: str, loc: Location) -> float:
     except UnitProblem as exc:
         raise InputError(str(exc), loc) from None
     if abs(result) > LIMITS[dimension]:
-        raise InputError(f"'{value}' is implausibly large for a {dimension}", loc)
+        raise InputError(f"'{value}' is implausibly large for a {_said(dimension)}", loc)
     return result
 
 
@@ -174,6 +185,13 @@ class Display:
         """'12.34 kN', '2,775 lbf', '2.78 kip'."""
         digits = DECIMALS[self.force_unit]
         return f"{self.value(newtons):,.{digits}f} {self.force_unit}"
+
+    def force_not_zero(self, newtons: float) -> str:
+        """As ``force``, but a force that is not zero is never shown as one: 1.8 N is '0.0018 kN', not '0.00 kN'."""
+        shown = self.force(newtons)
+        if newtons == 0 or any(ch in "123456789" for ch in shown.split(" ")[0]):
+            return shown
+        return f"{self.value(newtons):.2g} {self.force_unit}"
 
     def number(self, newtons: float) -> str:
         digits = DECIMALS[self.force_unit]

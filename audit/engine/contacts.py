@@ -14,6 +14,11 @@ from audit.core.errors import InputError
 from audit.engine.model import Bearing, Load, Member, Model
 from audit.engine.take_down import AppliedForce
 
+# Ties are decided at a stated resolution, not by float noise: an end distance is taken to the
+# nearest micrometre (the resolution layouts are placed to), so 75 mm typed as 2.952756 in or as
+# 75 mm, or a support a nanometre from the end, give the same factors in SI and US input.
+LENGTH_RESOLUTION = 1e-6  # m
+
 
 @dataclass(frozen=True)
 class Contact:
@@ -82,7 +87,7 @@ def contact_on(member: Member, other: Member, bearing: Bearing) -> Contact:
         start, end = max(start, 0.0), min(end, member.length)
         length = end - start
         length_note += ", cut at the member end"
-    end_distance = min(start, member.length - end)
+    end_distance = round(min(start, member.length - end) / LENGTH_RESOLUTION) * LENGTH_RESOLUTION
     return Contact(bearing.id, length, width, end_distance, side.at, length_note, width_note, start)
 
 

@@ -2,7 +2,8 @@
 
 Each member spanning the area's way takes the strip of floor half way to its neighbours on
 either side (an edge member out to the area's edge), as a line load over the part of it that
-lies in the area; an opening takes its strip away where it crosses. What the members take adds
+lies in the area; an opening takes its strip away where it crosses (openings that overlap, or
+one listed twice, take their overlap away once). What the members take adds
 up to the whole area's load; a part of the area no member reaches is a warning, never dropped
 in silence. Each load says how its width was made.
 """
@@ -51,6 +52,7 @@ def area_shares(layout: Layout, placed: tuple[Placed, ...], errors: ErrorCollect
             errors.add(f"duplicate area id '{area_id}'", item.loc)
             continue
         seen.add(area_id)
+        warnings.extend(opening_warnings(item, read[3], read[4]))
         out.append((item, _shares(item, read, placed, errors, warnings)))
     return out
 
@@ -167,7 +169,7 @@ def _shares(item: Node, read, placed: tuple[Placed, ...], errors: ErrorCollector
     x0, y0, x1, y1 = rect
     (s_lo, s_hi), (c_lo, c_hi) = ((x0, x1), (y0, y1)) if span == "x" else ((y0, y1), (x0, x1))
     carriers = _carriers(item, read, placed, errors)
-    whole = (x1 - x0) * (y1 - y0) - sum(_overlap_area(o, rect) for o in openings)
+    whole = (x1 - x0) * (y1 - y0) - _open_area(openings, span, (s_lo, s_hi), (c_lo, c_hi))
     if not carriers:
         errors.add(f"area '{area_id}': no member spans it the {span} way", item.loc)
         return []
@@ -189,15 +191,12 @@ def _shares(item: Node, read, placed: tuple[Placed, ...], errors: ErrorCollector
             (p for (lo, hi), members in groups.items() if lo <= mid <= hi for p in members),
             key=lambda p: _cross(p, span),
         )
+        across = _openings_across(openings, span, mid)
         for n, p in enumerate(here):
             c = _cross(p, span)
             left = c_lo if n == 0 else (_cross(here[n - 1], span) + c) / 2
             right = c_hi if n == len(here) - 1 else (c + _cross(here[n + 1], span)) / 2
-            width = right - left
-            for o in openings:
-                os0, os1, oc0, oc1 = (o[0], o[2], o[1], o[3]) if span == "x" else (o[1], o[3], o[0], o[2])
-                if os0 <= mid <= os1:
-                    width -= max(0.0, min(oc1, right) - max(oc0, left))
+            width = right - left - _covered(across, left, right)
             if width <= 1e-9:
                 continue
             taken += width * (s1 - s0)
@@ -248,6 +247,65 @@ def _line_loads(cases, width: float) -> tuple[tuple[str, float], ...]:
         else:
             out.append((case, round(float(value) * width, 3)))
     return tuple(out)
+
+
+def _openings_across(openings: tuple[Rect, ...], span: str, s: float) -> list[tuple[float, float]]:
+    """The cross-span intervals of the openings that the line at span coordinate ``s`` passes through."""
+    out = []
+    for o in openings:
+        os0, os1, oc0, oc1 = (o[0], o[2], o[1], o[3]) if span == "x" else (o[1], o[3], o[0], o[2])
+        if os0 <= s <= os1:
+            out.append((oc0, oc1))
+    return out
+
+
+def _covered(intervals: list[tuple[float, float]], lo: float, hi: float) -> float:
+    """How much of lo..hi the intervals cover together: where openings overlap (or one is listed twice),
+    the overlap is open once, not twice."""
+    total, reach = 0.0, lo
+    for a, b in sorted(intervals):
+        a, b = max(a, reach), min(b, hi)
+        if b > a:
+            total += b - a
+            reach = b
+    return total
+
+
+def _open_area(
+    openings: tuple[Rect, ...], span: str, s_range: tuple[float, float], c_range: tuple[float, float]
+) -> float:
+    """The area the openings take out of the area together (their union inside it), slice by slice."""
+    s_lo, s_hi = s_range
+    edges = {s_lo, s_hi}
+    for o in openings:
+        edges.update(v for v in ((o[0], o[2]) if span == "x" else (o[1], o[3])) if s_lo < v < s_hi)
+    return sum(
+        (s1 - s0) * _covered(_openings_across(openings, span, (s0 + s1) / 2), *c_range)
+        for s0, s1 in itertools.pairwise(sorted(edges))
+    )
+
+
+def opening_warnings(item: Node, rect: Rect, openings: tuple[Rect, ...]) -> list[str]:
+    """An opening as large as its area or larger, or lying (partly) outside it, is most likely a typo."""
+    area_id = item.value["id"].value if isinstance(item.value, dict) and "id" in item.value else "area"
+    nodes = item.value["openings"].value if isinstance(item.value, dict) and "openings" in item.value else []
+    whole = (rect[2] - rect[0]) * (rect[3] - rect[1])
+    out = []
+    seen: set[Rect] = set()
+    for node, o in zip(nodes, openings, strict=False):
+        if o in seen:
+            out.append(f"{node.loc}: area '{area_id}': the same opening is listed twice; it is taken away once")
+        seen.add(o)
+        size, inside = (o[2] - o[0]) * (o[3] - o[1]), _overlap_area(o, rect)
+        if inside >= whole * (1 - 1e-9):
+            out.append(f"{node.loc}: area '{area_id}': the opening covers the whole area, which then carries nothing")
+        elif inside < size * (1 - 1e-9):
+            where = "lies outside the area" if inside <= 1e-12 else "lies partly outside the area"
+            out.append(
+                f"{node.loc}: area '{area_id}': the opening {where}; only the part inside "
+                f"({inside:.3f} of {size:.3f} m2) is taken away"
+            )
+    return out
 
 
 def _overlap_area(o: tuple[float, float, float, float], rect: tuple[float, float, float, float]) -> float:

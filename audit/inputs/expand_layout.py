@@ -255,11 +255,18 @@ def explicit_model_text(root: Node, sections: Sections, source: str, shown_as: s
 
 def explicit_model_file(path: Path, rules_dirs: tuple[Path, ...] = (), rule_pack: str | None = None) -> str:
     """Read and check a model (every error it would give a review), then write it out explicit."""
+    return explicit_model_with_warnings(path, rules_dirs, rule_pack)[0]
+
+
+def explicit_model_with_warnings(
+    path: Path, rules_dirs: tuple[Path, ...] = (), rule_pack: str | None = None
+) -> tuple[str, tuple[str, ...]]:
+    """The explicit model, and the warnings a review of it would give (an area no member reaches, ...)."""
     from audit.inputs.read_model import build_model
 
     root = read_yaml_file(path)
-    build_model(root, str(path), rules_dirs, rule_pack)
+    model = build_model(root, str(path), rules_dirs, rule_pack)[0]
     errors = ErrorCollector()
     sections = model_sections(root.value, root, errors)
     errors.raise_if_any()
-    return explicit_model_text(root, sections, str(path), path.name)
+    return explicit_model_text(root, sections, str(path), path.name), model.warnings

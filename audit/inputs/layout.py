@@ -28,6 +28,11 @@ from audit.inputs.fields import FieldReader, describe_value, did_you_mean, list_
 LAYOUT_KEYS = {"levels", "grids", "members", "runs", "posts", "walls", "areas"}
 # Fields a placed member passes to the member reader as written, so their errors point at the layout line.
 PASSED = ("material", "b", "d", "service", "KT", "support", "bears_on", "plies", "ply_thickness", "label", "studs")
+# The work is bounded per model, not per entry: ten runs each under its own cap would still place
+# hundreds of thousands of members from a few lines. Twice the largest building benchmarked
+# (50,000 bearings, about 25,000 members) is allowed.
+LAYOUT_MEMBERS = 50_000
+
 MEMBER_KEYS = {"id", "from", "to", "level", "drop", "extend", "free_ends", "calc_force", *PASSED}
 RUN_KEYS = {
     "id",
@@ -159,7 +164,13 @@ def read_layout(node: Node, errors: ErrorCollector) -> Layout | None:
     ):
         if f.has(key):
             for item in list_items(f.map[key], f"layout {key}", errors):
+                reader.room = LAYOUT_MEMBERS - len(placed)
+                if reader.room <= 0:
+                    errors.add(f"the layout places more than {LAYOUT_MEMBERS:,} members in all; split it", item.loc)
+                    return None
                 placed += read(item)
+                if reader.room < 0:  # the run that went past the bound said so: one error, no more work
+                    return None
     seen: dict[str, Location] = {}
     for p in placed:
         if p.id in seen:
@@ -224,6 +235,7 @@ class Placer:
         self.levels = levels
         self.grids = grids
         self.errors = errors
+        self.room = LAYOUT_MEMBERS  # members the layout may still place
 
     # ---- values
 
@@ -470,6 +482,13 @@ class Placer:
         if (reach - first) / spacing > 20000:
             self.errors.add(f"run '{run_id}' would place more than 20000 members", item.loc)
             return []
+        if (reach - first) / spacing + 1 > self.room:
+            self.errors.add(
+                f"run '{run_id}' would take the layout past {LAYOUT_MEMBERS:,} members in all; split the layout",
+                item.loc,
+            )
+            self.room = -1
+            return []
         offsets = [first + k * spacing for k in range(math.floor((reach - first) / spacing + 1e-9) + 1)]
         if reach - offsets[-1] >= b - 1e-9:
             offsets.append(reach)  # the last member of the run, ``last`` short of its far line
@@ -507,6 +526,21 @@ class Placer:
             )
         return out
 
+    def foot_below_top(
+        self, f: FieldReader, what: str, base: tuple[str, float], drop: float, top: tuple[str, float]
+    ) -> bool:
+        """A drop (negative: raised) that puts the foot at or above the top is the post's or wall's own
+        error, not a fault of the member it was to carry."""
+        foot = base[1] - drop
+        if foot < top[1]:
+            return True
+        self.errors.add(
+            f"{what}: with drop {drop * 1000:g} mm below level {base[0]} its foot is at {foot:.3f} m, not below "
+            f"its top at level {top[0]} ({top[1]:.3f} m)",
+            f.loc("drop"),
+        )
+        return False
+
     def post(self, item: Node) -> list[Placed]:
         f = FieldReader(item, POST_KEYS, self.errors, "layout post")
         post_id = f.text("id", limit=120)
@@ -521,6 +555,8 @@ class Placer:
             return []
         if top[1] <= base[1]:
             self.errors.add(f"post '{post_id}': top level {top[0]} is not above base level {base[0]}", f.loc("top"))
+            return []
+        if not self.foot_below_top(f, f"post '{post_id}'", base, drop, top):
             return []
         b, d = section
         footprint = box(at, d, b) if d_along == "x" else box(at, b, d)
@@ -559,6 +595,8 @@ class Placer:
             return []
         if top[1] <= base[1]:
             self.errors.add(f"wall '{wall_id}': top level {top[0]} is not above base level {base[0]}", f.loc("top"))
+            return []
+        if not self.foot_below_top(f, f"wall '{wall_id}'", base, drop, top):
             return []
         axis = self.horizontal_axis(f, start, end, f"wall '{wall_id}'")
         if axis is None:

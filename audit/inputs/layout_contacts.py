@@ -163,7 +163,19 @@ def _contact(
         lo, hi = extent(region, beam.axis.across)
         if abs((hi - lo) - min(post.b, beam.b)) > 1e-6:
             width = round(hi - lo, ROUND)  # a turned post: its d lies across the member it meets
-    return Found(upper, lower, _side(upper, region), _side(lower, region), width, x, y, region)
+    upper_side, lower_side = _side(upper, region), _side(lower, region)
+    if upper.axis is not None and lower.axis is not None:
+        # within SQUARE of square the crossing counts as square, its contact too: along each member no
+        # longer than the other is wide (a member a hair off its grid line must not make a longer bearing)
+        upper_side = _at_most(upper_side, lower.b)
+        lower_side = _at_most(lower_side, upper.b)
+    return Found(upper, lower, upper_side, lower_side, width, x, y, region)
+
+
+def _at_most(side: SideAt, length: float) -> SideAt:
+    if side.length is None or side.length <= length:
+        return side
+    return SideAt(side.at, round(length, ROUND))
 
 
 def _side(p: Placed, region: Polygon) -> SideAt:

@@ -150,9 +150,16 @@ def build_model(
     _check_readings(project, resistance, top.map["project"], errors)
 
     materials = _read_materials(top.map["materials"], resistance, errors)
+    # a material with an error is still known, so its members are read for their own errors (one pass)
+    named = top.map["materials"].value if isinstance(top.map["materials"].value, dict) else {}
+    broken_materials = frozenset(str(k) for k in named) - materials.keys()
+    found = len(errors.errors)
     sections = model_sections(top.map, root, errors)
-    errors.raise_if_any()  # the layout's own errors first: what it would have placed is not there to read
-    members, broken, walls = _read_members(_listed(sections.members, root, "members"), materials, project, errors)
+    if len(errors.errors) > found:
+        errors.raise_if_any()  # the layout's own errors first: what it would have placed is not there to read
+    members, broken, walls = _read_members(
+        _listed(sections.members, root, "members"), materials, project, errors, broken_materials
+    )
     placed = _place_walls(members, walls, errors)
     known = KnownMembers(members, broken)
     bearings = _read_bearings(_listed(sections.bearings, root, "bearings"), known, combos, errors)
@@ -162,11 +169,13 @@ def build_model(
             errors.add(f"bearing id '{b.id}' is also the bearing of a stud placed under '{b.upper.member}'", b.loc)
     bearings += placed
     loads, groups = _read_loads(_listed(sections.loads, root, "loads"), known, combos, errors)
+    errors.warnings.extend(_id_warnings(members, bearings, loads))  # shown even if errors stop the run
+    errors.warnings.extend(_light_load_warnings(members, materials, loads, resistance))
     errors.raise_if_any()
     _check_support_graph(members, bearings, errors)
     _check_loads_within_members(members, loads, errors)
     errors.raise_if_any()
-    warnings = sections.warnings + tuple(_id_warnings(members, bearings, loads))
+    warnings = sections.warnings + tuple(errors.warnings)
     frame = None
     if sections.layout is not None:
         frame = Frame(dict(sections.layout.levels), dict(sections.layout.grids.x), dict(sections.layout.grids.y))
@@ -299,8 +308,14 @@ def _material_of_family(
 ) -> Material | None:
     loc = f.node.loc
     if family == "engineered":
+        from audit.standards import plausible
+
         fcp = f.quantity("fcp", "stress", positive=True)
         fc = f.quantity("fc", "stress", required=False, positive=True)
+        bounds = plausible.ranges()
+        for key, value, within in (("fcp", fcp, bounds.fcp), ("fc", fc, bounds.fc)):
+            if value is not None and not plausible.check(value, within.get(family), key, f.loc(key), errors):
+                return None
         source = f.text("source")
         applies: set[str] = set()
         if f.has("factors"):
@@ -339,7 +354,8 @@ def _material_of_family(
     species = next((name for name in table if name.casefold() == species.casefold()), species)
     if species not in table:
         errors.add(
-            f"species '{species}' is not in rule pack {pack.id} for {family} (known: {', '.join(table) or 'none'})",
+            f"species '{species}' is not in rule pack {pack.id} for {family}{did_you_mean(species, table)} "
+            f"(known: {', '.join(table) or 'none'})",
             f.loc("species"),
         )
         return None
@@ -347,8 +363,8 @@ def _material_of_family(
     grade = next((name for name in strength.grades if name.casefold() == grade.casefold()), grade)
     if strength.grades and grade not in strength.grades:
         errors.add(
-            f"grade '{grade}' is not listed for {family} {species} in rule pack {pack.id} "
-            f"(known: {', '.join(strength.grades)})",
+            f"grade '{grade}' is not listed for {family} {species} in rule pack {pack.id}"
+            f"{did_you_mean(grade, strength.grades)} (known: {', '.join(strength.grades)})",
             f.loc("grade"),
         )
         return None
@@ -389,21 +405,30 @@ class KnownMembers:
 
 
 def _read_members(
-    node: Node, materials: dict[str, Material], project: Project, errors: ErrorCollector
+    node: Node,
+    materials: dict[str, Material],
+    project: Project,
+    errors: ErrorCollector,
+    broken_materials: frozenset[str] = frozenset(),
 ) -> tuple[dict[str, Member], frozenset[str], tuple[StudWall, ...]]:
     out: dict[str, Member] = {}
     broken: set[str] = set()
+    twins: dict[str, str] = {}
     walls: list[StudWall] = []
     for item in list_items(node, "members", errors):
         f = FieldReader(item, MEMBER_KEYS, errors, "member")
         member_id = f.text("id", limit=120)
         material = f.text("material")
-        if f.ok and material not in materials:
+        if f.ok and material in broken_materials:
+            f.ok = False  # its material's error is reported where the material is; its other fields still are
+        elif f.ok and material not in materials:
             errors.add(f"unknown material '{material}'{did_you_mean(material, materials)}", f.loc("material"))
             f.ok = False
         b = f.quantity("b", "length", positive=True)
         d = f.quantity("d", "length", positive=True)
         length = f.quantity("length", "length", positive=True)
+        if not _plausible_section(f, b, d, length, errors):
+            f.ok = False
         orientation = f.choice("orientation", ("horizontal", "vertical"), required=False, default="horizontal")
         service = f.choice("service", SERVICES, required=False, default=project.service)
         kt = f.number("KT", 0.01, 1.5, 1.0)
@@ -416,6 +441,9 @@ def _read_members(
         place = _read_place(f, orientation == "vertical", length) if f.has("place") else None
         if member_id in out:
             errors.add(f"duplicate member id '{member_id}'", f.loc("id"))
+            continue
+        if _case_twin(member_id, "member", twins, f.loc("id"), errors):
+            broken.add(member_id)  # named elsewhere, it is known: one error, not one per reference
             continue
         if not f.ok or b is None or d is None or length is None:
             if member_id:
@@ -635,11 +663,60 @@ def _read_side(node: Node, role: str, known: KnownMembers, errors: ErrorCollecto
     return Side(member_id, at, length, angle, width, node.loc)
 
 
+def _light_load_warnings(
+    members: dict[str, Member], materials: dict[str, Material], loads: tuple[Load, ...], pack: PackCore
+) -> list[str]:
+    from audit.standards import plausible
+
+    def timber(m: Member) -> bool:
+        return m.material in materials and pack.is_timber(materials[m.material].family)
+
+    return plausible.light_load_warnings(members, loads, timber)
+
+
+def _plausible_section(
+    f: FieldReader, b: float | None, d: float | None, length: float | None, errors: ErrorCollector
+) -> bool:
+    """b and d within the plausible section range (refused outside: 38 m for 38 mm); one longer than the
+    member itself is a warning (a short block is possible, a slip likelier)."""
+    from audit.standards import plausible
+
+    ok = True
+    for key, value in (("b", b), ("d", d)):
+        if value is None:
+            continue
+        if not plausible.check(value, plausible.ranges().section, key, f.loc(key), errors):
+            ok = False
+        elif length is not None and value > length:
+            errors.warnings.append(
+                f"{f.loc(key)}: {key} = {value * 1000:g} mm is more than the member's length "
+                f"({length * 1000:g} mm): a unit slip?"
+            )
+    return ok
+
+
+def _case_twin(item_id: str, what: str, twins: dict[str, str], where: Location, errors: ErrorCollector) -> bool:
+    """Refuse an id that differs from an earlier one only in case or spacing: labels and claims are matched
+    without either, so a claim meant for one would land on the other (as an alias that is another's id would)."""
+    if not item_id:
+        return False
+    first = twins.setdefault(normalise_label(item_id), item_id)
+    if first == item_id:
+        return False
+    errors.add(
+        f"{what} id '{item_id}' differs from {what} '{first}' only in case or spacing; calc labels are matched "
+        "without either, so give it an id of its own",
+        where,
+    )
+    return True
+
+
 def _read_bearings(
     node: Node, known: KnownMembers, combos: CombinationPack, errors: ErrorCollector
 ) -> tuple[Bearing, ...]:
     out: list[Bearing] = []
     seen: dict[str, Location] = {}
+    twins: dict[str, str] = {}
     aliases_seen: dict[str, str] = {}
     for item in list_items(node, "bearings", errors):
         f = FieldReader(item, BEARING_KEYS, errors, "bearing")
@@ -668,6 +745,8 @@ def _read_bearings(
         if bearing_id in seen:
             hint = "" if f.has("id") else " (two bearings join the same members: give each an 'id')"
             errors.add(f"duplicate bearing id '{bearing_id}'{hint}", f.loc("id") if f.has("id") else item.loc)
+            continue
+        if _case_twin(bearing_id, "bearing", twins, f.loc("id") if f.has("id") else item.loc, errors):
             continue
         seen[bearing_id] = item.loc
         for alias in aliases:
@@ -773,6 +852,8 @@ def _read_loads(
             continue
         found = known.resolve(member_id, f.loc("member"), errors)
         if found is None:
+            if member_id in known.broken:
+                _check_load_values(f, kind, combos, errors)  # its own errors too, in the same pass
             continue
         member = found
         load_id = f.text("id", required=False) or f"load{index + 1}"
@@ -831,6 +912,20 @@ def _read_loads(
         for case, value in entries:
             out.append(Load(load_id, member_id, kind, case, value, at, start, end, length, width, note, item.loc))
     return tuple(out), groups
+
+
+def _check_load_values(f: FieldReader, kind: str, combos: CombinationPack, errors: ErrorCollector) -> None:
+    """The values of a load on a member with an error of its own: read for their own errors only."""
+    dimension = "force" if kind == "point" else "line_load"
+    if f.has("specified"):
+        s = FieldReader(f.map["specified"], set(combos.cases), errors, "specified loads")
+        for case in s.map:
+            if case == "W" and isinstance(s.map[case].value, dict):
+                _wind_both_ways(s.map[case], dimension, errors)
+            elif case in combos.cases:
+                s.quantity(case, dimension)
+    elif f.has("factored"):
+        f.quantity("factored", dimension)
 
 
 def _wind_both_ways(node: Node, dimension: str, errors: ErrorCollector) -> list[tuple[str, float]]:

@@ -16,10 +16,7 @@ a later round refuses a file that is not an earlier round of the same project.
 
 from __future__ import annotations
 
-import csv
 import hashlib
-import io
-import json
 from dataclasses import dataclass, field, replace
 from pathlib import Path
 from typing import Any
@@ -28,6 +25,7 @@ from audit.core.errors import ErrorCollector, InputError, Location
 from audit.core.outfiles import require_input_file
 from audit.engine.model import Model, normalise_label
 from audit.review.comments import Comment
+from audit.review.round_files import check_response_rows, load_round_json, read_csv_rows, read_workbook_rows
 
 STATUSES = ("new", "open", "changed", "split", "deferred", "merged", "closed", "withdrawn")
 ASKING = ("new", "open", "changed", "split")  # statuses of a comment that still asks for something
@@ -423,16 +421,8 @@ def _ended(mapped: list[tuple[Key | None, str]], quiet_at: dict[Key, str]) -> tu
 def read_last_round(path: Path, project: str) -> LastRound:
     """The comments of an earlier round's JSON; refused unless it is an earlier round of this project."""
     where = Location(str(path))
-    require_input_file(path, "--previous")
-    try:
-        data = json.loads(path.read_text(encoding="utf-8"))
-    except (UnicodeDecodeError, json.JSONDecodeError) as exc:
-        raise InputError(f"--previous: not the JSON of a review ({exc.__class__.__name__})", where) from None
-    if not isinstance(data, dict) or data.get("tool", {}).get("name") != "bearing-audit":
-        raise InputError("--previous: not the JSON of a bearing-audit review (no 'tool')", where)
-    round_ = data.get("round")
-    if not isinstance(round_, dict) or not isinstance(round_.get("number"), int):
-        raise InputError("--previous: the JSON states no review round (written by an older version?)", where)
+    data = load_round_json(path)  # every value read below is checked there, each fault located
+    round_ = data["round"]
     theirs = str(round_.get("project", ""))
     if normalise_label(theirs) != normalise_label(project):
         raise InputError(
@@ -531,31 +521,9 @@ def read_log(path: Path) -> Answers:
     """The responses and dispositions of the last round's comment log (CSV or workbook)."""
     require_input_file(path, "--responses")
     if path.suffix.lower() == ".xlsx":
-        return _log_from_workbook(path)
-    try:
-        text = path.read_text(encoding="utf-8-sig")
-    except UnicodeDecodeError:
-        raise InputError("--responses: not a UTF-8 CSV comment log", Location(str(path))) from None
-    rows = list(csv.reader(io.StringIO(text)))
-    return _answers(rows, 0, str(path))
-
-
-def _log_from_workbook(path: Path) -> Answers:
-    from zipfile import BadZipFile
-
-    from openpyxl import load_workbook
-
-    try:
-        book = load_workbook(path, read_only=True, data_only=True)
-    except (BadZipFile, OSError, KeyError, ValueError) as exc:
-        raise InputError(
-            f"--responses: not a readable workbook ({exc.__class__.__name__})", Location(str(path))
-        ) from None
-    if "Comments" not in book.sheetnames:
-        raise InputError("--responses: the workbook has no sheet 'Comments'", Location(str(path)))
-    rows = [["" if v is None else str(v) for v in row] for row in book["Comments"].iter_rows(values_only=True)]
-    book.close()
-    return _answers(rows, 1, f"{path} [Comments]")
+        rows = read_workbook_rows(path, "Comments", (LOG_COLUMNS["number"][1], LOG_COLUMNS["response"][1]))
+        return _answers(rows, 1, f"{path} [Comments]")
+    return _answers(read_csv_rows(path), 0, str(path))
 
 
 def _answers(rows: list[list[str]], form: int, name: str) -> Answers:
@@ -569,6 +537,7 @@ def _answers(rows: list[list[str]], form: int, name: str) -> Answers:
             raise InputError(
                 f"--responses: no column '{LOG_COLUMNS[needed][form]}' in the comment log", Location(name, 1)
             )
+    check_response_rows(rows, LOG_COLUMNS["number"][form], LOG_COLUMNS["response"][form], name)
     responses: dict[int, list[str]] = {}
     dispositions: dict[int, Disposition] = {}
 

@@ -184,7 +184,7 @@ def uplift(bearing: str, placed: str, force: float, small: bool, threshold: floa
         if small
         else "a bearing cannot resist uplift, confirm the tie-down."
     )
-    return f"Bearing {bearing}: {placed} gives an upward force of {d.force(force)}; {advice}"
+    return f"Bearing {bearing}: {placed} gives an upward force of {d.force_not_zero(force)}; {advice}"
 
 
 def no_bearing_length(member: str, loads: list[str]) -> str:

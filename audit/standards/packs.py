@@ -20,6 +20,7 @@ from audit.core.errors import ErrorCollector, InputError, Location
 from audit.core.located_yaml import Node, node_text, read_yaml_file
 from audit.core.units import parse_quantity
 from audit.engine.model import STORAGE_LIVE, base_case
+from audit.standards import plausible
 
 DURATIONS = ("permanent", "standard", "short")
 # The two-way readings every resistance pack states, as (section, key); a project selects one
@@ -393,6 +394,18 @@ def _long_term(node: Node, _parent: Node) -> dict[str, float]:
     return {k: _number(v) for k, v in node.value.items()}
 
 
+def _plausible_strength(value: Any, name: str, family: str, node: Node, errors: ErrorCollector) -> bool:
+    """A strength (or one per grade) within the plausible range of its family; errors where it is not."""
+    bounds = (plausible.ranges().fcp if name == "fcp" else plausible.ranges().fc).get(family)
+    raw = node.value["value"]
+    if isinstance(value, dict):
+        return all(
+            plausible.check(v, bounds, f"{name} of {family} grade {g}", raw.value[g].loc, errors)
+            for g, v in value.items()
+        )
+    return plausible.check(value, bounds, f"{name} of {family}", raw.loc, errors)
+
+
 def read_core_fields(root: Node, r: PackReader, errors: ErrorCollector) -> dict[str, Any]:
     """The fields every standard's pack states: strengths, compression parallel, families, clauses, uplift note."""
     get = root.value.get
@@ -409,6 +422,8 @@ def read_core_fields(root: Node, r: PackReader, errors: ErrorCollector) -> dict[
         fcp[fam] = {}
         for sp, sp_node in fam_node.value.items():
             s = r.sourced(sp_node, _stress)
+            if s is not None and not _plausible_strength(s.value, "fcp", fam, sp_node, errors):
+                continue
             grades_node = sp_node.value.get("grades") if isinstance(sp_node.value, dict) else None
             grades = tuple(node_text(g) for g in grades_node.value) if grades_node else ()
             tension = _tension_face(sp_node, s, errors)
@@ -417,7 +432,11 @@ def read_core_fields(root: Node, r: PackReader, errors: ErrorCollector) -> dict[
     fc: dict[str, dict[str, Sourced]] = {}
     fc_node = get("fc")
     for fam, fam_node in fc_node.value.items() if fc_node else []:
-        fc[fam] = {sp: s for sp, n in fam_node.value.items() if (s := r.sourced(n, _stress_by_grade))}
+        fc[fam] = {
+            sp: s
+            for sp, n in fam_node.value.items()
+            if (s := r.sourced(n, _stress_by_grade)) and _plausible_strength(s.value, "fc", fam, n, errors)
+        }
 
     clauses_node = sub(root, "clauses")
     return {
@@ -620,6 +639,9 @@ def read_combination_pack(root: Node, path: str) -> CombinationPack:
                 continue
             try:
                 factors[case] = _number(val, -10.0, 10.0)
+                plausible.check(
+                    factors[case], plausible.ranges().load_factor, f"load factor of {case}", val.loc, errors
+                )
             except InputError as exc:
                 errors.extend(exc)
         src = Sourced(None, r.text(item, "clause", ""), r.text(item, "source"), r.text(item, "status"))
@@ -707,6 +729,7 @@ def load_all_packs(
 
     resistance: dict[str, PackCore] = {}
     combos: dict[str, CombinationPack] = {}
+    ids: dict[tuple[str, str], tuple[Path, Location]] = {}  # (kind, id) -> the file that gave it, and where
     for path in pack_files(extra_dirs):
         root = read_yaml_file(path)
         if not isinstance(root.value, dict):
@@ -719,13 +742,38 @@ def load_all_packs(
                 str(named.value) if named is not None else "o86", named.loc if named else root.loc
             )
             pack = standard.read_pack(root, str(path))
-            resistance.setdefault(pack.id, pack)
+            _refuse_same_id(("resistance", pack.id), path, root, ids)
+            resistance[pack.id] = pack
+        elif kind_value == plausible.KIND and path.parent == builtin_rules_dir():
+            continue  # the plausible ranges (standards/plausible.py): bounds, not a pack to select
         elif kind_value == "combinations":
             cpack = read_combination_pack(root, str(path))
-            combos.setdefault(cpack.id, cpack)
+            _refuse_same_id(("combinations", cpack.id), path, root, ids)
+            combos[cpack.id] = cpack
         else:
             raise InputError("kind must be 'resistance' or 'combinations'", root.child_loc("kind"))
     return resistance, combos
+
+
+def _refuse_same_id(
+    key: tuple[str, str], path: Path, root: Node, ids: dict[tuple[str, str], tuple[Path, Location]]
+) -> None:
+    """Two packs of one id: whichever came first would win without a word, so neither is used. The
+    reviewer's own pack is blamed (the bundled one is not theirs to change)."""
+    node = root.value.get("id") if isinstance(root.value, dict) else None
+    where = node.loc if node is not None else root.child_loc("id")
+    if key not in ids:
+        ids[key] = (path, where)
+        return
+    earlier, earlier_where = ids[key]
+    bundled = path.parent == builtin_rules_dir()
+    other, blamed = (path, earlier_where) if bundled else (earlier, where)
+    whose = "a bundled pack" if bundled else "the pack"
+    raise InputError(
+        f"rule pack id '{key[1]}' is also the id of {whose} {other}; give each pack its own id (a pack of "
+        "your own is selected by its id: copy the bundled one and give the copy a new id)",
+        blamed,
+    )
 
 
 def select_packs(

@@ -56,6 +56,23 @@ def open_document(path: Path):
         raise InputError(f"the PDF is damaged or truncated and cannot be read ({exc})", where) from None
 
 
+def count_objects(raw, page, limit: int) -> int:
+    """A page's drawing objects, those inside form objects (nested or not) included; the count stops once
+    it passes ``limit``, so a page of a million objects costs no more than the limit to count."""
+    total = 0
+    todo = [(None, raw.FPDFPage_CountObjects(page))]  # (form object or None for the page, its object count)
+    while todo and total <= limit:
+        form, count = todo.pop()
+        total += max(count, 0)
+        for i in range(max(count, 0)):
+            if total > limit:
+                break
+            obj = raw.FPDFPage_GetObject(page, i) if form is None else raw.FPDFFormObj_GetObject(form, i)
+            if obj and raw.FPDFPageObj_GetType(obj) == raw.FPDF_PAGEOBJ_FORM:
+                todo.append((obj, raw.FPDFFormObj_CountObjects(obj)))
+    return total
+
+
 def scan_pages(
     path: Path, pages: list[int], any_text: bool = False, read: dict | None = None
 ) -> tuple[list[int], list[int], list[str]]:
@@ -70,11 +87,20 @@ def scan_pages(
 
     doc = open_document(path)
     candidates, empty, warnings = [], [], []
+    scanned = 0  # characters of the pages read so far: the work is bounded per document, not per page
     try:
-        for number in pages:
+        for at, number in enumerate(pages):
+            if scanned > SETTINGS.max_document_text:
+                rest = pages[at:]
+                span = f"page {rest[0]}" if len(rest) == 1 else f"pages {rest[0]} to {rest[-1]} ({len(rest)} pages)"
+                warnings.append(
+                    f"{span}: not read, the pages before already hold more than {SETTINGS.max_document_text:,} "
+                    "characters (the bound of one document's work); give --pages to read the rest"
+                )
+                break
             try:
                 page = doc[number - 1]
-                objects = pdfium_raw.FPDFPage_CountObjects(page.raw)
+                objects = count_objects(pdfium_raw, page.raw, SETTINGS.max_page_objects)
                 if objects > SETTINGS.max_page_objects:
                     warnings.append(f"page {number}: {objects} drawing objects, too many to read; skipped")
                     page.close()
@@ -84,6 +110,7 @@ def scan_pages(
                 if count > SETTINGS.max_page_text:
                     warnings.append(f"page {number}: {count} characters, too many to read; skipped")
                     continue
+                scanned += count
                 text = textpage.get_text_range() if count else ""
                 candidate = bool(text.strip()) and (any_text or CANDIDATE.search(text) is not None)
                 # the page after a candidate too: a table may go on over the page without a header

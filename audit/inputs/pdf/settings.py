@@ -18,6 +18,7 @@ class Tolerances:
     footer_lines: int = 3  # a table whose last row is this near the foot of the page may go on
     max_page_text: int = 400_000  # characters; a page with more is skipped with a warning
     max_page_objects: int = 100_000  # drawing objects; a page with more is skipped with a warning
+    max_document_text: int = 20_000_000  # characters in all pages read; the pages past it are named, not read
 
 
 SETTINGS = Tolerances()
