@@ -125,7 +125,7 @@ def review(
     from audit.report.export import check_table, summary_line
     from audit.report.memo import MemoOptions, appendix_chunks, findings_json_chunks, memo_chunks
     from audit.review.comments import build_comments
-    from audit.review.reconcile import reconcile
+    from audit.review.reconcile import failing_without_claims, reconcile
     from audit.review.review import review_model
     from audit.review.round_files import responses_left_out
     from audit.review.rounds import (
@@ -175,7 +175,7 @@ def review(
         typer.echo(f"warning: {visible(warning)}", err=True)
     input_bytes = max(input_bytes, expanded_bytes(result.model))
     rec = reconcile(result, claim_list) if (claims or calc_pdf) else None
-    findings = rec.findings if rec else result.engine_findings
+    findings = rec.findings if rec else result.engine_findings + failing_without_claims(result)
     comments = build_comments(result, rec, claim_list)
     inputs = input_hashes({"model": model, "claims": claims, "calc_pdf": calc_pdf, "map": column_map})
     title = result.model.project.title

@@ -21,7 +21,7 @@ from audit.inputs.read_claims import Claim
 from audit.report.export import check_record, name_of
 from audit.review.comments import WEIGHT_WORDS, Comment, build_comments
 from audit.review.findings import KINDS, SEVERITIES, Finding
-from audit.review.reconcile import Reconciliation
+from audit.review.reconcile import Reconciliation, failing_without_claims
 from audit.review.review import Review, uplift_threshold
 from audit.review.rounds import Round
 
@@ -463,7 +463,7 @@ class _Context:
 def _context(
     review: Review, reconciliation: Reconciliation | None, claims: tuple[Claim, ...], options: MemoOptions
 ) -> _Context:
-    findings = reconciliation.findings if reconciliation else review.engine_findings
+    findings = reconciliation.findings if reconciliation else review.engine_findings + failing_without_claims(review)
     counts = {k: 0 for k in KINDS}
     for f in findings:
         counts[f.kind] += 1

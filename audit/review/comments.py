@@ -30,7 +30,7 @@ from audit.inputs.read_claims import Claim
 from audit.review import wording
 from audit.review.details import detail_of, member_roles
 from audit.review.findings import KINDS, WEIGHTS, Finding, severity_rank
-from audit.review.reconcile import Reconciliation
+from audit.review.reconcile import Reconciliation, failing_without_claims
 from audit.review.review import Review
 from audit.standards.checks import NEAR, RequiredCheck
 
@@ -174,7 +174,7 @@ def build_comments(review: Review, rec: Reconciliation | None, claims: tuple[Cla
     labels = {c.id: c.label for c in claims}
     claim_of = {c.id: c for c in claims}
     units = {c.id: c.unit for c in claims if c.unit}
-    findings = rec.findings if rec is not None else review.engine_findings
+    findings = rec.findings if rec is not None else review.engine_findings + failing_without_claims(review)
     by_check: dict[str, list[Finding]] = defaultdict(list)
     loose: list[Finding] = []
     for f in findings:

@@ -813,7 +813,18 @@ def _location(result: CheckResult, review: Review) -> str:
     return f"bearing {bearing.id}{aliases}"
 
 
-def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> CheckOutcome:
+def failing_without_claims(review: Review) -> tuple[Finding, ...]:
+    """A review run with no claims yet still has a comment for each check that fails on recomputation."""
+    return tuple(
+        f
+        for r in review.results
+        if not r.passes
+        for f in _check_outcome(r, None, review, claims_given=False).findings
+        if f.kind == "failing"
+    )
+
+
+def _check_outcome(result: CheckResult, claim: Claim | None, review: Review, claims_given: bool = True) -> CheckOutcome:
     check, g = result.check, result.governing
     clause = review.pack.clause_for(review.model.material_of(check.member).family, check.kind)
     where = _location(result, review)
@@ -834,7 +845,9 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review) -> 
         said_ok = claim is None or claim.adequate is not False
         severity = "safety" if said_ok else "revise"
         stance = (
-            "the calc does not check it"
+            "no claims of the calc were given to compare"
+            if not claims_given
+            else "the calc does not check it"
             if claim is None
             else "the calc calls it adequate"
             if claim.adequate is not False
