@@ -6,14 +6,16 @@ from tests.benchmarks import bench_scale
 
 
 def test_scale_benchmark_completes_with_well_formed_output(capsys):
-    assert bench_scale.main(["--sizes", "1000", "--no-report", "--no-browser"]) == 0
+    assert bench_scale.main(["--sizes", "1000", "--repeat", "1", "--no-report", "--no-browser"]) == 0
     out = capsys.readouterr().out
     assert "| bearings | checks |" in out
     lines = out.splitlines()
     header = next(i for i, line in enumerate(lines) if line.startswith("| bearings | checks |"))
     row = lines[header + 2]  # the row under the header's separator
     cells = [c.strip() for c in row.strip("|").split("|")]
-    assert len(cells) == 7 and float(cells[2]) > 0 and float(cells[3]) > 0
+    assert len(cells) == 12 and float(cells[2]) > 0 and float(cells[3]) > 0
+    # both floors are measured (collector on and off), and the ratio to each is given
+    assert float(cells[4]) > 0 and float(cells[5]) > 0 and float(cells[6]) > 0 and float(cells[7].strip("*")) > 0
 
 
 def test_pattern_benchmark_completes_and_finds_continuous_members(capsys):
