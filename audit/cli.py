@@ -19,6 +19,9 @@ app = typer.Typer(
     help="Peer-review the timber bearing checks (CSA O86, compression perpendicular to grain) of a calc package.",
 )
 
+# past this many checks the terminal lists only the failing ones: a long table scrolls by unread
+TERMINAL_ROWS = 500
+
 RulesDir = typer.Option(
     None, "--rules-dir", metavar="DIR", help="A folder of your own rule packs (searched before the bundled ones)."
 )
@@ -91,6 +94,11 @@ def review(
         metavar="LOG",
         help="With --previous: the last round's comment log (CSV or workbook) with the designer's responses.",
     ),
+    all_rows: bool = typer.Option(
+        False,
+        "--all-rows",
+        help=f"List every check in the terminal (past {TERMINAL_ROWS} checks only the failing ones are listed).",
+    ),
     rules_dir: list[Path] | None = RulesDir,
     rule_pack: str | None = RulePack,
 ) -> None:
@@ -100,7 +108,7 @@ def review(
     from audit.core.outfiles import Output, output_limit, write_outputs
     from audit.inputs.read_claims import merge_claim_sources, read_claims
     from audit.report.comment_log import comments_csv, comments_xlsx
-    from audit.report.export import check_table, summary_line
+    from audit.report.export import summary_line
     from audit.report.memo import MemoOptions, findings_json_chunks, memo_chunks
     from audit.review.comments import build_comments
     from audit.review.reconcile import reconcile
@@ -150,7 +158,7 @@ def review(
             round_ = first_round(comments, title, inputs)
     except InputError as exc:
         _fail(exc)
-    typer.echo(check_table(result))
+    typer.echo(_terminal_checks(result, all_rows))
     for comment in comments:
         if not comment.quiet:
             typer.echo(f"{comment.number:>3}. [{comment.weight_word}] {comment.code}: {comment.title}")
@@ -189,6 +197,30 @@ def review(
     serious = any(f.severity in ("critical", "major") for f in findings)
     failing = any(not r.passes for r in result.results)
     raise typer.Exit(1 if serious or failing else 0)
+
+
+def _terminal_checks(result, all_rows: bool) -> str:
+    """The check table for the terminal: every check for a small building (or with --all-rows); for a
+    large one the failing checks only (at most TERMINAL_ROWS) and a line saying so. Every check is
+    in the memo, the JSON and the workbook whatever the terminal shows."""
+    import dataclasses
+
+    from audit.report.export import check_table
+
+    count = len(result.results)
+    if all_rows or count <= TERMINAL_ROWS:
+        return check_table(result)
+    failing = tuple(r for r in result.results if not r.passes)
+    if not failing:
+        return f"{count:,} checks, none failing (every check: --all-rows)"
+    shown = failing[:TERMINAL_ROWS]
+    which = (
+        f"the {len(shown):,} failing"
+        if len(shown) == len(failing)
+        else f"the first {len(shown):,} of {len(failing):,} failing"
+    )
+    table = check_table(dataclasses.replace(result, results=shown))
+    return f"{table}\n{count:,} checks: {which} listed above (every check: --all-rows)"
 
 
 def _check_files(inputs: dict[str, Path | None], outputs: dict[str, Path | None]) -> int:
