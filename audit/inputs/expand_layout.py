@@ -255,11 +255,9 @@ def explicit_model_text(root: Node, sections: Sections, source: str, shown_as: s
 
 def explicit_model_file(path: Path, rules_dirs: tuple[Path, ...] = (), rule_pack: str | None = None) -> str:
     """Read and check a model (every error it would give a review), then write it out explicit."""
-    from audit.inputs.read_model import build_model
+    from audit.inputs.read_model import build_model_and_sections
 
     root = read_yaml_file(path)
-    build_model(root, str(path), rules_dirs, rule_pack)
-    errors = ErrorCollector()
-    sections = model_sections(root.value, root, errors)
-    errors.raise_if_any()
+    # the entries the model was read from: the layout is expanded once, for the check and the writing
+    sections = build_model_and_sections(root, str(path), rules_dirs, rule_pack)[3]
     return explicit_model_text(root, sections, str(path), path.name)
