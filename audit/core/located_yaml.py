@@ -24,6 +24,9 @@ MAX_NODES = 2_000_000
 # message is ours whatever the parser's release
 MAX_DEPTH = 64
 MAX_FILE_BYTES = 64 * 1024 * 1024
+# distinct plain scalars remembered per file: the repeats (sizes, materials, keys' values) come
+# early; unique ids past the cap are resolved each time rather than held for the whole read
+PLAIN_CACHE = 50_000
 
 
 @dataclass(slots=True)
@@ -250,7 +253,7 @@ class _Composer:
             if known is not _UNSEEN:
                 return known  # read before: passed the checks, and str, int, float, bool, None or a date
         value = self._scalar(event, key)
-        if plain:
+        if plain and len(self.plain) < PLAIN_CACHE:
             self.plain[event.value] = value
         return value
 
