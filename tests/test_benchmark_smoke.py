@@ -38,3 +38,21 @@ def test_layout_benchmark_completes_and_finds_every_joist_bearing(capsys):
     # 2 bearings each; and 3 beams on 3 posts each
     bearings = int(rows[0].split("|")[3].strip().replace(",", ""))
     assert bearings == (2 * 10 + 2 * 11) * 2 + 3 * 3
+
+
+def test_compare_benchmark_runs_two_commits_side_by_side(capsys):
+    import subprocess
+
+    from tests.benchmarks import bench_compare
+
+    if subprocess.run(["git", "rev-parse", "HEAD"], cwd=bench_compare.ROOT, capture_output=True).returncode:
+        import pytest
+
+        pytest.skip("not a git checkout")
+    args = ["HEAD", "HEAD", "--sizes", "200", "--rounds", "1", "--bays", "2", "--no-report"]
+    assert bench_compare.main(args) == 0
+    out = capsys.readouterr().out
+    rows = [line for line in out.splitlines() if line.startswith("| review, ") or line.startswith("| expand, 2x2")]
+    assert len(rows) == 2
+    cells = [c.strip() for c in rows[0].strip("|").split("|")]
+    assert len(cells) == 4 and all(float(c) > 0 for c in cells[1:])  # two commits' CPU seconds and their ratio
