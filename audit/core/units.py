@@ -1,8 +1,9 @@
 """The units edge: quantities are read where values come in.
 
 Inside the program every quantity is a plain SI float (N, m, Pa, N/m, rad). Nothing past
-this module touches pint. The units a model or a calc is written in are in a table of exact
-factors; pint (imported only when first needed) reads any other unit and words every error.
+this module touches pint. The units a model or a calc is written in are in a table of their
+SI factors (checked against pint and the exact definitions); pint, imported only when first
+needed, reads any other unit and words every error.
 """
 
 from __future__ import annotations
