@@ -19,6 +19,9 @@ app = typer.Typer(
     help="Peer-review the timber bearing checks (CSA O86, compression perpendicular to grain) of a calc package.",
 )
 
+# past this many checks the terminal lists only the failing ones: a long table scrolls by unread
+TERMINAL_ROWS = 500
+
 RulesDir = typer.Option(
     None, "--rules-dir", metavar="DIR", help="A folder of your own rule packs (searched before the bundled ones)."
 )
@@ -113,6 +116,11 @@ def review(
         metavar="FILE",
         help="With --previous: the reviewer's dispositions of the designer's responses (YAML).",
     ),
+    all_rows: bool = typer.Option(
+        False,
+        "--all-rows",
+        help=f"List every check in the terminal (past {TERMINAL_ROWS} checks only the failing ones are listed).",
+    ),
     rules_dir: list[Path] | None = RulesDir,
     rule_pack: str | None = RulePack,
 ) -> None:
@@ -122,7 +130,7 @@ def review(
     from audit.core.outfiles import Output, output_limit, write_outputs
     from audit.inputs.read_claims import merge_claim_sources, read_claims
     from audit.report.comment_log import comments_csv, comments_xlsx
-    from audit.report.export import check_table, summary_line
+    from audit.report.export import summary_line
     from audit.report.memo import MemoOptions, appendix_chunks, findings_json_chunks, memo_chunks
     from audit.review.comments import build_comments
     from audit.review.reconcile import failing_without_claims, reconcile
@@ -202,7 +210,7 @@ def review(
             round_ = first_round(comments, title, inputs)
     except InputError as exc:
         _fail(exc)
-    typer.echo(check_table(result))
+    typer.echo(_terminal_checks(result, all_rows))
     for comment in comments:
         if not comment.quiet:
             typer.echo(f"{comment.number:>3}. [{comment.weight}] {comment.kind}: {comment.title}")
@@ -254,6 +262,30 @@ def expanded_bytes(model) -> int:
     if model.frame is None:
         return 0
     return BYTES_PER_ENTRY * (len(model.members) + len(model.bearings) + len(model.loads))
+
+
+def _terminal_checks(result, all_rows: bool) -> str:
+    """The check table for the terminal: every check for a small building (or with --all-rows); for a
+    large one the failing checks only (at most TERMINAL_ROWS) and a line saying so. Every check is
+    in the memo, the JSON and the workbook whatever the terminal shows."""
+    import dataclasses
+
+    from audit.report.export import check_table
+
+    count = len(result.results)
+    if all_rows or count <= TERMINAL_ROWS:
+        return check_table(result)
+    failing = tuple(r for r in result.results if not r.passes)
+    if not failing:
+        return f"{count:,} checks, none failing (every check: --all-rows)"
+    shown = failing[:TERMINAL_ROWS]
+    which = (
+        f"the {len(shown):,} failing"
+        if len(shown) == len(failing)
+        else f"the first {len(shown):,} of {len(failing):,} failing"
+    )
+    table = check_table(dataclasses.replace(result, results=shown))
+    return f"{table}\n{count:,} checks: {which} listed above (every check: --all-rows)"
 
 
 def _check_files(

@@ -170,3 +170,40 @@ def test_review_writes_the_letter_and_the_appendix_it_names(run_cli, tmp_path):
     assert result.exit_code == 1  # the demo has a failing check
     assert "accompanied by its appendix, rest.html" in (tmp_path / "letter.html").read_text(encoding="utf-8")
     assert 'id="checks"' in (tmp_path / "rest.html").read_text(encoding="utf-8")
+
+
+def _table_rows(output: str) -> dict[str, str]:
+    """check id -> its status word, from the terminal's check table."""
+    rows = {}
+    for line in output.splitlines():
+        cells = line.split()
+        status = next((cell for cell in cells[1:] if cell in ("passes", "FAILS")), None)
+        if status:
+            rows[cells[0]] = status
+    return rows
+
+
+def test_past_the_row_limit_the_terminal_lists_only_the_failing_checks(run_cli, monkeypatch):
+    every = _table_rows(run_cli("review", DEMO).output)
+    failing = sorted(i for i, status in every.items() if status == "FAILS")
+    assert len(every) > 5 and 1 < len(failing) <= 5  # the demo: a few failing checks among many passing ones
+    monkeypatch.setattr("audit.cli.TERMINAL_ROWS", 5)
+    result = run_cli("review", DEMO)
+    assert result.exit_code == 1
+    assert _table_rows(result.output) == dict.fromkeys(failing, "FAILS")
+    assert f"{len(every)} checks: the {len(failing)} failing listed above (every check: --all-rows)" in result.output
+    assert _table_rows(run_cli("review", DEMO, "--all-rows").output) == every
+
+
+def test_past_the_row_limit_at_most_that_many_failing_checks_are_listed(run_cli, monkeypatch):
+    monkeypatch.setattr("audit.cli.TERMINAL_ROWS", 1)
+    result = run_cli("review", DEMO)
+    assert len(_table_rows(result.output)) == 1
+    assert "checks: the first 1 of " in result.output and " failing listed above" in result.output
+
+
+def test_past_the_row_limit_a_building_with_no_failing_check_gets_one_line(write_model, run_cli, monkeypatch):
+    monkeypatch.setattr("audit.cli.TERMINAL_ROWS", 1)
+    result = run_cli("review", write_model(base_model()))
+    assert result.exit_code == 0 and not _table_rows(result.output)
+    assert "checks, none failing (every check: --all-rows)" in result.output

@@ -418,3 +418,18 @@ def test_a_sole_plate_without_studs_is_refused():
     del data["layout"]["walls"][0]["studs"]
     lines = _errors(data)
     assert any("a sole plate carries studs" in line and "layout.walls[0].sole" in line for line in lines), lines
+
+
+def test_expand_expands_the_layout_once(tmp_path, run_cli, monkeypatch):
+    import audit.inputs.expand_layout as expand_layout
+
+    calls = []
+    expand = expand_layout._model_sections
+
+    def counted(*args):
+        calls.append(1)
+        return expand(*args)
+
+    monkeypatch.setattr(expand_layout, "_model_sections", counted)
+    assert run_cli("expand", LAYOUT_DEMO / "model.yaml", "-o", tmp_path / "explicit.yaml").exit_code == 0
+    assert len(calls) == 1

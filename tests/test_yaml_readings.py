@@ -97,3 +97,49 @@ def test_errors_found_after_reading_are_all_reported_once_each(write_model, caps
     lines = [line for line in err.splitlines() if line.startswith("error: ")]
     assert code == 2 and len(lines) == 2
     assert any("'p1'" in line for line in lines) and any("'p2'" in line for line in lines)
+
+
+def _plain(node):
+    """A located tree as plain Python values, to compare with PyYAML's own reading."""
+    if isinstance(node.value, dict):
+        return {k: _plain(v) for k, v in node.value.items()}
+    if isinstance(node.value, list):
+        return [_plain(v) for v in node.value]
+    return node.value
+
+
+def test_repeated_plain_scalars_read_as_pyyaml_reads_them_each_time():
+    # the composer remembers what a plain scalar's text reads as; the reference is PyYAML's
+    # safe_load (PyPI) of the same text, with the repeats quoted and tagged as well
+    import yaml
+
+    from audit.core.located_yaml import read_yaml_text
+
+    values = ["130 mm", "1", "1.5", "1e3", "true", "NO", "~", "null", "2026-01-15", "0x1F", "1_000", "'1'", '"true"']
+    text = "".join(f"k{i}: [{v}, {v}, !!str {v.strip(chr(39) + chr(34))}, {v}]\n" for i, v in enumerate(values))
+    assert _plain(read_yaml_text(text, "t.yaml")) == yaml.safe_load(text)
+    node = read_yaml_text(text, "t.yaml").value["k1"].value
+    assert [type(n.value) for n in node] == [int, int, str, int] and node[1].raw == "1"
+
+
+def test_a_merge_key_is_refused_wherever_it_repeats_and_a_quoted_one_is_a_plain_key():
+    import pytest
+
+    from audit.core.errors import InputError
+    from audit.core.located_yaml import read_yaml_text
+
+    assert read_yaml_text('a: {"<<": 1}\nb: {"<<": 2}\n', "t.yaml").value["b"].value["<<"].value == 2
+    with pytest.raises(InputError, match="merge keys"):
+        read_yaml_text("a: {x: 1}\nb: {<<: 2}\n", "t.yaml")
+    with pytest.raises(InputError, match=r"tag:yaml\.org,2002:merge is not accepted"):
+        read_yaml_text("a: {x: 1}\nb: {!!merge x: 1}\n", "t.yaml")
+
+
+def test_a_control_character_is_refused_in_a_scalar_seen_before_elsewhere():
+    import pytest
+
+    from audit.core.errors import InputError
+    from audit.core.located_yaml import read_yaml_text
+
+    with pytest.raises(InputError, match="U\\+0001"):
+        read_yaml_text('a: ok\nb: "o\\x01k"\nc: ok\n', "t.yaml")

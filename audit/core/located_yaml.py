@@ -24,6 +24,9 @@ MAX_NODES = 2_000_000
 # message is ours whatever the parser's release
 MAX_DEPTH = 64
 MAX_FILE_BYTES = 64 * 1024 * 1024
+# distinct plain scalars remembered per file: the repeats (sizes, materials, keys' values) come
+# early; unique ids past the cap are resolved each time rather than held for the whole read
+PLAIN_CACHE = 50_000
 
 
 @dataclass(slots=True)
@@ -158,6 +161,10 @@ class _Composer:
         self.anchors: dict[str, tuple[Node, int]] = {}
         self.budget = MAX_NODES
         self.depth = 0
+        # plain scalar text -> its value: keys and most values repeat ("130 mm", "SPF", true), and the
+        # implicit-tag resolution (a few regular expressions) is the composer's dearest step. Exact:
+        # with no path resolvers (the safe loader has none) a plain scalar's tag depends on its text only
+        self.plain: dict[str, Any] = {}
 
     def spend(self, count: int, event: yaml.Event, key: str) -> None:
         self.budget -= count
@@ -212,7 +219,8 @@ class _Composer:
         while not isinstance(k_event := self.loader.get_event(), yaml.MappingEndEvent):
             if not isinstance(k_event, yaml.ScalarEvent):
                 raise InputError("a mapping key must be plain text", _loc_of(k_event, self.name, key))
-            if self._tag(k_event) == _MERGE_TAG:
+            # only the text "<<" or an explicit tag can make a merge key; the resolver is asked only then
+            if (k_event.value == "<<" or (k_event.tag and k_event.tag != "!")) and self._tag(k_event) == _MERGE_TAG:
                 raise InputError("YAML merge keys (<<) are not supported", _loc_of(k_event, self.name, key))
             k = k_event.value
             child_key = join_key(key, k)
@@ -239,6 +247,17 @@ class _Composer:
         return self.loader.resolve(yaml.ScalarNode, event.value, event.implicit)
 
     def scalar(self, event: yaml.ScalarEvent, key: str) -> Any:
+        plain = event.implicit[0] and (not event.tag or event.tag == "!")
+        if plain:
+            known = self.plain.get(event.value, _UNSEEN)
+            if known is not _UNSEEN:
+                return known  # read before: passed the checks, and str, int, float, bool, None or a date
+        value = self._scalar(event, key)
+        if plain and len(self.plain) < PLAIN_CACHE:
+            self.plain[event.value] = value
+        return value
+
+    def _scalar(self, event: yaml.ScalarEvent, key: str) -> Any:
         bad = _CONTROL.search(event.value)
         if bad:
             raise InputError(
@@ -278,3 +297,4 @@ _PLAIN_SCALAR_TAGS = frozenset(f"tag:yaml.org,2002:{t}" for t in ("str", "int", 
 # C0 controls but tab, newline and carriage return; DEL; C1 controls
 _CONTROL = re.compile("[\x00-\x08\x0b\x0c\x0e-\x1f\x7f-\x9f]")
 _MERGE_TAG = "tag:yaml.org,2002:merge"
+_UNSEEN = object()

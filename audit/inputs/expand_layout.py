@@ -262,11 +262,9 @@ def explicit_model_with_warnings(
     path: Path, rules_dirs: tuple[Path, ...] = (), rule_pack: str | None = None
 ) -> tuple[str, tuple[str, ...]]:
     """The explicit model, and the warnings a review of it would give (an area no member reaches, ...)."""
-    from audit.inputs.read_model import build_model
+    from audit.inputs.read_model import build_model_and_sections
 
     root = read_yaml_file(path)
-    model = build_model(root, str(path), rules_dirs, rule_pack)[0]
-    errors = ErrorCollector()
-    sections = model_sections(root.value, root, errors)
-    errors.raise_if_any()
+    # the entries the model was read from: the layout is expanded once, for the check and the writing
+    model, _, _, sections = build_model_and_sections(root, str(path), rules_dirs, rule_pack)
     return explicit_model_text(root, sections, str(path), path.name), model.warnings

@@ -35,7 +35,7 @@ from audit.engine.model import (
     Side,
     normalise_label,
 )
-from audit.inputs.expand_layout import model_sections
+from audit.inputs.expand_layout import Sections, model_sections
 from audit.inputs.fields import FieldReader, describe_value, did_you_mean, list_items
 from audit.inputs.stud_walls import StudWall, place_studs, read_stud_wall
 from audit.standards.packs import (
@@ -127,6 +127,14 @@ def read_model(
 def build_model(
     root: Node, name: str, rules_dirs: tuple[Path, ...] = (), rule_pack: str | None = None
 ) -> tuple[Model, PackCore, CombinationPack]:
+    model, resistance, combos, _ = build_model_and_sections(root, name, rules_dirs, rule_pack)
+    return model, resistance, combos
+
+
+def build_model_and_sections(
+    root: Node, name: str, rules_dirs: tuple[Path, ...] = (), rule_pack: str | None = None
+) -> tuple[Model, PackCore, CombinationPack, Sections]:
+    """The model and the entries it was read from, its layout expanded (which ``expand`` writes out)."""
     errors = ErrorCollector()
     top = FieldReader(root, TOP_KEYS, errors, "the model")
     if not top.ok:
@@ -180,7 +188,7 @@ def build_model(
     if sections.layout is not None:
         frame = Frame(dict(sections.layout.levels), dict(sections.layout.grids.x), dict(sections.layout.grids.y))
     model = Model(name, project, materials, members, bearings, loads, groups, warnings, frame)
-    return model, resistance, combos
+    return model, resistance, combos, sections
 
 
 def _listed(items: list[Node], root: Node, key: str) -> Node:
