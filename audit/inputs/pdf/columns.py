@@ -51,6 +51,8 @@ class ColumnMap:
     units: dict[str, str] = field(default_factory=dict)
     pages: str | None = None
     kind: str = ""  # a kind for every claim read with this map
+    positions: dict[int, str] = field(default_factory=dict)  # column number (from 1, left) -> field
+    bands: dict[str, re.Pattern[str]] = field(default_factory=dict)  # field -> a band over its column
 
 
 def default_map(standard_headers: dict[str, str] | None = None) -> ColumnMap:
