@@ -13,7 +13,7 @@ import re
 
 from audit.inputs.pdf.pages import EdgeT
 from audit.inputs.pdf.settings import SETTINGS
-from audit.inputs.pdf.tables import HeadCell, Line, cells_of, rulings_across
+from audit.inputs.pdf.tables import HeadCell, Line, cells_of, head_cells, rulings_across
 from audit.inputs.pdf.values import parse_number
 
 CellT = tuple[str, float, float]
@@ -23,7 +23,7 @@ NUMBER_CELL = re.compile(r"^[-+\u2212]?[\d,]*\.?\d+(\s*[A-Za-z%²]+\.?)?$")
 
 def is_head_like(line: Line) -> bool:
     """A line that may be a band of a table head: no number standing as a cell, no long text."""
-    for text, _, _ in cells_of(line):
+    for text, _, _ in head_cells(line):
         if NUMBER_CELL.match(text.strip()) and parse_number(text.split()[0]) is not None:
             return False
         if len(text.split()) > SETTINGS.head_cell_words:
@@ -40,14 +40,17 @@ def close_below(upper: Line, lower: Line) -> bool:
 def compose(lines: list[Line], edges: list[EdgeT] | None = None) -> list[HeadCell]:
     """The columns of a head drawn over ``lines`` (top band first); in a ruled head a group spans the
     columns between the rules around it."""
-    bands = [cells_of(line) for line in lines]
+    bands = [head_cells(line) for line in lines]
     walls = [rulings_across(line, edges or []) for line in lines]
     leaves: list[tuple[CellT, int]] = []
     for k in reversed(range(len(bands))):
         lower = list(leaves)
         for cell in bands[k]:
-            if not any(_overlaps(cell, leaf) for leaf, _ in lower) and not _centred_over_gap(cell, lower):
-                leaves.append((cell, k))
+            if any(_overlaps(cell, leaf) for leaf, _ in lower) or _centred_over_gap(cell, lower):
+                continue
+            if len(walls[k]) >= 2 and _walled(cell, -1, lower, walls[k]):
+                continue  # a ruled cell with columns of the bands below between its walls
+            leaves.append((cell, k))
     leaves.sort(key=lambda item: item[0][1])
     paths: list[list[str]] = [[cell[0]] for cell, _ in leaves]
     spans: list[list[float]] = [[cell[1], cell[2]] for cell, _ in leaves]

@@ -35,6 +35,7 @@ from audit.inputs.pdf.tables import (
     Table,
     cells_of,
     group_lines,
+    head_cells,
     header_of,
     primed_under_groups,
     row_cells,
@@ -181,7 +182,7 @@ def head_at(
                 return header, [i, i + 1]
         return None
     top, bottom = i, i
-    first_x1 = cells_of(line)[0][2]
+    first_x1 = head_cells(line)[0][2]
     while (
         top - 1 >= 0
         and taken.get(top - 1, "running").startswith("running")  # a line taken for a running head may be a band
@@ -195,7 +196,7 @@ def head_at(
         bottom + 1 < len(lines)
         and bottom - top + 1 < SETTINGS.head_bands
         and close_below(lines[bottom], lines[bottom + 1])
-        and all(UNIT_CELL.match(c[0].strip()) for c in cells_of(lines[bottom + 1]))
+        and all(UNIT_CELL.match(c[0].strip()) for c in head_cells(lines[bottom + 1]))
     ):
         bottom += 1  # a units row under the symbols
     if top == bottom:

@@ -59,7 +59,15 @@ class HeadCell:
 
 
 def single_band(line: Line) -> list[HeadCell]:
-    return [HeadCell(x0, x1, (text,)) for text, x0, x1 in cells_of(line)]
+    return [HeadCell(x0, x1, (text,)) for text, x0, x1 in head_cells(line)]
+
+
+def head_cells(line: Line) -> list[tuple[str, float, float]]:
+    """A head line's cells, less a spreadsheet's row number standing first (a bare whole number)."""
+    cells = cells_of(line)
+    if len(cells) > 1 and re.fullmatch(r"\d{1,5}", cells[0][0]):
+        return cells[1:]
+    return cells
 
 
 @dataclass(frozen=True)
@@ -317,6 +325,8 @@ def _placed(line: Line, fields: tuple[str, ...], bounds) -> dict[str, str] | Non
     for text, x0, x1, _, _ in line.words:
         centre = (x0 + x1) / 2
         index = next((i for i, (a, b) in enumerate(bounds) if a <= centre < b), None)
+        if index is None and (x1 <= bounds[0][0] or x0 >= bounds[-1][1]):
+            continue  # outside the table's walls: a spreadsheet's row numbers, a mark in the margin
         if index is None:
             return None
         a, b = bounds[index]
