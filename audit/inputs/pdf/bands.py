@@ -13,7 +13,7 @@ import re
 
 from audit.inputs.pdf.pages import EdgeT
 from audit.inputs.pdf.settings import SETTINGS
-from audit.inputs.pdf.tables import HeadCell, Line, cells_of, head_cells, rulings_across
+from audit.inputs.pdf.tables import HeadCell, Line, head_cells, rulings_across
 from audit.inputs.pdf.values import parse_number
 
 CellT = tuple[str, float, float]
