@@ -54,3 +54,60 @@ def test_a_browser_printed_sheet_gives_back_the_claims_it_was_made_from(kind, tm
     pdf = browser.print_pdf(page, tmp_path / f"{kind}.pdf", tmp_path / "profile")
     headers = standard_named(data["standard"], None).claim_headers
     assert_reads_as(extract(pdf, workers=1, standard_headers=headers), yaml.safe_load(committed))
+
+
+def pages_and_claims(result) -> list[dict]:
+    return [{"page": c.where.page, **d} for c, d in zip(result.claims, claims_as_data(result), strict=True)]
+
+
+def test_a_borderless_drawing_library_sheet_gives_back_its_claims_tables_and_equations(tmp_path):
+    # reportlab (test-only): a borderless table centred on the page, right-aligned numbers under centred
+    # heads, an OK column with a blank head, kips and lbf; EN 1995 and NDS equations with small subscripts
+    from fixtures.make_reportlab_calc import borderless_expected_text, write_borderless
+
+    committed = (PDFS / "reportlab-borderless.expected.yaml").read_text(encoding="utf-8")
+    assert committed == borderless_expected_text(), "regenerate: python fixtures/make_reportlab_calc.py --expected"
+    expected = yaml.safe_load(committed)
+    result = extract(write_borderless(tmp_path / "sheet.pdf"), workers=1)
+    assert pages_and_claims(result) == expected["claims"]
+    assert [(u.page, u.text.split()[0]) for u in result.unread] == [
+        (r["page"], r["text"]) for r in expected["not_read"]
+    ]
+
+
+def test_rows_of_a_second_table_on_a_page_that_read_are_reported_row_by_row_naming_their_columns(tmp_path):
+    # A reviewer's sheet: one table reads; a second on the same page has heads the reader does not know.
+    # Its rows must be reported one by one (page, position, text) and name the heads their numbers sit under.
+    from fixtures.make_calc_pdfs import Calc, draw_table
+
+    pdf = Calc("Two tables (fictional)")
+    pdf.add_page()
+    draw_table(pdf, ["Location", "Member", "Qf (kN)", "Qr (kN)"], [["J1 on B1", "J1", "7.13", "24.09"]],
+               [46, 26, 28, 28], ruled=True)  # fmt: skip
+    pdf.ln(12)
+    pdf.multi_cell(0, 5, "Sill plates under posts, crushing of the plate.")
+    pdf.ln(3)
+    rows = [["P1 on sill", "60.08", "111.96"], ["P2 on sill", "58.10", "111.96"], ["P3 on sill", "41.00", "80.40"]]
+    draw_table(pdf, ["Where", "Load on plate", "Plate capacity"], rows, [46, 40, 40], ruled=False)
+    pdf.output(str(tmp_path / "two.pdf"))
+    result = extract(tmp_path / "two.pdf", workers=1)
+    assert [c.label for c in result.claims] == ["J1 on B1"]
+    assert [u.text for u in result.unread] == [" ".join(r) for r in rows]
+    for u in result.unread:
+        assert u.page == 1 and u.x is not None and u.y is not None
+        assert "'Load on plate', 'Plate capacity'" in u.what and "gave no claim" in u.what
+    assert len({u.y for u in result.unread}) == 3  # each row at its own position
+
+
+def test_cell_units_convert_as_pint_converts_them():
+    # The reader converts the units calc sheets print without a unit library; pint (PyPI) is the check.
+    import pint
+
+    from audit.core.errors import Location
+    from audit.inputs.pdf.values import SI_FACTOR, quantity
+
+    ureg = pint.UnitRegistry()
+    si = {"force": "newton", "stress": "pascal", "length": "meter", "area": "meter**2"}
+    for (dimension, unit), _ in SI_FACTOR.items():
+        want = ureg.Quantity(2.5, unit).to(si[dimension]).magnitude
+        assert quantity(2.5, unit, dimension, Location("t")) == pytest.approx(want, rel=1e-12), unit

@@ -42,7 +42,11 @@ UNIT_ALIASES = {
     "in2": "in**2",
     "in²": "in**2",
 }
-CANDIDATE = re.compile(r"Q\s?'?\s?[fr]\b|Q[fr]'|F\s?cp|K\s?ZCP|KZcp|Qf|Qr", re.IGNORECASE)
+# The trade's symbols on a page worth reading: O86 (Qf, Qr, Fcp, KZcp), US NDS (P', Fc⊥), EN 1995 (F_c,90,d)
+CANDIDATE = re.compile(
+    r"Q\s?'?\s?[fr]\b|Q[fr]'|F\s?cp|K\s?ZCP|KZcp|Qf|Qr|\bP\s?'\s?=|F\s?c\s?⊥|F\s?c\s?-?perp|[Ff]\s?_?c\s?,\s?90",
+    re.IGNORECASE,
+)
 
 
 @dataclass(frozen=True)
