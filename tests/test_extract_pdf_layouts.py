@@ -85,7 +85,7 @@ def test_rows_of_a_second_table_on_a_page_that_read_are_reported_row_by_row_nami
     draw_table(pdf, ["Location", "Member", "Qf (kN)", "Qr (kN)"], [["J1 on B1", "J1", "7.13", "24.09"]],
                [46, 26, 28, 28], ruled=True)  # fmt: skip
     pdf.ln(12)
-    pdf.multi_cell(0, 5, "Sill plates under posts, crushing of the plate.")
+    pdf.multi_cell(0, 5, "Sill plates under posts, crushing of the plate.", new_x="LMARGIN", new_y="NEXT")
     pdf.ln(3)
     rows = [["P1 on sill", "60.08", "111.96"], ["P2 on sill", "58.10", "111.96"], ["P3 on sill", "41.00", "80.40"]]
     draw_table(pdf, ["Where", "Load on plate", "Plate capacity"], rows, [46, 40, 40], ruled=False)
@@ -111,3 +111,62 @@ def test_cell_units_convert_as_pint_converts_them():
     for (dimension, unit), _ in SI_FACTOR.items():
         want = ureg.Quantity(2.5, unit).to(si[dimension]).magnitude
         assert quantity(2.5, unit, dimension, Location("t")) == pytest.approx(want, rel=1e-12), unit
+
+
+def _unknown_heads_pdf(path):
+    from fixtures.make_calc_pdfs import Calc, draw_table
+
+    pdf = Calc("Plates (fictional)")
+    pdf.add_page()
+    pdf.multi_cell(
+        0, 5, "Plate crushing under posts: Qf and Qr per the tabulated resistance.", new_x="LMARGIN", new_y="NEXT"
+    )
+    rows = [["P1 on sill", "60.08", "111.96"], ["P2 on sill", "58.10", "111.96"]]
+    draw_table(pdf, ["Where", "Load on plate", "Plate capacity"], rows, [46, 40, 40], ruled=True)
+    pdf.output(str(path))
+    return path
+
+
+def test_a_map_names_columns_by_their_position(tmp_path):
+    from audit.inputs.pdf.extract import read_column_map
+
+    pdf = _unknown_heads_pdf(tmp_path / "plates.pdf")
+    assert extract(pdf).claims == ()
+    cmap = tmp_path / "map.yaml"
+    cmap.write_text("columns:\n  location: {column: 1}\n  Qf: {column: 2, unit: kN}\n  Qr: {column: 3, unit: kN}\n")
+    claims = extract(pdf, cmap=read_column_map(cmap)).claims
+    assert [(c.label, c.qf, c.qr) for c in claims] == [
+        ("P1 on sill", pytest.approx(60080.0), pytest.approx(111960.0)),
+        ("P2 on sill", pytest.approx(58100.0), pytest.approx(111960.0)),
+    ]
+
+
+def test_a_map_names_a_column_by_the_band_over_it():
+    # the spreadsheet printout has Qf | Qr under 'Local' and again under 'Near support': a map that asks
+    # for the symbols under the near-support band reads those as the table's checks
+    from audit.inputs.pdf.extract import read_column_map
+
+    expected = yaml.safe_load((PDFS / "spreadsheet.expected.yaml").read_text())["claims"]
+    near = [c for c in expected if c["kind"] == "near-support"]
+    path = PDFS.parent.parent / "tests" / "_band_map.yaml"
+    try:
+        path.write_text("columns:\n  Qf: {header: '^q\\s*f', band: near}\n  Qr: {header: '^q\\s*r', band: near}\n")
+        result = extract(PDFS / "spreadsheet.pdf", cmap=read_column_map(path))
+    finally:
+        path.unlink()
+    assert [(c.label, c.kind) for c in result.claims] == [(c["location"], "near-support") for c in near]
+    assert [c.qf for c in result.claims] == [pytest.approx(c["Qf_N"]) for c in near]
+    assert any("column 3" in w and "Local" in w for w in result.warnings)  # the local Qf is named, not read
+
+
+def test_show_prints_each_line_of_a_page_with_what_it_became(tmp_path, run_cli):
+    pdf = _unknown_heads_pdf(tmp_path / "plates.pdf")
+    result = run_cli("extract", pdf, "--show", "1")
+    assert result.exit_code == 0
+    assert "not read" in result.stdout and "'Load on plate', 'Plate capacity'" in result.stdout
+    assert "[Where | x" in result.stdout or "y " in result.stdout
+    spreadsheet = run_cli("extract", PDFS / "spreadsheet.pdf", "--show", "1")
+    assert "head, band 1 of 4" in spreadsheet.stdout and "5: Qf' ('E Near support Qf kN')" in spreadsheet.stdout
+    assert "group: " in spreadsheet.stdout and "claim FB1 on W2: local; FB1 on W2: near-support" in spreadsheet.stdout
+    assert run_cli("extract", pdf, "--show", "9").exit_code == 2
+    assert run_cli("extract", pdf).exit_code == 2  # neither -o nor --show

@@ -175,14 +175,17 @@ def head_at(
     group bands above it and a units row under it."""
     line = lines[i]
     header = header_of(line, cmap, edges)
+    if header is not None and cmap.positions and not is_head_like(line):
+        header = None  # columns named by position: only a line of heads opens a table, never a row
     if header is None:
         if i + 1 < len(lines) and MAYBE_HEADER.search(line.text) and header_of(lines[i + 1], cmap, edges) is None:
             header = header_of(stacked(line, lines[i + 1]), cmap, edges)
             if header is not None:
                 return header, [i, i + 1]
-        return None
+        if not (cmap.bands or MAYBE_HEADER.search(line.text)) or not is_head_like(line):
+            return None
     top, bottom = i, i
-    first_x1 = head_cells(line)[0][2]
+    first_x1 = head_cells(line)[0][2] if line.words else 0.0
     while (
         top - 1 >= 0
         and taken.get(top - 1, "running").startswith("running")  # a line taken for a running head may be a band
@@ -200,11 +203,13 @@ def head_at(
     ):
         bottom += 1  # a units row under the symbols
     if top == bottom:
-        if i > 0 and (primed := primed_under_groups(lines[i - 1], line)) is not None:
+        if header is not None and i > 0 and (primed := primed_under_groups(lines[i - 1], line)) is not None:
             header = header_of(primed, cmap, edges) or header  # a near-support group over some columns
-        return header, [i]
+        return (header, [i]) if header is not None else None
     band = lines[top : bottom + 1]
     deep = header_of(lines[i], cmap, edges, compose(band, edges))
+    if header is None:  # the line alone names too little: the head read as bands may name enough
+        return (deep, list(range(top, bottom + 1))) if deep is not None else None
     if deep is None or sum(1 for f in deep.fields if f) < sum(1 for f in header.fields if f):
         return header, [i]
     return deep, list(range(top, bottom + 1))
@@ -238,12 +243,12 @@ def claims_of_page(
         head = head_at(lines, i, cmap, edges, roles)
         if head is not None:
             header, band = head
-            for k in band:
-                roles[k] = "head: " + " | ".join(label or "(blank)" for label in header.labels)
+            for n, k in enumerate(band, start=1):
+                roles[k] = f"head, band {n} of {len(band)}" if len(band) > 1 else "head"
             skip.update(k for k in band if k > i)
             state.table_count += 1
             table = replace(header, name=f"table {state.table_count} (p. {line.page})")
-            roles[band[-1]] = _columns_role(table)
+            roles[band[-1]] += "; " + _columns_role(table)
             state.last_location = ""
             row_table, continuing, just_headed = None, False, True
             continue
@@ -325,8 +330,12 @@ def claims_of_page(
 
 
 def _columns_role(table: Table) -> str:
-    columns = [f"{n}: {f or 'not understood'}" for n, f in enumerate(table.fields, start=1)]
-    return "head: columns " + ", ".join(columns) + (f"; kind {table.kind}" if table.kind else "")
+    labels = table.labels or ("",) * len(table.fields)
+    columns = [
+        f"{n}: {f or 'not understood'} ('{label}')"
+        for n, (f, label) in enumerate(zip(table.fields, labels, strict=False), start=1)
+    ]
+    return "columns " + ", ".join(columns) + (f"; kind {table.kind}" if table.kind else "")
 
 
 def _report_unnamed_numbers(cells: dict[str, str], table: Table, warnings: list[str], seen: set) -> None:
@@ -367,7 +376,7 @@ def _off(x: float, cell: tuple[str, float, float]) -> float:
 
 
 def _numeric_row(line: Line) -> bool:
-    cells = cells_of(line)
+    cells = head_cells(line)  # a spreadsheet's row number alone does not make a row of numbers
     return len(cells) >= 2 and any(NUMBER_CELL.match(c[0].strip()) for c in cells)
 
 
@@ -435,7 +444,7 @@ def extract(
     count = len(doc)
     doc.close()
     wanted = parse_pages(pages or cmap.pages, count, Location(str(path), 0, 0, "pages"))
-    custom_headers = cmap.headers != default_map().headers
+    custom_headers = cmap.headers != default_map().headers or bool(cmap.positions)
     read: dict = {}
     candidates, empty, warnings = scan_pages(path, wanted, any_text=custom_headers, read=read)
     workers = workers if workers is not None else max(1, min(os.cpu_count() or 1, 8))
@@ -478,6 +487,49 @@ def extract(
     return Extraction(
         numbered, tuple(warnings), len(wanted), tuple(sorted(done)), tuple(empty), tuple(candidates), tuple(unread)
     )
+
+
+def show_page(
+    path: Path | str, number: int, cmap: ColumnMap | None = None, standard_headers: dict[str, str] | None = None
+) -> str:
+    """The page as the reader sees it: each line with its position and what it became (a head and the
+    columns found, units, a group, a claim, not read and why), and the cells of each head with their
+    positions, so a reviewer can write a --map naming a head, a band or a column by its number."""
+    path = Path(path)
+    cmap = cmap or default_map(standard_headers)
+    doc = open_document(path)
+    count = len(doc)
+    doc.close()
+    if not 1 <= number <= count:
+        raise InputError(f"page {number} is not in the document (1 to {count})", Location(str(path), 0, 0, "--show"))
+    wanted = [n for n in (number - 1, number) if n >= 1]
+    parsed = page_words(path, wanted, 1)
+    state = _State()
+    out = [f"{path.name}, page {number} as the reader sees it (x and y in points from the page's top left)"]
+    for n in wanted:
+        words, edges, problem = parsed[n]
+        lines = group_lines(n, words)
+        roles: dict[int, str] = {}
+        warnings: list[str] = []
+        unread: list[Unread] = []
+        claims_of_page(lines, state, cmap, str(path), warnings, edges, unread, roles)
+        if n != number:
+            continue
+        if problem:
+            out.append(f"  {problem}")
+        for i, line in enumerate(lines):
+            role = roles.get(i, "")
+            out.append(f"  y {line.top:6.1f}  x {line.words[0][1]:6.1f}  {line.text[:70]:<70}  {_arrow(role)}")
+            if role.startswith("head"):
+                cells = "  ".join(f"[{t} | x {x0:.0f}-{x1:.0f}]" for t, x0, x1 in head_cells(line))
+                out.append(f"  {'':20}  cells: {cells}")
+        for w in warnings:
+            out.append(f"  warning: {w}")
+    return "\n".join(out) + "\n"
+
+
+def _arrow(role: str) -> str:
+    return f"-> {role}" if role else ""
 
 
 def _vocabulary(parsed: dict, number: int) -> str:
