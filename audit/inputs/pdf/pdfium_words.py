@@ -5,7 +5,6 @@ for what this cannot read (text turned sideways, a page pdfium will not open).""
 from __future__ import annotations
 
 import ctypes
-import itertools
 
 from audit.inputs.pdf.settings import SETTINGS
 
@@ -48,35 +47,65 @@ def _words(raw, textpage, height: float) -> list[WordT]:
     get_box = raw.FPDFText_GetLooseCharBox
     generated = raw.FPDFText_IsGenerated
     handle = textpage.raw
-    runs: list[list[CharT]] = []
-    run: list[CharT] = []
+    run_gap, word_y = SETTINGS.run_gap, SETTINGS.word_y
+    # a run: (characters, gaps between them, the tallest character's height, the widest gap, x1, top, bottom)
+    runs: list[tuple[list[CharT], list[float], float, float, float, float, float]] = []
+    chars: list[CharT] = []
+    gaps: list[float] = []
+    size = widest = x1 = 0.0
+    t = b = 0.0
+    pl = pr = pt = pb = ph = 0.0
     for i in range(count):
         code = buffer[i]
         if code <= 32 or code >= 0xFFFE:
             if code == 32 and generated(handle, i) == 1:
                 continue  # pdfium's own guess at a space: the gap rule below decides
-            if run:
-                runs.append(run)
-                run = []
+            if chars:
+                runs.append((chars, gaps, size, widest, x1, t, b))
+                chars, gaps = [], []
             continue
         if not get_box(handle, i, rect):
             continue
-        c = (chr(code), rect.left, rect.right, height - rect.top, height - rect.bottom)
-        if run and not _same_run(run[-1], c):
-            runs.append(run)
-            run = []
-        run.append(c)
-    if run:
-        runs.append(run)
-    # letter spacing is a property of a line's style: estimated from every run of one line and size
-    gaps_of_line: dict[tuple[int, int], list[float]] = {}
-    for r in runs:
-        gaps_of_line.setdefault(_line_key(r), []).extend(b[1] - a[2] for a, b in itertools.pairwise(r))
-    estimates = {key: _letter_spacing(gaps, key[1]) for key, gaps in gaps_of_line.items()}
-    spacing = {key: _settled(key, value, estimates) for key, value in estimates.items()}
+        left, right, top, bottom = rect.left, rect.right, height - rect.top, height - rect.bottom
+        h = bottom - top
+        if chars:
+            gap = left - pr
+            tall = max(h, ph, 1.0)
+            middle = (top + bottom) / 2
+            # the same run: forward, within a loose gap (wider than any letter spacing, narrower than a
+            # column gap), on the same line or a subscript or superscript of the character before
+            if (
+                gap > run_gap * tall
+                or left < pl - 0.5
+                or (abs(top - pt) > word_y and not pt - 0.5 <= middle <= pb + 0.5)
+            ):
+                runs.append((chars, gaps, size, widest, x1, t, b))
+                chars, gaps = [], []
+            else:
+                gaps.append(gap)
+                widest = max(widest, gap)
+                size, x1, t, b = max(size, h), max(x1, right), min(t, top), max(b, bottom)
+        if not chars:
+            size, widest, x1, t, b = h, 0.0, right, top, bottom
+        chars.append((chr(code), left, right, top, bottom))
+        pl, pr, pt, pb, ph = left, right, top, bottom, h
+    if chars:
+        runs.append((chars, gaps, size, widest, x1, t, b))
+    word_x, word_gap = SETTINGS.word_x, SETTINGS.word_gap
+    spacing: dict[tuple[int, int], float] = {}
+    if any(r[3] > max(word_x, word_gap * r[2]) for r in runs):
+        # letter spacing is a property of a line's style: estimated from every run of one line and size
+        gaps_of_line: dict[tuple[int, int], list[float]] = {}
+        for r in runs:
+            gaps_of_line.setdefault(_line_key(r[0][0][3], r[2]), []).extend(r[1])
+        estimates = {key: _letter_spacing(g, key[1]) for key, g in gaps_of_line.items()}
+        spacing = {key: _settled(key, value, estimates) for key, value in estimates.items()}
     words: list[WordT] = []
     for r in runs:
-        words += _split_run(r, spacing[_line_key(r)])
+        if r[3] <= max(word_x, word_gap * r[2]):  # no gap wide enough to split it, whatever the spacing
+            words.append(("".join(c[0] for c in r[0]), r[0][0][1], r[4], r[5], r[6]))
+        else:
+            words += _split_run(r[0], r[1], r[2], spacing[_line_key(r[0][0][3], r[2])])
     sample = range(0, count, 16)  # the text's direction, from every sixteenth character
     printed = [i for i in sample if 32 < buffer[i] < 0xFFFE]
     if sum(1 for i in printed if raw.FPDFText_GetCharAngle(handle, i) not in (0.0, -1.0)) * 2 > len(printed):
@@ -87,21 +116,9 @@ def _words(raw, textpage, height: float) -> list[WordT]:
 CharT = tuple[str, float, float, float, float]  # (text, left, right, top, bottom)
 
 
-def _same_run(prev: CharT, c: CharT) -> bool:
-    """The character follows the one before on its line: it starts at or after it, within a loose gap
-    (wider than any letter spacing, narrower than a column gap), and it stands on the same line or
-    as a subscript or superscript of it (its middle within the earlier character's height)."""
-    size = max(prev[4] - prev[3], c[4] - c[3], 1.0)
-    gap = c[1] - prev[2]
-    if gap > SETTINGS.run_gap * size or c[1] < prev[1] - 0.5:
-        return False
-    middle = (c[3] + c[4]) / 2
-    return abs(c[3] - prev[3]) <= SETTINGS.word_y or prev[3] - 0.5 <= middle <= prev[4] + 0.5
-
-
-def _line_key(run: list[CharT]) -> tuple[int, int]:
+def _line_key(top: float, size: float) -> tuple[int, int]:
     """Runs of one line in one size share a key: (top, height) in whole points (top in steps of two)."""
-    return round(run[0][3] / 2), round(max(c[4] - c[3] for c in run))
+    return round(top / 2), round(size)
 
 
 def _letter_spacing(gaps: list[float], size: float) -> tuple[float, float | None]:
@@ -130,11 +147,9 @@ def _settled(key: tuple[int, int], estimate: tuple[float, float | None], all_: d
     return 0.0
 
 
-def _split_run(run: list[CharT], spacing: float) -> list[WordT]:
+def _split_run(run: list[CharT], gaps: list[float], size: float, spacing: float) -> list[WordT]:
     """A run of characters into words: a gap wider than the line's letter spacing by more than a
     fraction of the font height starts a word."""
-    gaps = [b[1] - a[2] for a, b in itertools.pairwise(run)]
-    size = max(c[4] - c[3] for c in run)
     limit = max(SETTINGS.word_x, spacing + SETTINGS.word_gap * size)
     words: list[WordT] = []
     text = [run[0][0]]
