@@ -383,13 +383,16 @@ def expand(
 @app.command()
 def extract(
     pdf: Path = typer.Argument(..., help="The calc package (PDF).", metavar="PDF"),
-    output: Path = typer.Option(..., "-o", "--output", help="Write the claims (YAML) here.", metavar="FILE"),
+    output: Path | None = typer.Option(None, "-o", "--output", help="Write the claims (YAML) here.", metavar="FILE"),
     pages: str | None = typer.Option(None, "--pages", help="Pages to read, e.g. 12-30,35.", metavar="PAGES"),
     column_map: Path | None = typer.Option(
         None, "--map", help="A column map (YAML) for unusual tables.", metavar="FILE"
     ),
     standard: str = typer.Option(
         "o86", "--standard", metavar="ID", help="Whose symbols the calc sheets use: o86, nds or ec5."
+    ),
+    show: int | None = typer.Option(
+        None, "--show", metavar="PAGE", help="Print how the reader sees one page (heads, columns, each row)."
     ),
 ) -> None:
     """Pull the claimed bearing checks out of a calc package PDF into a claims file."""
@@ -399,6 +402,11 @@ def extract(
 
     try:
         headers = standard_named(standard, Location("--standard")).claim_headers
+        if show is not None:
+            _show_page(pdf, show, column_map, headers)
+            return
+        if output is None:
+            raise InputError("give -o FILE for the claims, or --show PAGE to see a page", Location("-o"))
         _check_files({"PDF": pdf, "--map": column_map}, {"--output": output})
         result = _extract(pdf, pages, column_map, headers)
         write_atomic(output, claims_yaml(result, pdf.name), "--output")
@@ -406,6 +414,14 @@ def extract(
         _fail(exc)
     count = len(result.claims)
     typer.echo(f"wrote {output}: {count} claim{'' if count == 1 else 's'} from pages {_page_list(result.pages_parsed)}")
+
+
+def _show_page(pdf: Path, page: int, column_map: Path | None, headers: dict[str, str]) -> None:
+    from audit.inputs.pdf.extract import read_column_map, show_page
+
+    _check_files({"PDF": pdf, "--map": column_map}, {})
+    cmap = read_column_map(column_map, headers) if column_map else None
+    typer.echo(show_page(pdf, page, cmap, headers), nl=False)
 
 
 def _page_list(pages: tuple[int, ...]) -> str:

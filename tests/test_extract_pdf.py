@@ -10,7 +10,7 @@ from audit.inputs.pdf.extract import claims_yaml, extract, read_column_map
 from tests.conftest import DEMO, ROOT
 
 PDFS = ROOT / "fixtures" / "pdf"
-LAYOUTS = ["ruled", "borderless", "continued", "equations", "no-text-first-page"]
+LAYOUTS = ["ruled", "borderless", "continued", "equations", "no-text-first-page", "spreadsheet"]
 
 
 def _same(extracted, expected):

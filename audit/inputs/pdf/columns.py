@@ -42,7 +42,11 @@ UNIT_ALIASES = {
     "in2": "in**2",
     "in²": "in**2",
 }
-CANDIDATE = re.compile(r"Q\s?'?\s?[fr]\b|Q[fr]'|F\s?cp|K\s?ZCP|KZcp|Qf|Qr", re.IGNORECASE)
+# The trade's symbols on a page worth reading: O86 (Qf, Qr, Fcp, KZcp), US NDS (P', Fc⊥), EN 1995 (F_c,90,d)
+CANDIDATE = re.compile(
+    r"Q\s?'?\s?[fr]\b|Q[fr]'|F\s?cp|K\s?ZCP|KZcp|Qf|Qr|\bP\s?'\s?=|F\s?c\s?⊥|F\s?c\s?-?perp|[Ff]\s?_?c\s?,\s?90",
+    re.IGNORECASE,
+)
 
 
 @dataclass(frozen=True)
@@ -51,6 +55,8 @@ class ColumnMap:
     units: dict[str, str] = field(default_factory=dict)
     pages: str | None = None
     kind: str = ""  # a kind for every claim read with this map
+    positions: dict[int, str] = field(default_factory=dict)  # column number (from 1, left) -> field
+    bands: dict[str, re.Pattern[str]] = field(default_factory=dict)  # field -> a band over its column
 
 
 def default_map(standard_headers: dict[str, str] | None = None) -> ColumnMap:
@@ -74,12 +80,16 @@ def read_column_map(path: Path | str, standard_headers: dict[str, str] | None = 
         errors.add(f"unknown key '{key}' (allowed: columns, pages, kind)", root.key_loc(key))
     headers = dict(default_map(standard_headers).headers)
     units: dict[str, str] = {}
+    positions: dict[int, str] = {}
+    bands: dict[str, re.Pattern[str]] = {}
     columns = root.value.get("columns")
     for name, node in columns.value.items() if columns and isinstance(columns.value, dict) else []:
         if name not in DEFAULT_HEADERS:
             errors.add(f"unknown field '{name}' (known: {', '.join(DEFAULT_HEADERS)})", node.loc)
             continue
         spec = node.value if isinstance(node.value, dict) else {"header": node}
+        for key in sorted(set(spec) - {"header", "unit", "column", "band"}):
+            errors.add(f"unknown key '{key}' (allowed: header, unit, column, band)", node.key_loc(key))
         pattern = spec.get("header")
         if pattern is not None:
             try:
@@ -89,6 +99,20 @@ def read_column_map(path: Path | str, standard_headers: dict[str, str] | None = 
         unit = spec.get("unit")
         if unit is not None:
             units[name] = str(unit.value)
+        column = spec.get("column")
+        if column is not None:
+            if isinstance(column.value, bool) or not isinstance(column.value, int) or column.value < 1:
+                errors.add("column must be a whole number from 1 (the leftmost column of the table)", column.loc)
+            elif column.value in positions:
+                errors.add(f"column {column.value} is already given to {positions[column.value]}", column.loc)
+            else:
+                positions[column.value] = name
+        band = spec.get("band")
+        if band is not None:
+            try:
+                bands[name] = re.compile(str(band.value), re.IGNORECASE)
+            except re.error as exc:
+                errors.add(f"band pattern is not a valid regular expression: {exc}", band.loc)
     # fields named in the map are tried first, in the map's order
     if columns and isinstance(columns.value, dict):
         order = [k for k in columns.value if k in headers] + [k for k in headers if k not in columns.value]
@@ -98,4 +122,6 @@ def read_column_map(path: Path | str, standard_headers: dict[str, str] | None = 
     if kind is not None and kind.value not in ("local", "near-support"):
         errors.add("kind must be local or near-support", kind.loc)
     errors.raise_if_any()
-    return ColumnMap(headers, units, str(pages.value) if pages else None, str(kind.value) if kind else "")
+    return ColumnMap(
+        headers, units, str(pages.value) if pages else None, str(kind.value) if kind else "", positions, bands
+    )

@@ -17,6 +17,7 @@ from dataclasses import dataclass, replace
 from pathlib import Path
 
 from audit.core.errors import InputError, Location
+from audit.inputs.pdf.bands import NUMBER_CELL, close_below, compose, is_head_like
 from audit.inputs.pdf.columns import (
     CANDIDATE,
     FACTOR_FIELDS,
@@ -25,13 +26,16 @@ from audit.inputs.pdf.columns import (
     default_map,
     read_column_map,
 )
-from audit.inputs.pdf.equations import EQUATION, claim_from_equation, joined_equation
+from audit.inputs.pdf.equations import EQUATION_HINT, claim_from_equation, find_equation, joined_equation
 from audit.inputs.pdf.pages import EdgeT, open_document, page_words, parse_pages, scan_pages
 from audit.inputs.pdf.settings import SETTINGS
 from audit.inputs.pdf.tables import (
+    UNIT_CELL,
     Line,
     Table,
+    cells_of,
     group_lines,
+    head_cells,
     header_of,
     primed_under_groups,
     row_cells,
@@ -73,6 +77,37 @@ class Extraction:
         )
 
 
+NEAR_WORDS = re.compile(r"near|squeez|within\s*d\b|adjacent to (the )?support|'", re.IGNORECASE)
+LOCAL_WORDS = re.compile(r"\b(local|crushing|direct|at the bearing)\b", re.IGNORECASE)
+VALUE_FIELDS = (*NUMERIC_FIELDS, *FACTOR_FIELDS, "Qf'", "Qr'")
+
+
+def kind_in_words(cells: dict[str, str]) -> str:
+    """The check's kind as a row's words give it, in a kind column or any column that is not a value, a
+    location or a member ('Near support', 'squeeze', 'local'); '' when they say neither."""
+    for key, text in cells.items():
+        if key in VALUE_FIELDS or key in ("location", "member"):
+            continue
+        if NEAR_WORDS.search(text):
+            return "near-support"
+        if LOCAL_WORDS.search(text):
+            return "local"
+    return ""
+
+
+def _split_verdicts(cells: dict[str, str]) -> tuple[dict[str, str], bool | None]:
+    """Value cells with an OK or N.G. after the number (an OK column with a blank head falls in the last
+    column): the cells without it, and the verdict."""
+    verdict: bool | None = None
+    out = dict(cells)
+    for key in VALUE_FIELDS:
+        parts = out.get(key, "").split()
+        if len(parts) >= 2 and (v := parse_adequate(parts[-1])) is not None:
+            out[key] = " ".join(parts[:-1])
+            verdict = v
+    return out, verdict
+
+
 def _claim_from_row(
     cells: dict[str, str], table: Table, line: Line, state: _State, cmap: ColumnMap, name: str
 ) -> Claim:
@@ -81,17 +116,18 @@ def _claim_from_row(
     if not location:
         raise InputError("row has no location label", where)
     state.last_location = location
+    cells, verdict = _split_verdicts(cells)
     values: dict[str, float] = {}
     for field_name in (*NUMERIC_FIELDS, *FACTOR_FIELDS):
         if cells.get(field_name, "").strip():
             values[field_name] = parse_value(cells[field_name], field_name, table.units, where)
     if not any(f in values for f in NUMERIC_FIELDS):
         raise InputError("row has no Qf, Qr or utilisation", where)
-    kind_text = cells.get("kind", "").lower()
-    kind = cmap.kind or (
-        "near-support" if ("near" in kind_text or "squeez" in kind_text or "'" in kind_text) else table.kind or "local"
-    )
-    return _row_claim(cells, values, table, line, location, kind, where)
+    kind = cmap.kind or kind_in_words(cells) or table.kind or "local"
+    adequate = parse_adequate(cells.get("adequate", ""))
+    if adequate is None:
+        adequate = verdict if verdict is not None else parse_adequate(line.words[-1][0])
+    return _row_claim(cells, values, table, line, location, kind, where, adequate)
 
 
 def pair_claims(
@@ -102,6 +138,7 @@ def pair_claims(
     if not any(cells.get(f, "").strip() for f in ("Qf'", "Qr'")):
         return [first]
     where = Location(name, line.page, int(line.words[0][1]), "row")
+    cells, _ = _split_verdicts(cells)
     near = {
         f: parse_value(cells[f"{f}'"], f, {f: table.units.get(f"{f}'", table.units.get(f, ""))}, where)
         for f in ("Qf", "Qr")
@@ -111,7 +148,9 @@ def pair_claims(
     return [first, second]
 
 
-def _row_claim(cells, values, table: Table, line: Line, location: str, kind: str, where: Location) -> Claim:
+def _row_claim(
+    cells, values, table: Table, line: Line, location: str, kind: str, where: Location, adequate: bool | None
+) -> Claim:
     return Claim(
         id="",
         where=Where(page=line.page, table=table.name, x=round(line.words[0][1], 1), y=round(line.top, 1)),
@@ -122,10 +161,58 @@ def _row_claim(cells, values, table: Table, line: Line, location: str, kind: str
         qr=values.get("Qr"),
         utilisation=values.get("utilisation"),
         factors={k: v for k, v in values.items() if k in FACTOR_FIELDS},
-        adequate=parse_adequate(cells["adequate"]) if "adequate" in cells else parse_adequate(line.words[-1][0]),
+        adequate=adequate,
         text=line.text,
         loc=where,
     )
+
+
+def head_at(
+    lines: list[Line], i: int, cmap: ColumnMap, edges: list[EdgeT] | None, taken: dict[int, str]
+) -> tuple[Table, list[int]] | None:
+    """The table whose head stands at line ``i``, with the lines its head takes: one line; two read
+    stacked (a symbol over its subscript or unit); or bands of any depth, the symbols' line with the
+    group bands above it and a units row under it."""
+    line = lines[i]
+    header = header_of(line, cmap, edges)
+    if header is not None and cmap.positions and not is_head_like(line):
+        header = None  # columns named by position: only a line of heads opens a table, never a row
+    if header is None:
+        if i + 1 < len(lines) and MAYBE_HEADER.search(line.text) and header_of(lines[i + 1], cmap, edges) is None:
+            header = header_of(stacked(line, lines[i + 1]), cmap, edges)
+            if header is not None:
+                return header, [i, i + 1]
+        if not (cmap.bands or MAYBE_HEADER.search(line.text)) or not is_head_like(line):
+            return None
+    top, bottom = i, i
+    first_x1 = head_cells(line)[0][2] if line.words else 0.0
+    while (
+        top - 1 >= 0
+        and taken.get(top - 1, "running").startswith("running")  # a line taken for a running head may be a band
+        and bottom - top + 1 < SETTINGS.head_bands
+        and is_head_like(lines[top - 1])
+        and close_below(lines[top - 1], lines[top])
+        and (len(cells_of(lines[top - 1])) >= 2 or lines[top - 1].words[0][1] > first_x1)
+    ):
+        top -= 1  # a band over the symbols (a group label, cells merged down the rows)
+    while (
+        bottom + 1 < len(lines)
+        and bottom - top + 1 < SETTINGS.head_bands
+        and close_below(lines[bottom], lines[bottom + 1])
+        and all(UNIT_CELL.match(c[0].strip()) for c in head_cells(lines[bottom + 1]))
+    ):
+        bottom += 1  # a units row under the symbols
+    if top == bottom:
+        if header is not None and i > 0 and (primed := primed_under_groups(lines[i - 1], line)) is not None:
+            header = header_of(primed, cmap, edges) or header  # a near-support group over some columns
+        return (header, [i]) if header is not None else None
+    band = lines[top : bottom + 1]
+    deep = header_of(lines[i], cmap, edges, compose(band, edges))
+    if header is None:  # the line alone names too little: the head read as bands may name enough
+        return (deep, list(range(top, bottom + 1))) if deep is not None else None
+    if deep is None or sum(1 for f in deep.fields if f) < sum(1 for f in header.fields if f):
+        return header, [i]
+    return deep, list(range(top, bottom + 1))
 
 
 def claims_of_page(
@@ -136,49 +223,52 @@ def claims_of_page(
     warnings: list[str],
     edges: list[EdgeT] | None = None,
     unread: list[Unread] | None = None,
+    roles: dict[int, str] | None = None,
 ) -> list[Claim]:
-    """The page's claims. Rows inside a table that carry numbers but yield no claim go to ``unread``."""
+    """The page's claims. Every line that looks like a row of numbers and yields no claim goes to
+    ``unread`` with its position; ``roles`` (given) gets what each line became, by index."""
     out: list[Claim] = []
     unread = unread if unread is not None else []
+    roles = roles if roles is not None else {}
     table = state.table if state.open_at_end else None
     continuing = table is not None  # lines above the first row (a running header) do not end it
     row_table: Table | None = None
     last_row_index = -1
     just_headed = False
-    skip = -1
+    skip: set[int] = set()
+    unnamed_reported: set[tuple[str, str]] = set()
     for i, line in enumerate(lines):
-        if i == skip:
-            continue  # the second line of a header read with the line above
-        header = header_of(line, cmap, edges)
-        if (
-            header is None
-            and i + 1 < len(lines)
-            and MAYBE_HEADER.search(line.text)
-            and header_of(lines[i + 1], cmap, edges) is None
-        ):
-            header = header_of(stacked(line, lines[i + 1]), cmap, edges)
-            if header is not None:
-                skip = i + 1
-        if header is not None and i > 0 and (primed := primed_under_groups(lines[i - 1], line)) is not None:
-            header = header_of(primed, cmap, edges) or header  # a near-support group over some columns
-        if header is not None:
+        if i in skip:
+            continue  # a later line of a head or an equation read with an earlier one
+        head = head_at(lines, i, cmap, edges, roles)
+        if head is not None:
+            header, band = head
+            for n, k in enumerate(band, start=1):
+                roles[k] = f"head, band {n} of {len(band)}" if len(band) > 1 else "head"
+            skip.update(k for k in band if k > i)
             state.table_count += 1
             table = replace(header, name=f"table {state.table_count} (p. {line.page})")
+            roles[band[-1]] += "; " + _columns_role(table)
             state.last_location = ""
             row_table, continuing, just_headed = None, False, True
             continue
-        has_q = "Q" in line.text  # every equation names Qf or Qr: most lines need no search
-        eq = EQUATION.search(line.text) if has_q else None
+        has_eq = EQUATION_HINT.search(line.text) is not None  # most lines hold no equation
+        eq = find_equation(line.text) if has_eq else None
         eq_line = line
-        if eq is None and has_q and (joined := joined_equation(lines, i)) is not None:
-            eq, eq_line, skip = joined  # an equation over several lines; its later line is read with it
+        if eq is None and has_eq and (joined := joined_equation(lines, i)) is not None:
+            eq, eq_line, last = joined  # an equation over several lines; its later line is read with it
+            skip.add(last)
+            roles[last] = "equation (its second line)"
         if eq:
             try:
                 claim = claim_from_equation(eq, eq_line, lines[:i], name)
                 if claim:
                     out.append(claim)
+                    roles[i] = f"claim {claim.label}: {claim.kind} (worked equation)"
             except InputError as exc:
                 warnings.append(exc.one_line())
+                unread.append(_unread(line, f"equation not read: {exc.message}"))
+                roles[i] = f"not read: {exc.message}"
             table, row_table, continuing = None, None, False
             continue
         if table is None:
@@ -186,38 +276,131 @@ def claims_of_page(
         if just_headed and (units := unit_row(line, table)):
             table = replace(table, units={**table.units, **units})  # a row of units under the header
             just_headed = False
+            roles[i] = "units: " + ", ".join(f"{k} {v}" for k, v in units.items())
             continue
         just_headed = False
         cells = row_cells(line, table)
-        if cells is None or not any(STARTS_NUMERIC.match(cells.get(f, "")) for f in NUMERIC_FIELDS):
+        if cells is None or not any(STARTS_NUMERIC.match(cells.get(f, "")) for f in (*NUMERIC_FIELDS, "Qf'", "Qr'")):
             if continuing and i < SETTINGS.running_lines:
+                roles[i] = "running head of the page"
                 continue
-            if cells is not None and set(cells) <= LABEL_FIELDS and i + 1 < len(lines) and _is_row(lines[i + 1], table):
+            named = {k for k in cells or {} if not k.startswith("#")}
+            if (
+                cells is not None
+                and named
+                and named <= LABEL_FIELDS
+                and i + 1 < len(lines)
+                and _is_row(lines[i + 1], table)
+            ):
+                roles[i] = f"group: {line.text[:60]}"
                 continue  # a group row (a level or member heading) between rows: the table goes on
+            if cells is not None and (units := unit_row(line, table)):
+                table = replace(table, units={**table.units, **units})  # units repeated under a group row
+                roles[i] = "units: " + ", ".join(f"{k} {v}" for k, v in units.items())
+                continue
             if (
                 row_table is not None
                 and HAS_DIGIT.search(line.text)
                 and i + 1 < len(lines)
                 and _is_row(lines[i + 1], table)
             ):
-                unread.append(Unread(line.page, "table row not read", line.text[:160]))
-                continue
+                continue  # a row the table cannot place; reported below with its position; the table goes on
             table = None  # running text or a new block ends the table
             continue
         continuing = False
         if SUBTOTAL.match(cells.get("location", "")):
-            unread.append(Unread(line.page, "table row not read: a total, not a check", line.text[:160]))
+            unread.append(_unread(line, "table row not read: a total, not a check"))
+            roles[i] = "not read: a total, not a check"
             continue
         try:
-            out += pair_claims(cells, table, line, state, cmap, name)
+            claims = pair_claims(cells, table, line, state, cmap, name)
+            out += claims
             row_table, last_row_index = table, i
+            roles[i] = "claim " + "; ".join(f"{c.label}: {c.kind}" for c in claims)
+            _report_unnamed_numbers(cells, table, warnings, unnamed_reported)
         except InputError as exc:
             warnings.append(f"{exc.one_line()} (text: '{line.text[:120]}')")
-            unread.append(Unread(line.page, f"table row not read: {exc.message}", line.text[:160]))
+            unread.append(_unread(line, f"table row not read: {exc.message}"))
+            roles[i] = f"not read: {exc.message}"
+    _report_numeric_rows(lines, roles, unread)
     # a table whose last row stands at the foot of the page (only a footer below) may go on
     state.open_at_end = row_table is not None and last_row_index >= len(lines) - SETTINGS.footer_lines
     state.table = row_table
     return out
+
+
+def _columns_role(table: Table) -> str:
+    labels = table.labels or ("",) * len(table.fields)
+    columns = [
+        f"{n}: {f or 'not understood'} ('{label}')"
+        for n, (f, label) in enumerate(zip(table.fields, labels, strict=False), start=1)
+    ]
+    return "columns " + ", ".join(columns) + (f"; kind {table.kind}" if table.kind else "")
+
+
+def _report_unnamed_numbers(cells: dict[str, str], table: Table, warnings: list[str], seen: set) -> None:
+    """A number in a column whose head was not understood: named once per table and column."""
+    for key, text in cells.items():
+        if key.startswith("#") and STARTS_NUMERIC.match(text) and (table.name, key) not in seen:
+            seen.add((table.name, key))
+            index = int(key[1:]) - 1
+            label = table.labels[index] if index < len(table.labels) else key
+            warnings.append(
+                f"{table.name}: numbers under column {index + 1} '{label}', a head not understood, are not read "
+                "(name it in a --map if it matters)"
+            )
+
+
+def _unread(line: Line, what: str) -> Unread:
+    return Unread(line.page, what, line.text[:160], round(line.words[0][1], 1), round(line.top, 1))
+
+
+def _report_numeric_rows(lines: list[Line], roles: dict[int, str], unread: list[Unread]) -> None:
+    """Every line left that reads as a row of numbers (two cells or more, a number among them) is
+    reported by row: never dropped because another table on the page read."""
+    numeric = [i not in roles and _numeric_row(line) for i, line in enumerate(lines)]
+    for i, line in enumerate(lines):
+        if not numeric[i]:
+            continue
+        numbers = sum(1 for c in cells_of(line) if NUMBER_CELL.match(c[0].strip()))
+        neighbours = (i > 0 and numeric[i - 1]) or (i + 1 < len(lines) and numeric[i + 1])
+        if numbers < 2 and not neighbours:
+            continue
+        why = _why_not_read(lines, i, roles)
+        unread.append(_unread(line, f"table row not read: {why}"))
+        roles[i] = f"not read: {why}"
+
+
+def _off(x: float, cell: tuple[str, float, float]) -> float:
+    return 0.0 if cell[1] <= x <= cell[2] else min(abs(cell[1] - x), abs(cell[2] - x))
+
+
+def _numeric_row(line: Line) -> bool:
+    cells = head_cells(line)  # a spreadsheet's row number alone does not make a row of numbers
+    return len(cells) >= 2 and any(NUMBER_CELL.match(c[0].strip()) for c in cells)
+
+
+def _why_not_read(lines: list[Line], i: int, roles: dict[int, str]) -> str:
+    """Why a row of numbers gave no claim: the head above it that names no Qf or Qr (with the heads its
+    numbers stand under), or no head at all."""
+    for k in range(i - 1, max(-1, i - 40), -1):
+        role = roles.get(k, "")
+        if role.startswith("head"):
+            return "gave no claim; its table's columns do not fit it (a --map can name them by position)"
+        if k not in roles and is_head_like(lines[k]) and len(cells_of(lines[k])) >= 2:
+            heads = cells_of(lines[k])
+            under = []
+            for text, x0, x1 in cells_of(lines[i]):
+                if NUMBER_CELL.match(text.strip()):
+                    centre = (x0 + x1) / 2
+                    head = min(
+                        heads,
+                        key=lambda h: 0 if h[1] <= centre <= h[2] else min(abs(h[1] - centre), abs(h[2] - centre)),
+                    )
+                    under.append(f"'{head[0]}'")
+            listed = ", ".join(dict.fromkeys(under))
+            return f"gave no claim: numbers under {listed}, a head not understood (give a --map naming it)"
+    return "gave no claim: no table head above it that names Qf, Qr or a utilisation"
 
 
 HAS_DIGIT = re.compile(r"\d")
@@ -238,9 +421,12 @@ class Unread:
     page: int
     what: str
     text: str
+    x: float | None = None  # where on the page (points from the left and from the top), for a row
+    y: float | None = None
 
     def line(self) -> str:
-        return f"page {self.page}: {self.what}: '{self.text}'"
+        at = f" (x {self.x:.0f}, y {self.y:.0f})" if self.x is not None and self.y is not None else ""
+        return f"page {self.page}{at}: {self.what}: '{self.text}'"
 
 
 def extract(
@@ -258,7 +444,7 @@ def extract(
     count = len(doc)
     doc.close()
     wanted = parse_pages(pages or cmap.pages, count, Location(str(path), 0, 0, "pages"))
-    custom_headers = cmap.headers != default_map().headers
+    custom_headers = cmap.headers != default_map().headers or bool(cmap.positions)
     read: dict = {}
     candidates, empty, warnings = scan_pages(path, wanted, any_text=custom_headers, read=read)
     workers = workers if workers is not None else max(1, min(os.cpu_count() or 1, 8))
@@ -301,6 +487,49 @@ def extract(
     return Extraction(
         numbered, tuple(warnings), len(wanted), tuple(sorted(done)), tuple(empty), tuple(candidates), tuple(unread)
     )
+
+
+def show_page(
+    path: Path | str, number: int, cmap: ColumnMap | None = None, standard_headers: dict[str, str] | None = None
+) -> str:
+    """The page as the reader sees it: each line with its position and what it became (a head and the
+    columns found, units, a group, a claim, not read and why), and the cells of each head with their
+    positions, so a reviewer can write a --map naming a head, a band or a column by its number."""
+    path = Path(path)
+    cmap = cmap or default_map(standard_headers)
+    doc = open_document(path)
+    count = len(doc)
+    doc.close()
+    if not 1 <= number <= count:
+        raise InputError(f"page {number} is not in the document (1 to {count})", Location(str(path), 0, 0, "--show"))
+    wanted = [n for n in (number - 1, number) if n >= 1]
+    parsed = page_words(path, wanted, 1)
+    state = _State()
+    out = [f"{path.name}, page {number} as the reader sees it (x and y in points from the page's top left)"]
+    for n in wanted:
+        words, edges, problem = parsed[n]
+        lines = group_lines(n, words)
+        roles: dict[int, str] = {}
+        warnings: list[str] = []
+        unread: list[Unread] = []
+        claims_of_page(lines, state, cmap, str(path), warnings, edges, unread, roles)
+        if n != number:
+            continue
+        if problem:
+            out.append(f"  {problem}")
+        for i, line in enumerate(lines):
+            role = roles.get(i, "")
+            out.append(f"  y {line.top:6.1f}  x {line.words[0][1]:6.1f}  {line.text[:70]:<70}  {_arrow(role)}")
+            if role.startswith("head"):
+                cells = "  ".join(f"[{t} | x {x0:.0f}-{x1:.0f}]" for t, x0, x1 in head_cells(line))
+                out.append(f"  {'':20}  cells: {cells}")
+        for w in warnings:
+            out.append(f"  warning: {w}")
+    return "\n".join(out) + "\n"
+
+
+def _arrow(role: str) -> str:
+    return f"-> {role}" if role else ""
 
 
 def _vocabulary(parsed: dict, number: int) -> str:

@@ -32,8 +32,12 @@ def page_words_pdfium(page, textpage=None) -> tuple[list[WordT], list[EdgeT]]:
 
 
 def _words(raw, textpage, height: float) -> list[WordT]:
-    """Characters into words as they are read: same line (tops within the tolerance), no space and no gap
-    between. One call fetches every character's code; one more per character its loose (font) box."""
+    """Characters into words as they are read. One call fetches every character's code; one more per
+    character its loose (font) box. Runs of characters on one line are split into words where a gap is
+    wide for the font (relative to the characters' height and to the run's own letter spacing), never
+    at a fixed distance: letter-spaced text and text of any size read as the words they print. The
+    spaces pdfium guesses are ignored (they split letter-spaced words); the file's own spaces and line
+    ends always end a word."""
     count = textpage.count_chars()
     if count <= 0:
         return []
@@ -41,39 +45,123 @@ def _words(raw, textpage, height: float) -> list[WordT]:
     raw.FPDFText_GetText(textpage.raw, 0, count, buffer)
     rect = raw.FS_RECTF()
     get_box = raw.FPDFText_GetLooseCharBox
+    generated = raw.FPDFText_IsGenerated
     handle = textpage.raw
-    gap_x, gap_y = SETTINGS.word_x, SETTINGS.word_y
-    words: list[WordT] = []
-    text: list[str] = []
-    x0 = x1 = t = b = 0.0
+    run_gap, word_y = SETTINGS.run_gap, SETTINGS.word_y
+    # a run: (characters, gaps between them, the tallest character's height, the widest gap, x1, top, bottom)
+    runs: list[tuple[list[CharT], list[float], float, float, float, float, float]] = []
+    chars: list[CharT] = []
+    gaps: list[float] = []
+    size = widest = x1 = 0.0
+    t = b = 0.0
+    pl = pr = pt = pb = ph = 0.0
     for i in range(count):
         code = buffer[i]
-        if code <= 32 or code >= 0xFFFE:  # spaces, line ends and markers end a word
-            if text:
-                words.append(("".join(text), x0, x1, t, b))
-                text = []
+        if code <= 32 or code >= 0xFFFE:
+            if code == 32 and generated(handle, i) == 1:
+                continue  # pdfium's own guess at a space: the gap rule below decides
+            if chars:
+                runs.append((chars, gaps, size, widest, x1, t, b))
+                chars, gaps = [], []
             continue
         if not get_box(handle, i, rect):
             continue
         left, right, top, bottom = rect.left, rect.right, height - rect.top, height - rect.bottom
-        if text and abs(top - t) <= gap_y and left - x1 <= gap_x and left >= x0 - 0.5:
-            text.append(chr(code))
-            if right > x1:
-                x1 = right
-            if bottom > b:
-                b = bottom
-            if top < t:
-                t = top
+        h = bottom - top
+        if chars:
+            gap = left - pr
+            tall = max(h, ph, 1.0)
+            middle = (top + bottom) / 2
+            # the same run: forward, within a loose gap (wider than any letter spacing, narrower than a
+            # column gap), on the same line or a subscript or superscript of the character before
+            if (
+                gap > run_gap * tall
+                or left < pl - 0.5
+                or (abs(top - pt) > word_y and not pt - 0.5 <= middle <= pb + 0.5)
+            ):
+                runs.append((chars, gaps, size, widest, x1, t, b))
+                chars, gaps = [], []
+            else:
+                gaps.append(gap)
+                widest = max(widest, gap)
+                size, x1, t, b = max(size, h), max(x1, right), min(t, top), max(b, bottom)
+        if not chars:
+            size, widest, x1, t, b = h, 0.0, right, top, bottom
+        chars.append((chr(code), left, right, top, bottom))
+        pl, pr, pt, pb, ph = left, right, top, bottom, h
+    if chars:
+        runs.append((chars, gaps, size, widest, x1, t, b))
+    word_x, word_gap = SETTINGS.word_x, SETTINGS.word_gap
+    spacing: dict[tuple[int, int], float] = {}
+    if any(r[3] > max(word_x, word_gap * r[2]) for r in runs):
+        # letter spacing is a property of a line's style: estimated from every run of one line and size
+        gaps_of_line: dict[tuple[int, int], list[float]] = {}
+        for r in runs:
+            gaps_of_line.setdefault(_line_key(r[0][0][3], r[2]), []).extend(r[1])
+        estimates = {key: _letter_spacing(g, key[1]) for key, g in gaps_of_line.items()}
+        spacing = {key: _settled(key, value, estimates) for key, value in estimates.items()}
+    words: list[WordT] = []
+    for r in runs:
+        if r[3] <= max(word_x, word_gap * r[2]):  # no gap wide enough to split it, whatever the spacing
+            words.append(("".join(c[0] for c in r[0]), r[0][0][1], r[4], r[5], r[6]))
         else:
-            if text:
-                words.append(("".join(text), x0, x1, t, b))
-            text, x0, x1, t, b = [chr(code)], left, right, top, bottom
-    if text:
-        words.append(("".join(text), x0, x1, t, b))
+            words += _split_run(r[0], r[1], r[2], spacing[_line_key(r[0][0][3], r[2])])
     sample = range(0, count, 16)  # the text's direction, from every sixteenth character
     printed = [i for i in sample if 32 < buffer[i] < 0xFFFE]
     if sum(1 for i in printed if raw.FPDFText_GetCharAngle(handle, i) not in (0.0, -1.0)) * 2 > len(printed):
         raise Sideways()
+    return words
+
+
+CharT = tuple[str, float, float, float, float]  # (text, left, right, top, bottom)
+
+
+def _line_key(top: float, size: float) -> tuple[int, int]:
+    """Runs of one line in one size share a key: (top, height) in whole points (top in steps of two)."""
+    return round(top / 2), round(size)
+
+
+def _letter_spacing(gaps: list[float], size: float) -> tuple[float, float | None]:
+    """A line's letter spacing, and its even gap where that is uncertain. Where the gaps fall in two
+    groups (letters and the wider spaces between words) the spacing is the lower quartile gap; where
+    they are all alike, letter spacing if narrower than a space; else uncertain (spaced letters of
+    one-word cells, or one-letter words): settled by the page's other lines."""
+    if len(gaps) < 2:
+        return 0.0, None
+    low = max(0.0, sorted(gaps)[len(gaps) // 4])
+    two_groups = max(gaps) > low + SETTINGS.word_gap * size
+    if two_groups or low <= SETTINGS.alike_letter_spacing * size:
+        return min(low, SETTINGS.max_letter_spacing * size), None
+    return 0.0, low
+
+
+def _settled(key: tuple[int, int], estimate: tuple[float, float | None], all_: dict) -> float:
+    """An uncertain line's spacing: its even gap where a certain line of the page in the same size is
+    spaced alike (a letter-spaced table: its one-word cells and its longer ones), else none."""
+    spacing, even = estimate
+    if even is None:
+        return spacing
+    for (_, size), (other, other_even) in all_.items():
+        if other_even is None and other > 0 and abs(size - key[1]) <= 1 and abs(other - even) <= 0.08 * key[1]:
+            return even
+    return 0.0
+
+
+def _split_run(run: list[CharT], gaps: list[float], size: float, spacing: float) -> list[WordT]:
+    """A run of characters into words: a gap wider than the line's letter spacing by more than a
+    fraction of the font height starts a word."""
+    limit = max(SETTINGS.word_x, spacing + SETTINGS.word_gap * size)
+    words: list[WordT] = []
+    text = [run[0][0]]
+    _, x0, x1, t, b = run[0]
+    for c, gap in zip(run[1:], gaps, strict=True):
+        if gap > limit:
+            words.append(("".join(text), x0, x1, t, b))
+            text, x0, x1, t, b = [c[0]], c[1], c[2], c[3], c[4]
+            continue
+        text.append(c[0])
+        x1, t, b = max(x1, c[2]), min(t, c[3]), max(b, c[4])
+    words.append(("".join(text), x0, x1, t, b))
     return words
 
 

@@ -46,6 +46,31 @@ def cells_of(line: Line, gap: float = SETTINGS.cell_gap) -> list[tuple[str, floa
 
 
 @dataclass(frozen=True)
+class HeadCell:
+    """One column of a table head: its x range and the texts over it, top band first, its own last."""
+
+    x0: float
+    x1: float
+    path: tuple[str, ...]
+
+    @property
+    def text(self) -> str:
+        return " ".join(self.path)
+
+
+def single_band(line: Line) -> list[HeadCell]:
+    return [HeadCell(x0, x1, (text,)) for text, x0, x1 in head_cells(line)]
+
+
+def head_cells(line: Line) -> list[tuple[str, float, float]]:
+    """A head line's cells, less a spreadsheet's row number standing first (a bare whole number)."""
+    cells = cells_of(line)
+    if len(cells) > 1 and re.fullmatch(r"\d{1,5}", cells[0][0]):
+        return cells[1:]
+    return cells
+
+
+@dataclass(frozen=True)
 class Table:
     fields: tuple[str, ...]
     bounds: tuple[tuple[float, float], ...]  # x range of each column
@@ -53,9 +78,11 @@ class Table:
     name: str
     kind: str  # near-support when the header says Qr' or Qf'
     alt_bounds: tuple[tuple[float, float], ...] = ()  # borderless tables: columns split midway between headers
+    labels: tuple[str, ...] = ()  # each column's head as printed (its bands, then its own text)
+    spans: tuple[tuple[float, float], ...] = ()  # each head cell's own x range (its text)
 
 
-def _rulings_across(line: Line, edges: list[EdgeT]) -> list[float]:
+def rulings_across(line: Line, edges: list[EdgeT]) -> list[float]:
     """x positions of vertical rules that run through the line (a ruled table's cell walls)."""
     top = line.top
     bottom = max(w[4] for w in line.words)
@@ -67,62 +94,134 @@ def _rulings_across(line: Line, edges: list[EdgeT]) -> list[float]:
     return merged
 
 
-def _column_bounds(found: list[tuple[str, float, float, str]], rulings: list[float]) -> list[tuple[float, float]]:
+def _column_bounds(found: list[Found], rulings: list[float]) -> list[tuple[float, float]]:
     """Each header cell's column: between the rules around it in a ruled table; otherwise from its
     left edge to the next header's left edge (left-aligned headers, numbers aligned either way)."""
     if len(rulings) >= 3:
         bounds = []
-        for _, x0, x1, _ in found:
-            centre = (x0 + x1) / 2
+        for f in found:
+            centre = (f.x0 + f.x1) / 2
             left = max((x for x in rulings if x <= centre), default=-1e9)
             right = min((x for x in rulings if x > centre), default=1e9)
             bounds.append((left, right))
         return bounds
-    starts = [f[1] - 2 for f in found]
+    starts = [f.x0 - 2 for f in found]
     return [(-1e9 if i == 0 else starts[i], 1e9 if i == len(found) - 1 else starts[i + 1]) for i in range(len(found))]
 
 
-def header_of(line: Line, cmap: ColumnMap, edges: list[EdgeT] | None = None) -> Table | None:
-    cells = cells_of(line)
-    found: list[tuple[str, float, float, str]] = []
+@dataclass(frozen=True)
+class Found:
+    """A head cell as read: the field it names ('' if none), its x range, its own text (the symbol
+    with any unit under it) and the bands over it."""
+
+    name: str
+    x0: float
+    x1: float
+    own: str
+    groups: tuple[str, ...]
+
+
+def _bracketed_unit(text: str) -> str | None:
+    m = re.search(r"[\(\[]\s*([^\)\]]+?)\s*[\)\]]", text)
+    if m:
+        return m[1]
+    parts = text.split()
+    if len(parts) > 1 and UNIT_CELL.match(parts[-1]) and parts[-1] != "-":
+        return parts[-1]  # a unit under or after its symbol, unbracketed ('Qf kN')
+    return None
+
+
+def _strip(text: str) -> str:
+    return re.sub(r"[\(\[].*?[\)\]]", "", text).strip()
+
+
+def _name_cell(head: HeadCell, position: int, cmap: ColumnMap, used: set[str]) -> Found:
+    """The field a head cell names: by its position where the map gives one, else by the nearest text of
+    its path (from its own text up) that a header pattern matches, a band pattern allowing; units
+    under a symbol stay with it."""
+    by_position = cmap.positions.get(position)
+    if by_position and by_position not in used:
+        return Found(by_position, head.x0, head.x1, head.path[-1], head.path[:-1])
+    path = head.path
+    j = len(path) - 1
+    while j > 0 and (not _strip(path[j]) or UNIT_CELL.match(path[j].strip())):
+        j -= 1  # units under the symbol stay with it
+    own, groups, label = " ".join(path[j:]), path[:j], _strip(path[j])
+    for name, pattern in cmap.headers.items():
+        if name in used or name in cmap.positions.values() or not pattern.search(label):
+            continue
+        band = cmap.bands.get(name)
+        if band is not None and not any(band.search(g) for g in groups):
+            continue
+        return Found(name, head.x0, head.x1, own, groups)
+    return Found("", head.x0, head.x1, own, groups)
+
+
+def header_of(
+    line: Line, cmap: ColumnMap, edges: list[EdgeT] | None = None, heads: list[HeadCell] | None = None
+) -> Table | None:
+    """The table a head line (or a head of several bands, ``heads``) opens, or None when it is not one."""
+    heads = heads if heads is not None else single_band(line)
+    found: list[Found] = []
     used: set[str] = set()
-    for text, x0, x1 in cells:
-        label = re.sub(r"[\(\[].*?[\)\]]", "", text).strip()
-        for name, pattern in cmap.headers.items():
-            if name not in used and pattern.search(label):
-                used.add(name)
-                found.append((name, x0, x1, text))
-                break
-        else:
-            found.append(("", x0, x1, text))
-    named = [f for f in found if f[0]]
-    if len(named) < 2 or not any(f[0] in NUMERIC_FIELDS for f in named):
+    for position, head in enumerate(heads, start=1):
+        cell = _name_cell(head, position, cmap, used)
+        if cell.name:
+            used.add(cell.name)
+        found.append(cell)
+    named = [f for f in found if f.name]
+    if len(named) < 2 or not any(f.name in NUMERIC_FIELDS for f in named):
         return None
-    bounds = _column_bounds(found, _rulings_across(line, edges or []))
+    rulings = rulings_across(line, edges or [])
+    bounds = _column_bounds(found, rulings)
     units = dict(cmap.units)
-    for name, _, _, text in named:
-        m = re.search(r"[\(\[]\s*([^\)\]]+?)\s*[\)\]]", text)
-        if m and name not in units:
-            units[name] = m[1]
-    near = any(f[0] in ("Qf", "Qr") and "'" in f[3] for f in named)
-    fields = [f[0] for f in found]
+    for f in named:
+        unit = _bracketed_unit(f.own)
+        if unit and f.name not in units:
+            units[f.name] = unit
+    fields = [f.name for f in found]
+    near_of = [f.name in ("Qf", "Qr") and ("'" in f.own or bool(NEAR_GROUP.search(" ".join(f.groups)))) for f in found]
+    q_columns = [i for i, f in enumerate(found) if f.name in ("Qf", "Qr")]
+    near = bool(q_columns) and all(near_of[i] for i in q_columns)
     if not near:  # a local and a near-support pair on one row: Qf | Qr | Qf' | Qr'
-        for i, (name, _, _, text) in enumerate(found):
-            primed = PRIMED.match(re.sub(r"[\(\[].*?[\)\]]", "", text).strip())
-            if not name and primed:
-                fields[i] = f"Q{(primed[1] or primed[2]).lower()}'"
-                m = re.search(r"[\(\[]\s*([^\)\]]+?)\s*[\)\]]", text)
-                if m:
-                    units[fields[i]] = m[1]
-    rulings = _rulings_across(line, edges or [])
+        for i, f in enumerate(found):
+            if near_of[i]:
+                fields[i] = f"{f.name}'"
+                unit = _bracketed_unit(f.own) or units.get(f.name, "")
+                if f.name not in cmap.units:
+                    units.pop(f.name, None)
+                if unit:
+                    units[fields[i]] = unit
+                continue
+            primed = PRIMED.match(_strip(f.own))
+            symbol = re.match(r"^q\s*([fr])(?![a-z])", _strip(f.own), re.IGNORECASE)
+            near_group = NEAR_GROUP.search(" ".join(f.groups))
+            if not f.name and (primed or (symbol and near_group)):
+                letter = (primed[1] or primed[2]) if primed else symbol[1]  # type: ignore[index]
+                fields[i] = f"Q{letter.lower()}'"
+                unit = _bracketed_unit(f.own)
+                if unit:
+                    units[fields[i]] = unit
+    for q in ("Qf", "Qr"):  # a symbol's unit serves its primed pair where that has none
+        if f"{q}'" in fields and f"{q}'" not in units and q in units:
+            units[f"{q}'"] = units[q]
     alt = () if len(rulings) >= 3 else tuple(_midway_bounds(found))
-    return Table(tuple(fields), tuple(bounds), units, "", "near-support" if near else "", alt)
+    return Table(
+        tuple(fields),
+        tuple(bounds),
+        units,
+        "",
+        "near-support" if near else "",
+        alt,
+        tuple(h.text for h in heads),
+        tuple((f.x0, f.x1) for f in found),
+    )
 
 
-def _midway_bounds(found: list[tuple[str, float, float, str]]) -> list[tuple[float, float]]:
+def _midway_bounds(found: list[Found]) -> list[tuple[float, float]]:
     """Columns split midway across the gaps between header cells: centred headers over numbers aligned
     right (or left) wider than the header itself."""
-    cuts = [(a[2] + b[1]) / 2 for a, b in itertools.pairwise(found)]
+    cuts = [(a.x1 + b.x0) / 2 for a, b in itertools.pairwise(found)]
     return [(-1e9 if i == 0 else cuts[i - 1], 1e9 if i == len(found) - 1 else cuts[i]) for i in range(len(found))]
 
 
@@ -140,7 +239,7 @@ def unit_row(line: Line, table: Table) -> dict[str, str] | None:
     found = {name: UNIT_CELL.match(text.strip()) for name, text in cells.items()}
     if not all(found.values()):
         return None
-    return {name: m[1] for name, m in found.items() if m is not None and m[1] != "-"}
+    return {name: m[1] for name, m in found.items() if m is not None and m[1] != "-" and not name.startswith("#")}
 
 
 def stacked(upper: Line, lower: Line) -> Line:
@@ -192,7 +291,33 @@ def row_cells(line: Line, table: Table) -> dict[str, str] | None:
             cells = _placed(line, table.fields, bounds)
             if cells is not None:
                 return cells
-    return None
+    return _nearest_placed(line, table) if table.alt_bounds and table.spans else None
+
+
+def _nearest_placed(line: Line, table: Table) -> dict[str, str] | None:
+    """A borderless row whose words fit neither way: each word under the head nearest to it (words
+    aligned left or right under centred heads, a unit set apart from its number). A cell (words close
+    together) must fall under one head, and a word under two heads is running text: None."""
+    spans = table.spans
+    texts: dict[int, list[str]] = {}
+    for _, x0, x1 in cells_of(line):
+        words = [w for w in line.words if w[1] >= x0 - 0.01 and w[2] <= x1 + 0.01]
+        columns = {_nearest(w[1], w[2], spans) for w in words}
+        if len(columns) != 1 or None in columns:
+            return None
+        index = columns.pop()
+        assert index is not None
+        texts.setdefault(index, []).extend(w[0] for w in words)
+    return {table.fields[i] or f"#{i + 1}": " ".join(t) for i, t in texts.items()}
+
+
+def _nearest(x0: float, x1: float, spans: tuple[tuple[float, float], ...]) -> int | None:
+    overlapped = [i for i, (a, b) in enumerate(spans) if x0 < b and a < x1]
+    if len(overlapped) > 1:
+        return None
+    if overlapped:
+        return overlapped[0]
+    return min(range(len(spans)), key=lambda i: min(abs(spans[i][0] - x1), abs(x0 - spans[i][1])))
 
 
 def _placed(line: Line, fields: tuple[str, ...], bounds) -> dict[str, str] | None:
@@ -200,10 +325,14 @@ def _placed(line: Line, fields: tuple[str, ...], bounds) -> dict[str, str] | Non
     for text, x0, x1, _, _ in line.words:
         centre = (x0 + x1) / 2
         index = next((i for i, (a, b) in enumerate(bounds) if a <= centre < b), None)
+        if index is None and (x1 <= bounds[0][0] or x0 >= bounds[-1][1]):
+            continue  # outside the table's walls: a spreadsheet's row numbers, a mark in the margin
         if index is None:
             return None
         a, b = bounds[index]
         if x0 < a - SETTINGS.cell_slack or x1 > b + SETTINGS.cell_slack:
             return None
         texts.setdefault(index, []).append(text)
-    return {fields[i]: " ".join(t) for i, t in texts.items() if fields[i]}
+    # a column whose head names no field keeps its words under its position ('#3'): its words may say
+    # the check's kind or verdict, and a number there is reported with its head
+    return {fields[i] or f"#{i + 1}": " ".join(t) for i, t in texts.items()}
