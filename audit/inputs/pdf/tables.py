@@ -180,7 +180,10 @@ def header_of(
         if unit and f.name not in units:
             units[f.name] = unit
     fields = [f.name for f in found]
-    near_of = [f.name in ("Qf", "Qr") and ("'" in f.own or bool(NEAR_GROUP.search(" ".join(f.groups)))) for f in found]
+    near_of = [
+        f.name in ("Qf", "Qr") and (_primed_for_near(f, cmap) or bool(NEAR_GROUP.search(" ".join(f.groups))))
+        for f in found
+    ]
     q_columns = [i for i, f in enumerate(found) if f.name in ("Qf", "Qr")]
     near = bool(q_columns) and all(near_of[i] for i in q_columns)
     if not near:  # a local and a near-support pair on one row: Qf | Qr | Qf' | Qr'
@@ -216,6 +219,15 @@ def header_of(
         tuple(h.text for h in heads),
         tuple((f.x0, f.x1) for f in found),
     )
+
+
+def _primed_for_near(found: Found, cmap: ColumnMap) -> bool:
+    """A prime marks the near-support pair (O86's Qr') only where the column's symbol is read without it:
+    in the NDS the prime of P' is part of the symbol (the adjusted allowable), not a second check."""
+    if "'" not in found.own:
+        return False
+    pattern = cmap.headers.get(found.name)
+    return pattern is None or bool(pattern.search(_strip(found.own).replace("'", "").strip()))
 
 
 def _midway_bounds(found: list[Found]) -> list[tuple[float, float]]:
