@@ -14,6 +14,7 @@ from typing import Any
 
 from audit import __version__
 from audit.engine.contacts import Contact
+from audit.report.quantities import quantities_of
 from audit.review.comments import own_comment_threshold
 from audit.review.review import Review
 from audit.review.wording import check_name
@@ -215,26 +216,27 @@ def _loads_made(review: Review, check) -> list:
 def explain(review: Review, check_id: str) -> str:
     r = review.result(check_id)
     c = r.check
+    q = quantities_of(review)  # lengths, forces and stresses in the project's units
     lines = [
         f"Check {c.id}: {check_name(c, review.model.members.get(c.other_member))} ({r.material}), "
         f"{review.standard.check_kinds.get(c.kind, c.kind)}, "
         + (f"at point load {c.load}" if c.load else f"at bearing {c.bearing}"),
         f"Why required: {c.why}",
-        f"Contact on the {c.face} face: {c.contact.length * 1000:.0f} mm along the grain ({c.contact.length_note}), "
-        f"{c.contact.width * 1000:.0f} mm across ({c.contact.width_note}), "
-        f"{c.contact.end_distance * 1000:.0f} mm from the member end",
+        f"Contact on the {c.face} face: {q.size(c.contact.length)} along the grain ({c.contact.length_note}), "
+        f"{q.size(c.contact.width)} across ({c.contact.width_note}), "
+        f"{q.length(c.contact.end_distance)} from the member end",
     ]
     for o in c.opposite:
         lines.append(
-            f"Load within d on the opposite face: {o.source}, {o.length * 1000:.0f} mm long, "
-            f"{o.width * 1000:.0f} mm wide, centre at {(o.centre or 0.0) * 1000:.0f} mm"
+            f"Load within d on the opposite face: {o.source}, {q.size(o.length)} long, "
+            f"{q.size(o.width)} wide, centre at {q.length(o.centre or 0.0)}"
         )
     lines.append(r.area_reason)
     lines += [f"  {f.reason}" + (f"  [{f.clause}]" if f.clause else "") for f in r.factors]
     lines.append(review.standard.formula(c.kind))
     lines.append(
         "Forces through the check (specified, per case): "
-        + ", ".join(f"{case} = {v / 1000:.2f} kN" for case, v in sorted(c.forces.items()))
+        + ", ".join(f"{case} = {q.force(v)}" for case, v in sorted(c.forces.items()))
     )
     bearing = review.model.bearings_by_id.get(c.bearing)
     if bearing is not None and bearing.calc_force:
@@ -244,12 +246,12 @@ def explain(review: Review, check_id: str) -> str:
     for case, e in sorted(c.envelope.items()):
         if e.own and not e.high_from and not e.low_from:
             lines.append(
-                f"Pattern loading of {case} on {c.member}'s spans: {e.low / 1000:.2f} to {e.high / 1000:.2f} kN "
+                f"Pattern loading of {case} on {c.member}'s spans: {q.force(e.low).split()[0]} to {q.force(e.high)} "
                 f"(most with {e.high_spans or 'every span'} loaded; least with {e.low_spans or 'no span'})"
             )
         else:
             lines.append(
-                f"Pattern loading of {case} at {c.bearing}: {e.low / 1000:.2f} to {e.high / 1000:.2f} kN "
+                f"Pattern loading of {case} at {c.bearing}: {q.force(e.low).split()[0]} to {q.force(e.high)} "
                 f"(most {e.placing(True)}; least {e.placing(False)})"
             )
     combos = {c.name: c for c in review.combinations}
@@ -263,8 +265,8 @@ def explain(review: Review, check_id: str) -> str:
             else f"KD = {x.kd:.2f}"
         )
         lines.append(
-            f"  {x.combination:28s} Qf = {x.qf / 1000:8.2f} kN  {reason:60.60s}  Fcp = {_fcp(r, x.kd) / 1e6:5.2f} MPa  "
-            f"Qr = {x.qr / 1000:8.2f} kN  Qf/Qr = {x.utilisation:.3f}{mark}"
+            f"  {x.combination:28s} Qf = {q.force(x.qf, 8)}  {reason:60.60s}  Fcp = {q.stress(_fcp(r, x.kd), 5)}  "
+            f"Qr = {q.force(x.qr, 8)}  Qf/Qr = {x.utilisation:.3f}{mark}"
         )
         if x.pattern:
             lines.append(f"      placed: {x.pattern}")

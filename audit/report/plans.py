@@ -17,6 +17,7 @@ from typing import Any
 from audit.core.natural import natural_key
 from audit.engine.model import Member
 from audit.engine.plan_geometry import Axis, box, strip
+from audit.report.quantities import quantities_of
 from audit.report.sketch import FONT, text_width
 from audit.review.comments import Comment
 from audit.review.review import Review
@@ -154,6 +155,7 @@ def _plan(review: Review, level: str, members: list[Member], outcome: dict[str, 
     return {
         "level": level,
         "elevation": frame.levels[level],
+        "elevation_text": quantities_of(review).elevation(frame.levels[level]),
         "width": WIDTH,
         "height": height,
         "grids": grids,

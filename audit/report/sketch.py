@@ -16,6 +16,7 @@ from typing import Any
 
 from audit.core.natural import natural_key, natural_sorted
 from audit.core.units import FORCE_UNITS
+from audit.report.quantities import quantities_of
 from audit.review.review import Review
 from audit.standards.checks import NEAR
 
@@ -78,13 +79,14 @@ def place_in_rows(items: list[_Item]) -> int:
     return 1 + max((i.row for i in placed), default=-1)
 
 
-def _force_text(forces: dict[str, float], unit: str, scale: float) -> str:
+def _force_text(forces: dict[str, float], unit: str, scale: float, decimals: int = 2) -> str:
     parts = []
     for case, value in sorted(forces.items()):
-        if abs(value) * scale < 0.005:
+        if abs(value) * scale < 0.5 * 10**-decimals:
             continue
         name = "factored" if case.startswith("factored:") else case
-        parts.append(f"{name} {value * scale:.2f}")
+        shown = f"{value * scale:,.0f}" if decimals == 0 else f"{value * scale:.{decimals}f}"  # 1,000 plf
+        parts.append(f"{name} {shown}")
     return (" + ".join(parts) or "0") + f" {unit}"
 
 
@@ -170,6 +172,7 @@ def _sketch(
         return round(LEFT + span * x / member.length, 1)
 
     unit = review.display.force_unit
+    units = quantities_of(review)
     top: list[_Item] = []
     bottom: list[_Item] = []
     for force in review.flow.on_top.get(member_id, ()):
@@ -180,7 +183,8 @@ def _sketch(
             x0 = min(max(x - 2.0, 2.0), WIDTH - 2.0 - w)  # the label starts at its leader
             top.append(_Item(x0, x0 + w, x, payload={"kind": "load", "x": x, "text": text}))
         elif force.start is not None and force.end is not None:
-            text = f"{force.source}: {_force_text(force.forces, unit + '/m', 1.0 / FORCE_UNITS[unit])}"
+            per, factor, decimals = units.line_load_unit(max((abs(v) for v in force.forces.values()), default=0.0))
+            text = f"{force.source}: {_force_text(force.forces, per, 1.0 / factor, decimals)}"
             x1, x2 = px(force.start), px(force.end)
             w = text_width(text)
             x0 = min(max(x1 + 2.0, 2.0), WIDTH - 2.0 - w)
@@ -256,8 +260,8 @@ def _sketch(
         "member": member_id if not others else f"{', '.join(same)} (typical)",
         "label": member.label,
         "alike": others,
-        "length_mm": f"{member.length * 1000:.0f}",
-        "d_mm": f"{member.d * 1000:.0f}",
+        "length": units.length(member.length),
+        "d": units.size(member.d),
         "width": WIDTH,
         "height": round(height, 1),
         "beam": {"x": px(0.0), "y": round(beam_y, 1), "w": round(span, 1), "h": BEAM_H},
