@@ -467,11 +467,35 @@ def explain(
 
 
 @app.command()
-def rules(rules_dir: list[Path] | None = RulesDir) -> None:
-    """List the rule packs and every value with its provenance."""
+def rules(
+    rules_dir: list[Path] | None = RulesDir,
+    sheet: str | None = typer.Option(
+        None, "--sheet", metavar="PACK", help="Write every value of pack PACK to a workbook (-o) a firm fills in."
+    ),
+    adopt: Path | None = typer.Option(
+        None, "--adopt", metavar="FILE", help="Read a filled --sheet workbook and write the firm pack (-o, YAML)."
+    ),
+    output: Path | None = typer.Option(None, "-o", "--output", metavar="FILE", help="Where --sheet or --adopt writes."),
+) -> None:
+    """List the rule packs and every value with its provenance; --sheet and --adopt verify a pack."""
     from audit.standards.packs import load_all_packs
     from audit.standards.registry import standard_named
 
+    if sheet is not None or adopt is not None or output is not None:
+        from audit.report.pack_sheet import adopt_pack, write_sheet
+
+        try:
+            if (sheet is None) == (adopt is None) or output is None:
+                raise InputError("give --sheet PACK -o FILE.xlsx, or --adopt FILE.xlsx -o FILE.yaml")
+            if sheet is not None:
+                lines = write_sheet(sheet, output, _dirs(rules_dir))
+            else:
+                assert adopt is not None
+                lines = adopt_pack(adopt, output, _dirs(rules_dir))
+        except InputError as exc:
+            _fail(exc)
+        typer.echo("\n".join(lines))
+        return
     try:
         resistance, combos = load_all_packs(_dirs(rules_dir))
     except InputError as exc:

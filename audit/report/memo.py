@@ -21,6 +21,7 @@ from audit.inputs.read_claims import Claim
 from audit.report.export import check_record, name_of
 from audit.review.comments import WEIGHT_WORDS, Comment, build_comments
 from audit.review.findings import KINDS, SEVERITIES, Finding
+from audit.review.pack_use import pack_use_sentence
 from audit.review.reconcile import Reconciliation, failing_without_claims
 from audit.review.review import Review, uplift_threshold
 from audit.review.rounds import Round
@@ -487,7 +488,7 @@ def _head(review: Review, options: MemoOptions) -> dict[str, Any]:
         "version": __version__,
         "pack": review.pack,
         "cpack": review.cpack,
-        "cautions": [c.format(standard=review.standard.title) for c in CAUTIONS],
+        "cautions": [c.format(standard=review.standard.title) for c in CAUTIONS] + [pack_use_sentence(review)],
         "force_unit": review.display.force_unit,
     }
 
