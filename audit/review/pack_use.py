@@ -53,7 +53,7 @@ def pack_use(review: Review) -> PackUse:
 
 
 def _are(n: int) -> str:
-    return f"{n} is" if n == 1 else f"{n} are"
+    return "none is" if n == 0 else f"{n} is" if n == 1 else f"{n} are"
 
 
 def pack_use_sentence(review: Review) -> str:
