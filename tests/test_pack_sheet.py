@@ -10,6 +10,8 @@ from __future__ import annotations
 
 import pytest
 import yaml
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
 from openpyxl import load_workbook
 
 from audit.inputs.pack_sheet import COLUMNS, PACK_SHEET, VALUES_SHEET
@@ -161,3 +163,55 @@ def test_the_firm_pack_is_never_written_into_the_bundled_rules(run_cli, tmp_path
     target = builtin_rules_dir() / "firm-o86.yaml"
     result = run_cli("rules", "--adopt", sheet, "-o", target)
     assert result.exit_code == 2 and "bundled rules folder" in result.stderr and not target.exists()
+
+
+def test_a_verified_combination_keeps_its_factors_and_carries_the_status(run_cli, tmp_path):
+    sheet = _sheet(run_cli, tmp_path, "asce7-16-asd-recalled")
+    filled = tmp_path / "filled.xlsx"
+    _fill(sheet, filled, {"combinations/D+L": "{D: 1.0, L: 1.0}"})
+    firm = tmp_path / "firm-asd.yaml"
+    result = run_cli("rules", "--adopt", filled, "-o", firm)
+    assert result.exit_code == 0, result.output
+    assert "0 differ from the recalled ones" in result.output
+    combos = {c["name"]: c for c in yaml.safe_load(firm.read_text())["combinations"]}
+    assert combos["D+L"]["factors"] == {"D": 1.0, "L": 1.0}
+    assert combos["D+L"]["status"].startswith("verified 2026-12-02")
+    assert combos["D+S"]["status"] == "from memory: verify"
+
+
+CELLS = st.one_of(
+    st.none(),
+    st.integers(-(10**6), 10**6),
+    st.floats(allow_nan=True, allow_infinity=True),
+    st.text(st.characters(blacklist_categories=("Cc", "Cs")), max_size=40),  # what a cell can hold
+    st.sampled_from(["5.5 MPa", "[[1, 2], [0, 1]]", "{D: 1.0}", "&a [*a, *a]", "=1+1", "2026-02-30", "phi", "- x"]),
+)
+
+
+@settings(max_examples=25, deadline=None, suppress_health_check=list(HealthCheck))
+@given(edits=st.lists(st.tuples(st.integers(2, 60), st.integers(1, 11), CELLS), min_size=1, max_size=8))
+def test_any_edit_of_the_sheet_adopts_or_is_refused_in_located_lines(edits):
+    """Fuzz (hypothesis): cells anywhere on sheet 'Values' changed to anything; every run ends in exit 0 or 2."""
+    import contextlib
+    import io
+    import tempfile
+    from pathlib import Path
+
+    from audit import cli
+
+    with tempfile.TemporaryDirectory() as folder:
+        base = Path(folder)
+        assert cli.run(["rules", "--sheet", O86, "-o", str(base / "s.xlsx")]) == 0
+        book = load_workbook(base / "s.xlsx")
+        for row, col, value in edits:
+            book[VALUES_SHEET].cell(row, col, value)
+        book.save(base / "e.xlsx")
+        err = io.StringIO()
+        with contextlib.redirect_stderr(err), contextlib.redirect_stdout(io.StringIO()):
+            code = cli.run(["rules", "--adopt", str(base / "e.xlsx"), "-o", str(base / "firm.yaml")])
+        assert code in (0, 2) and "internal error" not in err.getvalue()
+        assert (code == 0) == (base / "firm.yaml").exists()
+        if code == 0:  # what was adopted reads as a pack
+            from audit.inputs.pack_sheet import read_pack_text
+
+            read_pack_text((base / "firm.yaml").read_text(), "firm.yaml")

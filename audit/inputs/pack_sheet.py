@@ -22,7 +22,7 @@ from typing import Any
 import yaml
 
 from audit.core.errors import ErrorCollector, InputError, InputErrors, Location
-from audit.core.located_yaml import MAX_FILE_BYTES, read_yaml_text
+from audit.core.located_yaml import MAX_FILE_BYTES, Node, read_yaml_text
 from audit.core.outfiles import require_input_file
 from audit.core.units import DIMENSIONS, is_number_and_unit, parse_quantity
 
@@ -49,6 +49,7 @@ HEAD_KEYS = ("kind", "id", "title", "edition", "provenance", "standard", "format
 VALUE_FIELDS = ("value", "factors")  # the field of a sourced entry that holds its value
 SIBLING_VALUES = ("tension_face", "ratio")  # a second value that shares its entry's clause, source and status
 WORKBOOK_EXPANDED_BYTES = 4 * MAX_FILE_BYTES
+CELL_TEXT = 32_767  # the most a spreadsheet cell holds: a list or mapping longer than that is not one typed
 VERIFIED = "verified"  # a status that starts so is verified; one with "from memory" is recalled
 
 
@@ -335,14 +336,25 @@ def _read_value(sheet: _Sheet, row: int, col: int, raw: Any, recalled: Any) -> A
             if not is_number_and_unit(text) or _dimension(text) != kind:
                 sheet.errors.add(f"'{text}' is not a {kind} with a unit, as the recalled '{recalled}' is", where)
         return text
-    try:
-        value = yaml.safe_load(_text(raw))
-    except yaml.YAMLError:
-        value = None
+    text = _text(raw)
+    value = None
+    if len(text) <= CELL_TEXT:
+        try:  # the located reader: it refuses an alias bomb or deep nesting as it would in a pack file
+            value = _plain(read_yaml_text(text, "(cell)"))
+        except InputError:
+            value = None
     if type(value) is not type(recalled):
         form = "a list in brackets, e.g. " if isinstance(recalled, list) else "a mapping in braces, e.g. "
         sheet.errors.add(f"'{_text(raw)}' cannot be read as {form}{shown(recalled)}", where)
     return value
+
+
+def _plain(node: Node) -> Any:
+    if isinstance(node.value, dict):
+        return {str(k): _plain(v) for k, v in node.value.items()}
+    if isinstance(node.value, list):
+        return [_plain(v) for v in node.value]
+    return node.value
 
 
 def _float(text: str) -> float | None:
