@@ -215,3 +215,18 @@ def test_any_edit_of_the_sheet_adopts_or_is_refused_in_located_lines(edits):
             from audit.inputs.pack_sheet import read_pack_text
 
             read_pack_text((base / "firm.yaml").read_text(), "firm.yaml")
+
+
+def test_a_glulam_strength_and_its_tension_face_are_verified_together(run_cli, tmp_path):
+    sheet = _sheet(run_cli, tmp_path)
+    filled = tmp_path / "filled.xlsx"
+    _fill(sheet, filled, {"fcp/glulam/D.Fir-L": "7.0 MPa"})  # they share one status in the pack
+    result = run_cli("rules", "--adopt", filled, "-o", tmp_path / "firm.yaml")
+    assert result.exit_code == 2 and "'fcp/glulam/D.Fir-L/tension_face' shares this value's status" in result.stderr
+    _fill(sheet, filled, {"fcp/glulam/D.Fir-L": "7.0 MPa", "fcp/glulam/D.Fir-L/tension_face": "6.5 MPa"})
+    result = run_cli("rules", "--adopt", filled, "-o", tmp_path / "firm.yaml")
+    assert result.exit_code == 0, result.stderr
+    glulam = yaml.safe_load((tmp_path / "firm.yaml").read_text())["fcp"]["glulam"]["D.Fir-L"]
+    assert (glulam["value"], glulam["tension_face"]) == ("7.0 MPa", "6.5 MPa")
+    assert "fcp/glulam/D.Fir-L/tension_face: recalled 7.0 MPa, verified 6.5 MPa" in result.output
+    assert "fcp/glulam/D.Fir-L:" not in result.output  # confirmed as recalled

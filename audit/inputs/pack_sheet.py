@@ -446,6 +446,8 @@ def firm_pack(
     editions = sorted({v.edition for v in verified})
     total = len(pack_values(source))
     data["id"] = firm_id
+    if verified:  # the source's edition says its values were recalled: say which were checked since
+        data["edition"] = f"{source.get('edition', '')}; {len(verified)} values verified against {'; '.join(editions)}"
     data["title"] = title or f"{source.get('title', source_id)} (firm pack: verified where marked)"
     data["provenance"] = (
         f"Adopted from rule pack {source_id}: {len(verified)} of {total} values verified against "
