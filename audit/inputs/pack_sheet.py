@@ -452,7 +452,7 @@ def firm_pack(
     data["provenance"] = (
         f"Adopted from rule pack {source_id}: {len(verified)} of {total} values verified against "
         f"{'; '.join(editions) or 'no printed edition'} (each marked 'verified' with its date and who checked it); "
-        "the others are as recalled and marked 'from memory: verify'."
+        "the others keep their recalled value and status."
     )
     return data
 
