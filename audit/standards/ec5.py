@@ -27,7 +27,7 @@ from typing import Any
 from audit.core.errors import ErrorCollector, InputError
 from audit.core.located_yaml import Node
 from audit.core.units import parse_quantity
-from audit.engine.contacts import Contact
+from audit.engine.contacts import Contact, longer, shorter
 from audit.engine.model import STORAGE_LIVE, Model, base_case
 from audit.engine.take_down import FORCE_RESOLUTION, Forces, TakeDown
 from audit.standards.checks import LOCAL, CheckList, RequiredCheck, local_only
@@ -225,7 +225,7 @@ def kc90_factor(check: RequiredCheck, model: Model, pack: Ec5Pack, reach: Reach)
     else:
         return Factor("kc,90", 1.0, "kc,90 = 1.00: a load on a member on discrete supports", clause)
     need = pack.kc90_spacing * member.d
-    if reach.clear < need - 1e-9:
+    if shorter(reach.clear, need):  # ties at the stated resolution, alike in SI and US input
         return Factor(
             "kc,90",
             1.0,
@@ -233,7 +233,7 @@ def kc90_factor(check: RequiredCheck, model: Model, pack: Ec5Pack, reach: Reach)
             "(the spacing condition)",
             clause,
         )
-    if arrangement == "discrete" and family == "glulam" and check.contact.length > pack.kc90_glulam_max_length + 1e-9:
+    if arrangement == "discrete" and family == "glulam" and longer(check.contact.length, pack.kc90_glulam_max_length):
         return Factor(
             "kc,90", 1.0, f"kc,90 = 1.00: glulam contact {check.contact.length * 1000:.0f} mm over 400 mm", clause
         )

@@ -21,6 +21,7 @@ from typing import Any, TypeVar
 
 from audit.core.errors import ErrorCollector, InputError
 from audit.core.located_yaml import Node
+from audit.engine.contacts import longer, shorter
 from audit.engine.model import (
     FACTORED_PREFIX,
     STORAGE_LIVE,
@@ -294,11 +295,11 @@ def kb_factor(length: float, end_distance: float, material: Material, pack: Resi
         return Factor("KB", 1.0, "KB = 1.00: the product's evaluation report does not allow KB", clause)
     max_len = pack.kb_max_length.value
     min_end = pack.kb_min_end_distance.value
-    if length > max_len + 1e-9:
+    if longer(length, max_len):  # ties at the stated resolution, alike in SI and US input
         return Factor(
             "KB", 1.0, f"KB = 1.00: bearing length {length * 1000:.0f} mm exceeds {max_len * 1000:.0f} mm", clause
         )
-    if end_distance < min_end - 1e-9:
+    if shorter(end_distance, min_end):
         return Factor(
             "KB",
             1.0,
