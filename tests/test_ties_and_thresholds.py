@@ -127,3 +127,55 @@ def test_a_layout_in_us_units_expands_to_the_same_bearings_as_in_si(tmp_path):
     assert bearings[0] == bearings[1]
     on_beam = {b["lower"]["length"] for b in bearings[0] if b["lower"]["member"] == "BA"}
     assert on_beam == {"0.038 m"}  # each joist's 38 mm width along the beam (square crossing, by hand)
+
+
+# ---------------------------------------------------------------- thresholds relative to the load (item 13)
+
+
+def _windy(scale: float = 1.0) -> dict:
+    """J1 (4 m, on B1 and W1 centred 65 mm from each end: symmetric) under D 1 kN/m, L 2 kN/m and wind
+    pressure 0.1 kN/m or suction 0.6435 kN/m, every load times ``scale``. By hand, per kN/m J1's reaction at
+    each support is 4/2 = 2 kN: under 0.9D + 1.4W (suction) each carries 0.9 x 2 - 1.4 x 1.287 = -0.0018 kN,
+    an uplift of 1.8 N."""
+    model = base_model()
+    model["loads"][0]["specified"] = {
+        "D": f"{1.0 * scale!r} kN/m",
+        "L": f"{2.0 * scale!r} kN/m",
+        "W": {"pressure": f"{0.1 * scale!r} kN/m", "suction": f"{0.6435 * scale!r} kN/m"},
+    }
+    return model
+
+
+def _listing(review) -> dict:
+    return {r.check.id: (tuple(sorted(c.combination for c in r.combinations)), r.uplift) for r in review.results}
+
+
+@pytest.mark.parametrize("scale", [0.5, 2.0, 1000.0])
+def test_scaled_loads_list_the_same_checks_combinations_and_uplift(scale):
+    # at scale 1 B1's supports see 0.9 N of uplift and J1's 1.8 N: an absolute 1 N threshold listed the one only
+    # when the loads were doubled
+    assert _listing(review_dict(_windy(scale))) == _listing(review_dict(_windy()))
+
+
+def test_an_uplift_of_1_8_n_is_noted_for_the_record_in_its_own_digits_and_asks_nothing():
+    from audit.review.comments import build_comments
+
+    review = review_dict(_windy())
+    uplift = next(f for f in review.engine_findings if f.kind == "uplift" and f.bearing == "J1/W1")
+    assert uplift.numbers["qf"] == pytest.approx(-1.8, abs=1e-6)  # by hand, as in _windy
+    assert uplift.severity == "record" and "0.0018 kN" in uplift.message and "0.00 kN" not in uplift.message
+    assert "nothing is asked" in uplift.message and "tie-down" not in uplift.message
+    assert all(c.quiet for c in build_comments(review, None, ()) if c.kind == "uplift")  # not a comment that asks
+    # the same building a thousand times heavier lifts 1.8 kN, above the pack's 0.5 kN: that asks for the tie-down
+    heavy = next(f for f in review_dict(_windy(1000.0)).engine_findings if f.kind == "uplift" and f.bearing == "J1/W1")
+    assert heavy.severity == "revise" and "1.80 kN" in heavy.message and "confirm the tie-down" in heavy.message
+
+
+@pytest.mark.parametrize(("snow_n_per_m", "present"), [("0.15 N/m", False), ("1.5 N/m", True), ("1.5 kN/m", True)])
+def test_a_case_counts_at_a_bearing_only_beyond_a_ten_thousandth_of_the_load_there(snow_n_per_m, present):
+    # J1's reactions: D 2 kN and L 4 kN (as in _windy); snow over the 4 m brings 0.3 N, 3 N or 3 kN to each
+    # support. A ten-thousandth of 6 kN is 0.6 N (hand calculation): only the first counts as absent.
+    model = base_model()
+    model["loads"].append({"id": "snow", "member": "J1", "type": "uniform", "specified": {"S": snow_n_per_m}})
+    combos = {c.combination for c in review_dict(model).result("J1/W1:W1").combinations}
+    assert ("1.25D+1.5S" in combos) is present, combos

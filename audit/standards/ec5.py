@@ -29,7 +29,7 @@ from audit.core.located_yaml import Node
 from audit.core.units import parse_quantity
 from audit.engine.contacts import Contact, longer, shorter
 from audit.engine.model import STORAGE_LIVE, Model, base_case
-from audit.engine.take_down import FORCE_RESOLUTION, Forces, TakeDown
+from audit.engine.take_down import Forces, TakeDown, force_floor
 from audit.standards.checks import LOCAL, CheckList, RequiredCheck, local_only
 from audit.standards.o86 import (
     CheckResult,
@@ -310,10 +310,11 @@ def kmod_rule(pack: Ec5Pack, service: str):
     classes, table = pack.duration_classes.value, pack.kmod.value[service]
 
     def rule(forces: Forces, combo: LoadCombination) -> tuple[float, str]:
+        floor = force_floor(forces.values())  # relative to the load here: alike for scaled loads
         present = [
             classes.get(case, classes.get(base_case(case), "permanent"))  # L:storage has a class of its own
             for case, factor in combo.factors.items()
-            if factor and abs(forces.get(case, 0.0)) > FORCE_RESOLUTION
+            if factor and abs(forces.get(case, 0.0)) > floor
         ] or ["permanent"]
         shortest = max(present, key=CLASSES.index)
         value = table[shortest]
