@@ -1014,7 +1014,7 @@ def _id_warnings(members: dict[str, Member], bearings: tuple[Bearing, ...], load
     for text, loc, what in named:
         why = suspicious_characters(text)
         if why:
-            yield f"{loc}: {what} {text!r} {why}"
+            yield f"{loc}: {what} '{text}' {why}"  # the CLI writes the character as <U+XXXX>
 
 
 def _support_extent(b: Bearing, members: dict[str, Member]) -> tuple[float, float]:
