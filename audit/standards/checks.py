@@ -16,6 +16,7 @@ from dataclasses import dataclass, field, replace
 
 from audit.core.errors import ErrorCollector, InputError
 from audit.engine.contacts import (
+    LENGTH_RESOLUTION,
     Contact,
     contact_on,
     face_bearings,
@@ -266,7 +267,8 @@ def _near_support_checks(model: Model, flow: TakeDown, pack: ResistancePack, cou
         limit = reach * member.d
         for support in supports_of[member_id]:
             x = support.upper.at
-            near = top[bisect_left(positions, x - limit - 1e-9) : bisect_right(positions, x + limit + 1e-9)]
+            tie = 0.5 * LENGTH_RESOLUTION  # a load d away to the stated resolution is within d, in SI and US input
+            near = top[bisect_left(positions, x - limit - tie) : bisect_right(positions, x + limit + tie)]
             if not near:
                 continue
             lower = model.members[support.lower.member]
