@@ -198,3 +198,15 @@ def test_a_point_load_a_tenth_of_a_millimetre_beyond_d_does_not_squeeze_the_memb
         {"id": "post", "member": "B1", "type": "point", "at": "455.1 mm", "length": "89 mm", "specified": {"D": "5 kN"}}
     )
     assert "B1/C1:B1:near" not in {r.check.id for r in review_dict(model).results}
+
+
+@pytest.mark.parametrize("length", ["2106 mm", "82.91338 in"])
+def test_an_end_stud_touching_the_last_regular_stud_to_the_resolution_is_placed(length):
+    from tests.verification.details import post_on_stud_wall
+
+    # 38 mm studs at 406 mm from 19 mm: the last regular one at 19 + 5 x 406 = 2049 mm; on a 2106 mm plate the
+    # end stud at 2106 - 19 = 2087 mm touches it (2087 - 2049 = 38 mm, by hand); 82.91338 in is 2105.99985 mm
+    data = post_on_stud_wall()
+    data["members"][0]["length"] = length
+    studs = sorted(b.upper.at or 0.0 for b in review_dict(data).model.bearings if b.upper.member == "WP")
+    assert len(studs) == 7 and studs[-1] == pytest.approx(2.087, abs=1e-5)  # six studs and the pack, by hand
