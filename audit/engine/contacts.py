@@ -28,12 +28,12 @@ def in_steps(length: float) -> int:
 
 def shorter(a: float, b: float) -> bool:
     """``a`` is shorter than ``b`` at the stated resolution (a tie is not shorter)."""
-    return a < b if math.isinf(a) or math.isinf(b) else in_steps(a) < in_steps(b)
+    return in_steps(a) < in_steps(b) if math.isfinite(a) and math.isfinite(b) else a < b
 
 
 def longer(a: float, b: float) -> bool:
     """``a`` is longer than ``b`` at the stated resolution (a tie is not longer)."""
-    return a > b if math.isinf(a) or math.isinf(b) else in_steps(a) > in_steps(b)
+    return in_steps(a) > in_steps(b) if math.isfinite(a) and math.isfinite(b) else a > b
 
 
 def snapped(length: float) -> float:
