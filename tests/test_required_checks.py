@@ -142,10 +142,10 @@ def test_uplift_is_a_major_finding_by_default():
     assert uplift and {f.severity for f in uplift} == {"revise"}
 
 
-def test_uplift_below_the_project_threshold_is_a_minor_note_that_states_it():
+def test_uplift_below_the_project_threshold_is_for_the_record_and_states_it():
     # by hand: at J1/B1, 1.25 x 1 kN/m - 1.4 x 3 kN/m = -2.95 kN/m over J1, about -5.7 kN: under 10 kN
     uplift = [f for f in review_dict(_suction_model("10 kN")).engine_findings if f.kind == "uplift"]
-    assert uplift and {f.severity for f in uplift} == {"clarify"}
+    assert uplift and {f.severity for f in uplift} == {"record"}
     assert all("10.00 kN" in f.message for f in uplift)
 
 
@@ -166,6 +166,6 @@ def test_a_firms_pack_can_set_the_uplift_note_threshold_and_the_memo_states_it(t
     root = read_yaml_text(yaml.safe_dump(data, sort_keys=False), "model.yaml")
     review = review_built(*build_model(root, "model.yaml", (tmp_path,)))
     uplift = [f for f in review.engine_findings if f.kind == "uplift"]
-    assert uplift and {f.severity for f in uplift} == {"clarify"}
+    assert uplift and {f.severity for f in uplift} == {"record"}
     assert all("rule pack firm-uplift" in f.message for f in uplift)
     assert any("below 10.00 kN" in line for line in assumptions(review))

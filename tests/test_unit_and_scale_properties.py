@@ -7,6 +7,8 @@ common practice), not with the program's own converter.
 
 from __future__ import annotations
 
+import os
+
 import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
@@ -14,6 +16,7 @@ from hypothesis import strategies as st
 from tests.conftest import base_model, review_dict
 
 LBF = 4.4482216152605  # N
+FUZZ = int(os.environ.get("FUZZ_EXAMPLES", "40"))  # examples per property (the fuzz job sets thousands)
 PLF = LBF / 0.3048  # N/m
 
 kn = st.floats(min_value=0.05, max_value=40.0, allow_nan=False)
@@ -67,7 +70,7 @@ def _same(a: dict, b: dict, factor: float = 1.0) -> None:
             assert qf_b == pytest.approx(qf_a * factor, rel=1e-9, abs=1e-6)
 
 
-@settings(max_examples=40, deadline=None)
+@settings(max_examples=FUZZ, deadline=None)
 @given(cases, cases)
 def test_the_same_building_in_si_and_us_units_gives_the_same_review(uniform, point):
     _same(
@@ -75,7 +78,7 @@ def test_the_same_building_in_si_and_us_units_gives_the_same_review(uniform, poi
     )
 
 
-@settings(max_examples=40, deadline=None)
+@settings(max_examples=FUZZ, deadline=None)
 @given(cases, cases, st.sampled_from([2.0, 3.0, 0.5, 10.0]))
 def test_scaling_every_load_scales_every_qf_and_changes_no_combination_set(uniform, point, factor):
     base = _summary(review_dict(_model(uniform, point, us=False)))
@@ -95,3 +98,49 @@ def test_a_case_that_reaches_a_bearing_only_as_rounding_noise_adds_no_combinatio
     noisy = review_dict(data).result("B1/C1:B1")
     assert {c.combination for c in noisy.combinations} == {c.combination for c in plain.combinations}
     assert noisy.uplift == ()
+
+
+# ---------------------------------------------------------------- fuzzed: ties, light loads, uplift (issue 24)
+
+tiny_to_large = st.floats(min_value=1e-4, max_value=40.0, allow_nan=False)  # kN or kN/m: across the old 1 N
+tie_positions = st.sampled_from(["94 mm", "93.99 mm", "94.01 mm", "65 mm", "19 mm", "2 m", "4981 mm", "4.906 m"])
+joist_ends = st.sampled_from(["3935 mm", "3936 mm", "3934.99 mm", "3.9 m"])
+
+
+def _fuzzed_model(cases: dict, suction: float, at_plate: str, at_beam: str, scale: float = 1.0) -> dict:
+    """The base frame with J1's end on W1 at a tie position (75 mm from W1's end at 94 mm; W1's end at 4981 mm)
+    and its contact on B1 ending at, or a hair from, J1's end; loads of any size, wind suction among them."""
+    data = base_model()
+    data["bearings"][3]["lower"]["at"] = at_plate
+    data["bearings"][2]["upper"]["at"] = at_beam
+    specified: dict = {c: f"{v * scale!r} kN/m" for c, v in cases.items()}
+    if suction:
+        specified["W"] = {"pressure": f"{0.1 * scale!r} kN/m", "suction": f"{suction * scale!r} kN/m"}
+    data["loads"] = [{"id": "floor", "member": "J1", "type": "uniform", "specified": specified}]
+    return data
+
+
+fuzz_cases = st.dictionaries(st.sampled_from(["D", "L", "S"]), tiny_to_large, min_size=1, max_size=3)
+suctions = st.one_of(st.just(0.0), tiny_to_large)
+
+
+@pytest.mark.fuzz
+@settings(max_examples=FUZZ, deadline=None)
+@given(fuzz_cases, suctions, tie_positions, joist_ends)
+def test_fuzzed_frames_in_si_and_exact_us_units_give_the_same_checks_factors_and_notes(cases, suction, plate, beam):
+    from tests.test_ties_and_thresholds import _summary, in_us_units
+
+    data = _fuzzed_model(cases, suction, plate, beam)
+    assert _summary(review_dict(data)) == _summary(review_dict(in_us_units(data)))
+
+
+@pytest.mark.fuzz
+@settings(max_examples=FUZZ, deadline=None)
+@given(fuzz_cases, suctions, tie_positions, joist_ends, st.sampled_from([2.0, 3.0, 0.5, 0.1, 10.0, 1000.0]))
+def test_fuzzed_frames_with_every_load_scaled_list_the_same_checks_combinations_and_uplift(
+    cases, suction, plate, beam, factor
+):
+    from tests.test_ties_and_thresholds import _listing
+
+    base = _listing(review_dict(_fuzzed_model(cases, suction, plate, beam)))
+    assert _listing(review_dict(_fuzzed_model(cases, suction, plate, beam, factor))) == base

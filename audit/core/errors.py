@@ -15,7 +15,14 @@ def visible(text: str) -> str:
     what is in an id (a zero-width space, a direction override that would reorder the line), not hide it."""
     if text.isascii() and text.isprintable():
         return text
-    return "".join(f"<U+{ord(ch):04X}>" if unicodedata.category(ch) in ("Cf", "Cc") else ch for ch in text)
+    return "".join(f"<U+{ord(ch):04X}>" if _hidden(ch) else ch for ch in text)
+
+
+def _hidden(ch: str) -> bool:
+    """A character a terminal does not show as itself: format and control characters, line and paragraph
+    separators, and spaces other than the plain one (a no-break space looks like a space)."""
+    category = unicodedata.category(ch)
+    return category in ("Cf", "Cc", "Zl", "Zp") or (category == "Zs" and ch != " ")
 
 
 @dataclass(frozen=True, slots=True)

@@ -14,10 +14,31 @@ from audit.core.errors import InputError
 from audit.engine.model import Bearing, Load, Member, Model
 from audit.engine.take_down import AppliedForce
 
-# Ties are decided at a stated resolution, not by float noise: an end distance is taken to the
-# nearest micrometre (the resolution layouts are placed to), so 75 mm typed as 2.952756 in or as
-# 75 mm, or a support a nanometre from the end, give the same factors in SI and US input.
-LENGTH_RESOLUTION = 1e-6  # m
+# Ties are decided at a stated resolution, not by float noise: lengths along a member (an end distance
+# against the least one a factor needs, a bearing length against a factor's limit, a contact's edge or a
+# position against the member's end) are compared in whole steps of 0.01 mm, so 75 mm typed as 2.952756 in
+# or as 75 mm, or a support a nanometre from the end, give the same result in SI and US input.
+LENGTH_RESOLUTION = 1e-5  # m (0.01 mm)
+
+
+def in_steps(length: float) -> int:
+    """A length in whole steps of ``LENGTH_RESOLUTION``: what ties are decided on."""
+    return round(length / LENGTH_RESOLUTION)
+
+
+def shorter(a: float, b: float) -> bool:
+    """``a`` is shorter than ``b`` at the stated resolution (a tie is not shorter)."""
+    return in_steps(a) < in_steps(b) if math.isfinite(a) and math.isfinite(b) else a < b
+
+
+def longer(a: float, b: float) -> bool:
+    """``a`` is longer than ``b`` at the stated resolution (a tie is not longer)."""
+    return in_steps(a) > in_steps(b) if math.isfinite(a) and math.isfinite(b) else a > b
+
+
+def snapped(length: float) -> float:
+    """The length at the stated resolution."""
+    return in_steps(length) * LENGTH_RESOLUTION
 
 
 @dataclass(frozen=True)
@@ -37,8 +58,8 @@ class Contact:
 def least_extent(options: list[tuple[float | None, str]]) -> tuple[float, str]:
     """The smallest stated extent and where it came from (the note names the others it beat)."""
     given = [(value, why) for value, why in options if value is not None]
-    value, why = min(given, key=lambda o: o[0])
-    beaten = [f"{w}, {v * 1000:.0f} mm" for v, w in given if w != why and v > value + 1e-9]
+    value, why = min(given, key=lambda o: in_steps(o[0]))  # of extents equal at the resolution, the first stated
+    beaten = [f"{w}, {v * 1000:.0f} mm" for v, w in given if w != why and longer(v, value)]
     return value, why + (f" (less than {'; '.join(beaten)})" if beaten else "")
 
 
@@ -84,10 +105,11 @@ def contact_on(member: Member, other: Member, bearing: Bearing) -> Contact:
     centre = side.at if side.at is not None else 0.0
     start, end = centre - 0.5 * length, centre + 0.5 * length
     if start < 0.0 or end > member.length:
+        cut = shorter(start, 0.0) or longer(end, member.length)  # past the end by more than the resolution
         start, end = max(start, 0.0), min(end, member.length)
         length = end - start
-        length_note += ", cut at the member end"
-    end_distance = round(min(start, member.length - end) / LENGTH_RESOLUTION) * LENGTH_RESOLUTION
+        length_note += ", cut at the member end" if cut else ""
+    end_distance = snapped(min(start, member.length - end))
     return Contact(bearing.id, length, width, end_distance, side.at, length_note, width_note, start)
 
 
@@ -111,11 +133,10 @@ def load_contact(member: Member, load: Load) -> Contact:
     assert load.at is not None and load.length is not None  # a point load on a horizontal member, with a length
     start = max(load.at - 0.5 * load.length, 0.0)
     end = min(load.at + 0.5 * load.length, member.length)
-    length_note = "stated in the model" + (", cut at the member end" if end - start < load.length - 1e-9 else "")
+    length_note = "stated in the model" + (", cut at the member end" if shorter(end - start, load.length) else "")
     width, width_note = least_extent([(load.width, "stated in the model"), (member.b, f"b of {member.id}")])
-    return Contact(
-        load.id, end - start, width, min(start, member.length - end), load.at, length_note, width_note, start
-    )
+    end_distance = snapped(min(start, member.length - end))
+    return Contact(load.id, end - start, width, end_distance, load.at, length_note, width_note, start)
 
 
 def spread_within(
@@ -158,7 +179,7 @@ def face_bearings(contacts: tuple[Contact, ...]) -> list[FaceBearing]:
     groups: list[list[Contact]] = []
     reach = -math.inf
     for c in sorted(contacts, key=lambda c: (c.start, c.source)):
-        if groups and c.start <= reach + 1e-9:
+        if groups and not longer(c.start, reach):  # touching at the stated resolution
             groups[-1].append(c)
             reach = max(reach, c.start + c.length)
         else:
@@ -171,13 +192,13 @@ def face_bearings(contacts: tuple[Contact, ...]) -> list[FaceBearing]:
         length = end - start
         area = math.fsum(c.length * c.width for c in group)
         overlap = any(
-            a.start + a.length > b.start + 1e-9 and b.start + b.length > a.start + 1e-9
+            longer(a.start + a.length, b.start) and longer(b.start + b.length, a.start)
             for i, a in enumerate(group)
             for b in group[i + 1 :]
         )
         if not overlap:  # one contact, or contacts end to end along the member: the narrowest governs
             width = min(c.width for c in group)
-        elif all(abs(c.start - start) < 1e-9 and abs(c.length - length) < 1e-9 for c in group):
+        elif all(in_steps(c.start) == in_steps(start) and in_steps(c.length) == in_steps(length) for c in group):
             width = math.fsum(c.width for c in group)  # seats of one length side by side: their widths add
         else:
             width = area / length

@@ -9,7 +9,9 @@ the force through that bearing, which loads the member below.
 from __future__ import annotations
 
 import itertools
+import math
 from collections import defaultdict
+from collections.abc import Iterable
 from dataclasses import dataclass, field
 
 from audit.engine.beam_statics import reactions
@@ -22,9 +24,24 @@ Forces = dict[str, float]  # load case (or factored group key) -> force, N, down
 # zero, so the same building in SI or US units, or with every load doubled, gives the same
 # cases at every bearing.
 NOISE_SHARE = 1e-9
-# Forces below this are zero wherever a force is judged (uplift, a case being present): no
-# bearing check turns on a newton.
+# Forces below a share of the load at the bearing are zero wherever a force is judged (a case being
+# present, an uplift, a pattern differing from every span loaded): relative, so the same building with
+# every load scaled, or in US units, lists the same cases, combinations and uplift (a case under a
+# ten-thousandth of the bearing's load never governs: 1.4D outweighs any combination it leads).
+FORCE_SHARE = 1e-4
+# Absolute, for comparing a claim's numbers only (the diagnosis): a newton.
 FORCE_RESOLUTION = 1.0  # N
+
+
+def force_floor(sizes: Iterable[float]) -> float:
+    """N: the force below which nothing is judged at a bearing, ``FORCE_SHARE`` of the load there (``sizes``:
+    every case's force through it, and each patterned case's high and low)."""
+    return FORCE_SHARE * math.fsum(abs(v) for v in sizes)
+
+
+def sizes_at(forces: Forces, envelope: dict[str, Envelope] | None = None) -> list[float]:
+    """The forces that make up the load at a bearing: each case's, and each patterned case's high and low."""
+    return [*forces.values(), *(v for env in (envelope or {}).values() for v in (env.high, env.low))]
 
 
 @dataclass(frozen=True)
@@ -243,9 +260,10 @@ def _pattern_envelopes(
                 high_share[k][i] += most
                 low_share[k][i] += least
                 high_used, low_used = (env.high, env.low) if u >= 0 else (env.low, env.high)
-                if abs(u * (high_used - every)) > FORCE_RESOLUTION:
+                floor = force_floor((u * env.high, u * env.low, u * every))
+                if abs(u * (high_used - every)) > floor:
                     high_from[i].update(env.high_from if u >= 0 else env.low_from)
-                if abs(u * (low_used - every)) > FORCE_RESOLUTION:
+                if abs(u * (low_used - every)) > floor:
                     low_from[i].update(env.low_from if u >= 0 else env.high_from)
         total = sum(abs(r) for share in high_share + low_share for r in share) or 1.0
         loaded = {name for *_, name in pieces}

@@ -55,8 +55,9 @@ def _model_sections(top: dict[str, Node], root: Node, errors: ErrorCollector) ->
     if "layout" not in top:
         return Sections(typed["members"], typed["bearings"], typed["loads"], None)
     warnings: list[str] = []
+    before = len(errors.errors)  # a material's error does not stop the layout: every section's errors in one run
     layout = read_layout(top["layout"], errors)
-    if layout is None or errors.errors:
+    if layout is None or len(errors.errors) > before:
         return Sections(typed["members"], typed["bearings"], typed["loads"], None)
     placed = reach_up(layout.placed, errors)
     found = find_contacts(placed, errors, warnings)

@@ -17,6 +17,7 @@ from pathlib import Path
 from audit.core.errors import ErrorCollector, InputError, Location
 from audit.core.located_yaml import Node, node_text, read_yaml_file
 from audit.core.units import parse_quantity
+from audit.engine.contacts import longer, shorter
 from audit.engine.model import (
     FACTORED_PREFIX,
     PLY_FIT,
@@ -637,18 +638,20 @@ def _read_side(node: Node, role: str, known: KnownMembers, errors: ErrorCollecto
     at = None
     if not member.vertical:
         at = f.quantity("at", "length")
-        if at is not None and not 0.0 <= at <= member.length:
+        if at is not None and (shorter(at, 0.0) or longer(at, member.length)):  # ties at the stated resolution
             errors.add(
                 f"bearing centre at {at * 1000:.0f} mm is outside member '{member_id}' "
                 f"(length {member.length * 1000:.0f} mm)",
                 f.loc("at"),
             )
             return None
+        if at is not None:
+            at = min(max(at, 0.0), member.length)  # within the resolution of an end: at the end
     elif f.has("at"):
         errors.add(f"'{member_id}' is vertical: its bearings are at its ends, give no 'at'", f.loc("at"))
         return None
     length = f.quantity("length", "length", required=False, positive=True)
-    if length is not None and length > member.length:
+    if length is not None and longer(length, member.length):
         errors.add(
             f"bearing length {length * 1000:.0f} mm is longer than member '{member_id}' "
             f"({member.length * 1000:.0f} mm)",
@@ -810,7 +813,7 @@ def _crossing_fits(upper: Side, lower: Side, f: FieldReader, known: KnownMembers
     ok = True
     for side, other, role in ((upper, lower, "upper"), (lower, upper, "lower")):
         width = members[other.member].b
-        if side.length is not None and side.length > width + 1e-9:
+        if side.length is not None and longer(side.length, width):  # ties at the stated resolution
             errors.add(
                 f"bearing length {side.length * 1000:.0f} mm along '{side.member}' is more than the "
                 f"{width * 1000:.0f} mm width of '{other.member}' crossing it; a longer contact needs a plate "
@@ -1011,7 +1014,7 @@ def _id_warnings(members: dict[str, Member], bearings: tuple[Bearing, ...], load
     for text, loc, what in named:
         why = suspicious_characters(text)
         if why:
-            yield f"{loc}: {what} {text!r} {why}"
+            yield f"{loc}: {what} '{text}' {why}"  # the CLI writes the character as <U+XXXX>
 
 
 def _support_extent(b: Bearing, members: dict[str, Member]) -> tuple[float, float]:
@@ -1031,7 +1034,7 @@ def _check_supports_apart(
     for first, second in itertools.pairwise(placed):
         end_first = _support_extent(first, members)[1]
         start_second = _support_extent(second, members)[0]
-        if start_second < end_first - 1e-9:
+        if shorter(start_second, end_first):  # ties at the stated resolution: touching is apart
             errors.add(
                 f"supports '{first.id}' and '{second.id}' of '{member.id}' overlap along it "
                 f"(centres {(first.upper.at or 0.0) * 1000:.0f} mm and {(second.upper.at or 0.0) * 1000:.0f} mm); "

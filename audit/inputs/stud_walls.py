@@ -12,6 +12,7 @@ from dataclasses import dataclass
 
 from audit.core.errors import ErrorCollector, Location
 from audit.core.located_yaml import Node
+from audit.engine.contacts import longer, shorter
 from audit.engine.model import Bearing, Member, Side
 from audit.inputs.fields import FieldReader
 
@@ -156,11 +157,11 @@ def place_studs(plate: Member, wall: StudWall, errors: ErrorCollector) -> tuple[
         return [], []
     centres = []
     x = first
-    while x + t / 2 <= plate.length + 1e-9:
+    while not longer(x + t / 2, plate.length):  # a stud flush with the end to 0.01 mm stands there
         centres.append(x)
         x += wall.spacing
     end = plate.length - t / 2
-    if not centres or end - centres[-1] >= t - 1e-9:
+    if not centres or not shorter(end - centres[-1], t):
         centres.append(end)  # the end stud of the wall
     posts: list[tuple[str, float, float, str]] = []  # id, centre, width along the plate, label
     number = 0

@@ -130,10 +130,12 @@ def assumptions(review: Review) -> list[str]:
     ]
     threshold, whose = uplift_threshold(review.model, pack)
     out.append(
-        f"Calculated uplift below {threshold / 1000:.2f} kN ({whose}) is a minor note, likely continuity of the "
-        "statics; larger uplift is a major finding."
+        f"Calculated uplift below {threshold / 1000:.2f} kN ({whose}), which the ordinary framing nails hold, is "
+        "noted for the record and asks nothing; larger uplift is a comment asking for the tie-down. Uplift under a "
+        "ten-thousandth of the load through its bearing is not uplift."
         if threshold > 0
-        else "Every calculated uplift is a major finding (no note threshold set by the project or the rule pack)."
+        else "Every calculated uplift is a comment asking for the tie-down (no note threshold set by the project or "
+        "the rule pack); uplift under a ten-thousandth of the load through its bearing is not uplift."
     )
     if review.model.factored_groups:
         out.append(

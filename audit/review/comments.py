@@ -82,7 +82,7 @@ class Comment:
 
     @property
     def quiet(self) -> bool:
-        return self.kind in QUIET or self.closed
+        return self.kind in QUIET or self.weight == "record" or self.closed  # record: asks for nothing
 
 
 WEIGHT_WORDS = {w: w for w in WEIGHTS}  # a weight is shown as it is named
@@ -281,7 +281,7 @@ def _draft(key: tuple, members, review: Review, units, claim_of, roles) -> tuple
             ask = f"Provide the check at {_where(places[0])}."
     comment = Comment(0, lead.kind, lead.severity, title, tuple(places), clause, ask)
     order = (
-        lead.kind in QUIET,
+        lead.kind in QUIET or lead.severity == "record",
         severity_rank(lead.severity),
         TIER[tier],
         -_ratio(worst, review),
@@ -345,5 +345,11 @@ def _loose_draft(fs: list[Finding], review: Review, units, labels) -> tuple[tupl
     else:
         text = KINDS[f.kind].title.format(what=f.member or f.bearing)
         head = f"{text} ({len(places)} bearings: {', '.join(_where(p) for p in places)})"
-    order = (f.kind in QUIET, severity_rank(f.severity), TIER["loose"], 0.0, f.bearing or f.claim_id)
+    order = (
+        f.kind in QUIET or f.severity == "record",
+        severity_rank(f.severity),
+        TIER["loose"],
+        0.0,
+        f.bearing or f.claim_id,
+    )
     return order, Comment(0, f.kind, f.severity, head, tuple(places), f.clause)

@@ -8,7 +8,7 @@ from pathlib import Path
 
 from audit.core.units import Display
 from audit.engine.model import Bearing, Model
-from audit.engine.take_down import FORCE_RESOLUTION, TakeDown, take_down
+from audit.engine.take_down import TakeDown, force_floor, take_down
 from audit.inputs.read_model import read_model
 from audit.review import wording
 from audit.review.findings import KINDS, Finding
@@ -123,7 +123,9 @@ def calc_force_findings(model: Model, flow: TakeDown, display: Display) -> tuple
                 "calc-force", "record", wording.calc_force(b.id, stated, display), bearing=b.id, member=b.upper.member
             )
         )
-        modelled = {case: v for case, v in flow.modelled.get(b.id, {}).items() if abs(v) >= FORCE_RESOLUTION}
+        own = flow.modelled.get(b.id, {})
+        floor = force_floor([*stated.values(), *own.values()])  # relative to the loads there: alike when scaled
+        modelled = {case: v for case, v in own.items() if abs(v) > floor}
         if not modelled:
             continue  # the model carries no load to this bearing: nothing to compare
         worst, share, higher = "", 0.0, False
@@ -209,7 +211,7 @@ def uplift_findings(
     display: Display | None = None,
     counteracting: float = 1.0,
 ) -> tuple[Finding, ...]:
-    """One finding per bearing with uplift; below the project's threshold it is a minor note that says so."""
+    """One finding per bearing with uplift; below the note threshold it is for the record and asks nothing."""
     factors = factors or {}
     display = display or Display()
     seen: set[str] = set()
@@ -224,11 +226,11 @@ def uplift_findings(
             key=lambda c: (round(c.qf_low, 3), factors.get(c.combination, {}).get("D", 0.0) > counteracting + 1e-9),
         )
         placed = _as_placed(worst.combination, r, factors.get(worst.combination, {}), counteracting)
-        small = -worst.qf_low < note_below
+        small = -worst.qf_low < note_below  # held by the ordinary nailing: for the record, asking nothing
         out.append(
             Finding(
                 "uplift",
-                "clarify" if small else KINDS["uplift"].severity,
+                "record" if small else KINDS["uplift"].severity,
                 wording.uplift(r.check.bearing, placed, -worst.qf_low, small, note_below, whose, display),
                 bearing=r.check.bearing,
                 member=r.check.member,

@@ -16,6 +16,7 @@ from dataclasses import dataclass, field, replace
 
 from audit.core.errors import ErrorCollector, InputError
 from audit.engine.contacts import (
+    LENGTH_RESOLUTION,
     Contact,
     contact_on,
     face_bearings,
@@ -25,7 +26,7 @@ from audit.engine.contacts import (
     top_contact,
 )
 from audit.engine.model import Bearing, Load, Member, Model
-from audit.engine.take_down import FORCE_RESOLUTION, AppliedForce, Envelope, Forces, TakeDown, passed_through
+from audit.engine.take_down import AppliedForce, Envelope, Forces, TakeDown, passed_through
 from audit.standards.packs import PackCore, ResistancePack
 
 LOCAL = "local"
@@ -135,8 +136,8 @@ def point_load_checks(model: Model, flow: TakeDown, pack: PackCore) -> list[Requ
         member = model.members[load.member]
         item = applied.get((member.id, load.id))
         forces = dict(item.forces) if item is not None else {}
-        if all(abs(value) <= FORCE_RESOLUTION for value in forces.values()):
-            continue  # a load of nothing in every case needs no check
+        if not any(forces.values()):
+            continue  # a load of nothing in every case needs no check (the take-down has zeroed its float noise)
         contact = load_contact(member, load)
         out.append(
             RequiredCheck(
@@ -181,9 +182,9 @@ def _bearing_checks(model: Model, flow: TakeDown, pack: PackCore) -> tuple[list[
         upper = model.members[bearing.upper.member]
         lower = model.members[bearing.lower.member]
         forces = flow.bearing_forces.get(bearing.id, {})
-        unloaded = all(abs(value) <= FORCE_RESOLUTION for value in forces.values()) and not any(
-            abs(e.low) > FORCE_RESOLUTION for e in flow.envelopes.get(bearing.id, {}).values()
-        )
+        # nothing in any case, float noise zeroed by the take-down: no threshold in newtons, so the building
+        # with every load scaled lists the same checks
+        unloaded = not any(forces.values()) and not any(e.low for e in flow.envelopes.get(bearing.id, {}).values())
         for member, other, face in ((lower, upper, "top"), (upper, lower, "bottom")):
             reason = _no_check_reason(model, member, pack) or (
                 "no load passes through this bearing in any load case" if unloaded else ""
@@ -266,7 +267,8 @@ def _near_support_checks(model: Model, flow: TakeDown, pack: ResistancePack, cou
         limit = reach * member.d
         for support in supports_of[member_id]:
             x = support.upper.at
-            near = top[bisect_left(positions, x - limit - 1e-9) : bisect_right(positions, x + limit + 1e-9)]
+            tie = 0.5 * LENGTH_RESOLUTION  # a load d away to the stated resolution is within d, in SI and US input
+            near = top[bisect_left(positions, x - limit - tie) : bisect_right(positions, x + limit + tie)]
             if not near:
                 continue
             lower = model.members[support.lower.member]

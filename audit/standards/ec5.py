@@ -27,9 +27,9 @@ from typing import Any
 from audit.core.errors import ErrorCollector, InputError
 from audit.core.located_yaml import Node
 from audit.core.units import parse_quantity
-from audit.engine.contacts import Contact
+from audit.engine.contacts import Contact, longer, shorter
 from audit.engine.model import STORAGE_LIVE, Model, base_case
-from audit.engine.take_down import FORCE_RESOLUTION, Forces, TakeDown
+from audit.engine.take_down import Forces, TakeDown, force_floor
 from audit.standards.checks import LOCAL, CheckList, RequiredCheck, local_only
 from audit.standards.o86 import (
     CheckResult,
@@ -225,7 +225,7 @@ def kc90_factor(check: RequiredCheck, model: Model, pack: Ec5Pack, reach: Reach)
     else:
         return Factor("kc,90", 1.0, "kc,90 = 1.00: a load on a member on discrete supports", clause)
     need = pack.kc90_spacing * member.d
-    if reach.clear < need - 1e-9:
+    if shorter(reach.clear, need):  # ties at the stated resolution, alike in SI and US input
         return Factor(
             "kc,90",
             1.0,
@@ -233,7 +233,7 @@ def kc90_factor(check: RequiredCheck, model: Model, pack: Ec5Pack, reach: Reach)
             "(the spacing condition)",
             clause,
         )
-    if arrangement == "discrete" and family == "glulam" and check.contact.length > pack.kc90_glulam_max_length + 1e-9:
+    if arrangement == "discrete" and family == "glulam" and longer(check.contact.length, pack.kc90_glulam_max_length):
         return Factor(
             "kc,90", 1.0, f"kc,90 = 1.00: glulam contact {check.contact.length * 1000:.0f} mm over 400 mm", clause
         )
@@ -310,10 +310,11 @@ def kmod_rule(pack: Ec5Pack, service: str):
     classes, table = pack.duration_classes.value, pack.kmod.value[service]
 
     def rule(forces: Forces, combo: LoadCombination) -> tuple[float, str]:
+        floor = force_floor(forces.values())  # relative to the load here: alike for scaled loads
         present = [
             classes.get(case, classes.get(base_case(case), "permanent"))  # L:storage has a class of its own
             for case, factor in combo.factors.items()
-            if factor and abs(forces.get(case, 0.0)) > FORCE_RESOLUTION
+            if factor and abs(forces.get(case, 0.0)) > floor
         ] or ["permanent"]
         shortest = max(present, key=CLASSES.index)
         value = table[shortest]

@@ -19,6 +19,7 @@ from typing import Any
 from audit.core.errors import ErrorCollector, InputError
 from audit.core.located_yaml import Node
 from audit.core.units import parse_quantity
+from audit.engine.contacts import shorter
 from audit.engine.model import Material, Member, Model
 from audit.engine.take_down import Forces, TakeDown
 from audit.standards.checks import LOCAL, CheckList, RequiredCheck, local_only
@@ -175,9 +176,9 @@ def bearing_area_factor(length: float, end_distance: float, material: Material, 
     clause = pack.cb_add.clause
     if material.family == "engineered" and "KB" not in material.applies:
         return Factor("Cb", 1.0, "Cb = 1.00: the product's evaluation report does not allow Cb", clause)
-    if length >= pack.cb_max_length.value - 1e-9:
+    if not shorter(length, pack.cb_max_length.value):  # ties at the stated resolution
         return Factor("Cb", 1.0, f"Cb = 1.00: bearing length {length / INCH:.2f} in is not under 6 in", clause)
-    if end_distance < pack.cb_min_end_distance.value - 1e-9:
+    if shorter(end_distance, pack.cb_min_end_distance.value):
         return Factor(
             "Cb", 1.0, f"Cb = 1.00: bearing {end_distance / INCH:.2f} in from the member end, less than 3 in", clause
         )
@@ -317,7 +318,7 @@ class _Nds:
     def resistance_variants(self, result: Any, model: Model, pack: PackCore) -> list[tuple[str, str, dict[str, float]]]:
         p, inputs, c = nds_pack(pack), result.inputs, result.check.contact
         out: list[tuple[str, str, dict[str, float]]] = []
-        if inputs.kb == 1.0 and c.length < p.cb_max_length.value - 1e-9:
+        if inputs.kb == 1.0 and shorter(c.length, p.cb_max_length.value):
             cb = (c.length + p.cb_add.value) / c.length
             out.append(("cb-where-not-allowed", f"Cb = {cb:.2f} taken within 3 in of the member end", {"kb": cb}))
         if inputs.kscp < 1.0:

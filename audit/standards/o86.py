@@ -21,6 +21,7 @@ from typing import Any, TypeVar
 
 from audit.core.errors import ErrorCollector, InputError
 from audit.core.located_yaml import Node
+from audit.engine.contacts import longer, shorter
 from audit.engine.model import (
     FACTORED_PREFIX,
     STORAGE_LIVE,
@@ -31,7 +32,7 @@ from audit.engine.model import (
     Model,
     base_case,
 )
-from audit.engine.take_down import FORCE_RESOLUTION, Forces, TakeDown
+from audit.engine.take_down import Forces, TakeDown, force_floor, sizes_at
 from audit.standards.checks import (
     LOCAL,
     NEAR,
@@ -119,6 +120,7 @@ def placings(forces: Forces, envelope: dict, combo: LoadCombination) -> list[Pla
     The largest force is not always the worst Qf/Qr: where the duration factor falls with the share of
     short-term load (O86's long-term KD, dead-heavy members), less live or snow load can govern."""
     options = []
+    floor = force_floor(sizes_at(forces, envelope))
     for case, env in sorted(envelope.items()):
         factor = combo.factors.get(case, 0.0)
         if factor == 0.0:
@@ -126,9 +128,9 @@ def placings(forces: Forces, envelope: dict, combo: LoadCombination) -> list[Pla
         worst, other = (env.high, env.low) if factor > 0 else (env.low, env.high)
         every = forces.get(case, 0.0)
         choice = [(case, WORST)]
-        if abs(every - worst) > FORCE_RESOLUTION:
+        if abs(every - worst) > floor:
             choice.append((case, EVERY_SPAN))
-        if factor > 0 and other > FORCE_RESOLUTION and min(abs(other - worst), abs(other - every)) > FORCE_RESOLUTION:
+        if factor > 0 and other > floor and min(abs(other - worst), abs(other - every)) > floor:
             choice.append((case, LEAST))
         options.append(choice)
     return [tuple(p) for p in itertools.product(*options)]
@@ -140,6 +142,7 @@ def placed_forces(forces: Forces, envelope: dict, combo: LoadCombination, placin
     placed = dict(forces)
     notes = []
     chosen = dict(placing)
+    floor = force_floor(sizes_at(forces, envelope))
     for case, env in sorted(envelope.items()):
         factor = combo.factors.get(case, 0.0)
         how = chosen.get(case, WORST)
@@ -148,7 +151,7 @@ def placed_forces(forces: Forces, envelope: dict, combo: LoadCombination, placin
         high = (factor > 0) == (how == WORST)
         value = env.high if high else env.low
         placed[case] = value
-        if abs(value - forces.get(case, 0.0)) > FORCE_RESOLUTION:
+        if abs(value - forces.get(case, 0.0)) > floor:
             least = ", its least here (worse through the load-duration factor)" if how == LEAST else ""
             notes.append(f"{case} {env.placing(high)}{least}")
     return placed, "; ".join(notes)
@@ -294,11 +297,11 @@ def kb_factor(length: float, end_distance: float, material: Material, pack: Resi
         return Factor("KB", 1.0, "KB = 1.00: the product's evaluation report does not allow KB", clause)
     max_len = pack.kb_max_length.value
     min_end = pack.kb_min_end_distance.value
-    if length > max_len + 1e-9:
+    if longer(length, max_len):  # ties at the stated resolution, alike in SI and US input
         return Factor(
             "KB", 1.0, f"KB = 1.00: bearing length {length * 1000:.0f} mm exceeds {max_len * 1000:.0f} mm", clause
         )
-    if end_distance < min_end - 1e-9:
+    if shorter(end_distance, min_end):
         return Factor(
             "KB",
             1.0,
@@ -517,19 +520,19 @@ def resistance(inputs: ResistanceInputs, kd: float) -> float:
     return pr * qr / (pr * s * s + qr * c * c)
 
 
-def _principal_present(combo: LoadCombination, forces: Forces) -> bool:
+def _principal_present(combo: LoadCombination, forces: Forces, floor: float = 0.0) -> bool:
     """A combination whose principal load is absent here only repeats another; skip it.
 
     The principal is the case with the largest load factor other than dead load (dead load
     itself for a dead-only combination).
     """
-    return any(abs(forces.get(case, 0.0)) > FORCE_RESOLUTION for case in combo.principal_cases)
+    return any(abs(forces.get(case, 0.0)) > floor for case in combo.principal_cases)
 
 
-def _wind_absent(combo: LoadCombination, forces: Forces, envelope: dict) -> bool:
+def _wind_absent(combo: LoadCombination, forces: Forces, envelope: dict, floor: float = 0.0) -> bool:
     """A combination with wind at a check no wind reaches only repeats the one without it: skip it."""
     wind = [case for case, factor in combo.factors.items() if factor and base_case(case) == "W"]
-    return bool(wind) and all(abs(forces.get(case, 0.0)) <= FORCE_RESOLUTION and case not in envelope for case in wind)
+    return bool(wind) and all(abs(forces.get(case, 0.0)) <= floor and case not in envelope for case in wind)
 
 
 DurationRule = Callable[[Forces, LoadCombination], tuple[float, str]]
@@ -573,11 +576,12 @@ def evaluate_with(
     results = []
     reasons = []  # kept aside: only the governing combination's reason is stored (memory on large buildings)
     uplift = []
+    floor = force_floor(sizes_at(forces, envelope))  # relative to the load here: alike for scaled loads
     for combo in combos:
-        if not _principal_present(combo, forces) or _wind_absent(combo, forces, envelope):
+        if not _principal_present(combo, forces, floor) or _wind_absent(combo, forces, envelope, floor):
             continue
         low = least_force(forces, envelope, combo, counteracting)
-        if low < -FORCE_RESOLUTION:
+        if low < -floor:
             uplift.append(combo.name)
         best: CombinationResult | None = None
         best_reason = ""
