@@ -17,7 +17,7 @@ from audit.engine.contacts import Contact
 from audit.review.comments import own_comment_threshold
 from audit.review.review import Review
 from audit.review.wording import check_name
-from audit.standards.o86 import CheckResult, placed_forces
+from audit.standards.resistance import CheckResult, placed_forces
 
 
 def _contact(c: Contact) -> dict[str, Any]:

@@ -27,7 +27,8 @@ from audit.review.findings import KINDS, Finding, severity_rank
 from audit.review.remedies import recheck, remedy_text
 from audit.review.review import Review
 from audit.standards.checks import LOCAL, NEAR, RequiredCheck, near_support_width, top_bearing
-from audit.standards.o86 import CheckResult, LoadCombination, factored_force, o86_pack, placed_forces, resistance
+from audit.standards.o86 import o86_pack
+from audit.standards.resistance import CheckResult, LoadCombination, factored_force, placed_forces, resistance
 
 FACTOR_REL_TOL = 0.01
 KEY_OF = {

@@ -16,8 +16,8 @@ if TYPE_CHECKING:
     from audit.engine.model import Model
     from audit.engine.take_down import TakeDown
     from audit.standards.checks import CheckList
-    from audit.standards.o86 import CheckResult
     from audit.standards.packs import CombinationPack, PackCore
+    from audit.standards.resistance import CheckResult
 
 
 class Standard(Protocol):

@@ -31,14 +31,6 @@ from audit.engine.contacts import Contact
 from audit.engine.model import STORAGE_LIVE, Model, base_case
 from audit.engine.take_down import FORCE_RESOLUTION, Forces, TakeDown
 from audit.standards.checks import LOCAL, CheckList, RequiredCheck, local_only
-from audit.standards.o86 import (
-    CheckResult,
-    Factor,
-    LoadCombination,
-    ResistanceInputs,
-    pack_as,
-    resist_each,
-)
 from audit.standards.packs import (
     PACK_HEAD_KEYS,
     CombinationPack,
@@ -47,6 +39,14 @@ from audit.standards.packs import (
     Sourced,
     read_core_fields,
     refuse_unknown_fields,
+)
+from audit.standards.resistance import (
+    CheckResult,
+    Factor,
+    LoadCombination,
+    ResistanceInputs,
+    pack_as,
+    resist_each,
 )
 
 EC5_KEYS = (

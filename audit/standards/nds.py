@@ -22,15 +22,6 @@ from audit.core.units import parse_quantity
 from audit.engine.model import Material, Member, Model
 from audit.engine.take_down import Forces, TakeDown
 from audit.standards.checks import LOCAL, CheckList, RequiredCheck, local_only
-from audit.standards.o86 import (
-    CheckResult,
-    Factor,
-    LoadCombination,
-    ResistanceInputs,
-    fcp_on_face,
-    pack_as,
-    resist_each,
-)
 from audit.standards.packs import (
     PACK_HEAD_KEYS,
     CombinationPack,
@@ -41,6 +32,15 @@ from audit.standards.packs import (
     read_choice,
     read_core_fields,
     refuse_unknown_fields,
+)
+from audit.standards.resistance import (
+    CheckResult,
+    Factor,
+    LoadCombination,
+    ResistanceInputs,
+    fcp_on_face,
+    pack_as,
+    resist_each,
 )
 
 NDS_KEYS = (

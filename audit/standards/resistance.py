@@ -1,0 +1,407 @@
+"""The records and the evaluation loop every standard shares; no standard's own rule is here.
+
+A standard turns each required check into its resistance inputs (the factors with their reasons)
+and a duration rule (the factor that changes with the load combination); this module runs every
+combination at every check, places the patterned cases, and keeps the governing one. O86, NDS and
+EC5 import this module and never each other. The records are frozen slots dataclasses: a building
+of 17k checks makes them by the hundred thousand.
+"""
+
+from __future__ import annotations
+
+import itertools
+import math
+import re
+from collections.abc import Callable
+from dataclasses import dataclass, field, replace
+from typing import TypeVar
+
+from audit.core.errors import ErrorCollector, InputError
+from audit.engine.model import FACTORED_PREFIX, STORAGE_LIVE, WIND_PRESSURE, WIND_SUCTION, Material, Model, base_case
+from audit.engine.take_down import FORCE_RESOLUTION, Forces
+from audit.standards.checks import NEAR, CheckList, RequiredCheck
+from audit.standards.packs import CombinationPack, PackCore
+
+LONG_TERM_CASE = "D"
+PASS_LIMIT = 1.0 + 1e-9
+
+
+@dataclass(frozen=True, slots=True)
+class LoadCombination:
+    name: str
+    factors: dict[str, float]  # load case (or factored key) -> load factor
+    duration: str  # permanent | standard | short
+    clause: str = ""
+    factored: bool = False  # a group of already-factored loads
+    # the cases of the principal load, with the cases split from it (set from ``factors``)
+    principal_cases: tuple[str, ...] = field(init=False, compare=False, repr=False)
+
+    def __post_init__(self) -> None:
+        object.__setattr__(self, "principal_cases", _principal_cases(self.factors))
+
+
+def _principal_cases(factors: dict[str, float]) -> tuple[str, ...]:
+    """The cases of the principal load (the largest factor but dead load's; dead load for a dead-only one), with the
+    cases split from it (W:suction, L:storage)."""
+    live = {case: f for case, f in factors.items() if case != LONG_TERM_CASE}
+    if not live:
+        return (LONG_TERM_CASE,)
+    principal = base_case(max(live, key=lambda case: live[case]))
+    return tuple(case for case in live if base_case(case) == principal)
+
+
+@dataclass(frozen=True, slots=True)
+class Factor:
+    name: str
+    value: float
+    reason: str
+    clause: str = ""
+
+
+@dataclass(frozen=True, slots=True)
+class ResistanceInputs:
+    """Everything Qr depends on except KD; diagnosis varies these one at a time."""
+
+    phi: float
+    coefficient: float  # 1 for local bearing, 2/3 for near-support
+    fcp: float  # Pa, specified strength
+    kscp: float
+    kt: float
+    kb: float
+    kzcp: float
+    area: float  # m^2, Ab or Ab'
+    uses_kd: bool
+    fc_parallel: float | None  # Pa, fc * KSc * KT for Hankinson; None when perpendicular
+    angle: float | None
+
+
+# How a combination places one patterned case: "worst" (its envelope in the direction of its factor), "every"
+# (every span loaded) or "least" (its least downward placing, where that is still downward).
+Placing = tuple[tuple[str, str], ...]
+WORST, EVERY_SPAN, LEAST = "worst", "every", "least"
+
+
+@dataclass(frozen=True, slots=True)
+class CombinationResult:
+    combination: str
+    duration: str
+    qf: float  # N
+    kd: float
+    kd_reason: str
+    qr: float  # N
+    utilisation: float
+    pattern: str = ""  # how the patterned cases were placed for this Qf ("" : every span loaded)
+    qf_low: float = 0.0  # N, the least force under this combination: counteracting dead load, worst patterns
+    placing: Placing = ()  # the placing of each patterned case that gave this row (() : each at its worst)
+
+
+def placings(forces: Forces, envelope: dict, combo: LoadCombination) -> list[Placing]:
+    """Every placing of the patterned cases a combination is evaluated with, the worst-force one first.
+
+    The largest force is not always the worst Qf/Qr: where the duration factor falls with the share of
+    short-term load (O86's long-term KD, dead-heavy members), less live or snow load can govern."""
+    options = []
+    for case, env in sorted(envelope.items()):
+        factor = combo.factors.get(case, 0.0)
+        if factor == 0.0:
+            continue
+        worst, other = (env.high, env.low) if factor > 0 else (env.low, env.high)
+        every = forces.get(case, 0.0)
+        choice = [(case, WORST)]
+        if abs(every - worst) > FORCE_RESOLUTION:
+            choice.append((case, EVERY_SPAN))
+        if factor > 0 and other > FORCE_RESOLUTION and min(abs(other - worst), abs(other - every)) > FORCE_RESOLUTION:
+            choice.append((case, LEAST))
+        options.append(choice)
+    return [tuple(p) for p in itertools.product(*options)]
+
+
+def placed_forces(forces: Forces, envelope: dict, combo: LoadCombination, placing: Placing = ()) -> tuple[Forces, str]:
+    """The forces of each case as the combination places it: patterned cases at their envelope (``placing``: each
+    case's placing, default its worst), with how they were placed."""
+    placed = dict(forces)
+    notes = []
+    chosen = dict(placing)
+    for case, env in sorted(envelope.items()):
+        factor = combo.factors.get(case, 0.0)
+        how = chosen.get(case, WORST)
+        if factor == 0.0 or how == EVERY_SPAN:
+            continue
+        high = (factor > 0) == (how == WORST)
+        value = env.high if high else env.low
+        placed[case] = value
+        if abs(value - forces.get(case, 0.0)) > FORCE_RESOLUTION:
+            least = ", its least here (worse through the load-duration factor)" if how == LEAST else ""
+            notes.append(f"{case} {env.placing(high)}{least}")
+    return placed, "; ".join(notes)
+
+
+def least_force(forces: Forces, envelope: dict, combo: LoadCombination, counteracting: float) -> float:
+    """The least force through the bearing under a combination: dead load at its counteracting factor where
+    that is lower, every patterned case at its least favourable placing (uplift is looked for here)."""
+    total = []
+    for case, factor in combo.factors.items():
+        if case == LONG_TERM_CASE:
+            factor = min(factor, counteracting) if forces.get(case, 0.0) > 0 else factor
+        env = envelope.get(case)
+        if env is None:
+            total.append(factor * forces.get(case, 0.0))
+        else:
+            total.append(factor * (env.low if factor > 0 else env.high))
+    return math.fsum(total)
+
+
+@dataclass(frozen=True, slots=True)
+class CheckResult:
+    check: RequiredCheck
+    material: str
+    inputs: ResistanceInputs
+    factors: tuple[Factor, ...]  # phi, fcp, KScp, KT, KB, KZcp (and 2/3): value and reason
+    area_reason: str
+    combinations: tuple[CombinationResult, ...]
+    governing: CombinationResult
+    uplift: tuple[str, ...]  # combinations in which the bearing force is upward
+    passes: bool
+
+
+def fcp_on_face(check: RequiredCheck, material: Material) -> tuple[float, str]:
+    """fcp on the face the check bears on, and how it was chosen (glulam has a compression and a tension face).
+
+    For a layup installed as designed a beam's top face, where loads land, is its compression
+    face and its underside, on its supports, its tension face; a near-support check loads both
+    and takes the lesser.
+    """
+    compression = material.fcp if material.fcp is not None else 0.0
+    if material.family != "glulam":
+        return compression, ""
+    tension = material.fcp_tension_face
+    if tension is None:
+        return compression, ", one value for both faces"
+    if check.kind == NEAR:
+        value = min(compression, tension)
+        return value, (
+            f", lesser of the compression face ({compression / 1e6:.2f} MPa) and tension face "
+            f"({tension / 1e6:.2f} MPa): the load passes through both"
+        )
+    if check.face == "top":
+        return compression, ", compression-face laminations (loads on the beam's top face)"
+    return tension, ", tension-face laminations (the beam's underside on its support)"
+
+
+# ---------------------------------------------------------------- combinations
+
+
+def load_combinations(model: Model, cpack: CombinationPack) -> tuple[LoadCombination, ...]:
+    """The pack's combinations for specified loads, plus one per group of factored loads.
+
+    Where the model gives wind as pressure and suction, a combination with wind is taken once
+    each way; storage live load takes the live-load factor where live load leads and the pack's
+    storage companion factor where it accompanies.
+    """
+    cases = {load.case for load in model.loads}
+    out = []
+    for c in cpack.combinations:
+        factors = dict(c.factors)
+        live = factors.get("L", 0.0)
+        if STORAGE_LIVE in cases and live and STORAGE_LIVE not in factors:  # a combination may state its own
+            leads = live >= max(f for case, f in factors.items() if case != LONG_TERM_CASE)
+            factors[STORAGE_LIVE] = live if leads else cpack.storage_companion.value
+        name = labelled(c.name, factors, "L" in cases)
+        wind = factors.get("W", 0.0)
+        directions = [d for d in (WIND_PRESSURE, WIND_SUCTION) if d in cases]
+        if wind and directions:
+            for direction in directions:
+                way = direction.split(":")[1]
+                out.append(
+                    LoadCombination(f"{name} (wind {way})", {**factors, direction: wind}, c.duration, c.source.clause)
+                )
+            continue
+        out.append(LoadCombination(name, factors, c.duration, c.source.clause))
+    for group in sorted(model.factored_groups.values(), key=lambda g: g.label):
+        out.append(LoadCombination(group.label, {FACTORED_PREFIX + group.label: 1.0}, group.duration, "", True))
+    return tuple(out)
+
+
+LOAD_TERM = re.compile(r"(?:(?<=^)|(?<=\+))(\d+(?:\.\d+)?)([A-Z])(?=\+|$|\s)")
+
+
+def factor_text(value: float) -> str:
+    """A load factor as combination names print it: 1.0, 0.5, 1.05."""
+    text = f"{value:.2f}".rstrip("0")
+    return text + "0" if text.endswith(".") else text
+
+
+def labelled(name: str, factors: dict[str, float], plain_live: bool) -> str:
+    """The pack's name of a combination, stating storage live load at the factor it takes where that is not the
+    live-load factor the name prints: '1.25D+1.5S+1.0L' where all live load is storage, else '+1.0L (storage)'."""
+    storage, live = factors.get(STORAGE_LIVE), factors.get("L", 0.0)
+    if storage is None or abs(storage - live) < 1e-9:
+        return name
+    terms = [m for m in LOAD_TERM.finditer(name) if abs(float(m.group(1)) - live) < 1e-9 and m.group(2) != "D"]
+    live_term = next((m for m in terms if m.group(2) in ("L", "Q")), None)
+    letter = live_term.group(2) if live_term else "L"
+    if live_term is not None and not plain_live:
+        return name[: live_term.start(1)] + factor_text(storage) + name[live_term.end(1) :]
+    return f"{name}+{factor_text(storage)}{letter} (storage)"
+
+
+def counteracted(name: str, dead: float, counteracting: float) -> str:
+    """The name of a combination as uplift is looked for: its dead-load factor lowered to the counteracting one
+    ('1.25D+1.4W' -> '0.9D+1.4W'); the name unchanged where the dead load is already at or below it."""
+    if dead <= counteracting + 1e-9:
+        return name
+    match = LOAD_TERM.match(name)
+    if match is None or match.group(2) not in ("D", "G") or abs(float(match.group(1)) - dead) > 1e-9:
+        return f"{name} with {factor_text(counteracting)}D"
+    return factor_text(counteracting) + name[match.end(1) :]
+
+
+def factored_force(forces: Forces, combo: LoadCombination) -> float:
+    return math.fsum(factor * forces.get(case, 0.0) for case, factor in combo.factors.items())
+
+
+def resistance(inputs: ResistanceInputs, kd: float) -> float:
+    """coefficient phi f (KD ...) A KB KZcp, the product every standard here states its bearing resistance as,
+    with Hankinson's formula for a load at an angle to the grain."""
+    kd_used = kd if inputs.uses_kd else 1.0
+    fcp_modified = inputs.fcp * kd_used * inputs.kscp * inputs.kt
+    qr = inputs.coefficient * inputs.phi * fcp_modified * inputs.area * inputs.kb * inputs.kzcp
+    if inputs.fc_parallel is None or inputs.angle is None:
+        return qr
+    pr = inputs.phi * inputs.fc_parallel * kd_used * inputs.area
+    s, c = math.sin(inputs.angle), math.cos(inputs.angle)
+    return pr * qr / (pr * s * s + qr * c * c)
+
+
+def _principal_present(combo: LoadCombination, forces: Forces) -> bool:
+    """A combination whose principal load is absent here only repeats another; skip it.
+
+    The principal is the case with the largest load factor other than dead load (dead load
+    itself for a dead-only combination).
+    """
+    return any(abs(forces.get(case, 0.0)) > FORCE_RESOLUTION for case in combo.principal_cases)
+
+
+def _wind_absent(combo: LoadCombination, forces: Forces, envelope: dict) -> bool:
+    """A combination with wind at a check no wind reaches only repeats the one without it: skip it."""
+    wind = [case for case, factor in combo.factors.items() if factor and base_case(case) == "W"]
+    return bool(wind) and all(abs(forces.get(case, 0.0)) <= FORCE_RESOLUTION and case not in envelope for case in wind)
+
+
+DurationRule = Callable[[Forces, LoadCombination], tuple[float, str]]
+
+
+def evaluate(
+    check: RequiredCheck,
+    inputs: ResistanceInputs,
+    combos: tuple[LoadCombination, ...],
+    duration: DurationRule,
+    unloaded_factor: float,
+    forces: Forces | None = None,
+    counteracting: float = 1.0,
+    patterned: bool = True,
+) -> tuple[tuple[CombinationResult, ...], CombinationResult, tuple[str, ...]]:
+    """Every combination's Qf, duration factor and resistance at the check; the governing one; the combinations
+    with uplift. ``duration`` gives the standard's duration (or modification) factor of a combination;
+    ``forces`` replaces the check's own (diagnosis); ``patterned`` False ignores pattern loading."""
+    forces = check.forces if forces is None else forces
+    envelope = check.envelope if patterned else {}
+    results = []
+    reasons = []  # kept aside: only the governing combination's reason is stored (memory on large buildings)
+    uplift = []
+    for combo in combos:
+        if not _principal_present(combo, forces) or _wind_absent(combo, forces, envelope):
+            continue
+        low = least_force(forces, envelope, combo, counteracting)
+        if low < -FORCE_RESOLUTION:
+            uplift.append(combo.name)
+        best: CombinationResult | None = None
+        best_reason = ""
+        for placing in placings(forces, envelope, combo) if envelope else [()]:
+            placed, pattern = placed_forces(forces, envelope, combo, placing)
+            qf = factored_force(placed, combo)
+            kd, kd_reason = duration(placed, combo)
+            qr = resistance(inputs, kd)
+            utilisation = max(qf, 0.0) / qr
+            row = CombinationResult(combo.name, combo.duration, qf, kd, "", qr, utilisation, pattern, low, placing)
+            if best is None or row.utilisation > best.utilisation + 1e-12:
+                best, best_reason = row, kd_reason
+        assert best is not None
+        results.append(best)
+        reasons.append(best_reason)
+    if not results:
+        qr = resistance(inputs, unloaded_factor)
+        results.append(CombinationResult("no load", "standard", 0.0, 1.0, "", qr, 0.0))
+        reasons.append("no load reaches this bearing")
+    index = max(range(len(results)), key=lambda i: results[i].utilisation)
+    results[index] = replace(results[index], kd_reason=reasons[index])
+    return tuple(results), results[index], tuple(uplift)
+
+
+InputsOf = Callable[[RequiredCheck], tuple[ResistanceInputs, tuple[Factor, ...], str]]
+
+
+def resist_each(
+    checklist: CheckList,
+    model: Model,
+    cpack: CombinationPack,
+    inputs_of: InputsOf,
+    duration_of: Callable[[RequiredCheck, ResistanceInputs], DurationRule],
+    unloaded_of: Callable[[RequiredCheck], float],
+) -> tuple[CheckResult, ...]:
+    """Every check's result under any standard: its inputs and reasons, each combination, the governing one.
+
+    Errors in the inputs of several checks (a missing fc, a wet factor) are reported together."""
+    combos = load_combinations(model, cpack)
+    out = []
+    errors = ErrorCollector()
+    for check in checklist.checks:
+        try:
+            inputs, factors, area_reason = inputs_of(check)
+        except InputError as exc:
+            errors.extend(exc)
+            continue
+        results, governing, uplift = evaluate(
+            check,
+            inputs,
+            combos,
+            duration_of(check, inputs),
+            unloaded_of(check),
+            counteracting=cpack.counteracting_dead.value,
+        )
+        out.append(
+            CheckResult(
+                check=check,
+                material=model.members[check.member].material,
+                inputs=inputs,
+                factors=factors,
+                area_reason=area_reason,
+                combinations=results,
+                governing=governing,
+                uplift=uplift,
+                passes=governing.utilisation <= PASS_LIMIT,
+            )
+        )
+    errors.raise_if_any()
+    return tuple(out)
+
+
+PackType = TypeVar("PackType", bound=PackCore)
+
+
+def pack_as(pack: PackCore, kind: type[PackType]) -> PackType:
+    """The pack as its standard's own type (a standard only ever receives its own packs)."""
+    if not isinstance(pack, kind):
+        raise TypeError(f"rule pack {pack.id} is a {pack.standard} pack, not a {kind.__name__}")
+    return pack
+
+
+@dataclass(frozen=True, slots=True)
+class ResistanceSlip:
+    """A standard's own slip in a resistance, as the reconciler recomputes it: its name, what the calc did, the
+    inputs it changes (``kd``: the duration factor) and any factor value it would print besides them."""
+
+    name: str
+    text: str
+    changes: dict[str, float]
+    implies: dict[str, float] = field(default_factory=dict)
