@@ -302,7 +302,7 @@ def _check_files(
     total = sum(require_input_file(path, option).st_size for option, path in given_inputs)
     packs: list[tuple[str, Path]] = []
     if rules_dirs is not None:
-        from audit.standards.packs import pack_files
+        from audit.standards.catalogue import pack_files
 
         packs = [("rule pack", path) for path in pack_files(rules_dirs)]
     check_outputs([(o, p) for o, p in outputs.items() if p is not None], given_inputs + packs)
@@ -469,7 +469,7 @@ def explain(
 @app.command()
 def rules(rules_dir: list[Path] | None = RulesDir) -> None:
     """List the rule packs and every value with its provenance."""
-    from audit.standards.packs import load_all_packs
+    from audit.standards.catalogue import load_all_packs
     from audit.standards.registry import standard_named
 
     try:
@@ -498,7 +498,7 @@ def rules(rules_dir: list[Path] | None = RulesDir) -> None:
             shown = " or ".join(f"{v:g}" for v in value.value) if isinstance(value.value, tuple) else f"{value.value:g}"
             typer.echo(f"  {name} = {shown}  [{value.clause}; {value.source}; {value.status}]")
     from audit.standards import plausible
-    from audit.standards.packs import builtin_rules_dir
+    from audit.standards.bundled import builtin_rules_dir
 
     bounds = plausible.ranges()
     typer.echo(f"plausible ranges (a value outside is refused)\n  file: {builtin_rules_dir() / plausible.FILE}")

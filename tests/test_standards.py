@@ -15,9 +15,9 @@ import yaml
 from audit.core.errors import InputError, InputErrors
 from audit.engine.contacts import Contact
 from audit.engine.model import Material
+from audit.standards.catalogue import load_all_packs
 from audit.standards.ec5 import effective_reach
 from audit.standards.nds import NDS, bearing_area_factor
-from audit.standards.packs import load_all_packs
 from tests.conftest import ROOT, review_dict
 from tests.verification.standards import by_hand, contact_model
 
