@@ -26,8 +26,7 @@ from audit.review import wording
 from audit.review.findings import KINDS, Finding, severity_rank
 from audit.review.remedies import recheck, remedy_text
 from audit.review.review import Review
-from audit.standards.checks import LOCAL, NEAR, RequiredCheck, near_support_width, top_bearing
-from audit.standards.o86 import o86_pack
+from audit.standards.checks import LOCAL, NEAR, RequiredCheck
 from audit.standards.resistance import CheckResult, LoadCombination, factored_force, placed_forces, resistance
 
 FACTOR_REL_TOL = 0.01
@@ -565,96 +564,19 @@ def _standard_slips(result: CheckResult, review: Review, kd: float) -> list[Slip
     """A standard's own resistance slips, each recomputed with the inputs it changes, at the duration factor ``kd``."""
     inputs = result.inputs
     out = []
-    for name, text, changes in review.standard.resistance_variants(result, review.model, review.pack):
-        used = changes.get("kd", kd)
-        fields: dict[str, Any] = {k: v for k, v in changes.items() if k != "kd"}
-        implied = {KEY_OF[k]: v for k, v in fields.items() if k in KEY_OF}
+    for slip in review.standard.resistance_variants(result, review.model, review.pack, kd):
+        used = slip.changes.get("kd", kd)
+        fields: dict[str, Any] = {k: v for k, v in slip.changes.items() if k != "kd"}
+        implied = {**slip.implies, **{KEY_OF[k]: v for k, v in fields.items() if k in KEY_OF}}
         implied["KD"] = used
-        out.append(Slip(name, text, resistance(replace(inputs, **fields), used), implied))
+        out.append(Slip(slip.name, slip.text, resistance(replace(inputs, **fields), used), implied))
     return out
 
 
 def qr_slips(result: CheckResult, review: Review, kd: float | None = None) -> list[Slip]:
-    """Each resistance slip recomputed; ``kd``: the duration factor of the loads the calc used (a load slip found
-    in its Qf carries into KD), else the recomputed one."""
-    g = result.governing
-    base_kd = g.kd if kd is None else kd
-    if "o86-factors" not in review.standard.slip_recipes:
-        return _standard_slips(result, review, base_kd)  # the factor slips below are O86's
-    check, inputs = result.check, result.inputs
-    pack = o86_pack(review.pack)
-    model = review.model
-    member = model.members[check.member]
-    other = model.members.get(check.other_member, member)  # a point load's own check: no member above
-    material = model.materials[member.material]
-    out: list[Slip] = []
-
-    def variant(
-        name: str, text: str, kd: float | None = None, implies: dict[str, float] | None = None, **changes
-    ) -> None:
-        implied = dict(implies or {})
-        implied.update({KEY_OF[k]: v for k, v in changes.items() if k in KEY_OF})
-        implied["KD"] = base_kd if kd is None else kd
-        out.append(Slip(name, text, resistance(replace(inputs, **changes), base_kd if kd is None else kd), implied))
-
-    if inputs.kb == 1.0 and ("KB" in material.applies):
-        length = (
-            check.contact.length
-            if check.kind == LOCAL
-            else min(check.contact.length, top_bearing(check, review.readings["near_support.opposite_bearings"])[0])
-        )
-        kb_table = pack.kb_table.value.at(length)
-        if kb_table > 1.0:
-            variant("kb-where-not-allowed", f"KB = {kb_table:.2f} taken at an end bearing or over 150 mm", kb=kb_table)
-    kz_max = pack.kzcp_table.value.points[0][1]
-    if inputs.kzcp < kz_max:
-        variant("kzcp-flat-plate", f"KZcp = {kz_max:.2f} taken for a plate or plank laid flat (or glulam)", kzcp=kz_max)
-    if inputs.kzcp > 1.0 + 1e-9:
-        variant("kzcp-left-out", f"KZcp = 1.00 taken where the member's proportions give {inputs.kzcp:.2f}", kzcp=1.0)
-    wider = max(member.b, other.b)
-    width = check.contact.width if check.kind == LOCAL else near_support_width(check)
-    if wider > width + 1e-9:
-        variant(
-            "wider-width-area",
-            f"bearing area from the wider member's width ({wider * 1000:.0f} mm) "
-            f"instead of the contact width ({width * 1000:.0f} mm)",
-            area=inputs.area * wider / width,
-            implies={"width": wider},
-        )
-    if inputs.kscp < 1.0:
-        variant("wet-factor-left-out", "the wet service factor KScp was left out", kscp=1.0)
-    short = pack.kd["short"].value
-    if g.duration != "short" and inputs.uses_kd:
-        variant("short-term-kd", f"KD = {short:.2f} (short term) used for a snow or occupancy combination", kd=short)
-    if check.kind == NEAR:
-        variant("two-thirds-left-out", "the 2/3 factor was left out of Qr'", coefficient=1.0)
-    standard_kd = pack.kd["standard"].value
-    if g.duration == "standard" and inputs.uses_kd and base_kd < standard_kd - 1e-9:
-        variant(
-            "long-term-kd-ignored",
-            f"KD = {standard_kd:.2f} taken although the dead load exceeds the standard-term load here "
-            f"(the long-term formula gives {base_kd:.2f})",
-            kd=standard_kd,
-        )
-    if inputs.angle is not None and inputs.fc_parallel is not None:
-        slope = math.pi / 2 - inputs.angle
-        if slope > 1e-6:
-            variant(
-                "hankinson-roof-slope",
-                f"Hankinson's angle taken as the roof slope ({math.degrees(slope):.1f} deg) instead of the angle "
-                f"between load and grain ({math.degrees(inputs.angle):.1f} deg)",
-                angle=slope,
-            )
-    if material.family in pack.fcp:
-        for species, strength in sorted(pack.fcp[material.family].items()):
-            if species != material.species and abs(strength.fcp.value - inputs.fcp) > 1.0:
-                variant(
-                    "wrong-species-fcp",
-                    f"fcp of {species} ({strength.fcp.value / 1e6:.2f} MPa) used instead of {material.species} "
-                    f"({inputs.fcp / 1e6:.2f} MPa)",
-                    fcp=strength.fcp.value,
-                )
-    return out
+    """Each resistance slip the standard knows, recomputed; ``kd``: the duration factor of the loads the calc used (a
+    load slip found in its Qf carries into KD), else the recomputed one."""
+    return _standard_slips(result, review, result.governing.kd if kd is None else kd)
 
 
 def recomputed_factors(result: CheckResult, review: Review) -> dict[str, float]:

@@ -17,7 +17,7 @@ if TYPE_CHECKING:
     from audit.engine.take_down import TakeDown
     from audit.standards.checks import CheckList
     from audit.standards.packs import CombinationPack, PackCore
-    from audit.standards.resistance import CheckResult
+    from audit.standards.resistance import CheckResult, ResistanceSlip
 
 
 class Standard(Protocol):
@@ -31,10 +31,6 @@ class Standard(Protocol):
 
     @property
     def check_kinds(self) -> dict[str, str]:  # the kinds of check it requires -> the memo's words for each
-        ...
-
-    @property
-    def slip_recipes(self) -> tuple[str, ...]:  # families of slip recipes the reconciler may try on its checks
         ...
 
     @property
@@ -61,9 +57,10 @@ class Standard(Protocol):
 
     def assumption_lines(self, review: Any) -> dict[str, str]: ...
 
-    def resistance_variants(self, result: Any, model: Model, pack: PackCore) -> list[tuple[str, str, dict[str, float]]]:
-        """The standard's own slips in a resistance: (name, what the calc did, the inputs it changes; 'kd' for
-        the duration factor). The reconciler recomputes each and names those that reproduce a claim."""
+    def resistance_variants(self, result: CheckResult, model: Model, pack: PackCore, kd: float) -> list[ResistanceSlip]:
+        """The standard's own slips in a resistance, each with the inputs it changes ('kd' for the duration factor);
+        ``kd``: the duration factor of the loads the calc used. The reconciler recomputes each through the
+        standard's resistance and names those that reproduce a claim."""
         ...
 
     def duration_reason(

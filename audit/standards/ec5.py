@@ -45,6 +45,7 @@ from audit.standards.resistance import (
     Factor,
     LoadCombination,
     ResistanceInputs,
+    ResistanceSlip,
     pack_as,
     resist_each,
 )
@@ -344,7 +345,6 @@ class _Ec5:
     id: str = "ec5"
     title: str = "EN 1995-1-1"
     check_kinds: dict[str, str] = field(default_factory=lambda: {LOCAL: "compression perpendicular to the grain"})
-    slip_recipes: tuple[str, ...] = ()
     length_factor: str = "kc,90"
     combination_formats: tuple[str, ...] = ("EN 1990",)
     claim_headers: dict[str, str] = field(
@@ -399,29 +399,41 @@ class _Ec5:
             "EN 1995-1-1 has no near-support check: each contact is checked on both members.",
         }
 
-    def resistance_variants(self, result: Any, model: Model, pack: PackCore) -> list[tuple[str, str, dict[str, float]]]:
+    def resistance_variants(self, result: CheckResult, model: Model, pack: PackCore, kd: float) -> list[ResistanceSlip]:
         p, inputs, c = ec5_pack(pack), result.inputs, result.check.contact
         member = model.members[result.check.member]
         family = model.materials[member.material].family
-        out: list[tuple[str, str, dict[str, float]]] = []
+        out: list[ResistanceSlip] = []
         bare = c.width * c.length
         if inputs.area > bare + 1e-12:
-            out.append(("no-effective-length", "the contact length used without the 30 mm each side", {"area": bare}))
+            out.append(
+                ResistanceSlip(
+                    "no-effective-length", "the contact length used without the 30 mm each side", {"area": bare}
+                )
+            )
         if inputs.kb == 1.0:
             for arrangement in ("continuous", "discrete"):
                 value = p.kc90.value[arrangement].get(family, 1.0)
                 text = f"kc,90 = {value:.2f} ({arrangement} support) taken where it does not apply"
                 out.append(
-                    (f"kc90-{arrangement}-not-allowed", text + " (spacing, length or arrangement)", {"kb": value})
+                    ResistanceSlip(
+                        f"kc90-{arrangement}-not-allowed", text + " (spacing, length or arrangement)", {"kb": value}
+                    )
                 )
         if inputs.phi < 1.0:
-            out.append(("gamma-m-left-out", "gamma_M left out (characteristic, not design, strength)", {"phi": 1.0}))
+            out.append(
+                ResistanceSlip(
+                    "gamma-m-left-out", "gamma_M left out (characteristic, not design, strength)", {"phi": 1.0}
+                )
+            )
         service = "wet" if member.service == "wet" else "dry"
         for name in ("medium", "short", "instantaneous"):
             value = p.kmod.value[service][name]
             if value > result.governing.kd + 1e-9:
                 out.append(
-                    (f"kmod-{name}", f"kmod = {value:.2f} ({name}-term) used for a longer action", {"kd": value})
+                    ResistanceSlip(
+                        f"kmod-{name}", f"kmod = {value:.2f} ({name}-term) used for a longer action", {"kd": value}
+                    )
                 )
         return out
 

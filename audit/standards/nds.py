@@ -38,6 +38,7 @@ from audit.standards.resistance import (
     Factor,
     LoadCombination,
     ResistanceInputs,
+    ResistanceSlip,
     fcp_on_face,
     pack_as,
     resist_each,
@@ -266,7 +267,6 @@ class _Nds:
     id: str = "nds"
     title: str = "US NDS"
     check_kinds: dict[str, str] = field(default_factory=lambda: {LOCAL: "bearing perpendicular to grain"})
-    slip_recipes: tuple[str, ...] = ()
     length_factor: str = "Cb"
     combination_formats: tuple[str, ...] = ("ASD", "LRFD")
     claim_headers: dict[str, str] = field(
@@ -314,24 +314,26 @@ class _Nds:
             + " The NDS has no near-support check: each contact is checked on both members.",
         }
 
-    def resistance_variants(self, result: Any, model: Model, pack: PackCore) -> list[tuple[str, str, dict[str, float]]]:
+    def resistance_variants(self, result: CheckResult, model: Model, pack: PackCore, kd: float) -> list[ResistanceSlip]:
         p, inputs, c = nds_pack(pack), result.inputs, result.check.contact
-        out: list[tuple[str, str, dict[str, float]]] = []
+        out: list[ResistanceSlip] = []
         if inputs.kb == 1.0 and c.length < p.cb_max_length.value - 1e-9:
             cb = (c.length + p.cb_add.value) / c.length
-            out.append(("cb-where-not-allowed", f"Cb = {cb:.2f} taken within 3 in of the member end", {"kb": cb}))
+            out.append(
+                ResistanceSlip("cb-where-not-allowed", f"Cb = {cb:.2f} taken within 3 in of the member end", {"kb": cb})
+            )
         if inputs.kscp < 1.0:
-            out.append(("wet-factor-left-out", "the wet service factor CM was left out", {"kscp": 1.0}))
+            out.append(ResistanceSlip("wet-factor-left-out", "the wet service factor CM was left out", {"kscp": 1.0}))
         if inputs.phi < 1.0:
-            out.append(("lrfd-factors-left-out", "the ASD value used in LRFD (KF and phi left out)", {"phi": 1.0,
-                        "coefficient": inputs.coefficient / p.kf.value}))  # fmt: skip
+            asd = {"phi": 1.0, "coefficient": inputs.coefficient / p.kf.value}
+            out.append(ResistanceSlip("lrfd-factors-left-out", "the ASD value used in LRFD (KF and phi left out)", asd))
         else:
-            out.append(("lrfd-value-in-asd", "the LRFD value (x KF phi) used in ASD", {"phi": p.phi.value,
-                        "coefficient": inputs.coefficient * p.kf.value}))  # fmt: skip
+            lrfd = {"phi": p.phi.value, "coefficient": inputs.coefficient * p.kf.value}
+            out.append(ResistanceSlip("lrfd-value-in-asd", "the LRFD value (x KF phi) used in ASD", lrfd))
         if inputs.coefficient in (1.0, p.kf.value):
             factor = p.deformation_factor
-            out.append(("deformation-limit", f"Fc-perp at the 0.02 in limit ({factor:.2f} Fc-perp) used",
-                        {"coefficient": inputs.coefficient * factor}))  # fmt: skip
+            text = f"Fc-perp at the 0.02 in limit ({factor:.2f} Fc-perp) used"
+            out.append(ResistanceSlip("deformation-limit", text, {"coefficient": inputs.coefficient * factor}))
         return out
 
     def duration_reason(

@@ -26,10 +26,12 @@ from audit.standards.checks import (
     RequiredCheck,
     list_checks,
     near_support_geometry,
+    near_support_width,
     side_by_side_text,
     top_bearing,
 )
-from audit.standards.packs import CombinationPack, PackCore, ResistancePack, read_resistance_pack
+from audit.standards.o86_pack import O86Pack, read_o86_pack
+from audit.standards.packs import CombinationPack, PackCore
 from audit.standards.resistance import (
     LONG_TERM_CASE,
     CheckResult,
@@ -37,6 +39,7 @@ from audit.standards.resistance import (
     Factor,
     LoadCombination,
     ResistanceInputs,
+    ResistanceSlip,
     fcp_on_face,
     pack_as,
     resist_each,
@@ -45,7 +48,7 @@ from audit.standards.resistance import (
 STANDARD_TERM_CASES = ("L", "S")
 
 
-def load_duration_factor(forces: Forces, combo: LoadCombination, pack: ResistancePack) -> tuple[float, str]:
+def load_duration_factor(forces: Forces, combo: LoadCombination, pack: O86Pack) -> tuple[float, str]:
     """KD for one combination at one check, with the reason."""
     if combo.duration != "standard":
         value = pack.kd[combo.duration].value
@@ -79,7 +82,7 @@ def load_duration_factor(forces: Forces, combo: LoadCombination, pack: Resistanc
 # ---------------------------------------------------------------- factors
 
 
-def kb_factor(length: float, end_distance: float, material: Material, pack: ResistancePack) -> Factor:
+def kb_factor(length: float, end_distance: float, material: Material, pack: O86Pack) -> Factor:
     clause = pack.kb_table.clause
     if "KB" not in material.applies:
         return Factor("KB", 1.0, "KB = 1.00: the product's evaluation report does not allow KB", clause)
@@ -105,7 +108,7 @@ def kb_factor(length: float, end_distance: float, material: Material, pack: Resi
     )
 
 
-def _kzcp(member: Member, material: Material, pack: ResistancePack, reading: str) -> Factor:
+def _kzcp(member: Member, material: Material, pack: O86Pack, reading: str) -> Factor:
     clause = pack.kzcp_table.clause
     applies = (
         "KZcp" in material.applies if material.family == "engineered" else material.family in pack.kzcp_families.value
@@ -137,7 +140,7 @@ def _kzcp(member: Member, material: Material, pack: ResistancePack, reading: str
     )
 
 
-def _kscp(member: Member, material: Material, pack: ResistancePack) -> Factor:
+def _kscp(member: Member, material: Material, pack: O86Pack) -> Factor:
     if material.family == "engineered":
         if "KScp" not in material.applies or member.service == "dry":
             return Factor("KScp", 1.0, f"KScp = 1.00: {member.service} service, product report")
@@ -152,7 +155,7 @@ def _kscp(member: Member, material: Material, pack: ResistancePack) -> Factor:
     return Factor("KScp", value, f"KScp = {value:.2f}: {member.service} service", entry.clause)
 
 
-def _fc_parallel(member: Member, material: Material, pack: ResistancePack, angle: float | None) -> float | None:
+def _fc_parallel(member: Member, material: Material, pack: O86Pack, angle: float | None) -> float | None:
     if angle is None or abs(angle - math.pi / 2) < 1e-9:
         return None
     if material.fc is None:
@@ -172,7 +175,7 @@ def _fc_parallel(member: Member, material: Material, pack: ResistancePack, angle
 def resistance_inputs(
     check: RequiredCheck,
     model: Model,
-    pack: ResistancePack,
+    pack: O86Pack,
     readings: dict[str, str],
 ) -> tuple[ResistanceInputs, tuple[Factor, ...], str]:
     """Every input of Qr but KD, each with its reason; ``readings`` are the pack's choices in force."""
@@ -225,7 +228,7 @@ def resistance_inputs(
     return inputs, factors, area_reason
 
 
-def _near_area(check: RequiredCheck, pack: ResistancePack, readings: dict[str, str]) -> tuple[float, str]:
+def _near_area(check: RequiredCheck, pack: O86Pack, readings: dict[str, str]) -> tuple[float, str]:
     reading = readings["near_support.area_limit"]
     l1, l2, b = near_support_geometry(check, readings["near_support.opposite_bearings"])
     ratio = pack.near_area_ratio
@@ -254,7 +257,7 @@ def _near_area(check: RequiredCheck, pack: ResistancePack, readings: dict[str, s
     return area, text
 
 
-def _near_kb(check: RequiredCheck, material: Material, pack: ResistancePack, readings: dict[str, str]) -> Factor:
+def _near_kb(check: RequiredCheck, material: Material, pack: O86Pack, readings: dict[str, str]) -> Factor:
     reading = readings["near_support.kb_reading"]
     support = check.contact
     top_length, top_end = top_bearing(check, readings["near_support.opposite_bearings"])
@@ -271,7 +274,7 @@ def _near_kb(check: RequiredCheck, material: Material, pack: ResistancePack, rea
 # ---------------------------------------------------------------- results
 
 
-def resist(checklist: CheckList, model: Model, pack: ResistancePack, cpack: CombinationPack) -> tuple[CheckResult, ...]:
+def resist(checklist: CheckList, model: Model, pack: O86Pack, cpack: CombinationPack) -> tuple[CheckResult, ...]:
     readings = pack.in_force(model.project.readings)
 
     def duration_of(check: RequiredCheck, inputs: ResistanceInputs) -> DurationRule:
@@ -292,6 +295,83 @@ def resist(checklist: CheckList, model: Model, pack: ResistancePack, cpack: Comb
     )
 
 
+# ---------------------------------------------------------------- slips
+
+
+def o86_slips(result: CheckResult, model: Model, pack: O86Pack, kd: float) -> list[ResistanceSlip]:
+    """The slips reviewers find in an O86 resistance, each as the inputs it changes; ``kd``: the duration factor of
+    the loads the calc used (the recomputed one where the calc's loads are the engine's)."""
+    g = result.governing
+    check, inputs = result.check, result.inputs
+    readings = pack.in_force(model.project.readings)
+    member = model.members[check.member]
+    other = model.members.get(check.other_member, member)  # a point load's own check: no member above
+    material = model.materials[member.material]
+    out: list[ResistanceSlip] = []
+
+    def variant(name: str, text: str, implies: dict[str, float] | None = None, **changes: float) -> None:
+        out.append(ResistanceSlip(name, text, changes, implies or {}))
+
+    if inputs.kb == 1.0 and ("KB" in material.applies):
+        length = (
+            check.contact.length
+            if check.kind == LOCAL
+            else min(check.contact.length, top_bearing(check, readings["near_support.opposite_bearings"])[0])
+        )
+        kb_table = pack.kb_table.value.at(length)
+        if kb_table > 1.0:
+            variant("kb-where-not-allowed", f"KB = {kb_table:.2f} taken at an end bearing or over 150 mm", kb=kb_table)
+    kz_max = pack.kzcp_table.value.points[0][1]
+    if inputs.kzcp < kz_max:
+        variant("kzcp-flat-plate", f"KZcp = {kz_max:.2f} taken for a plate or plank laid flat (or glulam)", kzcp=kz_max)
+    if inputs.kzcp > 1.0 + 1e-9:
+        variant("kzcp-left-out", f"KZcp = 1.00 taken where the member's proportions give {inputs.kzcp:.2f}", kzcp=1.0)
+    wider = max(member.b, other.b)
+    width = check.contact.width if check.kind == LOCAL else near_support_width(check)
+    if wider > width + 1e-9:
+        variant(
+            "wider-width-area",
+            f"bearing area from the wider member's width ({wider * 1000:.0f} mm) "
+            f"instead of the contact width ({width * 1000:.0f} mm)",
+            implies={"width": wider},
+            area=inputs.area * wider / width,
+        )
+    if inputs.kscp < 1.0:
+        variant("wet-factor-left-out", "the wet service factor KScp was left out", kscp=1.0)
+    short = pack.kd["short"].value
+    if g.duration != "short" and inputs.uses_kd:
+        variant("short-term-kd", f"KD = {short:.2f} (short term) used for a snow or occupancy combination", kd=short)
+    if check.kind == NEAR:
+        variant("two-thirds-left-out", "the 2/3 factor was left out of Qr'", coefficient=1.0)
+    standard_kd = pack.kd["standard"].value
+    if g.duration == "standard" and inputs.uses_kd and kd < standard_kd - 1e-9:
+        variant(
+            "long-term-kd-ignored",
+            f"KD = {standard_kd:.2f} taken although the dead load exceeds the standard-term load here "
+            f"(the long-term formula gives {kd:.2f})",
+            kd=standard_kd,
+        )
+    if inputs.angle is not None and inputs.fc_parallel is not None:
+        slope = math.pi / 2 - inputs.angle
+        if slope > 1e-6:
+            variant(
+                "hankinson-roof-slope",
+                f"Hankinson's angle taken as the roof slope ({math.degrees(slope):.1f} deg) instead of the angle "
+                f"between load and grain ({math.degrees(inputs.angle):.1f} deg)",
+                angle=slope,
+            )
+    if material.family in pack.fcp:
+        for species, strength in sorted(pack.fcp[material.family].items()):
+            if species != material.species and abs(strength.fcp.value - inputs.fcp) > 1.0:
+                variant(
+                    "wrong-species-fcp",
+                    f"fcp of {species} ({strength.fcp.value / 1e6:.2f} MPa) used instead of {material.species} "
+                    f"({inputs.fcp / 1e6:.2f} MPa)",
+                    fcp=strength.fcp.value,
+                )
+    return out
+
+
 # ---------------------------------------------------------------- the standard, as the review sees it
 
 
@@ -304,16 +384,16 @@ class _O86:
     check_kinds: dict[str, str] = field(
         default_factory=lambda: {LOCAL: "local bearing", NEAR: "near-support bearing (loads within d of a support)"}
     )
-    slip_recipes: tuple[str, ...] = ("o86-factors",)
     length_factor: str = "KB"
     combination_formats: tuple[str, ...] = ("limit-states",)
     claim_headers: dict[str, str] = field(default_factory=dict)  # the default headers are O86's (Qf, Qr, KB)
 
-    def read_pack(self, root: Node, path: str) -> ResistancePack:
-        return read_resistance_pack(root, path)
+    def read_pack(self, root: Node, path: str) -> O86Pack:
+        return read_o86_pack(root, path)
 
     def list_checks(self, model: Model, flow: TakeDown, pack: PackCore, readings: dict[str, str]) -> CheckList:
-        return list_checks(model, flow, o86_pack(pack), readings)
+        p = o86_pack(pack)
+        return list_checks(model, flow, p, readings, p.near_reach.value)
 
     def resist(
         self, checklist: CheckList, model: Model, pack: PackCore, cpack: CombinationPack
@@ -340,8 +420,8 @@ class _O86:
             "the highest Qf/Qr.",
         }
 
-    def resistance_variants(self, result: Any, model: Model, pack: PackCore) -> list[tuple[str, str, dict[str, float]]]:
-        return []  # O86's slips are the reconciler's own factor family ("o86-factors")
+    def resistance_variants(self, result: CheckResult, model: Model, pack: PackCore, kd: float) -> list[ResistanceSlip]:
+        return o86_slips(result, model, o86_pack(pack), kd)
 
     def duration_reason(
         self, check: RequiredCheck, forces: Forces, combination: Any, model: Model, pack: PackCore
@@ -349,8 +429,8 @@ class _O86:
         return load_duration_factor(forces, combination, o86_pack(pack))[1]
 
 
-def o86_pack(pack: PackCore) -> ResistancePack:
-    return pack_as(pack, ResistancePack)
+def o86_pack(pack: PackCore) -> O86Pack:
+    return pack_as(pack, O86Pack)
 
 
 O86 = _O86()
