@@ -83,7 +83,7 @@ def check_record(r: CheckResult, name: str = "") -> dict[str, Any]:
 
 def _fcp(r: CheckResult, kd: float) -> float:
     """Fcp = fcp (KD KScp KT), Pa."""
-    return r.inputs.fcp * kd * r.inputs.kscp * r.inputs.kt
+    return r.inputs.modified_strength(kd)
 
 
 def review_record(review: Review) -> dict[str, Any]:
@@ -259,7 +259,7 @@ def explain(review: Review, check_id: str) -> str:
         placed = placed_forces(c.forces, c.envelope, combo, x.placing)[0] if combo is not None else c.forces
         reason = x.kd_reason or (
             review.standard.duration_reason(c, placed, combos[x.combination], review.model, review.pack)
-            if r.inputs.uses_kd and x.combination in combos
+            if r.inputs.uses_duration and x.combination in combos
             else f"KD = {x.kd:.2f}"
         )
         lines.append(

@@ -27,16 +27,16 @@ from audit.review.findings import KINDS, Finding, severity_rank
 from audit.review.remedies import recheck, remedy_text
 from audit.review.review import Review
 from audit.standards.checks import LOCAL, NEAR, RequiredCheck
-from audit.standards.resistance import CheckResult, LoadCombination, factored_force, placed_forces, resistance
+from audit.standards.resistance import (
+    LENGTH,
+    CheckResult,
+    LoadCombination,
+    factored_force,
+    placed_forces,
+    resistance,
+)
 
 FACTOR_REL_TOL = 0.01
-KEY_OF = {
-    "kb": "KB",
-    "kzcp": "KZcp",
-    "kscp": "KScp",
-    "fcp": "fcp",
-    "area": "Ab",
-}  # ResistanceInputs field -> claim factor
 
 
 @dataclass(frozen=True)
@@ -565,11 +565,16 @@ def _standard_slips(result: CheckResult, review: Review, kd: float) -> list[Slip
     inputs = result.inputs
     out = []
     for slip in review.standard.resistance_variants(result, review.model, review.pack, kd):
-        used = slip.changes.get("kd", kd)
-        fields: dict[str, Any] = {k: v for k, v in slip.changes.items() if k != "kd"}
-        implied = {**slip.implies, **{KEY_OF[k]: v for k, v in fields.items() if k in KEY_OF}}
+        used = kd if slip.duration is None else slip.duration
+        implied = dict(slip.implies)
+        for f in slip.factors:
+            implied[f.name] = f.value
+            if f.role == LENGTH:
+                implied["KB"] = f.value
+        if slip.area is not None:
+            implied["Ab"] = slip.area
         implied["KD"] = used
-        out.append(Slip(slip.name, slip.text, resistance(replace(inputs, **fields), used), implied))
+        out.append(Slip(slip.name, slip.text, resistance(slip.inputs(inputs), used), implied))
     return out
 
 
@@ -583,7 +588,8 @@ def recomputed_factors(result: CheckResult, review: Review) -> dict[str, float]:
     """The recomputed value of each factor a claim may state, under the claim's names (KB for the standard's
     length factor: KB, Cb or kc,90)."""
     out = {f.name: f.value for f in result.factors}
-    out["KB"] = result.inputs.kb
+    length = result.inputs.of_role(LENGTH)
+    out["KB"] = 1.0 if length is None else length.value
     out["Ab"] = result.inputs.area
     out["KD"] = result.governing.kd
     out["length"] = result.check.contact.length

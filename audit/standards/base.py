@@ -17,7 +17,7 @@ if TYPE_CHECKING:
     from audit.engine.take_down import TakeDown
     from audit.standards.checks import CheckList
     from audit.standards.packs import CombinationPack, PackCore
-    from audit.standards.resistance import CheckResult, ResistanceSlip
+    from audit.standards.resistance import CheckResult, ResistanceSlip, Symbol
 
 
 class Standard(Protocol):
@@ -35,6 +35,10 @@ class Standard(Protocol):
 
     @property
     def length_factor(self) -> str:  # the name of its factor that changes with the bearing length (KB, Cb, kc,90)
+        ...
+
+    @property
+    def symbols(self) -> dict[str, Symbol]:  # its own symbol of each factor -> the factor's role, how claims state it
         ...
 
     @property

@@ -41,13 +41,20 @@ from audit.standards.packs import (
     refuse_unknown_fields,
 )
 from audit.standards.resistance import (
+    ANGLE,
+    DURATION,
+    LENGTH,
+    MATERIAL,
+    STRENGTH,
     CheckResult,
     Factor,
     LoadCombination,
     ResistanceInputs,
     ResistanceSlip,
+    Symbol,
     pack_as,
     resist_each,
+    with_roles,
 )
 
 EC5_KEYS = (
@@ -64,6 +71,14 @@ EC5_KEYS = (
     "uplift",
 )
 CLASSES = ("permanent", "long", "medium", "short", "instantaneous")  # longest to shortest
+# EN 1995-1-1's symbols: the role of each factor, and how a claim states it
+SYMBOLS = {
+    "fc,90,k": Symbol(STRENGTH, "stress"),
+    "gamma_M": Symbol(MATERIAL),
+    "kc,90": Symbol(LENGTH),
+    "alpha": Symbol(ANGLE),
+    "kmod": Symbol(DURATION),
+}
 
 
 @dataclass(frozen=True)
@@ -281,16 +296,11 @@ def ec5_inputs(
                 ANGLE_CLAUSE,
             ),
         )
+    factors = with_roles(factors, SYMBOLS)
     inputs = ResistanceInputs(
-        phi=1.0 / gamma.value,
-        coefficient=1.0,
-        fcp=fc90k,
-        kscp=1.0,
-        kt=1.0,
-        kb=kc90.value,
-        kzcp=1.0,
+        factors=factors,
         area=area,
-        uses_kd=True,
+        uses_duration=True,
         fc_parallel=material.fc if angle is not None else None,  # x kmod / gamma_M in ``resistance``: fc,0,d
         angle=angle,
     )
@@ -346,6 +356,7 @@ class _Ec5:
     title: str = "EN 1995-1-1"
     check_kinds: dict[str, str] = field(default_factory=lambda: {LOCAL: "compression perpendicular to the grain"})
     length_factor: str = "kc,90"
+    symbols: dict[str, Symbol] = field(default_factory=lambda: SYMBOLS)  # its factors: role, how claims state them
     combination_formats: tuple[str, ...] = ("EN 1990",)
     claim_headers: dict[str, str] = field(
         default_factory=lambda: {
@@ -406,33 +417,31 @@ class _Ec5:
         out: list[ResistanceSlip] = []
         bare = c.width * c.length
         if inputs.area > bare + 1e-12:
-            out.append(
-                ResistanceSlip(
-                    "no-effective-length", "the contact length used without the 30 mm each side", {"area": bare}
-                )
-            )
-        if inputs.kb == 1.0:
+            text = "the contact length used without the 30 mm each side"
+            out.append(ResistanceSlip("no-effective-length", text, area=bare))
+        kc90 = inputs.factor("kc,90")
+        if kc90 is not None and kc90.value == 1.0:
             for arrangement in ("continuous", "discrete"):
                 value = p.kc90.value[arrangement].get(family, 1.0)
                 text = f"kc,90 = {value:.2f} ({arrangement} support) taken where it does not apply"
                 out.append(
                     ResistanceSlip(
-                        f"kc90-{arrangement}-not-allowed", text + " (spacing, length or arrangement)", {"kb": value}
+                        f"kc90-{arrangement}-not-allowed",
+                        text + " (spacing, length or arrangement)",
+                        (replace(kc90, value=value),),
                     )
                 )
-        if inputs.phi < 1.0:
-            out.append(
-                ResistanceSlip(
-                    "gamma-m-left-out", "gamma_M left out (characteristic, not design, strength)", {"phi": 1.0}
-                )
-            )
+        gamma = inputs.factor("gamma_M")
+        if gamma is not None and gamma.value > 1.0:
+            text = "gamma_M left out (characteristic, not design, strength)"
+            out.append(ResistanceSlip("gamma-m-left-out", text, (replace(gamma, value=1.0),)))
         service = "wet" if member.service == "wet" else "dry"
         for name in ("medium", "short", "instantaneous"):
             value = p.kmod.value[service][name]
             if value > result.governing.kd + 1e-9:
                 out.append(
                     ResistanceSlip(
-                        f"kmod-{name}", f"kmod = {value:.2f} ({name}-term) used for a longer action", {"kd": value}
+                        f"kmod-{name}", f"kmod = {value:.2f} ({name}-term) used for a longer action", duration=value
                     )
                 )
         return out

@@ -33,19 +33,40 @@ from audit.standards.checks import (
 from audit.standards.o86_pack import O86Pack, read_o86_pack
 from audit.standards.packs import CombinationPack, PackCore
 from audit.standards.resistance import (
+    COEFFICIENT,
+    DURATION,
+    LENGTH,
     LONG_TERM_CASE,
+    RESISTANCE,
+    SERVICE,
+    SIZE,
+    STRENGTH,
+    TREATMENT,
     CheckResult,
     DurationRule,
     Factor,
     LoadCombination,
     ResistanceInputs,
     ResistanceSlip,
+    Symbol,
     fcp_on_face,
     pack_as,
     resist_each,
+    with_roles,
 )
 
 STANDARD_TERM_CASES = ("L", "S")
+# O86's symbols: the role of each factor, and how a claim states it
+SYMBOLS = {
+    "phi": Symbol(RESISTANCE),
+    "fcp": Symbol(STRENGTH, "stress"),
+    "KScp": Symbol(SERVICE),
+    "KT": Symbol(TREATMENT),
+    "KB": Symbol(LENGTH),
+    "KZcp": Symbol(SIZE),
+    "2/3": Symbol(COEFFICIENT),
+    "KD": Symbol(DURATION),
+}
 
 
 def load_duration_factor(forces: Forces, combo: LoadCombination, pack: O86Pack) -> tuple[float, str]:
@@ -205,26 +226,20 @@ def resistance_inputs(
             f"Ab = {c.width * 1000:.0f} x {c.length * 1000:.0f} = {area * 1e6:,.0f} mm²: "
             f"width: {c.width_note}; length: {c.length_note}"
         )
-        coefficient = Factor("coefficient", 1.0, "local bearing")
+        coefficient = None  # local bearing: no coefficient
     else:
         area, area_reason = _near_area(check, pack, readings)
         kb = _near_kb(check, material, pack, readings)
         factor = pack.near_factor.value
         coefficient = Factor("2/3", factor, f"near-support factor {factor:.3f}", pack.near_factor.clause)
+    factors = with_roles((phi, fcp, kscp, kt, kb, kzcp) + ((coefficient,) if coefficient else ()), SYMBOLS)
     inputs = ResistanceInputs(
-        phi=phi.value,
-        coefficient=coefficient.value,
-        fcp=fcp_value,
-        kscp=kscp.value,
-        kt=kt.value,
-        kb=kb.value,
-        kzcp=kzcp.value,
+        factors=factors,
         area=area,
-        uses_kd="KD" in material.applies,
+        uses_duration="KD" in material.applies,
         fc_parallel=_fc_parallel(member, material, pack, check.angle),
         angle=check.angle,
     )
-    factors = (phi, fcp, kscp, kt, kb, kzcp) + ((coefficient,) if check.kind == NEAR else ())
     return inputs, factors, area_reason
 
 
@@ -279,7 +294,7 @@ def resist(checklist: CheckList, model: Model, pack: O86Pack, cpack: Combination
 
     def duration_of(check: RequiredCheck, inputs: ResistanceInputs) -> DurationRule:
         def rule(placed: Forces, combo: LoadCombination) -> tuple[float, str]:
-            if not inputs.uses_kd:
+            if not inputs.uses_duration:
                 return 1.0, "KD = 1.00: the product's evaluation report does not apply KD"
             return load_duration_factor(placed, combo, pack)
 
@@ -309,10 +324,15 @@ def o86_slips(result: CheckResult, model: Model, pack: O86Pack, kd: float) -> li
     material = model.materials[member.material]
     out: list[ResistanceSlip] = []
 
-    def variant(name: str, text: str, implies: dict[str, float] | None = None, **changes: float) -> None:
-        out.append(ResistanceSlip(name, text, changes, implies or {}))
+    def variant(name: str, text: str, symbol: str = "", value: float = 0.0, **changes: Any) -> None:
+        factors: tuple[Factor, ...] = ()
+        if symbol:
+            found = inputs.factor(symbol)
+            assert found is not None  # O86 states every factor it varies
+            factors = (replace(found, value=value),)
+        out.append(ResistanceSlip(name, text, factors, **changes))
 
-    if inputs.kb == 1.0 and ("KB" in material.applies):
+    if inputs.value("KB") == 1.0 and ("KB" in material.applies):
         length = (
             check.contact.length
             if check.kind == LOCAL
@@ -320,12 +340,17 @@ def o86_slips(result: CheckResult, model: Model, pack: O86Pack, kd: float) -> li
         )
         kb_table = pack.kb_table.value.at(length)
         if kb_table > 1.0:
-            variant("kb-where-not-allowed", f"KB = {kb_table:.2f} taken at an end bearing or over 150 mm", kb=kb_table)
+            variant(
+                "kb-where-not-allowed", f"KB = {kb_table:.2f} taken at an end bearing or over 150 mm", "KB", kb_table
+            )
     kz_max = pack.kzcp_table.value.points[0][1]
-    if inputs.kzcp < kz_max:
-        variant("kzcp-flat-plate", f"KZcp = {kz_max:.2f} taken for a plate or plank laid flat (or glulam)", kzcp=kz_max)
-    if inputs.kzcp > 1.0 + 1e-9:
-        variant("kzcp-left-out", f"KZcp = 1.00 taken where the member's proportions give {inputs.kzcp:.2f}", kzcp=1.0)
+    kzcp = inputs.value("KZcp")
+    if kzcp < kz_max:
+        variant(
+            "kzcp-flat-plate", f"KZcp = {kz_max:.2f} taken for a plate or plank laid flat (or glulam)", "KZcp", kz_max
+        )
+    if kzcp > 1.0 + 1e-9:
+        variant("kzcp-left-out", f"KZcp = 1.00 taken where the member's proportions give {kzcp:.2f}", "KZcp", 1.0)
     wider = max(member.b, other.b)
     width = check.contact.width if check.kind == LOCAL else near_support_width(check)
     if wider > width + 1e-9:
@@ -336,20 +361,22 @@ def o86_slips(result: CheckResult, model: Model, pack: O86Pack, kd: float) -> li
             implies={"width": wider},
             area=inputs.area * wider / width,
         )
-    if inputs.kscp < 1.0:
-        variant("wet-factor-left-out", "the wet service factor KScp was left out", kscp=1.0)
+    if inputs.value("KScp") < 1.0:
+        variant("wet-factor-left-out", "the wet service factor KScp was left out", "KScp", 1.0)
     short = pack.kd["short"].value
-    if g.duration != "short" and inputs.uses_kd:
-        variant("short-term-kd", f"KD = {short:.2f} (short term) used for a snow or occupancy combination", kd=short)
+    if g.duration != "short" and inputs.uses_duration:
+        variant(
+            "short-term-kd", f"KD = {short:.2f} (short term) used for a snow or occupancy combination", duration=short
+        )
     if check.kind == NEAR:
-        variant("two-thirds-left-out", "the 2/3 factor was left out of Qr'", coefficient=1.0)
+        variant("two-thirds-left-out", "the 2/3 factor was left out of Qr'", "2/3", 1.0)
     standard_kd = pack.kd["standard"].value
-    if g.duration == "standard" and inputs.uses_kd and kd < standard_kd - 1e-9:
+    if g.duration == "standard" and inputs.uses_duration and kd < standard_kd - 1e-9:
         variant(
             "long-term-kd-ignored",
             f"KD = {standard_kd:.2f} taken although the dead load exceeds the standard-term load here "
             f"(the long-term formula gives {kd:.2f})",
-            kd=standard_kd,
+            duration=standard_kd,
         )
     if inputs.angle is not None and inputs.fc_parallel is not None:
         slope = math.pi / 2 - inputs.angle
@@ -362,12 +389,13 @@ def o86_slips(result: CheckResult, model: Model, pack: O86Pack, kd: float) -> li
             )
     if material.family in pack.fcp:
         for species, strength in sorted(pack.fcp[material.family].items()):
-            if species != material.species and abs(strength.fcp.value - inputs.fcp) > 1.0:
+            if species != material.species and abs(strength.fcp.value - inputs.strength) > 1.0:
                 variant(
                     "wrong-species-fcp",
                     f"fcp of {species} ({strength.fcp.value / 1e6:.2f} MPa) used instead of {material.species} "
-                    f"({inputs.fcp / 1e6:.2f} MPa)",
-                    fcp=strength.fcp.value,
+                    f"({inputs.strength / 1e6:.2f} MPa)",
+                    "fcp",
+                    strength.fcp.value,
                 )
     return out
 
@@ -385,6 +413,7 @@ class _O86:
         default_factory=lambda: {LOCAL: "local bearing", NEAR: "near-support bearing (loads within d of a support)"}
     )
     length_factor: str = "KB"
+    symbols: dict[str, Symbol] = field(default_factory=lambda: SYMBOLS)  # its factors: role, how claims state them
     combination_formats: tuple[str, ...] = ("limit-states",)
     claim_headers: dict[str, str] = field(default_factory=dict)  # the default headers are O86's (Qf, Qr, KB)
 

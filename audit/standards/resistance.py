@@ -50,29 +50,114 @@ def _principal_cases(factors: dict[str, float]) -> tuple[str, ...]:
     return tuple(case for case in live if base_case(case) == principal)
 
 
+# What a factor does in a bearing resistance, whichever standard names it (O86 / NDS / EN 1995-1-1):
+STRENGTH = "strength"  # the specified strength perpendicular to grain, Pa: fcp / Fc-perp / fc,90,k
+RESISTANCE = "resistance"  # a resistance factor, on the strength parallel to grain too: phi / phi (LRFD)
+MATERIAL = "material"  # a partial factor the strength is divided by, parallel to grain too: gamma_M
+COEFFICIENT = "coefficient"  # on the resistance perpendicular to grain only: 2/3 / KF, the 0.02 in limit
+SERVICE = "service"  # wet or dry service: KScp / CM
+TREATMENT = "treatment"  # KT
+TEMPERATURE = "temperature"  # Ct
+LENGTH = "length"  # changes with the bearing length: KB / Cb / kc,90
+SIZE = "size"  # KZcp
+INCISING = "incising"  # Ci
+ANGLE = "angle"  # the angle between load and grain, stated (Hankinson or 6.2.2 use it through ``angle``)
+DURATION = "duration"  # changes with the combination: KD / kmod (never among the inputs; ``evaluate`` finds it)
+# The order the product is taken in: coefficients, then the modified strength, the area, the factors after it.
+_BEFORE = (COEFFICIENT, RESISTANCE, MATERIAL)
+_ON_STRENGTH = (SERVICE, TREATMENT, TEMPERATURE)
+_AFTER = (LENGTH, SIZE, INCISING)
+ROLES = (STRENGTH, *_BEFORE, *_ON_STRENGTH, *_AFTER, ANGLE, DURATION)
+
+
 @dataclass(frozen=True, slots=True)
 class Factor:
-    name: str
+    name: str  # the standard's own symbol: KB, Cb, kc,90
     value: float
     reason: str
     clause: str = ""
+    role: str = ""  # what it does in the resistance (one of ROLES); "" only for a factor not yet placed
+
+
+@dataclass(frozen=True, slots=True)
+class Symbol:
+    """A symbol a standard names a factor by: its role, and how a claim states it (None: a plain number, else the
+    dimension it is read in)."""
+
+    role: str
+    dimension: str | None = None
+
+
+def with_roles(factors: tuple[Factor, ...], symbols: dict[str, Symbol]) -> tuple[Factor, ...]:
+    """The factors, each with the role its standard gives its symbol."""
+    return tuple(f if f.role else replace(f, role=symbols[f.name].role) for f in factors)
 
 
 @dataclass(frozen=True, slots=True)
 class ResistanceInputs:
-    """Everything Qr depends on except KD; diagnosis varies these one at a time."""
+    """Everything a resistance depends on but the duration factor, each factor with its role and symbol; diagnosis
+    and remedies change them one at a time (``changed``)."""
 
-    phi: float
-    coefficient: float  # 1 for local bearing, 2/3 for near-support
-    fcp: float  # Pa, specified strength
-    kscp: float
-    kt: float
-    kb: float
-    kzcp: float
-    area: float  # m^2, Ab or Ab'
-    uses_kd: bool
-    fc_parallel: float | None  # Pa, fc * KSc * KT for Hankinson; None when perpendicular
+    factors: tuple[Factor, ...]  # every factor but the duration one, in the standard's order, each with its role
+    area: float  # m^2: Ab, Ab' or Aef
+    uses_duration: bool  # False where the product's report applies no duration factor
+    fc_parallel: float | None  # Pa, strength parallel to grain as modified, for a load at an angle; else None
     angle: float | None
+    # set from ``factors``: the products the resistance is taken from, in its order
+    before: float = field(init=False, compare=False, repr=False)
+    parallel: float = field(init=False, compare=False, repr=False)
+    strength: float = field(init=False, compare=False, repr=False)
+    on_strength: tuple[float, ...] = field(init=False, compare=False, repr=False)
+    after: tuple[float, ...] = field(init=False, compare=False, repr=False)
+
+    def __post_init__(self) -> None:
+        before, parallel, strength = 1.0, 1.0, 0.0
+        for f in self.factors:
+            if f.role not in ROLES or f.role == DURATION:
+                raise ValueError(f"factor {f.name} has no role in a resistance: {f.role!r}")
+            if f.role in _BEFORE:
+                value = 1.0 / f.value if f.role == MATERIAL else f.value
+                before *= value
+                if f.role != COEFFICIENT:
+                    parallel *= value
+            elif f.role == STRENGTH:
+                strength = f.value
+        object.__setattr__(self, "before", before)
+        object.__setattr__(self, "parallel", parallel)
+        object.__setattr__(self, "strength", strength)
+        object.__setattr__(self, "on_strength", tuple(f.value for f in self.factors if f.role in _ON_STRENGTH))
+        object.__setattr__(self, "after", tuple(f.value for f in self.factors if f.role in _AFTER))
+
+    def factor(self, symbol: str) -> Factor | None:
+        return next((f for f in self.factors if f.name == symbol), None)
+
+    def value(self, symbol: str, default: float = 1.0) -> float:
+        """The factor's value, ``default`` where the standard did not apply it here."""
+        found = self.factor(symbol)
+        return default if found is None else found.value
+
+    def of_role(self, role: str) -> Factor | None:
+        return next((f for f in self.factors if f.role == role), None)
+
+    def changed(
+        self, factors: tuple[Factor, ...] = (), area: float | None = None, angle: float | None = None
+    ) -> ResistanceInputs:
+        """The inputs with each given factor in place of the one of its symbol (added where there is none)."""
+        given = {f.name: f for f in factors}
+        kept = tuple(given.pop(f.name, f) for f in self.factors)
+        return replace(
+            self,
+            factors=kept + tuple(given.values()),
+            area=self.area if area is None else area,
+            angle=self.angle if angle is None else angle,
+        )
+
+    def modified_strength(self, duration: float) -> float:
+        """The strength with the duration factor and the factors on it (O86's Fcp, NDS's Fc-perp before Cb), Pa."""
+        value = self.strength * (duration if self.uses_duration else 1.0)
+        for factor in self.on_strength:
+            value *= factor
+        return value
 
 
 # How a combination places one patterned case: "worst" (its envelope in the direction of its factor), "every"
@@ -261,14 +346,17 @@ def factored_force(forces: Forces, combo: LoadCombination) -> float:
 
 
 def resistance(inputs: ResistanceInputs, kd: float) -> float:
-    """coefficient phi f (KD ...) A KB KZcp, the product every standard here states its bearing resistance as,
-    with Hankinson's formula for a load at an angle to the grain."""
-    kd_used = kd if inputs.uses_kd else 1.0
-    fcp_modified = inputs.fcp * kd_used * inputs.kscp * inputs.kt
-    qr = inputs.coefficient * inputs.phi * fcp_modified * inputs.area * inputs.kb * inputs.kzcp
+    """The product every standard here states its bearing resistance as: coefficients, resistance and partial
+    factors, the strength with its duration factor and the factors on it, the area, and the factors after it
+    (O86: (2/3) phi fcp (KD KScp KT) Ab KB KZcp; NDS: KF phi Fc-perp CM Ct Ab Cb Ci; EC5: fc,90,k kmod / gamma_M
+    Aef kc,90), with Hankinson's formula for a load at an angle to the grain."""
+    kd_used = kd if inputs.uses_duration else 1.0
+    qr = inputs.before * inputs.modified_strength(kd) * inputs.area
+    for factor in inputs.after:
+        qr *= factor
     if inputs.fc_parallel is None or inputs.angle is None:
         return qr
-    pr = inputs.phi * inputs.fc_parallel * kd_used * inputs.area
+    pr = inputs.parallel * inputs.fc_parallel * kd_used * inputs.area
     s, c = math.sin(inputs.angle), math.cos(inputs.angle)
     return pr * qr / (pr * s * s + qr * c * c)
 
@@ -399,9 +487,15 @@ def pack_as(pack: PackCore, kind: type[PackType]) -> PackType:
 @dataclass(frozen=True, slots=True)
 class ResistanceSlip:
     """A standard's own slip in a resistance, as the reconciler recomputes it: its name, what the calc did, the
-    inputs it changes (``kd``: the duration factor) and any factor value it would print besides them."""
+    inputs it changes and any value it would print besides them."""
 
     name: str
     text: str
-    changes: dict[str, float]
-    implies: dict[str, float] = field(default_factory=dict)
+    factors: tuple[Factor, ...] = ()  # each in place of the factor of its symbol (added where there is none)
+    duration: float | None = None  # the duration factor it takes (None: the one of the loads)
+    area: float | None = None  # m^2
+    angle: float | None = None  # rad
+    implies: dict[str, float] = field(default_factory=dict)  # other values it would print (a contact width)
+
+    def inputs(self, inputs: ResistanceInputs) -> ResistanceInputs:
+        return inputs.changed(self.factors, self.area, self.angle)
