@@ -171,7 +171,7 @@ def review(
             _dirs(rules_dir),
         )
         result = review_model(model, _dirs(rules_dir), rule_pack)
-        claim_list = read_claims(claims) if claims else ()
+        claim_list = read_claims(claims, result.standard) if claims else ()
         if calc_pdf:
             extracted = _extract(calc_pdf, pages, column_map, result.standard.claim_headers)
             claim_list = merge_claim_sources(claim_list, extracted.claims, calc_pdf.name)

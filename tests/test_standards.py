@@ -213,7 +213,7 @@ def _diagnosis(demo: str, bearing: str) -> str:
 
     folder = ROOT / "fixtures" / demo
     review = review_model(folder / "model.yaml")
-    rec = reconcile(review, read_claims(folder / "claims.yaml"))
+    rec = reconcile(review, read_claims(folder / "claims.yaml", review.standard))
     return " ".join(f.message for f in rec.findings if f.kind == "resistance-differs" and f.bearing == bearing)
 
 

@@ -31,8 +31,9 @@ def _contact(c: Contact) -> dict[str, Any]:
     }
 
 
-def check_record(r: CheckResult, name: str = "") -> dict[str, Any]:
-    """One check as the JSON states it; ``name``: the check as engineers name it (``wording.check_name``)."""
+def check_record(r: CheckResult, name: str = "", symbols: tuple[str, str] = ("KD", "Fcp")) -> dict[str, Any]:
+    """One check as the JSON states it; ``name``: the check as engineers name it (``wording.check_name``);
+    ``symbols``: the standard's own names of its duration factor and of the strength it modifies."""
     c = r.check
     g = r.governing
     return {
@@ -54,8 +55,9 @@ def check_record(r: CheckResult, name: str = "") -> dict[str, Any]:
             {"name": f.name, "value": round(f.value, 4), "reason": f.reason, "clause": f.clause} for f in r.factors
         ],
         "forces_kN": {case: round(v / 1000, 3) for case, v in sorted(c.forces.items())},
-        # every combination as [name, Qf kN, KD, Fcp MPa, Qr kN, Qf/Qr]; the governing one's KD reason below
-        "combination_columns": ["name", "Qf_kN", "KD", "Fcp_MPa", "Qr_kN", "utilisation"],
+        # every combination as [name, Qf kN, KD, Fcp MPa, Qr kN, Qf/Qr] (in the standard's symbols); the governing
+        # one's KD reason below
+        "combination_columns": ["name", "Qf_kN", symbols[0], f"{symbols[1]}_MPa", "Qr_kN", "utilisation"],
         "combinations": [
             [
                 x.combination,
@@ -100,7 +102,7 @@ def review_record(review: Review) -> dict[str, Any]:
         "combinations_pack": {"id": review.cpack.id, "edition": review.cpack.edition},
         "readings": dict(review.readings),
         "triage": _triage(review),
-        "checks": (check_record(r, name_of(review, r)) for r in review.results),
+        "checks": (check_record(r, name_of(review, r), review.standard.column_symbols) for r in review.results),
         "not_checked": [
             {"bearing": e.bearing, "member": e.member, "reason": e.reason} for e in review.checklist.exempt
         ],

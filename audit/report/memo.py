@@ -24,6 +24,7 @@ from audit.review.findings import KINDS, SEVERITIES, Finding
 from audit.review.reconcile import Reconciliation, failing_without_claims
 from audit.review.review import Review, uplift_threshold
 from audit.review.rounds import Round
+from audit.standards.resistance import STRENGTH
 
 STATUS_WORDS = {
     "failing": "FAILS",
@@ -419,7 +420,7 @@ def _derivations(
                 "factors": [
                     (
                         f.name,
-                        f"{f.value / 1e6:.2f} MPa" if f.name in STRENGTHS else f"{f.value:.3f}",
+                        f"{f.value / 1e6:.2f} MPa" if f.role == STRENGTH else f"{f.value:.3f}",
                         f.reason,
                         f.clause,
                     )

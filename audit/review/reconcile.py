@@ -28,9 +28,11 @@ from audit.review.remedies import recheck, remedy_text
 from audit.review.review import Review
 from audit.standards.checks import LOCAL, NEAR, RequiredCheck
 from audit.standards.resistance import (
+    DURATION,
     LENGTH,
     CheckResult,
     LoadCombination,
+    Symbol,
     factored_force,
     placed_forces,
     resistance,
@@ -566,15 +568,9 @@ def _standard_slips(result: CheckResult, review: Review, kd: float) -> list[Slip
     out = []
     for slip in review.standard.resistance_variants(result, review.model, review.pack, kd):
         used = kd if slip.duration is None else slip.duration
-        implied = dict(slip.implies)
-        for f in slip.factors:
-            implied[f.name] = f.value
-            if f.role == LENGTH:
-                implied["KB"] = f.value
-        if slip.area is not None:
-            implied["Ab"] = slip.area
-        implied["KD"] = used
-        out.append(Slip(slip.name, slip.text, resistance(slip.inputs(inputs), used), implied))
+        changed = slip.inputs(inputs)
+        implied = {**review.standard.claim_values(changed, used), "Ab": changed.area, **slip.implies}
+        out.append(Slip(slip.name, slip.text, resistance(changed, used), implied))
     return out
 
 
@@ -585,15 +581,29 @@ def qr_slips(result: CheckResult, review: Review, kd: float | None = None) -> li
 
 
 def recomputed_factors(result: CheckResult, review: Review) -> dict[str, float]:
-    """The recomputed value of each factor a claim may state, under the claim's names (KB for the standard's
-    length factor: KB, Cb or kc,90)."""
-    out = {f.name: f.value for f in result.factors}
-    length = result.inputs.of_role(LENGTH)
-    out["KB"] = 1.0 if length is None else length.value
+    """The recomputed value of each factor a claim may state, in the standard's own symbols (KB, Cb, kc,90; KD,
+    kmod; fcp, Fc-perp, fc,90,d), and of the contact (Ab, length, width)."""
+    out = review.standard.claim_values(result.inputs, result.governing.kd)
     out["Ab"] = result.inputs.area
-    out["KD"] = result.governing.kd
     out["length"] = result.check.contact.length
     out["width"] = result.check.contact.width
+    return out
+
+
+# The extractor names a calc sheet's factor columns by role, in O86's words (``pdf/columns.FACTOR_FIELDS``): its
+# length and duration factor columns are the standard's own symbol of that role.
+EXTRACTED_ROLES = {"KB": LENGTH, "KD": DURATION}
+
+
+def claimed_factors(claim: Claim, review: Review) -> dict[str, float]:
+    """The claim's factors by the standard's symbols: a factor column read from a PDF under another standard's
+    word for its role (KB for NDS's Cb) is taken as that standard's symbol of the role."""
+    symbols = review.standard.symbols
+    out: dict[str, float] = {}
+    for name, value in claim.factors.items():
+        if name not in symbols and name in EXTRACTED_ROLES:
+            name = next((s for s, sym in symbols.items() if sym.role == EXTRACTED_ROLES[name]), name)
+        out[name] = value
     return out
 
 
@@ -614,7 +624,7 @@ def qr_slips_with_load(result: CheckResult, review: Review, load: Slip | None) -
         "duration-of-calc-loads",
         f"the calc's loads ({load.text}) give a duration factor of {kd:.2f} where the recomputed loads give {g.kd:.2f}",
         resistance(result.inputs, kd),
-        {"KD": kd},
+        review.standard.claim_values(result.inputs, kd),
     )
     carried = [
         replace(s, text=f"{s.text} (at the duration factor {kd:.2f} of the calc's loads)")
@@ -626,7 +636,7 @@ def qr_slips_with_load(result: CheckResult, review: Review, load: Slip | None) -
 def factor_differences(claim: Claim, result: CheckResult, review: Review) -> tuple[FactorDifference, ...]:
     recomputed = recomputed_factors(result, review)
     out = []
-    for name, value in claim.factors.items():
+    for name, value in claimed_factors(claim, review).items():
         ours = recomputed.get(name)
         if ours is not None and abs(value - ours) > FACTOR_REL_TOL * abs(ours):
             out.append(FactorDifference(name, value, ours))
@@ -816,7 +826,13 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review, cla
         ours = recomputed_factors(result, review)
         load = next((s for s in qf_cmp.slips if s.load is not None), None) if qf_cmp is not None else None
         qr_cmp = _compare(
-            "Qr", claimed_qr, g.qr, lambda: qr_slips_with_load(result, review, load), review, claim.factors, ours
+            "Qr",
+            claimed_qr,
+            g.qr,
+            lambda: qr_slips_with_load(result, review, load),
+            review,
+            claimed_factors(claim, review),
+            ours,
         )
     if qf_cmp is None and qr_cmp is None and claim.utilisation is not None:
         # a claim that states only Qf/Qr confirms nothing unless that ratio agrees
@@ -857,7 +873,7 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review, cla
                     where,
                     diffs if kind == "resistance-differs" else (),
                     d,
-                    review.standard.length_factor,
+                    review.standard.symbols,
                 ),
                 numbers={"claimed": cmp.claimed, "recomputed": cmp.recomputed},
                 quantity=cmp.quantity,
@@ -881,10 +897,13 @@ def _check_outcome(result: CheckResult, claim: Claim | None, review: Review, cla
     return CheckOutcome(check.id, claim.id, status, tuple(findings), qf_cmp, qr_cmp, diffs, remedy)
 
 
-def _difference_message(cmp: Comparison, name: str, where: str, diffs, d: Display, length_factor: str = "KB") -> str:
+def _difference_message(
+    cmp: Comparison, name: str, where: str, diffs, d: Display, symbols: dict[str, Symbol] | None = None
+) -> str:
+    stresses = {s for s, sym in (symbols or {}).items() if sym.dimension == "stress"}
     notes = [
-        f"{length_factor if x.name == 'KB' else x.name} claimed {_fmt_factor(x.name, x.claimed)}, "
-        f"recomputed {_fmt_factor(x.name, x.recomputed)}"
+        f"{x.name} claimed {_fmt_factor(x.name, x.claimed, stresses)}, "
+        f"recomputed {_fmt_factor(x.name, x.recomputed, stresses)}"
         for x in diffs
     ]
     return wording.differs(
@@ -901,11 +920,11 @@ def _difference_message(cmp: Comparison, name: str, where: str, diffs, d: Displa
     )
 
 
-def _fmt_factor(name: str, value: float) -> str:
+def _fmt_factor(name: str, value: float, stresses: set[str] | frozenset[str] = frozenset({"fcp"})) -> str:
     if name == "Ab":
         return f"{value * 1e6:,.0f} mm²"
     if name in ("length", "width"):
         return f"{value * 1000:.0f} mm"
-    if name == "fcp":
+    if name in stresses:
         return f"{value / 1e6:.2f} MPa"
     return f"{value:.3f}"

@@ -17,7 +17,7 @@ if TYPE_CHECKING:
     from audit.engine.take_down import TakeDown
     from audit.standards.checks import CheckList
     from audit.standards.packs import CombinationPack, PackCore
-    from audit.standards.resistance import CheckResult, ResistanceSlip, Symbol
+    from audit.standards.resistance import CheckResult, ResistanceInputs, ResistanceSlip, Symbol
 
 
 class Standard(Protocol):
@@ -42,6 +42,12 @@ class Standard(Protocol):
         ...
 
     @property
+    def column_symbols(
+        self,
+    ) -> tuple[str, str]:  # its duration factor and the strength it modifies, as outputs name them
+        ...
+
+    @property
     def combination_formats(self) -> tuple[str, ...]:  # formats of combination pack it reads
         ...
 
@@ -58,6 +64,11 @@ class Standard(Protocol):
     ) -> tuple[CheckResult, ...]: ...
 
     def formula(self, kind: str) -> str: ...
+
+    def claim_values(self, inputs: ResistanceInputs, duration: float) -> dict[str, float]:
+        """The value of each symbol a claim may state (its factors, and what it derives from them, EC5's fc,90,d)
+        at a check under one duration factor."""
+        ...
 
     def assumption_lines(self, review: Any) -> dict[str, str]: ...
 

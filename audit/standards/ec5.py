@@ -42,6 +42,7 @@ from audit.standards.packs import (
 )
 from audit.standards.resistance import (
     ANGLE,
+    DERIVED,
     DURATION,
     LENGTH,
     MATERIAL,
@@ -52,6 +53,7 @@ from audit.standards.resistance import (
     ResistanceInputs,
     ResistanceSlip,
     Symbol,
+    factor_values,
     pack_as,
     resist_each,
     with_roles,
@@ -78,6 +80,7 @@ SYMBOLS = {
     "kc,90": Symbol(LENGTH),
     "alpha": Symbol(ANGLE),
     "kmod": Symbol(DURATION),
+    "fc,90,d": Symbol(DERIVED, "stress"),  # kmod fc,90,k / gamma_M, as calcs print it
 }
 
 
@@ -357,6 +360,10 @@ class _Ec5:
     check_kinds: dict[str, str] = field(default_factory=lambda: {LOCAL: "compression perpendicular to the grain"})
     length_factor: str = "kc,90"
     symbols: dict[str, Symbol] = field(default_factory=lambda: SYMBOLS)  # its factors: role, how claims state them
+    column_symbols: tuple[str, str] = (
+        "kmod",
+        "kmod fc,90,k",
+    )  # the JSON columns of the duration factor and the strength it modifies
     combination_formats: tuple[str, ...] = ("EN 1990",)
     claim_headers: dict[str, str] = field(
         default_factory=lambda: {
@@ -409,6 +416,11 @@ class _Ec5:
             "fc,0,k from the rule pack) on its contact area b l without the extensions (the conservative reading). "
             "EN 1995-1-1 has no near-support check: each contact is checked on both members.",
         }
+
+    def claim_values(self, inputs: ResistanceInputs, duration: float) -> dict[str, float]:
+        out = factor_values(inputs, duration, SYMBOLS)
+        out["fc,90,d"] = inputs.strength * duration / inputs.value("gamma_M")  # fc,90,d = kmod fc,90,k / gamma_M
+        return out
 
     def resistance_variants(self, result: CheckResult, model: Model, pack: PackCore, kd: float) -> list[ResistanceSlip]:
         p, inputs, c = ec5_pack(pack), result.inputs, result.check.contact

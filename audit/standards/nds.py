@@ -47,6 +47,7 @@ from audit.standards.resistance import (
     ResistanceInputs,
     ResistanceSlip,
     Symbol,
+    factor_values,
     fcp_on_face,
     pack_as,
     resist_each,
@@ -288,6 +289,10 @@ class _Nds:
     check_kinds: dict[str, str] = field(default_factory=lambda: {LOCAL: "bearing perpendicular to grain"})
     length_factor: str = "Cb"
     symbols: dict[str, Symbol] = field(default_factory=lambda: SYMBOLS)  # its factors: role, how claims state them
+    column_symbols: tuple[str, str] = (
+        "no duration factor",
+        "Fc-perp CM Ct",
+    )  # the JSON columns of the duration factor and the strength it modifies
     combination_formats: tuple[str, ...] = ("ASD", "LRFD")
     claim_headers: dict[str, str] = field(
         default_factory=lambda: {
@@ -333,6 +338,9 @@ class _Nds:
             )
             + " The NDS has no near-support check: each contact is checked on both members.",
         }
+
+    def claim_values(self, inputs: ResistanceInputs, duration: float) -> dict[str, float]:
+        return factor_values(inputs, duration, SYMBOLS)
 
     def resistance_variants(self, result: CheckResult, model: Model, pack: PackCore, kd: float) -> list[ResistanceSlip]:
         p, inputs, c = nds_pack(pack), result.inputs, result.check.contact

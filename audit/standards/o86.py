@@ -49,6 +49,7 @@ from audit.standards.resistance import (
     ResistanceInputs,
     ResistanceSlip,
     Symbol,
+    factor_values,
     fcp_on_face,
     pack_as,
     resist_each,
@@ -414,6 +415,10 @@ class _O86:
     )
     length_factor: str = "KB"
     symbols: dict[str, Symbol] = field(default_factory=lambda: SYMBOLS)  # its factors: role, how claims state them
+    column_symbols: tuple[str, str] = (
+        "KD",
+        "Fcp",
+    )  # the JSON columns of the duration factor and the strength it modifies
     combination_formats: tuple[str, ...] = ("limit-states",)
     claim_headers: dict[str, str] = field(default_factory=dict)  # the default headers are O86's (Qf, Qr, KB)
 
@@ -448,6 +453,9 @@ class _O86:
             "the specified dead load at the check exceeds its L + S load. The governing combination is the one with "
             "the highest Qf/Qr.",
         }
+
+    def claim_values(self, inputs: ResistanceInputs, duration: float) -> dict[str, float]:
+        return factor_values(inputs, duration, SYMBOLS)
 
     def resistance_variants(self, result: CheckResult, model: Model, pack: PackCore, kd: float) -> list[ResistanceSlip]:
         return o86_slips(result, model, o86_pack(pack), kd)

@@ -10,6 +10,7 @@ from audit.standards.o86 import O86
 
 # Every standard bearing-audit implements: adding one is its module, its packs, its tests and a line here.
 STANDARDS: dict[str, Standard] = {s.id: s for s in (O86, NDS, EC5)}
+DEFAULT_STANDARD = "o86"  # the standard of a claims file read without a project
 
 
 def standards() -> dict[str, Standard]:

@@ -63,6 +63,7 @@ SIZE = "size"  # KZcp
 INCISING = "incising"  # Ci
 ANGLE = "angle"  # the angle between load and grain, stated (Hankinson or 6.2.2 use it through ``angle``)
 DURATION = "duration"  # changes with the combination: KD / kmod (never among the inputs; ``evaluate`` finds it)
+DERIVED = "derived"  # a value a calc prints that the standard derives from its factors (EC5 fc,90,d): claims only
 # The order the product is taken in: coefficients, then the modified strength, the area, the factors after it.
 _BEFORE = (COEFFICIENT, RESISTANCE, MATERIAL)
 _ON_STRENGTH = (SERVICE, TREATMENT, TEMPERATURE)
@@ -91,6 +92,20 @@ class Symbol:
 def with_roles(factors: tuple[Factor, ...], symbols: dict[str, Symbol]) -> tuple[Factor, ...]:
     """The factors, each with the role its standard gives its symbol."""
     return tuple(f if f.role else replace(f, role=symbols[f.name].role) for f in factors)
+
+
+def duration_symbol(symbols: dict[str, Symbol]) -> str:
+    """The standard's symbol of its duration factor (KD, kmod), or "" where none applies (NDS on Fc-perp)."""
+    return next((name for name, s in symbols.items() if s.role == DURATION), "")
+
+
+def factor_values(inputs: ResistanceInputs, duration: float, symbols: dict[str, Symbol]) -> dict[str, float]:
+    """Each factor's value by the standard's symbol at a check, with the duration factor of one combination: what
+    a claim's factors are compared with."""
+    out = {f.name: f.value for f in inputs.factors}
+    if symbol := duration_symbol(symbols):
+        out[symbol] = duration
+    return out
 
 
 @dataclass(frozen=True, slots=True)
