@@ -31,7 +31,7 @@ def _beside_a_close_post():
 
 
 def test_an_ec5_check_beside_a_close_contact_keeps_kc90_1_and_the_30_mm_towards_it():
-    review, result = _beside_a_close_post()
+    _, result = _beside_a_close_post()
     # lef = 89 + 0 (the member end) + 30 (half the gap, 105.5 mm, is more) = 119 mm
     assert result.governing.qr == pytest.approx(1.0 * FC90D * 0.089 * 0.119, rel=1e-9)
     assert result.inputs.value("kc,90") == 1.0
