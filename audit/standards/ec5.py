@@ -248,16 +248,25 @@ def kc90_factor(check: RequiredCheck, model: Model, pack: Ec5Pack, reach: Reach)
         return Factor(
             "kc,90",
             1.0,
-            f"kc,90 = 1.00: the next contact is {reach.clear * 1000:.0f} mm away, less than 2h = {need * 1000:.0f} mm "
+            f"kc,90 = 1.00: the next contact is {reach.clear * 1000:.0f} mm away, less than {pack.kc90_spacing:g}h = "
+            f"{need * 1000:.0f} mm "
             "(the spacing condition)",
             clause,
         )
     if arrangement == "discrete" and family == "glulam" and check.contact.length > pack.kc90_glulam_max_length + 1e-9:
         return Factor(
-            "kc,90", 1.0, f"kc,90 = 1.00: glulam contact {check.contact.length * 1000:.0f} mm over 400 mm", clause
+            "kc,90",
+            1.0,
+            f"kc,90 = 1.00: glulam contact {check.contact.length * 1000:.0f} mm over "
+            f"{pack.kc90_glulam_max_length * 1000:g} mm",
+            clause,
         )
     value = pack.kc90.value[arrangement].get(family, 1.0)
-    spaced = "no other contact on the face" if math.isinf(reach.clear) else f"l1 = {reach.clear * 1000:.0f} mm >= 2h"
+    spaced = (
+        "no other contact on the face"
+        if math.isinf(reach.clear)
+        else f"l1 = {reach.clear * 1000:.0f} mm >= {pack.kc90_spacing:g}h"
+    )
     return Factor("kc,90", value, f"kc,90 = {value:.2f}: {arrangement} support, {family}, {spaced}", clause)
 
 
@@ -314,8 +323,8 @@ def ec5_inputs(
     if angle is not None:
         area_reason = (
             f"A = b l = {c.width * 1000:.0f} x {c.length * 1000:.0f} = {area * 1e6:,.0f} mm²: at an angle to the "
-            f"grain, the contact without the 30 mm extensions of 6.1.5 (6.2.2; conservative reading); width: "
-            f"{c.width_note}"
+            f"grain, the contact without the {pack.extension.value * 1000:g} mm extensions of 6.1.5 (6.2.2; "
+            f"conservative reading); width: {c.width_note}"
         )
     return inputs, factors, area_reason
 
@@ -409,9 +418,11 @@ class _Ec5:
             "storage": f" ({review.cpack.storage_companion.value:g} as a companion) and is a {storage_class}-term "
             "action for kmod",
             "duration": "EN 1995-1-1: each combination takes the kmod of its shortest-duration action present at "
-            "the check (service classes 1 and 2 as dry, 3 as wet); the contact length spreads up to 30 mm each side "
+            "the check (service classes 1 and 2 as dry, 3 as wet); the contact length spreads up to "
+            f"{p.extension.value * 1000:g} mm each side "
             "(Aef), each side no more than the end distance a, half the clear distance l1/2 to the next contact, or "
-            "the contact length l; kc,90 follows the support arrangement where the next contact is at least 2h away. A "
+            f"the contact length l; kc,90 follows the support arrangement where the next contact is at least "
+            f"{p.kc90_spacing:g}h away. A "
             "contact with a stated angle between load and grain is checked for compression at an angle (6.2.2, "
             "fc,0,k from the rule pack) on its contact area b l without the extensions (the conservative reading). "
             "EN 1995-1-1 has no near-support check: each contact is checked on both members.",
@@ -429,7 +440,7 @@ class _Ec5:
         out: list[ResistanceSlip] = []
         bare = c.width * c.length
         if inputs.area > bare + 1e-12:
-            text = "the contact length used without the 30 mm each side"
+            text = f"the contact length used without the {p.extension.value * 1000:g} mm each side"
             out.append(ResistanceSlip("no-effective-length", text, area=bare))
         kc90 = inputs.factor("kc,90")
         if kc90 is not None and kc90.value == 1.0:

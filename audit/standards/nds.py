@@ -193,18 +193,38 @@ def read_nds_pack(root: Node, path: str) -> NdsPack:
 
 
 def bearing_area_factor(length: float, end_distance: float, material: Material, pack: NdsPack) -> Factor:
-    """Cb = (lb + 0.375 in) / lb for lb under 6 in, at least 3 in from the member end; else 1.00."""
+    """Cb = (lb + 0.375 in) / lb for lb under 6 in, at least 3 in from the member end; else 1.00 (the numbers are
+    the pack's)."""
     clause = pack.cb_add.clause
     if material.family == "engineered" and "KB" not in material.applies:
         return Factor("Cb", 1.0, "Cb = 1.00: the product's evaluation report does not allow Cb", clause)
     if length >= pack.cb_max_length.value - 1e-9:
-        return Factor("Cb", 1.0, f"Cb = 1.00: bearing length {length / INCH:.2f} in is not under 6 in", clause)
+        return Factor(
+            "Cb",
+            1.0,
+            f"Cb = 1.00: bearing length {length / INCH:.2f} in is not under {_in(pack.cb_max_length.value)}",
+            clause,
+        )
     if end_distance < pack.cb_min_end_distance.value - 1e-9:
         return Factor(
-            "Cb", 1.0, f"Cb = 1.00: bearing {end_distance / INCH:.2f} in from the member end, less than 3 in", clause
+            "Cb",
+            1.0,
+            f"Cb = 1.00: bearing {end_distance / INCH:.2f} in from the member end, less than "
+            f"{_in(pack.cb_min_end_distance.value)}",
+            clause,
         )
     value = (length + pack.cb_add.value) / length
-    return Factor("Cb", value, f"Cb = ({length / INCH:.3f} + 0.375)/{length / INCH:.3f} = {value:.3f}", clause)
+    return Factor(
+        "Cb",
+        value,
+        f"Cb = ({length / INCH:.3f} + {pack.cb_add.value / INCH:g})/{length / INCH:.3f} = {value:.3f}",
+        clause,
+    )
+
+
+def _in(length: float) -> str:
+    """A pack's length as the NDS states it: '6 in', '3 in'."""
+    return f"{length / INCH:g} in"
 
 
 def _wet(member: Member, material: Material, table: dict[str, Sourced], what: str) -> Factor:
@@ -352,7 +372,7 @@ class _Nds:
 
         if inputs.value("Cb") == 1.0 and c.length < p.cb_max_length.value - 1e-9:
             cb = (c.length + p.cb_add.value) / c.length
-            text = f"Cb = {cb:.2f} taken within 3 in of the member end"
+            text = f"Cb = {cb:.2f} taken within {_in(p.cb_min_end_distance.value)} of the member end"
             out.append(ResistanceSlip("cb-where-not-allowed", text, set_to("Cb", cb)))
         if inputs.value("CM") < 1.0:
             text = "the wet service factor CM was left out"

@@ -342,7 +342,10 @@ def o86_slips(result: CheckResult, model: Model, pack: O86Pack, kd: float) -> li
         kb_table = pack.kb_table.value.at(length)
         if kb_table > 1.0:
             variant(
-                "kb-where-not-allowed", f"KB = {kb_table:.2f} taken at an end bearing or over 150 mm", "KB", kb_table
+                "kb-where-not-allowed",
+                f"KB = {kb_table:.2f} taken at an end bearing or over {pack.kb_max_length.value * 1000:g} mm",
+                "KB",
+                kb_table,
             )
     kz_max = pack.kzcp_table.value.points[0][1]
     kzcp = inputs.value("KZcp")
