@@ -41,6 +41,25 @@ from audit.standards.resistance import (
 FACTOR_REL_TOL = 0.01
 
 
+@dataclass(frozen=True, slots=True)
+class Tolerance:
+    """How far a claimed number may lie from the recomputed one and still agree: the larger of an absolute and a
+    relative slack on the recomputed number. The reconciler's one tolerance rule: forces take the project's,
+    Qf/Qr its printed two decimals or the project's share, factors a hundredth of their value."""
+
+    absolute: float
+    relative: float
+
+    def slack(self, recomputed: float) -> float:
+        return max(self.absolute, self.relative * abs(recomputed))
+
+    def agrees(self, claimed: float, recomputed: float) -> bool:
+        return abs(claimed - recomputed) <= self.slack(recomputed)
+
+
+FACTOR_TOLERANCE = Tolerance(0.0, FACTOR_REL_TOL)
+
+
 @dataclass(frozen=True)
 class LoadSource:
     """The loads a calc may have used at a check: per case, its patterned cases (none: every span loaded) and the
@@ -74,7 +93,7 @@ def agrees_with_factors(slip: Slip, claimed: dict[str, float], recomputed: dict[
         ours = slip.implies.get(name, recomputed.get(name))
         if ours is None:
             continue
-        if abs(value - ours) > FACTOR_REL_TOL * max(abs(ours), 1e-12):
+        if not FACTOR_TOLERANCE.agrees(value, ours):
             return False
     return True
 
@@ -89,7 +108,7 @@ def choose_slips(
         return ()
 
     def tier(slip: Slip) -> tuple[bool, int]:
-        exact = abs(slip.value - claimed_value) <= EXACT_REL_TOL * max(abs(claimed_value), 1e-9)
+        exact = Tolerance(0.0, EXACT_REL_TOL).agrees(slip.value, claimed_value)
         return (not exact, slip.parts)
 
     best = min(tier(slip) for slip in fitting)
@@ -378,17 +397,22 @@ def _nearest(review: Review, label: str, member: str) -> tuple[str, ...]:
 # ---------------------------------------------------------------- comparing
 
 
-def _within(claimed: float, recomputed: float, review: Review) -> bool:
+def force_tolerance(review: Review) -> Tolerance:
+    """The project's tolerance on a force (Qf, Qr)."""
     p = review.model.project
-    return abs(claimed - recomputed) <= max(p.tolerance_absolute, p.tolerance_relative * abs(recomputed))
+    return Tolerance(p.tolerance_absolute, p.tolerance_relative)
+
+
+def _within(claimed: float, recomputed: float, review: Review) -> bool:
+    return force_tolerance(review).agrees(claimed, recomputed)
 
 
 UTILISATION_ABS_TOL = 0.01  # Qf/Qr as calcs print it, to two decimals
+PRINTED_RATIO = Tolerance(UTILISATION_ABS_TOL, 0.0)
 
 
 def _compare_utilisation(claimed: float, recomputed: float, review: Review) -> Comparison:
-    tol = max(UTILISATION_ABS_TOL, review.model.project.tolerance_relative * abs(recomputed))
-    if abs(claimed - recomputed) <= tol:
+    if Tolerance(UTILISATION_ABS_TOL, review.model.project.tolerance_relative).agrees(claimed, recomputed):
         return Comparison("Qf/Qr", claimed, recomputed, True, "", ())
     direction = "unconservative" if claimed < recomputed else "conservative"
     return Comparison("Qf/Qr", claimed, recomputed, False, direction, ())
@@ -638,7 +662,7 @@ def factor_differences(claim: Claim, result: CheckResult, review: Review) -> tup
     out = []
     for name, value in claimed_factors(claim, review).items():
         ours = recomputed.get(name)
-        if ours is not None and abs(value - ours) > FACTOR_REL_TOL * abs(ours):
+        if ours is not None and not FACTOR_TOLERANCE.agrees(value, ours):
             out.append(FactorDifference(name, value, ours))
     return tuple(out)
 
@@ -684,9 +708,7 @@ def reconcile(review: Review, claims: tuple[Claim, ...]) -> Reconciliation:
 def _covered_outcome(result: CheckResult, claim: Claim, governing_id: str, review: Review) -> CheckOutcome:
     """A check a typical claim covers: covered when the claim's Qf and Qr bound its own (within tolerance)."""
     check, g = result.check, result.governing
-    p = review.model.project
-    slack_qf = max(p.tolerance_absolute, p.tolerance_relative * abs(g.qf))
-    slack_qr = max(p.tolerance_absolute, p.tolerance_relative * abs(g.qr))
+    slack_qf, slack_qr = force_tolerance(review).slack(g.qf), force_tolerance(review).slack(g.qr)
     d = display_for(review, claim)
     reasons = []
     if claim.qf is not None and g.qf > claim.qf + slack_qf:
@@ -698,7 +720,7 @@ def _covered_outcome(result: CheckResult, claim: Claim, governing_id: str, revie
         claim.qf is None
         and claimed_qr is None
         and claim.utilisation is not None
-        and g.utilisation > claim.utilisation + UTILISATION_ABS_TOL
+        and g.utilisation > claim.utilisation + PRINTED_RATIO.slack(claim.utilisation)
     ):
         reasons.append(f"its Qf/Qr = {g.utilisation:.2f} exceeds the claim's {claim.utilisation:.2f}")
     if not result.passes:
