@@ -60,3 +60,23 @@ def test_the_ec5_reasons_quote_the_packs_spacing_condition(tmp_path):
     data["project"]["rule_pack"] = "ec5-firm"
     text = _reasons(data, folder)
     assert ">= 3h" in text and "2h" not in text
+
+
+def test_an_nds_pack_states_the_local_clause_alone_and_a_near_support_clause_is_refused(tmp_path):
+    # the NDS has no near-support check: its pack declares no clause for one, and a pack that states one is refused
+    import pytest
+
+    from audit.core.errors import InputErrors
+    from audit.standards.catalogue import load_all_packs
+
+    folder = _pack_copy(
+        tmp_path,
+        "nds-2018-recalled.yaml",
+        "nds-near",
+        {'sawn_lumber: {value: {local: "NDS 3.10.2"}': 'sawn_lumber: {value: {local: "NDS 3.10.2", near_support: "x"}'},
+    )
+    with pytest.raises(InputErrors) as caught:
+        load_all_packs((folder,))
+    (error,) = caught.value.errors
+    assert "expected {local: clause}" in str(error) and error.location.file.endswith("nds-near.yaml")
+    assert load_all_packs()[0]["nds-2018-recalled"].clause_for("sawn_lumber", "local") == "NDS 3.10.2"

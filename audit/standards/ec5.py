@@ -141,7 +141,7 @@ def read_ec5_pack(root: Node, path: str) -> Ec5Pack:
     errors = ErrorCollector()
     r = PackReader(errors)
     refuse_unknown_fields(root, EC5_KEYS, "ec5", errors)
-    core = read_core_fields(root, r, errors)
+    core = read_core_fields(root, r, errors, (LOCAL,))  # no near-support check: the local clause alone
     gamma = r.mapping(root, "gamma_m")
     contact = r.mapping(root, "contact")
     kc90 = r.mapping(root, "kc90")

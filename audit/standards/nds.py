@@ -137,7 +137,7 @@ def read_nds_pack(root: Node, path: str) -> NdsPack:
     errors = ErrorCollector()
     r = PackReader(errors)
     refuse_unknown_fields(root, NDS_KEYS, "nds", errors)
-    core = read_core_fields(root, r, errors)
+    core = read_core_fields(root, r, errors, (LOCAL,))  # no near-support check: the local clause alone
 
     def sub(parent: Node | None, key: str) -> Node | None:
         return r.mapping(parent, key) if parent is not None else None

@@ -20,6 +20,9 @@ from audit.engine.model import STORAGE_LIVE, base_case
 from audit.standards import plausible
 
 DURATIONS = ("permanent", "standard", "short")
+# The check kinds whose clauses an O86 pack states; a standard with other kinds declares its own (NDS and EC5
+# have no near-support check, so their packs state the local clause alone).
+CLAUSE_KINDS = ("local", "near-support")
 PACK_HEAD_KEYS = ("kind", "id", "title", "edition", "provenance", "standard", "review")
 SERVICES = ("dry", "wet")
 TIMBER_FAMILIES_ALL = ("sawn_lumber", "timber", "glulam", "engineered")
@@ -86,7 +89,7 @@ class PackCore:
 
     def clause_for(self, family: str, kind: str) -> str:
         """The clause a finding on this family cites: local bearing, or loads near a support."""
-        return self.clauses[family].value["near_support" if kind == "near-support" else "local"]
+        return self.clauses[family].value[clause_key(kind)]
 
     def in_force(self, chosen: dict[str, str]) -> dict[str, str]:
         """The reading in force at every choice: the project's where it chose, else the pack's default."""
@@ -261,8 +264,11 @@ def _plausible_strength(value: Any, name: str, family: str, node: Node, errors: 
     return plausible.check(value, bounds, f"{name} of {family}", raw.loc, errors)
 
 
-def read_core_fields(root: Node, r: PackReader, errors: ErrorCollector) -> dict[str, Any]:
-    """The fields every standard's pack states: strengths, compression parallel, families, clauses, uplift note."""
+def read_core_fields(
+    root: Node, r: PackReader, errors: ErrorCollector, kinds: tuple[str, ...] = CLAUSE_KINDS
+) -> dict[str, Any]:
+    """The fields every standard's pack states: strengths, compression parallel, families, the clause of each check
+    kind the standard declares (``kinds``), uplift note."""
     get = root.value.get
 
     def sub(parent: Node | None, key: str) -> Node | None:
@@ -301,7 +307,7 @@ def read_core_fields(root: Node, r: PackReader, errors: ErrorCollector) -> dict[
         "clauses": {
             fam: c
             for fam, n in (clauses_node.value.items() if clauses_node else [])
-            if (c := r.sourced(n, clause_pair))
+            if (c := r.sourced(n, clauses_of(kinds)))
         },
         "uplift_note_below": r.sourced(sub(sub(root, "uplift"), "note_below"), force_or_zero),
         "own_comment_from": _own_comment_from(root, r),
@@ -376,10 +382,23 @@ def _tension_face(node: Node, compression: Sourced | None, errors: ErrorCollecto
     return Sourced(value, compression.clause, compression.source + " (tension-face bearing)", compression.status)
 
 
-def clause_pair(node: Node, _parent: Node) -> dict[str, str]:
-    if not isinstance(node.value, dict) or set(node.value) != {"local", "near_support"}:
-        raise InputError("expected {local: clause, near_support: clause}", node.loc)
-    return {k: node_text(v) for k, v in node.value.items()}
+
+
+def clause_key(kind: str) -> str:
+    """A check kind as a pack's clauses name it: near-support -> near_support."""
+    return kind.replace("-", "_")
+
+
+def clauses_of(kinds: tuple[str, ...]):
+    """The reader of one family's clauses: one per check kind the standard declares, no more and no fewer."""
+    keys = tuple(clause_key(k) for k in kinds)
+
+    def read(node: Node, _parent: Node) -> dict[str, str]:
+        if not isinstance(node.value, dict) or set(node.value) != set(keys):
+            raise InputError("expected {" + ", ".join(f"{k}: clause" for k in keys) + "}", node.loc)
+        return {k: node_text(v) for k, v in node.value.items()}
+
+    return read
 
 
 def read_choice(r: PackReader, node: Node, name: str) -> Choice | None:
