@@ -9,8 +9,8 @@ from __future__ import annotations
 
 import pytest
 
-from audit.review.reconcile import qr_slips
 from audit.review.remedies import recheck
+from audit.review.slips import qr_slips
 from tests.conftest import review_dict
 from tests.verification.standards import contact_model
 

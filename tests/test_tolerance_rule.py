@@ -3,7 +3,7 @@
 
 from __future__ import annotations
 
-from audit.review.reconcile import FACTOR_TOLERANCE, Tolerance
+from audit.review.tolerance import FACTOR_TOLERANCE, Tolerance
 
 
 def test_a_number_agrees_within_the_larger_of_the_absolute_and_the_relative_slack():

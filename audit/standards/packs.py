@@ -382,8 +382,6 @@ def _tension_face(node: Node, compression: Sourced | None, errors: ErrorCollecto
     return Sourced(value, compression.clause, compression.source + " (tension-face bearing)", compression.status)
 
 
-
-
 def clause_key(kind: str) -> str:
     """A check kind as a pack's clauses name it: near-support -> near_support."""
     return kind.replace("-", "_")
