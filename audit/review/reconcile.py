@@ -264,137 +264,137 @@ def failing_without_claims(review: Review) -> tuple[Finding, ...]:
 
 
 def _check_outcome(result: CheckResult, claim: Claim | None, review: Review, claims_given: bool = True) -> CheckOutcome:
-    check, g = result.check, result.governing
-    clause = review.pack.clause_for(review.model.material_of(check.member).family, check.kind)
+    check = result.check
     where = _location(result, review)
-    page = claim.where.cite() if claim else ""
     common: dict[str, Any] = {
         "check_id": check.id,
         "bearing": check.bearing,
         "member": check.member,
-        "clause": clause,
-        "page": page,
+        "clause": review.pack.clause_for(review.model.material_of(check.member).family, check.kind),
+        "page": claim.where.cite() if claim else "",
         "claim_id": claim.id if claim else "",
     }
+    d = display_for(review, claim)
     findings: list[Finding] = []
     remedy = ""
-    d = display_for(review, claim)
     if not result.passes:
         remedy = remedy_text(result, review)
-        said_ok = claim is None or claim.adequate is not False
-        severity = "safety" if said_ok else "revise"
-        stance = (
-            "no claims of the calc were given to compare"
-            if not claims_given
-            else "the calc does not check it"
-            if claim is None
-            else "the calc calls it adequate"
-            if claim.adequate is not False
-            else "the calc also finds it inadequate"
-        )
-        findings.append(
-            Finding(
-                "failing",
-                severity,
-                wording.failing(
-                    _name(check, review), where, g.qf, g.qr, g.utilisation, g.combination, stance, remedy, d
-                ),
-                hint=remedy,
-                numbers={"qf": g.qf, "qr": g.qr},
-                **common,
-            )
-        )
+        findings.append(_failing(result, claim, review, claims_given, remedy, where, d, common))
     if claim is None:
-        findings.append(
-            Finding(
-                "missing",
-                KINDS["missing"].severity,
-                wording.missing(_name(check, review), where, check.why, g.qf, g.qr, g.combination, d),
-                numbers={"qf": g.qf, "qr": g.qr},
-                **common,
-            )
-        )
-        status = "failing" if not result.passes else "missing"
-        return CheckOutcome(check.id, "", status, tuple(findings), remedy=remedy)
-
-    qf_cmp = None
-    if claim.qf is not None:
-        qf_cmp = _compare("Qf", claim.qf, g.qf, lambda: qf_slips(result, review), review)
-    claimed_qr = claim.claimed_qr
-    qr_cmp = None
-    if claimed_qr is not None:
-        ours = recomputed_factors(result, review)
-        load = next((s for s in qf_cmp.slips if s.load is not None), None) if qf_cmp is not None else None
-        qr_cmp = _compare(
-            "Qr",
-            claimed_qr,
-            g.qr,
-            lambda: qr_slips_with_load(result, review, load),
-            review,
-            claimed_factors(claim, review),
-            ours,
-        )
+        findings.append(_missing(result, review, where, d, common))
+        return CheckOutcome(check.id, "", "failing" if not result.passes else "missing", tuple(findings), remedy=remedy)
+    qf_cmp, qr_cmp = _comparisons(result, claim, review)
     if qf_cmp is None and qr_cmp is None and claim.utilisation is not None:
-        # a claim that states only Qf/Qr confirms nothing unless that ratio agrees
-        util_cmp = _compare_utilisation(claim.utilisation, g.utilisation, review)
-        if not util_cmp.within:
-            findings.append(
-                Finding(
-                    "resistance-differs",
-                    "revise" if util_cmp.direction == "unconservative" else "clarify",
-                    wording.ratio_only(
-                        _name(check, review),
-                        where,
-                        claim.utilisation,
-                        g.utilisation,
-                        util_cmp.direction,
-                        g.qf,
-                        g.qr,
-                        g.combination,
-                        d,
-                    ),
-                    numbers={"claimed": claim.utilisation, "recomputed": g.utilisation},
-                    quantity="Qf/Qr",
-                    **common,
-                )
-            )
+        findings += _ratio_only(result, claim.utilisation, review, where, d, common)
     diffs = factor_differences(claim, result, review)
-    for cmp, kind in ((qf_cmp, "mis-loaded"), (qr_cmp, "resistance-differs")):
-        if cmp is None or cmp.within:
-            continue
-        severity = "revise" if cmp.direction == "unconservative" else "clarify"
-        findings.append(
-            Finding(
-                kind,
-                severity,
-                _difference_message(
-                    cmp,
-                    _name(check, review),
-                    where,
-                    diffs if kind == "resistance-differs" else (),
-                    d,
-                    review.standard.symbols,
-                ),
-                numbers={"claimed": cmp.claimed, "recomputed": cmp.recomputed},
-                quantity=cmp.quantity,
-                **common,
-            )
-        )
+    findings += _differences(result, (qf_cmp, qr_cmp), diffs, review, where, d, common)
     status = (
         "failing"
         if not result.passes
         else next((f.kind for f in findings if f.kind in ("mis-loaded", "resistance-differs")), "confirmed")
     )
     if status == "confirmed":
-        findings.append(
-            Finding(
-                "confirmed",
-                "record",
-                wording.confirmed(_name(check, review), where, g.qf, g.qr, d),
-                **common,
-            )
-        )
+        g = result.governing
+        text = wording.confirmed(_name(check, review), where, g.qf, g.qr, d)
+        findings.append(Finding("confirmed", "record", text, **common))
     return CheckOutcome(check.id, claim.id, status, tuple(findings), qf_cmp, qr_cmp, diffs, remedy)
+
+
+def _failing(
+    result: CheckResult,
+    claim: Claim | None,
+    review: Review,
+    claims_given: bool,
+    remedy: str,
+    where: str,
+    d: Display,
+    common: dict[str, Any],
+) -> Finding:
+    """A check that fails on recomputation, with what the calc says of it and the remedies that pass."""
+    g = result.governing
+    said_ok = claim is None or claim.adequate is not False
+    stance = (
+        "no claims of the calc were given to compare"
+        if not claims_given
+        else "the calc does not check it"
+        if claim is None
+        else "the calc calls it adequate"
+        if claim.adequate is not False
+        else "the calc also finds it inadequate"
+    )
+    text = wording.failing(
+        _name(result.check, review), where, g.qf, g.qr, g.utilisation, g.combination, stance, remedy, d
+    )
+    return Finding(
+        "failing", "safety" if said_ok else "revise", text, hint=remedy, numbers={"qf": g.qf, "qr": g.qr}, **common
+    )
+
+
+def _missing(result: CheckResult, review: Review, where: str, d: Display, common: dict[str, Any]) -> Finding:
+    check, g = result.check, result.governing
+    text = wording.missing(_name(check, review), where, check.why, g.qf, g.qr, g.combination, d)
+    return Finding("missing", KINDS["missing"].severity, text, numbers={"qf": g.qf, "qr": g.qr}, **common)
+
+
+def _comparisons(result: CheckResult, claim: Claim, review: Review) -> tuple[Comparison | None, Comparison | None]:
+    """The claim's Qf and Qr against the recomputed ones; a load slip found in Qf carries into the diagnosis of Qr
+    (the calc's loads set its duration factor), and the claim's factors choose among the slips."""
+    g = result.governing
+    qf_cmp = None
+    if claim.qf is not None:
+        qf_cmp = _compare("Qf", claim.qf, g.qf, lambda: qf_slips(result, review), review)
+    claimed_qr = claim.claimed_qr
+    if claimed_qr is None:
+        return qf_cmp, None
+    load = next((s for s in qf_cmp.slips if s.load is not None), None) if qf_cmp is not None else None
+    qr_cmp = _compare(
+        "Qr",
+        claimed_qr,
+        g.qr,
+        lambda: qr_slips_with_load(result, review, load),
+        review,
+        claimed_factors(claim, review),
+        recomputed_factors(result, review),
+    )
+    return qf_cmp, qr_cmp
+
+
+def _ratio_only(
+    result: CheckResult, claimed: float, review: Review, where: str, d: Display, common: dict[str, Any]
+) -> list[Finding]:
+    """A claim that states only Qf/Qr confirms nothing unless that ratio agrees."""
+    g = result.governing
+    cmp = _compare_utilisation(claimed, g.utilisation, review)
+    if cmp.within:
+        return []
+    text = wording.ratio_only(
+        _name(result.check, review), where, claimed, g.utilisation, cmp.direction, g.qf, g.qr, g.combination, d
+    )
+    severity = "revise" if cmp.direction == "unconservative" else "clarify"
+    numbers = {"claimed": claimed, "recomputed": g.utilisation}
+    return [Finding("resistance-differs", severity, text, numbers=numbers, quantity="Qf/Qr", **common)]
+
+
+def _differences(
+    result: CheckResult,
+    comparisons: tuple[Comparison | None, Comparison | None],
+    diffs: tuple[FactorDifference, ...],
+    review: Review,
+    where: str,
+    d: Display,
+    common: dict[str, Any],
+) -> list[Finding]:
+    """A finding for Qf and for Qr where each differs beyond tolerance; Qr's names the factors that differ."""
+    out = []
+    for cmp, kind in zip(comparisons, ("mis-loaded", "resistance-differs"), strict=True):
+        if cmp is None or cmp.within:
+            continue
+        severity = "revise" if cmp.direction == "unconservative" else "clarify"
+        factors = diffs if kind == "resistance-differs" else ()
+        text = _difference_message(cmp, _name(result.check, review), where, factors, d, review.standard.symbols)
+        numbers = {"claimed": cmp.claimed, "recomputed": cmp.recomputed}
+        out.append(Finding(kind, severity, text, numbers=numbers, quantity=cmp.quantity, **common))
+    return out
 
 
 def _difference_message(

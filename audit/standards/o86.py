@@ -391,17 +391,24 @@ def o86_slips(result: CheckResult, model: Model, pack: O86Pack, kd: float) -> li
                 f"between load and grain ({math.degrees(inputs.angle):.1f} deg)",
                 angle=slope,
             )
-    if material.family in pack.fcp:
-        for species, strength in sorted(pack.fcp[material.family].items()):
-            if species != material.species and abs(strength.fcp.value - inputs.strength) > 1.0:
-                variant(
-                    "wrong-species-fcp",
-                    f"fcp of {species} ({strength.fcp.value / 1e6:.2f} MPa) used instead of {material.species} "
-                    f"({inputs.strength / 1e6:.2f} MPa)",
-                    "fcp",
-                    strength.fcp.value,
-                )
+    out += _species_slips(inputs, material, pack)
     return out
+
+
+def _species_slips(inputs: ResistanceInputs, material: Material, pack: O86Pack) -> list[ResistanceSlip]:
+    """The fcp of another species of the member's family used instead of its own."""
+    own = inputs.factor("fcp")
+    assert own is not None  # O86 states fcp at every check
+    return [
+        ResistanceSlip(
+            "wrong-species-fcp",
+            f"fcp of {species} ({strength.fcp.value / 1e6:.2f} MPa) used instead of {material.species} "
+            f"({inputs.strength / 1e6:.2f} MPa)",
+            (replace(own, value=strength.fcp.value),),
+        )
+        for species, strength in sorted(pack.fcp.get(material.family, {}).items())
+        if species != material.species and abs(strength.fcp.value - inputs.strength) > 1.0
+    ]
 
 
 # ---------------------------------------------------------------- the standard, as the review sees it
