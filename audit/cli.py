@@ -171,7 +171,7 @@ def review(
             _dirs(rules_dir),
         )
         result = review_model(model, _dirs(rules_dir), rule_pack)
-        claim_list = read_claims(claims) if claims else ()
+        claim_list = read_claims(claims, result.standard) if claims else ()
         if calc_pdf:
             extracted = _extract(calc_pdf, pages, column_map, result.standard.claim_headers)
             claim_list = merge_claim_sources(claim_list, extracted.claims, calc_pdf.name)
@@ -302,7 +302,7 @@ def _check_files(
     total = sum(require_input_file(path, option).st_size for option, path in given_inputs)
     packs: list[tuple[str, Path]] = []
     if rules_dirs is not None:
-        from audit.standards.packs import pack_files
+        from audit.standards.catalogue import pack_files
 
         packs = [("rule pack", path) for path in pack_files(rules_dirs)]
     check_outputs([(o, p) for o, p in outputs.items() if p is not None], given_inputs + packs)
@@ -478,7 +478,7 @@ def rules(
     output: Path | None = typer.Option(None, "-o", "--output", metavar="FILE", help="Where --sheet or --adopt writes."),
 ) -> None:
     """List the rule packs and every value with its provenance; --sheet and --adopt verify a pack."""
-    from audit.standards.packs import load_all_packs
+    from audit.standards.catalogue import load_all_packs
     from audit.standards.registry import standard_named
 
     if sheet is not None or adopt is not None or output is not None:
@@ -522,7 +522,7 @@ def rules(
             shown = " or ".join(f"{v:g}" for v in value.value) if isinstance(value.value, tuple) else f"{value.value:g}"
             typer.echo(f"  {name} = {shown}  [{value.clause}; {value.source}; {value.status}]")
     from audit.standards import plausible
-    from audit.standards.packs import builtin_rules_dir
+    from audit.standards.bundled import builtin_rules_dir
 
     bounds = plausible.ranges()
     typer.echo(f"plausible ranges (a value outside is refused)\n  file: {builtin_rules_dir() / plausible.FILE}")

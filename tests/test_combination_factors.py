@@ -139,7 +139,7 @@ def test_the_pack_counteracting_dead_load_factor_sets_the_least_force(pack_id):
 def test_the_asd_storage_companion_is_stated_though_live_load_leads_or_ties_in_every_asd_combination():
     # ASCE 7-16 2.4.1 (from memory: verify): companion live load at 0.75. In each ASD combination with L, live
     # load leads or ties, so storage takes L's own factor (see the table above) and this value is only stated.
-    from audit.standards.packs import load_all_packs
+    from audit.standards.catalogue import load_all_packs
 
     cpack = load_all_packs()[1]["asce7-16-asd-recalled"]
     assert cpack.storage_companion.value == pytest.approx(ASD_STORAGE)

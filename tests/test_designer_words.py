@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import pytest
 
-from audit.standards.o86 import counteracted, labelled
+from audit.standards.combinations import counteracted, labelled
 from tests.conftest import base_model, review_dict
 
 

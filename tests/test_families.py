@@ -12,7 +12,7 @@ from audit.core.located_yaml import read_yaml_text
 from audit.inputs.read_model import build_model
 from audit.review.reconcile import reconcile
 from audit.review.review import review_built
-from audit.standards.packs import builtin_rules_dir
+from audit.standards.bundled import builtin_rules_dir
 from tests.conftest import base_model, claims_from, review_dict
 
 REL = 1e-9

@@ -234,7 +234,7 @@ def test_an_output_over_its_bound_writes_nothing(tmp_path):
 
 
 def test_an_output_onto_a_bundled_rule_pack_is_refused_and_the_pack_kept(model_file, capsys):
-    from audit.standards.packs import builtin_rules_dir
+    from audit.standards.bundled import builtin_rules_dir
 
     pack = builtin_rules_dir() / "o86-2019-recalled.yaml"
     before = pack.read_bytes()
@@ -244,7 +244,7 @@ def test_an_output_onto_a_bundled_rule_pack_is_refused_and_the_pack_kept(model_f
 
 
 def test_expand_refuses_an_output_onto_a_pack_of_the_rules_dir(tmp_path, capsys):
-    from audit.standards.packs import builtin_rules_dir
+    from audit.standards.bundled import builtin_rules_dir
 
     own = tmp_path / "own"
     own.mkdir()

@@ -157,7 +157,7 @@ def test_rules_with_an_output_but_no_sheet_or_adopt_is_refused(run_cli, tmp_path
 
 
 def test_the_firm_pack_is_never_written_into_the_bundled_rules(run_cli, tmp_path):
-    from audit.standards.packs import builtin_rules_dir
+    from audit.standards.bundled import builtin_rules_dir
 
     sheet = _sheet(run_cli, tmp_path)
     target = builtin_rules_dir() / "firm-o86.yaml"

@@ -156,7 +156,7 @@ def test_a_firms_pack_can_set_the_uplift_note_threshold_and_the_memo_states_it(t
     from audit.inputs.read_model import build_model
     from audit.report.memo import assumptions
     from audit.review.review import review_built
-    from audit.standards.packs import builtin_rules_dir
+    from audit.standards.bundled import builtin_rules_dir
 
     text = (builtin_rules_dir() / "o86-2019-recalled.yaml").read_text()
     text = text.replace("id: o86-2019-recalled", "id: firm-uplift").replace("    value: 0.5 kN\n", "    value: 10 kN\n")

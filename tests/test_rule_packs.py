@@ -5,7 +5,8 @@ from __future__ import annotations
 
 import pytest
 
-from audit.standards.packs import builtin_rules_dir, load_all_packs
+from audit.standards.bundled import builtin_rules_dir
+from audit.standards.catalogue import load_all_packs
 from tests.conftest import base_model
 
 

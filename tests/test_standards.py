@@ -15,9 +15,9 @@ import yaml
 from audit.core.errors import InputError, InputErrors
 from audit.engine.contacts import Contact
 from audit.engine.model import Material
+from audit.standards.catalogue import load_all_packs
 from audit.standards.ec5 import effective_reach
 from audit.standards.nds import NDS, bearing_area_factor
-from audit.standards.packs import load_all_packs
 from tests.conftest import ROOT, review_dict
 from tests.verification.standards import by_hand, contact_model
 
@@ -213,7 +213,7 @@ def _diagnosis(demo: str, bearing: str) -> str:
 
     folder = ROOT / "fixtures" / demo
     review = review_model(folder / "model.yaml")
-    rec = reconcile(review, read_claims(folder / "claims.yaml"))
+    rec = reconcile(review, read_claims(folder / "claims.yaml", review.standard))
     return " ".join(f.message for f in rec.findings if f.kind == "resistance-differs" and f.bearing == bearing)
 
 

@@ -71,7 +71,7 @@ def test_the_patterned_key_must_be_true_or_false():
 
 
 def test_every_bundled_resistance_pack_notes_small_uplift_below_a_common_practice_threshold():
-    from audit.standards.packs import load_all_packs
+    from audit.standards.catalogue import load_all_packs
 
     packs = load_all_packs()[0]
     # 0.5 kN (O86, EC5) and 0.1 kip = 0.445 kN (NDS): about what ordinary framing nails hold (common practice)

@@ -200,7 +200,7 @@ def test_the_layout_demo_accounts_for_every_check_and_claim_exactly_once(layout_
 
 def _firm_pack(tmp_path, value: str):
     """A firm's copy of the O86 pack with its own review.own_comment_from, in a folder of its own."""
-    from audit.standards.packs import builtin_rules_dir
+    from audit.standards.bundled import builtin_rules_dir
 
     text = (builtin_rules_dir() / "o86-2019-recalled.yaml").read_text(encoding="utf-8")
     text = text.replace("id: o86-2019-recalled", "id: firm-triage")

@@ -12,23 +12,19 @@ from pathlib import Path
 
 from audit.core.errors import ErrorCollector, Location
 from audit.core.located_yaml import Node, node_text, read_yaml_file
+from audit.core.suggest import did_you_mean
 from audit.core.units import force_unit_of
 from audit.inputs.fields import FieldReader, describe_value, list_items
+from audit.standards.base import Standard
+from audit.standards.registry import DEFAULT_STANDARD, standard_named, standards
+from audit.standards.resistance import ANGLE
 
 CLAIM_KEYS = {"id", "where", "location", "member", "kind", "Qf", "Qr", "utilisation", "factors", "adequate", "text"}
 WHERE_KEYS = {"page", "sheet", "table", "item", "x", "y"}
-# factor name -> dimension for reading it
-CLAIM_FACTORS = {
-    "Ab": "area",
-    "KB": None,
-    "KZcp": None,
-    "KD": None,
-    "KScp": None,
-    "KT": None,
-    "fcp": "stress",
-    "length": "length",
-    "width": "length",
-}
+# What a claim may state of its contact under any standard, with the dimension it is read in; its factors it
+# names in its standard's own symbols (``Standard.symbols``: O86 KB, KZcp, KD, fcp; NDS Cb, CM, Ct, Ci, Fc-perp;
+# EC5 kc,90, kmod, gamma_M, fc,90,d).
+CONTACT_FACTORS: dict[str, str | None] = {"Ab": "area", "length": "length", "width": "length"}
 KINDS = ("local", "near-support")
 
 
@@ -81,12 +77,21 @@ class Claim:
         return None
 
 
-def read_claims(path: Path | str) -> tuple[Claim, ...]:
+def read_claims(path: Path | str, standard: Standard | None = None) -> tuple[Claim, ...]:
+    """The claims of a file, their factors in ``standard``'s symbols (the project's; O86 where none is given)."""
     root = read_yaml_file(path)
-    return build_claims(root)
+    return build_claims(root, standard)
 
 
-def build_claims(root: Node) -> tuple[Claim, ...]:
+def claim_factors(standard: Standard) -> dict[str, str | None]:
+    """Every factor a claim may state under the standard, with the dimension it is read in (None: a plain number)."""
+    own = {name: s.dimension for name, s in standard.symbols.items() if s.role != ANGLE}
+    return {**own, **CONTACT_FACTORS}
+
+
+def build_claims(root: Node, standard: Standard | None = None) -> tuple[Claim, ...]:
+    vocabulary = claim_factors(standard or standard_named(DEFAULT_STANDARD))
+    title = (standard or standard_named(DEFAULT_STANDARD)).title
     errors = ErrorCollector()
     top = FieldReader(root, {"claims"}, errors, "the claims file")
     if top.ok and "claims" not in top.map:
@@ -95,7 +100,7 @@ def build_claims(root: Node) -> tuple[Claim, ...]:
     out: list[Claim] = []
     ids: set[str] = set()
     for index, item in enumerate(list_items(top.map["claims"], "claims", errors)):
-        claim = _read_claim(item, index, errors)
+        claim = _read_claim(item, index, errors, vocabulary, title)
         if claim is None:
             continue
         if claim.id in ids:
@@ -107,7 +112,9 @@ def build_claims(root: Node) -> tuple[Claim, ...]:
     return tuple(out)
 
 
-def _read_claim(item: Node, index: int, errors: ErrorCollector) -> Claim | None:
+def _read_claim(
+    item: Node, index: int, errors: ErrorCollector, vocabulary: dict[str, str | None], title: str
+) -> Claim | None:
     f = FieldReader(item, CLAIM_KEYS, errors, "claim")
     if not f.ok:
         return None
@@ -136,7 +143,7 @@ def _read_claim(item: Node, index: int, errors: ErrorCollector) -> Claim | None:
             return None
         adequate = value
     where = _read_where(f, errors)
-    factors = _read_factors(f, errors)
+    factors = _read_factors(f, errors, vocabulary, title)
     if not f.ok or where is None or factors is None:
         return None
     return Claim(
@@ -186,15 +193,19 @@ def _read_where(f: FieldReader, errors: ErrorCollector) -> Where | None:
     )
 
 
-def _read_factors(f: FieldReader, errors: ErrorCollector) -> dict[str, float] | None:
+def _read_factors(
+    f: FieldReader, errors: ErrorCollector, vocabulary: dict[str, str | None], title: str
+) -> dict[str, float] | None:
     if not f.has("factors"):
         return {}
     node = f.map["factors"]
-    ff = FieldReader(node, set(CLAIM_FACTORS), errors, "claim factors")
+    if isinstance(node.value, dict) and not _known_symbols(node, errors, vocabulary, title):
+        return None
+    ff = FieldReader(node, set(vocabulary), errors, "claim factors")
     if not ff.ok:
         return None
     out: dict[str, float] = {}
-    for name, dimension in CLAIM_FACTORS.items():
+    for name, dimension in vocabulary.items():
         if not ff.has(name):
             continue
         if dimension is None:
@@ -206,6 +217,23 @@ def _read_factors(f: FieldReader, errors: ErrorCollector) -> dict[str, float] | 
             return None
         out[name] = value
     return out
+
+
+def _known_symbols(node: Node, errors: ErrorCollector, vocabulary: dict[str, str | None], title: str) -> bool:
+    """Every factor named in the project's standard's symbols; another standard's symbol is refused naming whose it
+    is and the symbols this standard uses."""
+    ok = True
+    for key in node.value:
+        if key in vocabulary:
+            continue
+        whose = [s.title for s in standards().values() if key in s.symbols and s.title != title]
+        said = f"'{key}' is a symbol of {' and '.join(whose)}, not of {title}" if whose else f"unknown factor '{key}'"
+        errors.add(
+            f"{said}: under {title} a claim names its factors {', '.join(vocabulary)}{did_you_mean(key, vocabulary)}",
+            node.key_loc(key),
+        )
+        ok = False
+    return ok
 
 
 def merge_claim_sources(first: tuple[Claim, ...], second: tuple[Claim, ...], source: str) -> tuple[Claim, ...]:

@@ -39,13 +39,13 @@ from audit.engine.model import (
 from audit.inputs.expand_layout import Sections, model_sections
 from audit.inputs.fields import FieldReader, describe_value, did_you_mean, list_items
 from audit.inputs.stud_walls import StudWall, place_studs, read_stud_wall
+from audit.standards.catalogue import select_packs
 from audit.standards.packs import (
     ALL_FAMILIES,
     DURATIONS,
     SERVICES,
     CombinationPack,
     PackCore,
-    select_packs,
 )
 
 TOP_KEYS = {"project", "materials", "layout", "members", "bearings", "loads"}

@@ -8,6 +8,9 @@ from __future__ import annotations
 
 from typing import Any
 
+from audit.inputs.read_claims import claim_factors
+from audit.standards.registry import standards
+
 QUANTITY = {"type": "string", "description": "a number with a unit, e.g. '130 mm', '5.125 in', '12 kN'"}
 LENGTH = {**QUANTITY, "description": "a length with a unit, e.g. '130 mm' or '5.5 in'"}
 FORCE = {**QUANTITY, "description": "a force with a unit, e.g. '12.5 kN' or '2800 lbf'"}
@@ -368,6 +371,21 @@ MODEL_SCHEMA: dict[str, Any] = {
 
 NUMBER_FACTOR = {"type": "number", "minimum": 0}
 
+
+def _claim_factor_properties() -> dict[str, Any]:
+    """Every factor a claim may state under some standard (the reader takes only its project's standard's)."""
+    shapes: dict[str | None, dict[str, Any]] = {
+        None: NUMBER_FACTOR,
+        "length": LENGTH,
+        "area": {**QUANTITY, "description": "an area, e.g. '19500 mm**2'"},
+    }
+    out: dict[str, Any] = {}
+    for standard in standards().values():
+        for name, dimension in claim_factors(standard).items():
+            out.setdefault(name, shapes.get(dimension, QUANTITY))
+    return out
+
+
 CLAIMS_SCHEMA: dict[str, Any] = {
     "$schema": "https://json-schema.org/draft/2020-12/schema",
     "title": "bearing-audit claims (what the calc package claims for its bearing checks)",
@@ -377,7 +395,7 @@ CLAIMS_SCHEMA: dict[str, Any] = {
                 "type": "array",
                 "items": _obj(
                     {
-                        "id": {"type": "string"},
+                        "id": {"type": ["string", "number"], "description": "read as text: 5.3 is the id '5.3'"},
                         "where": {
                             "oneOf": [
                                 {"type": "string"},
@@ -410,20 +428,7 @@ CLAIMS_SCHEMA: dict[str, Any] = {
                         "Qf": FORCE,
                         "Qr": FORCE,
                         "utilisation": {"type": "number", "minimum": 0},
-                        "factors": _obj(
-                            {
-                                "Ab": {**QUANTITY, "description": "an area, e.g. '19500 mm**2'"},
-                                "KB": NUMBER_FACTOR,
-                                "KZcp": NUMBER_FACTOR,
-                                "KD": NUMBER_FACTOR,
-                                "KScp": NUMBER_FACTOR,
-                                "KT": NUMBER_FACTOR,
-                                "fcp": QUANTITY,
-                                "length": LENGTH,
-                                "width": LENGTH,
-                            },
-                            [],
-                        ),
+                        "factors": _obj(_claim_factor_properties(), [], "in the symbols of the project's standard"),
                         "adequate": {"type": "boolean"},
                         "text": {"type": "string", "description": "the calc's own words"},
                     },

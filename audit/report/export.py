@@ -18,7 +18,7 @@ from audit.report.quantities import quantities_of
 from audit.review.comments import own_comment_threshold
 from audit.review.review import Review
 from audit.review.wording import check_name
-from audit.standards.o86 import CheckResult, placed_forces
+from audit.standards.resistance import CheckResult, placed_forces
 
 
 def _contact(c: Contact) -> dict[str, Any]:
@@ -32,8 +32,9 @@ def _contact(c: Contact) -> dict[str, Any]:
     }
 
 
-def check_record(r: CheckResult, name: str = "") -> dict[str, Any]:
-    """One check as the JSON states it; ``name``: the check as engineers name it (``wording.check_name``)."""
+def check_record(r: CheckResult, name: str = "", symbols: tuple[str, str] = ("KD", "Fcp")) -> dict[str, Any]:
+    """One check as the JSON states it; ``name``: the check as engineers name it (``wording.check_name``);
+    ``symbols``: the standard's own names of its duration factor and of the strength it modifies."""
     c = r.check
     g = r.governing
     return {
@@ -55,8 +56,9 @@ def check_record(r: CheckResult, name: str = "") -> dict[str, Any]:
             {"name": f.name, "value": round(f.value, 4), "reason": f.reason, "clause": f.clause} for f in r.factors
         ],
         "forces_kN": {case: round(v / 1000, 3) for case, v in sorted(c.forces.items())},
-        # every combination as [name, Qf kN, KD, Fcp MPa, Qr kN, Qf/Qr]; the governing one's KD reason below
-        "combination_columns": ["name", "Qf_kN", "KD", "Fcp_MPa", "Qr_kN", "utilisation"],
+        # every combination as [name, Qf kN, KD, Fcp MPa, Qr kN, Qf/Qr] (in the standard's symbols); the governing
+        # one's KD reason below
+        "combination_columns": ["name", "Qf_kN", symbols[0], f"{symbols[1]}_MPa", "Qr_kN", "utilisation"],
         "combinations": [
             [
                 x.combination,
@@ -84,7 +86,7 @@ def check_record(r: CheckResult, name: str = "") -> dict[str, Any]:
 
 def _fcp(r: CheckResult, kd: float) -> float:
     """Fcp = fcp (KD KScp KT), Pa."""
-    return r.inputs.fcp * kd * r.inputs.kscp * r.inputs.kt
+    return r.inputs.modified_strength(kd)
 
 
 def review_record(review: Review) -> dict[str, Any]:
@@ -101,7 +103,7 @@ def review_record(review: Review) -> dict[str, Any]:
         "combinations_pack": {"id": review.cpack.id, "edition": review.cpack.edition},
         "readings": dict(review.readings),
         "triage": _triage(review),
-        "checks": (check_record(r, name_of(review, r)) for r in review.results),
+        "checks": (check_record(r, name_of(review, r), review.standard.column_symbols) for r in review.results),
         "not_checked": [
             {"bearing": e.bearing, "member": e.member, "reason": e.reason} for e in review.checklist.exempt
         ],
@@ -261,7 +263,7 @@ def explain(review: Review, check_id: str) -> str:
         placed = placed_forces(c.forces, c.envelope, combo, x.placing)[0] if combo is not None else c.forces
         reason = x.kd_reason or (
             review.standard.duration_reason(c, placed, combos[x.combination], review.model, review.pack)
-            if r.inputs.uses_kd and x.combination in combos
+            if r.inputs.uses_duration and x.combination in combos
             else f"KD = {x.kd:.2f}"
         )
         lines.append(

@@ -25,6 +25,7 @@ from audit.review.pack_use import pack_use_sentence
 from audit.review.reconcile import Reconciliation, failing_without_claims
 from audit.review.review import Review, uplift_threshold
 from audit.review.rounds import Round
+from audit.standards.resistance import STRENGTH
 
 STATUS_WORDS = {
     "failing": "FAILS",
@@ -422,7 +423,7 @@ def _derivations(
                 "factors": [
                     (
                         f.name,
-                        f"{f.value / 1e6:.2f} MPa" if f.name in STRENGTHS else f"{f.value:.3f}",
+                        f"{f.value / 1e6:.2f} MPa" if f.role == STRENGTH else f"{f.value:.3f}",
                         f.reason,
                         f.clause,
                     )

@@ -55,7 +55,7 @@ def pack_sheet(data: dict[str, Any], pack_id: str, file_name: str) -> bytes:
 
 def _pack_file(pack_id: str, dirs: tuple[Path, ...], where: Location | None = None) -> Path:
     """The file of the resistance or combination pack of that id, among the bundled packs and ``dirs``."""
-    from audit.standards.packs import load_all_packs
+    from audit.standards.catalogue import load_all_packs
 
     resistance, combos = load_all_packs(dirs)
     found = resistance.get(pack_id) or combos.get(pack_id)
@@ -74,7 +74,8 @@ def _data(path: Path) -> dict[str, Any]:
 def _check_output(output: Path, dirs: tuple[Path, ...], inputs: list[tuple[str, Path]]) -> None:
     """An output may replace no pack and no input (every pack is an input of the next review)."""
     from audit.core.outfiles import check_outputs
-    from audit.standards.packs import builtin_rules_dir, pack_files
+    from audit.standards.bundled import builtin_rules_dir
+    from audit.standards.catalogue import pack_files
 
     if output.resolve().parent == builtin_rules_dir().resolve():
         raise InputError(
@@ -129,7 +130,7 @@ def adopt_pack(sheet: Path, output: Path, dirs: tuple[Path, ...]) -> list[str]:
 
 def _refuse_known_id(firm_id: str, dirs: tuple[Path, ...], output: Path) -> None:
     """The firm pack's id may be no other pack's: the next review would refuse both."""
-    from audit.standards.packs import load_all_packs
+    from audit.standards.catalogue import load_all_packs
 
     resistance, combos = load_all_packs(dirs)
     if firm_id in resistance or firm_id in combos:

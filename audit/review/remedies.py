@@ -17,7 +17,7 @@ from audit.engine.contacts import Contact
 from audit.engine.model import Model
 from audit.review.review import Review
 from audit.standards.checks import LOCAL, NEAR, CheckList, RequiredCheck
-from audit.standards.o86 import CheckResult
+from audit.standards.resistance import CheckResult
 
 LENGTH_STEP = 2e-4  # m: the length search stops at a fifth of a millimetre, then rounds up to whole millimetres
 

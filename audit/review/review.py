@@ -14,9 +14,10 @@ from audit.review import wording
 from audit.review.findings import KINDS, Finding
 from audit.standards.base import Standard
 from audit.standards.checks import NO_LENGTH, CheckList, RequiredCheck
-from audit.standards.o86 import CheckResult, LoadCombination, counteracted, load_combinations
+from audit.standards.combinations import LoadCombination, counteracted, load_combinations
 from audit.standards.packs import CombinationPack, PackCore
 from audit.standards.registry import standard_named
+from audit.standards.resistance import CheckResult
 
 
 @dataclass(frozen=True)

@@ -16,8 +16,8 @@ if TYPE_CHECKING:
     from audit.engine.model import Model
     from audit.engine.take_down import TakeDown
     from audit.standards.checks import CheckList
-    from audit.standards.o86 import CheckResult
     from audit.standards.packs import CombinationPack, PackCore
+    from audit.standards.resistance import CheckResult, ResistanceInputs, ResistanceSlip, Symbol
 
 
 class Standard(Protocol):
@@ -34,11 +34,17 @@ class Standard(Protocol):
         ...
 
     @property
-    def slip_recipes(self) -> tuple[str, ...]:  # families of slip recipes the reconciler may try on its checks
+    def length_factor(self) -> str:  # the name of its factor that changes with the bearing length (KB, Cb, kc,90)
         ...
 
     @property
-    def length_factor(self) -> str:  # the name of its factor that changes with the bearing length (KB, Cb, kc,90)
+    def symbols(self) -> dict[str, Symbol]:  # its own symbol of each factor -> the factor's role, how claims state it
+        ...
+
+    @property
+    def column_symbols(
+        self,
+    ) -> tuple[str, str]:  # its duration factor and the strength it modifies, as outputs name them
         ...
 
     @property
@@ -59,11 +65,17 @@ class Standard(Protocol):
 
     def formula(self, kind: str) -> str: ...
 
+    def claim_values(self, inputs: ResistanceInputs, duration: float) -> dict[str, float]:
+        """The value of each symbol a claim may state (its factors, and what it derives from them, EC5's fc,90,d)
+        at a check under one duration factor."""
+        ...
+
     def assumption_lines(self, review: Any) -> dict[str, str]: ...
 
-    def resistance_variants(self, result: Any, model: Model, pack: PackCore) -> list[tuple[str, str, dict[str, float]]]:
-        """The standard's own slips in a resistance: (name, what the calc did, the inputs it changes; 'kd' for
-        the duration factor). The reconciler recomputes each and names those that reproduce a claim."""
+    def resistance_variants(self, result: CheckResult, model: Model, pack: PackCore, kd: float) -> list[ResistanceSlip]:
+        """The standard's own slips in a resistance, each with the inputs it changes ('kd' for the duration factor);
+        ``kd``: the duration factor of the loads the calc used. The reconciler recomputes each through the
+        standard's resistance and names those that reproduce a claim."""
         ...
 
     def duration_reason(

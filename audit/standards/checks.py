@@ -13,6 +13,7 @@ import math
 from bisect import bisect_left, bisect_right
 from collections import defaultdict
 from dataclasses import dataclass, field, replace
+from typing import cast
 
 from audit.core.errors import ErrorCollector, InputError
 from audit.engine.contacts import (
@@ -27,7 +28,7 @@ from audit.engine.contacts import (
 )
 from audit.engine.model import Bearing, Load, Member, Model
 from audit.engine.take_down import AppliedForce, Envelope, Forces, TakeDown, passed_through
-from audit.standards.packs import PackCore, ResistancePack
+from audit.standards.packs import PackCore
 
 LOCAL = "local"
 NEAR = "near-support"
@@ -87,11 +88,12 @@ class CheckList:
     unchecked: tuple[Unchecked, ...] = ()
 
 
-def list_checks(model: Model, flow: TakeDown, pack: ResistancePack, readings: dict[str, str]) -> CheckList:
-    """O86: the local checks at every contact, and the near-support checks where loads lie within d of a support."""
+def list_checks(model: Model, flow: TakeDown, pack: PackCore, readings: dict[str, str], near_reach: float) -> CheckList:
+    """The local checks at every contact, and the near-support checks where loads lie within ``near_reach`` times
+    the member depth d of a support (O86's near-support clause)."""
     checks, exempt = local_checks(model, flow, pack)
     count_spread = readings["near_support.distributed_loads"] == "within_d"
-    checks.extend(_near_support_checks(model, flow, pack, count_spread))
+    checks.extend(_near_support_checks(model, flow, pack, count_spread, near_reach))
     return CheckList(tuple(checks), tuple(exempt), unseen_supports(model, flow, pack) + unsized_loads(model, pack))
 
 
@@ -243,13 +245,14 @@ def _local_why(member: Member, other: Member, face: str) -> str:
     return f"{member.id} bears on {other.id}: the member above is crushed on its own side grain at its support"
 
 
-def _near_support_checks(model: Model, flow: TakeDown, pack: ResistancePack, count_spread: bool) -> list[RequiredCheck]:
+def _near_support_checks(
+    model: Model, flow: TakeDown, pack: PackCore, count_spread: bool, reach: float
+) -> list[RequiredCheck]:
     supports_of: dict[str, list[Bearing]] = defaultdict(list)
     for bearing in model.bearings:
         supports_of[bearing.upper.member].append(bearing)
     loads_by_id = {load.id: load for load in model.loads}
     bearings_by_id = {b.id: b for b in model.bearings}
-    reach = pack.near_reach.value
     out: list[RequiredCheck] = []
     errors = ErrorCollector()  # found after reading, but reported like reader errors: all, once each
     for member_id in sorted(supports_of):
@@ -263,10 +266,10 @@ def _near_support_checks(model: Model, flow: TakeDown, pack: ResistancePack, cou
         if not top:
             continue
         spread_loads = [a for a in flow.on_top.get(member_id, ()) if a.kind == "uniform"] if count_spread else []
-        positions = [a.at for a in top]
+        positions = [cast(float, a.at) for a in top]  # filtered above: every one is placed
         limit = reach * member.d
         for support in supports_of[member_id]:
-            x = support.upper.at
+            x = cast(float, support.upper.at)  # a support of a horizontal member is placed along it
             tie = 0.5 * LENGTH_RESOLUTION  # a load d away to the stated resolution is within d, in SI and US input
             near = top[bisect_left(positions, x - limit - tie) : bisect_right(positions, x + limit + tie)]
             if not near:

@@ -31,14 +31,6 @@ from audit.engine.contacts import Contact, longer, shorter
 from audit.engine.model import STORAGE_LIVE, Model, base_case
 from audit.engine.take_down import Forces, TakeDown, force_floor
 from audit.standards.checks import LOCAL, CheckList, RequiredCheck, local_only
-from audit.standards.o86 import (
-    CheckResult,
-    Factor,
-    LoadCombination,
-    ResistanceInputs,
-    pack_as,
-    resist_each,
-)
 from audit.standards.packs import (
     PACK_HEAD_KEYS,
     CombinationPack,
@@ -47,6 +39,24 @@ from audit.standards.packs import (
     Sourced,
     read_core_fields,
     refuse_unknown_fields,
+)
+from audit.standards.resistance import (
+    ANGLE,
+    DERIVED,
+    DURATION,
+    LENGTH,
+    MATERIAL,
+    STRENGTH,
+    CheckResult,
+    Factor,
+    LoadCombination,
+    ResistanceInputs,
+    ResistanceSlip,
+    Symbol,
+    factor_values,
+    pack_as,
+    resist_each,
+    with_roles,
 )
 
 EC5_KEYS = (
@@ -63,6 +73,15 @@ EC5_KEYS = (
     "uplift",
 )
 CLASSES = ("permanent", "long", "medium", "short", "instantaneous")  # longest to shortest
+# EN 1995-1-1's symbols: the role of each factor, and how a claim states it
+SYMBOLS = {
+    "fc,90,k": Symbol(STRENGTH, "stress"),
+    "gamma_M": Symbol(MATERIAL),
+    "kc,90": Symbol(LENGTH),
+    "alpha": Symbol(ANGLE),
+    "kmod": Symbol(DURATION),
+    "fc,90,d": Symbol(DERIVED, "stress"),  # kmod fc,90,k / gamma_M, as calcs print it
+}
 
 
 @dataclass(frozen=True)
@@ -122,7 +141,7 @@ def read_ec5_pack(root: Node, path: str) -> Ec5Pack:
     errors = ErrorCollector()
     r = PackReader(errors)
     refuse_unknown_fields(root, EC5_KEYS, "ec5", errors)
-    core = read_core_fields(root, r, errors)
+    core = read_core_fields(root, r, errors, (LOCAL,))  # no near-support check: the local clause alone
     gamma = r.mapping(root, "gamma_m")
     contact = r.mapping(root, "contact")
     kc90 = r.mapping(root, "kc90")
@@ -229,16 +248,25 @@ def kc90_factor(check: RequiredCheck, model: Model, pack: Ec5Pack, reach: Reach)
         return Factor(
             "kc,90",
             1.0,
-            f"kc,90 = 1.00: the next contact is {reach.clear * 1000:.0f} mm away, less than 2h = {need * 1000:.0f} mm "
+            f"kc,90 = 1.00: the next contact is {reach.clear * 1000:.0f} mm away, less than {pack.kc90_spacing:g}h = "
+            f"{need * 1000:.0f} mm "
             "(the spacing condition)",
             clause,
         )
     if arrangement == "discrete" and family == "glulam" and longer(check.contact.length, pack.kc90_glulam_max_length):
         return Factor(
-            "kc,90", 1.0, f"kc,90 = 1.00: glulam contact {check.contact.length * 1000:.0f} mm over 400 mm", clause
+            "kc,90",
+            1.0,
+            f"kc,90 = 1.00: glulam contact {check.contact.length * 1000:.0f} mm over "
+            f"{pack.kc90_glulam_max_length * 1000:g} mm",
+            clause,
         )
     value = pack.kc90.value[arrangement].get(family, 1.0)
-    spaced = "no other contact on the face" if math.isinf(reach.clear) else f"l1 = {reach.clear * 1000:.0f} mm >= 2h"
+    spaced = (
+        "no other contact on the face"
+        if math.isinf(reach.clear)
+        else f"l1 = {reach.clear * 1000:.0f} mm >= {pack.kc90_spacing:g}h"
+    )
     return Factor("kc,90", value, f"kc,90 = {value:.2f}: {arrangement} support, {family}, {spaced}", clause)
 
 
@@ -280,16 +308,11 @@ def ec5_inputs(
                 ANGLE_CLAUSE,
             ),
         )
+    factors = with_roles(factors, SYMBOLS)
     inputs = ResistanceInputs(
-        phi=1.0 / gamma.value,
-        coefficient=1.0,
-        fcp=fc90k,
-        kscp=1.0,
-        kt=1.0,
-        kb=kc90.value,
-        kzcp=1.0,
+        factors=factors,
         area=area,
-        uses_kd=True,
+        uses_duration=True,
         fc_parallel=material.fc if angle is not None else None,  # x kmod / gamma_M in ``resistance``: fc,0,d
         angle=angle,
     )
@@ -300,8 +323,8 @@ def ec5_inputs(
     if angle is not None:
         area_reason = (
             f"A = b l = {c.width * 1000:.0f} x {c.length * 1000:.0f} = {area * 1e6:,.0f} mm²: at an angle to the "
-            f"grain, the contact without the 30 mm extensions of 6.1.5 (6.2.2; conservative reading); width: "
-            f"{c.width_note}"
+            f"grain, the contact without the {pack.extension.value * 1000:g} mm extensions of 6.1.5 (6.2.2; "
+            f"conservative reading); width: {c.width_note}"
         )
     return inputs, factors, area_reason
 
@@ -345,8 +368,12 @@ class _Ec5:
     id: str = "ec5"
     title: str = "EN 1995-1-1"
     check_kinds: dict[str, str] = field(default_factory=lambda: {LOCAL: "compression perpendicular to the grain"})
-    slip_recipes: tuple[str, ...] = ()
     length_factor: str = "kc,90"
+    symbols: dict[str, Symbol] = field(default_factory=lambda: SYMBOLS)  # its factors: role, how claims state them
+    column_symbols: tuple[str, str] = (
+        "kmod",
+        "kmod fc,90,k",
+    )  # the JSON columns of the duration factor and the strength it modifies
     combination_formats: tuple[str, ...] = ("EN 1990",)
     claim_headers: dict[str, str] = field(
         default_factory=lambda: {
@@ -392,37 +419,54 @@ class _Ec5:
             "storage": f" ({review.cpack.storage_companion.value:g} as a companion) and is a {storage_class}-term "
             "action for kmod",
             "duration": "EN 1995-1-1: each combination takes the kmod of its shortest-duration action present at "
-            "the check (service classes 1 and 2 as dry, 3 as wet); the contact length spreads up to 30 mm each side "
+            "the check (service classes 1 and 2 as dry, 3 as wet); the contact length spreads up to "
+            f"{p.extension.value * 1000:g} mm each side "
             "(Aef), each side no more than the end distance a, half the clear distance l1/2 to the next contact, or "
-            "the contact length l; kc,90 follows the support arrangement where the next contact is at least 2h away. A "
+            f"the contact length l; kc,90 follows the support arrangement where the next contact is at least "
+            f"{p.kc90_spacing:g}h away. A "
             "contact with a stated angle between load and grain is checked for compression at an angle (6.2.2, "
             "fc,0,k from the rule pack) on its contact area b l without the extensions (the conservative reading). "
             "EN 1995-1-1 has no near-support check: each contact is checked on both members.",
         }
 
-    def resistance_variants(self, result: Any, model: Model, pack: PackCore) -> list[tuple[str, str, dict[str, float]]]:
+    def claim_values(self, inputs: ResistanceInputs, duration: float) -> dict[str, float]:
+        out = factor_values(inputs, duration, SYMBOLS)
+        out["fc,90,d"] = inputs.strength * duration / inputs.value("gamma_M")  # fc,90,d = kmod fc,90,k / gamma_M
+        return out
+
+    def resistance_variants(self, result: CheckResult, model: Model, pack: PackCore, kd: float) -> list[ResistanceSlip]:
         p, inputs, c = ec5_pack(pack), result.inputs, result.check.contact
         member = model.members[result.check.member]
         family = model.materials[member.material].family
-        out: list[tuple[str, str, dict[str, float]]] = []
+        out: list[ResistanceSlip] = []
         bare = c.width * c.length
         if inputs.area > bare + 1e-12:
-            out.append(("no-effective-length", "the contact length used without the 30 mm each side", {"area": bare}))
-        if inputs.kb == 1.0:
+            text = f"the contact length used without the {p.extension.value * 1000:g} mm each side"
+            out.append(ResistanceSlip("no-effective-length", text, area=bare))
+        kc90 = inputs.factor("kc,90")
+        if kc90 is not None and kc90.value == 1.0:
             for arrangement in ("continuous", "discrete"):
                 value = p.kc90.value[arrangement].get(family, 1.0)
                 text = f"kc,90 = {value:.2f} ({arrangement} support) taken where it does not apply"
                 out.append(
-                    (f"kc90-{arrangement}-not-allowed", text + " (spacing, length or arrangement)", {"kb": value})
+                    ResistanceSlip(
+                        f"kc90-{arrangement}-not-allowed",
+                        text + " (spacing, length or arrangement)",
+                        (replace(kc90, value=value),),
+                    )
                 )
-        if inputs.phi < 1.0:
-            out.append(("gamma-m-left-out", "gamma_M left out (characteristic, not design, strength)", {"phi": 1.0}))
+        gamma = inputs.factor("gamma_M")
+        if gamma is not None and gamma.value > 1.0:
+            text = "gamma_M left out (characteristic, not design, strength)"
+            out.append(ResistanceSlip("gamma-m-left-out", text, (replace(gamma, value=1.0),)))
         service = "wet" if member.service == "wet" else "dry"
         for name in ("medium", "short", "instantaneous"):
             value = p.kmod.value[service][name]
             if value > result.governing.kd + 1e-9:
                 out.append(
-                    (f"kmod-{name}", f"kmod = {value:.2f} ({name}-term) used for a longer action", {"kd": value})
+                    ResistanceSlip(
+                        f"kmod-{name}", f"kmod = {value:.2f} ({name}-term) used for a longer action", duration=value
+                    )
                 )
         return out
 

@@ -13,7 +13,7 @@ near-support check.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import Any
 
 from audit.core.errors import ErrorCollector, InputError
@@ -23,15 +23,6 @@ from audit.engine.contacts import shorter
 from audit.engine.model import Material, Member, Model
 from audit.engine.take_down import Forces, TakeDown
 from audit.standards.checks import LOCAL, CheckList, RequiredCheck, local_only
-from audit.standards.o86 import (
-    CheckResult,
-    Factor,
-    LoadCombination,
-    ResistanceInputs,
-    fcp_on_face,
-    pack_as,
-    resist_each,
-)
 from audit.standards.packs import (
     PACK_HEAD_KEYS,
     CombinationPack,
@@ -42,6 +33,26 @@ from audit.standards.packs import (
     read_choice,
     read_core_fields,
     refuse_unknown_fields,
+)
+from audit.standards.resistance import (
+    COEFFICIENT,
+    INCISING,
+    LENGTH,
+    RESISTANCE,
+    SERVICE,
+    STRENGTH,
+    TEMPERATURE,
+    CheckResult,
+    Factor,
+    LoadCombination,
+    ResistanceInputs,
+    ResistanceSlip,
+    Symbol,
+    factor_values,
+    fcp_on_face,
+    pack_as,
+    resist_each,
+    with_roles,
 )
 
 NDS_KEYS = (
@@ -62,6 +73,17 @@ NDS_KEYS = (
 )
 NDS_READINGS = {"deformation.limit": ("reference_0.04in", "limit_0.02in")}
 INCH = 0.0254
+# The NDS symbols: the role of each factor, and how a claim states it (no duration factor applies to Fc-perp)
+SYMBOLS = {
+    "Fc-perp": Symbol(STRENGTH, "stress"),
+    "CM": Symbol(SERVICE),
+    "Ct": Symbol(TEMPERATURE),
+    "Ci": Symbol(INCISING),
+    "Cb": Symbol(LENGTH),
+    "KF": Symbol(COEFFICIENT),
+    "phi": Symbol(RESISTANCE),
+    "0.02 in": Symbol(COEFFICIENT),
+}
 
 
 @dataclass(frozen=True)
@@ -116,7 +138,7 @@ def read_nds_pack(root: Node, path: str) -> NdsPack:
     errors = ErrorCollector()
     r = PackReader(errors)
     refuse_unknown_fields(root, NDS_KEYS, "nds", errors)
-    core = read_core_fields(root, r, errors)
+    core = read_core_fields(root, r, errors, (LOCAL,))  # no near-support check: the local clause alone
 
     def sub(parent: Node | None, key: str) -> Node | None:
         return r.mapping(parent, key) if parent is not None else None
@@ -172,18 +194,38 @@ def read_nds_pack(root: Node, path: str) -> NdsPack:
 
 
 def bearing_area_factor(length: float, end_distance: float, material: Material, pack: NdsPack) -> Factor:
-    """Cb = (lb + 0.375 in) / lb for lb under 6 in, at least 3 in from the member end; else 1.00."""
+    """Cb = (lb + 0.375 in) / lb for lb under 6 in, at least 3 in from the member end; else 1.00 (the numbers are
+    the pack's)."""
     clause = pack.cb_add.clause
     if material.family == "engineered" and "KB" not in material.applies:
         return Factor("Cb", 1.0, "Cb = 1.00: the product's evaluation report does not allow Cb", clause)
     if not shorter(length, pack.cb_max_length.value):  # ties at the stated resolution
-        return Factor("Cb", 1.0, f"Cb = 1.00: bearing length {length / INCH:.2f} in is not under 6 in", clause)
+        return Factor(
+            "Cb",
+            1.0,
+            f"Cb = 1.00: bearing length {length / INCH:.2f} in is not under {_in(pack.cb_max_length.value)}",
+            clause,
+        )
     if shorter(end_distance, pack.cb_min_end_distance.value):
         return Factor(
-            "Cb", 1.0, f"Cb = 1.00: bearing {end_distance / INCH:.2f} in from the member end, less than 3 in", clause
+            "Cb",
+            1.0,
+            f"Cb = 1.00: bearing {end_distance / INCH:.2f} in from the member end, less than "
+            f"{_in(pack.cb_min_end_distance.value)}",
+            clause,
         )
     value = (length + pack.cb_add.value) / length
-    return Factor("Cb", value, f"Cb = ({length / INCH:.3f} + 0.375)/{length / INCH:.3f} = {value:.3f}", clause)
+    return Factor(
+        "Cb",
+        value,
+        f"Cb = ({length / INCH:.3f} + {pack.cb_add.value / INCH:g})/{length / INCH:.3f} = {value:.3f}",
+        clause,
+    )
+
+
+def _in(length: float) -> str:
+    """A pack's length as the NDS states it: '6 in', '3 in'."""
+    return f"{length / INCH:g} in"
 
 
 def _wet(member: Member, material: Material, table: dict[str, Sourced], what: str) -> Factor:
@@ -215,8 +257,6 @@ def nds_inputs(
     deformation = 1.0
     if readings["deformation.limit"] == "limit_0.02in":
         deformation = pack.deformation_factor
-    kf = pack.kf.value if lrfd else 1.0
-    phi = pack.phi.value if lrfd else 1.0
     fc_parallel = None
     if check.angle is not None and abs(check.angle - 1.5707963267948966) > 1e-9:
         if material.fc is None:
@@ -227,32 +267,33 @@ def nds_inputs(
         cm_par = _wet(member, material, pack.cm_parallel, "Fc").value
         fc_parallel = material.fc * cm_par * pack.ct.value * (pack.kf_parallel.value if lrfd else 1.0) * duration
     area = c.length * c.width
-    inputs = ResistanceInputs(
-        phi=phi,
-        coefficient=kf * deformation,
-        fcp=fcp_value,
-        kscp=cm.value,
-        kt=ct.value,
-        kb=cb.value,
-        kzcp=ci.value,
-        area=area,
-        uses_kd=False,
-        fc_parallel=fc_parallel,
-        angle=check.angle,
-    )
     factors = [fcp, cm, ct, ci, cb]
     if lrfd:
-        factors += [
-            Factor("KF", kf, f"KF = {kf:.2f}: LRFD format conversion", pack.kf.clause),
-            Factor("phi", phi, f"phi = {phi:.2f}: LRFD resistance factor", pack.phi.clause),
-        ]
+        factors += lrfd_factors(pack)
     if deformation != 1.0:
-        factors.append(Factor("0.02 in", deformation, f"{deformation:.2f} Fc-perp: 0.02 in deformation limit"))
+        factors.append(deformation_factor(deformation))
+    placed = with_roles(tuple(factors), SYMBOLS)
+    inputs = ResistanceInputs(
+        factors=placed, area=area, uses_duration=False, fc_parallel=fc_parallel, angle=check.angle
+    )
     area_reason = (
         f"Ab = {c.width / INCH:.2f} x {c.length / INCH:.2f} = {area / INCH**2:.2f} in²: width: {c.width_note}; "
         f"length: {c.length_note}"
     )
-    return inputs, tuple(factors), area_reason
+    return inputs, placed, area_reason
+
+
+def lrfd_factors(pack: NdsPack) -> list[Factor]:
+    """KF and phi, the LRFD format conversion and resistance factor for Fc-perp."""
+    kf, phi = pack.kf.value, pack.phi.value
+    return [
+        Factor("KF", kf, f"KF = {kf:.2f}: LRFD format conversion", pack.kf.clause, COEFFICIENT),
+        Factor("phi", phi, f"phi = {phi:.2f}: LRFD resistance factor", pack.phi.clause, RESISTANCE),
+    ]
+
+
+def deformation_factor(value: float) -> Factor:
+    return Factor("0.02 in", value, f"{value:.2f} Fc-perp: 0.02 in deformation limit", "", COEFFICIENT)
 
 
 def _no_duration(_forces: Forces, _combo: LoadCombination) -> tuple[float, str]:
@@ -267,8 +308,12 @@ class _Nds:
     id: str = "nds"
     title: str = "US NDS"
     check_kinds: dict[str, str] = field(default_factory=lambda: {LOCAL: "bearing perpendicular to grain"})
-    slip_recipes: tuple[str, ...] = ()
     length_factor: str = "Cb"
+    symbols: dict[str, Symbol] = field(default_factory=lambda: SYMBOLS)  # its factors: role, how claims state them
+    column_symbols: tuple[str, str] = (
+        "no duration factor",
+        "Fc-perp CM Ct",
+    )  # the JSON columns of the duration factor and the strength it modifies
     combination_formats: tuple[str, ...] = ("ASD", "LRFD")
     claim_headers: dict[str, str] = field(
         default_factory=lambda: {
@@ -315,24 +360,34 @@ class _Nds:
             + " The NDS has no near-support check: each contact is checked on both members.",
         }
 
-    def resistance_variants(self, result: Any, model: Model, pack: PackCore) -> list[tuple[str, str, dict[str, float]]]:
+    def claim_values(self, inputs: ResistanceInputs, duration: float) -> dict[str, float]:
+        return factor_values(inputs, duration, SYMBOLS)
+
+    def resistance_variants(self, result: CheckResult, model: Model, pack: PackCore, kd: float) -> list[ResistanceSlip]:
         p, inputs, c = nds_pack(pack), result.inputs, result.check.contact
-        out: list[tuple[str, str, dict[str, float]]] = []
-        if inputs.kb == 1.0 and shorter(c.length, p.cb_max_length.value):
+        out: list[ResistanceSlip] = []
+
+        def set_to(symbol: str, value: float) -> tuple[Factor, ...]:
+            found = inputs.factor(symbol)
+            return () if found is None else (replace(found, value=value),)
+
+        if inputs.value("Cb") == 1.0 and shorter(c.length, p.cb_max_length.value):
             cb = (c.length + p.cb_add.value) / c.length
-            out.append(("cb-where-not-allowed", f"Cb = {cb:.2f} taken within 3 in of the member end", {"kb": cb}))
-        if inputs.kscp < 1.0:
-            out.append(("wet-factor-left-out", "the wet service factor CM was left out", {"kscp": 1.0}))
-        if inputs.phi < 1.0:
-            out.append(("lrfd-factors-left-out", "the ASD value used in LRFD (KF and phi left out)", {"phi": 1.0,
-                        "coefficient": inputs.coefficient / p.kf.value}))  # fmt: skip
+            text = f"Cb = {cb:.2f} taken within {_in(p.cb_min_end_distance.value)} of the member end"
+            out.append(ResistanceSlip("cb-where-not-allowed", text, set_to("Cb", cb)))
+        if inputs.value("CM") < 1.0:
+            text = "the wet service factor CM was left out"
+            out.append(ResistanceSlip("wet-factor-left-out", text, set_to("CM", 1.0)))
+        if inputs.factor("phi") is not None:
+            asd = set_to("phi", 1.0) + set_to("KF", 1.0)
+            out.append(ResistanceSlip("lrfd-factors-left-out", "the ASD value used in LRFD (KF and phi left out)", asd))
         else:
-            out.append(("lrfd-value-in-asd", "the LRFD value (x KF phi) used in ASD", {"phi": p.phi.value,
-                        "coefficient": inputs.coefficient * p.kf.value}))  # fmt: skip
-        if inputs.coefficient in (1.0, p.kf.value):
+            lrfd = tuple(lrfd_factors(p))
+            out.append(ResistanceSlip("lrfd-value-in-asd", "the LRFD value (x KF phi) used in ASD", lrfd))
+        if inputs.factor("0.02 in") is None:
             factor = p.deformation_factor
-            out.append(("deformation-limit", f"Fc-perp at the 0.02 in limit ({factor:.2f} Fc-perp) used",
-                        {"coefficient": inputs.coefficient * factor}))  # fmt: skip
+            text = f"Fc-perp at the 0.02 in limit ({factor:.2f} Fc-perp) used"
+            out.append(ResistanceSlip("deformation-limit", text, (deformation_factor(factor),)))
         return out
 
     def duration_reason(

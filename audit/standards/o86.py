@@ -11,28 +11,15 @@ each combination gets its own Qr and the governing one is the highest Qf/Qr.
 
 from __future__ import annotations
 
-import itertools
 import math
-import re
-from collections.abc import Callable
 from dataclasses import dataclass, field, replace
-from functools import cached_property
-from typing import Any, TypeVar
+from typing import Any
 
-from audit.core.errors import ErrorCollector, InputError
+from audit.core.errors import InputError
 from audit.core.located_yaml import Node
 from audit.engine.contacts import longer, shorter
-from audit.engine.model import (
-    FACTORED_PREFIX,
-    STORAGE_LIVE,
-    WIND_PRESSURE,
-    WIND_SUCTION,
-    Material,
-    Member,
-    Model,
-    base_case,
-)
-from audit.engine.take_down import Forces, TakeDown, force_floor, sizes_at
+from audit.engine.model import STORAGE_LIVE, Material, Member, Model
+from audit.engine.take_down import Forces, TakeDown
 from audit.standards.checks import (
     LOCAL,
     NEAR,
@@ -40,224 +27,51 @@ from audit.standards.checks import (
     RequiredCheck,
     list_checks,
     near_support_geometry,
+    near_support_width,
     side_by_side_text,
     top_bearing,
 )
-from audit.standards.packs import CombinationPack, PackCore, ResistancePack, read_resistance_pack
+from audit.standards.o86_pack import O86Pack, read_o86_pack
+from audit.standards.packs import CombinationPack, PackCore
+from audit.standards.resistance import (
+    COEFFICIENT,
+    DURATION,
+    LENGTH,
+    LONG_TERM_CASE,
+    RESISTANCE,
+    SERVICE,
+    SIZE,
+    STRENGTH,
+    TREATMENT,
+    CheckResult,
+    DurationRule,
+    Factor,
+    LoadCombination,
+    ResistanceInputs,
+    ResistanceSlip,
+    Symbol,
+    factor_values,
+    fcp_on_face,
+    pack_as,
+    resist_each,
+    with_roles,
+)
 
 STANDARD_TERM_CASES = ("L", "S")
-LONG_TERM_CASE = "D"
-PASS_LIMIT = 1.0 + 1e-9
+# O86's symbols: the role of each factor, and how a claim states it
+SYMBOLS = {
+    "phi": Symbol(RESISTANCE),
+    "fcp": Symbol(STRENGTH, "stress"),
+    "KScp": Symbol(SERVICE),
+    "KT": Symbol(TREATMENT),
+    "KB": Symbol(LENGTH),
+    "KZcp": Symbol(SIZE),
+    "2/3": Symbol(COEFFICIENT),
+    "KD": Symbol(DURATION),
+}
 
 
-@dataclass(frozen=True)
-class LoadCombination:
-    name: str
-    factors: dict[str, float]  # load case (or factored key) -> load factor
-    duration: str  # permanent | standard | short
-    clause: str = ""
-    factored: bool = False  # a group of already-factored loads
-
-    @cached_property
-    def principal_cases(self) -> tuple[str, ...]:
-        """The cases of the principal load (the largest factor but dead load's; dead load for a dead-only one),
-        with the cases split from it (W:suction, L:storage)."""
-        live = {case: f for case, f in self.factors.items() if case != LONG_TERM_CASE}
-        if not live:
-            return (LONG_TERM_CASE,)
-        principal = base_case(max(live, key=lambda case: live[case]))
-        return tuple(case for case in live if base_case(case) == principal)
-
-
-@dataclass(frozen=True)
-class Factor:
-    name: str
-    value: float
-    reason: str
-    clause: str = ""
-
-
-@dataclass(frozen=True)
-class ResistanceInputs:
-    """Everything Qr depends on except KD; diagnosis varies these one at a time."""
-
-    phi: float
-    coefficient: float  # 1 for local bearing, 2/3 for near-support
-    fcp: float  # Pa, specified strength
-    kscp: float
-    kt: float
-    kb: float
-    kzcp: float
-    area: float  # m^2, Ab or Ab'
-    uses_kd: bool
-    fc_parallel: float | None  # Pa, fc * KSc * KT for Hankinson; None when perpendicular
-    angle: float | None
-
-
-# How a combination places one patterned case: "worst" (its envelope in the direction of its factor), "every"
-# (every span loaded) or "least" (its least downward placing, where that is still downward).
-Placing = tuple[tuple[str, str], ...]
-WORST, EVERY_SPAN, LEAST = "worst", "every", "least"
-
-
-@dataclass(frozen=True)
-class CombinationResult:
-    combination: str
-    duration: str
-    qf: float  # N
-    kd: float
-    kd_reason: str
-    qr: float  # N
-    utilisation: float
-    pattern: str = ""  # how the patterned cases were placed for this Qf ("" : every span loaded)
-    qf_low: float = 0.0  # N, the least force under this combination: counteracting dead load, worst patterns
-    placing: Placing = ()  # the placing of each patterned case that gave this row (() : each at its worst)
-
-
-def placings(forces: Forces, envelope: dict, combo: LoadCombination) -> list[Placing]:
-    """Every placing of the patterned cases a combination is evaluated with, the worst-force one first.
-
-    The largest force is not always the worst Qf/Qr: where the duration factor falls with the share of
-    short-term load (O86's long-term KD, dead-heavy members), less live or snow load can govern."""
-    options = []
-    floor = force_floor(sizes_at(forces, envelope))
-    for case, env in sorted(envelope.items()):
-        factor = combo.factors.get(case, 0.0)
-        if factor == 0.0:
-            continue
-        worst, other = (env.high, env.low) if factor > 0 else (env.low, env.high)
-        every = forces.get(case, 0.0)
-        choice = [(case, WORST)]
-        if abs(every - worst) > floor:
-            choice.append((case, EVERY_SPAN))
-        if factor > 0 and other > floor and min(abs(other - worst), abs(other - every)) > floor:
-            choice.append((case, LEAST))
-        options.append(choice)
-    return [tuple(p) for p in itertools.product(*options)]
-
-
-def placed_forces(forces: Forces, envelope: dict, combo: LoadCombination, placing: Placing = ()) -> tuple[Forces, str]:
-    """The forces of each case as the combination places it: patterned cases at their envelope (``placing``: each
-    case's placing, default its worst), with how they were placed."""
-    placed = dict(forces)
-    notes = []
-    chosen = dict(placing)
-    floor = force_floor(sizes_at(forces, envelope))
-    for case, env in sorted(envelope.items()):
-        factor = combo.factors.get(case, 0.0)
-        how = chosen.get(case, WORST)
-        if factor == 0.0 or how == EVERY_SPAN:
-            continue
-        high = (factor > 0) == (how == WORST)
-        value = env.high if high else env.low
-        placed[case] = value
-        if abs(value - forces.get(case, 0.0)) > floor:
-            least = ", its least here (worse through the load-duration factor)" if how == LEAST else ""
-            notes.append(f"{case} {env.placing(high)}{least}")
-    return placed, "; ".join(notes)
-
-
-def least_force(forces: Forces, envelope: dict, combo: LoadCombination, counteracting: float) -> float:
-    """The least force through the bearing under a combination: dead load at its counteracting factor where
-    that is lower, every patterned case at its least favourable placing (uplift is looked for here)."""
-    total = []
-    for case, factor in combo.factors.items():
-        if case == LONG_TERM_CASE:
-            factor = min(factor, counteracting) if forces.get(case, 0.0) > 0 else factor
-        env = envelope.get(case)
-        if env is None:
-            total.append(factor * forces.get(case, 0.0))
-        else:
-            total.append(factor * (env.low if factor > 0 else env.high))
-    return math.fsum(total)
-
-
-@dataclass(frozen=True)
-class CheckResult:
-    check: RequiredCheck
-    material: str
-    inputs: ResistanceInputs
-    factors: tuple[Factor, ...]  # phi, fcp, KScp, KT, KB, KZcp (and 2/3): value and reason
-    area_reason: str
-    combinations: tuple[CombinationResult, ...]
-    governing: CombinationResult
-    uplift: tuple[str, ...]  # combinations in which the bearing force is upward
-    passes: bool
-
-
-# ---------------------------------------------------------------- combinations
-
-
-def load_combinations(model: Model, cpack: CombinationPack) -> tuple[LoadCombination, ...]:
-    """The pack's combinations for specified loads, plus one per group of factored loads.
-
-    Where the model gives wind as pressure and suction, a combination with wind is taken once
-    each way; storage live load takes the live-load factor where live load leads and the pack's
-    storage companion factor where it accompanies.
-    """
-    cases = {load.case for load in model.loads}
-    out = []
-    for c in cpack.combinations:
-        factors = dict(c.factors)
-        live = factors.get("L", 0.0)
-        if STORAGE_LIVE in cases and live and STORAGE_LIVE not in factors:  # a combination may state its own
-            leads = live >= max(f for case, f in factors.items() if case != LONG_TERM_CASE)
-            factors[STORAGE_LIVE] = live if leads else cpack.storage_companion.value
-        name = labelled(c.name, factors, "L" in cases)
-        wind = factors.get("W", 0.0)
-        directions = [d for d in (WIND_PRESSURE, WIND_SUCTION) if d in cases]
-        if wind and directions:
-            for direction in directions:
-                way = direction.split(":")[1]
-                out.append(
-                    LoadCombination(f"{name} (wind {way})", {**factors, direction: wind}, c.duration, c.source.clause)
-                )
-            continue
-        out.append(LoadCombination(name, factors, c.duration, c.source.clause))
-    for group in sorted(model.factored_groups.values(), key=lambda g: g.label):
-        out.append(LoadCombination(group.label, {FACTORED_PREFIX + group.label: 1.0}, group.duration, "", True))
-    return tuple(out)
-
-
-LOAD_TERM = re.compile(r"(?:(?<=^)|(?<=\+))(\d+(?:\.\d+)?)([A-Z])(?=\+|$|\s)")
-
-
-def factor_text(value: float) -> str:
-    """A load factor as combination names print it: 1.0, 0.5, 1.05."""
-    text = f"{value:.2f}".rstrip("0")
-    return text + "0" if text.endswith(".") else text
-
-
-def labelled(name: str, factors: dict[str, float], plain_live: bool) -> str:
-    """The pack's name of a combination, stating storage live load at the factor it takes where that is not the
-    live-load factor the name prints: '1.25D+1.5S+1.0L' where all live load is storage, else '+1.0L (storage)'."""
-    storage, live = factors.get(STORAGE_LIVE), factors.get("L", 0.0)
-    if storage is None or abs(storage - live) < 1e-9:
-        return name
-    terms = [m for m in LOAD_TERM.finditer(name) if abs(float(m.group(1)) - live) < 1e-9 and m.group(2) != "D"]
-    live_term = next((m for m in terms if m.group(2) in ("L", "Q")), None)
-    letter = live_term.group(2) if live_term else "L"
-    if live_term is not None and not plain_live:
-        return name[: live_term.start(1)] + factor_text(storage) + name[live_term.end(1) :]
-    return f"{name}+{factor_text(storage)}{letter} (storage)"
-
-
-def counteracted(name: str, dead: float, counteracting: float) -> str:
-    """The name of a combination as uplift is looked for: its dead-load factor lowered to the counteracting one
-    ('1.25D+1.4W' -> '0.9D+1.4W'); the name unchanged where the dead load is already at or below it."""
-    if dead <= counteracting + 1e-9:
-        return name
-    match = LOAD_TERM.match(name)
-    if match is None or match.group(2) not in ("D", "G") or abs(float(match.group(1)) - dead) > 1e-9:
-        return f"{name} with {factor_text(counteracting)}D"
-    return factor_text(counteracting) + name[match.end(1) :]
-
-
-def factored_force(forces: Forces, combo: LoadCombination) -> float:
-    return math.fsum(factor * forces.get(case, 0.0) for case, factor in combo.factors.items())
-
-
-def load_duration_factor(forces: Forces, combo: LoadCombination, pack: ResistancePack) -> tuple[float, str]:
+def load_duration_factor(forces: Forces, combo: LoadCombination, pack: O86Pack) -> tuple[float, str]:
     """KD for one combination at one check, with the reason."""
     if combo.duration != "standard":
         value = pack.kd[combo.duration].value
@@ -291,7 +105,7 @@ def load_duration_factor(forces: Forces, combo: LoadCombination, pack: Resistanc
 # ---------------------------------------------------------------- factors
 
 
-def kb_factor(length: float, end_distance: float, material: Material, pack: ResistancePack) -> Factor:
+def kb_factor(length: float, end_distance: float, material: Material, pack: O86Pack) -> Factor:
     clause = pack.kb_table.clause
     if "KB" not in material.applies:
         return Factor("KB", 1.0, "KB = 1.00: the product's evaluation report does not allow KB", clause)
@@ -317,7 +131,7 @@ def kb_factor(length: float, end_distance: float, material: Material, pack: Resi
     )
 
 
-def _kzcp(member: Member, material: Material, pack: ResistancePack, reading: str) -> Factor:
+def _kzcp(member: Member, material: Material, pack: O86Pack, reading: str) -> Factor:
     clause = pack.kzcp_table.clause
     applies = (
         "KZcp" in material.applies if material.family == "engineered" else material.family in pack.kzcp_families.value
@@ -349,7 +163,7 @@ def _kzcp(member: Member, material: Material, pack: ResistancePack, reading: str
     )
 
 
-def _kscp(member: Member, material: Material, pack: ResistancePack) -> Factor:
+def _kscp(member: Member, material: Material, pack: O86Pack) -> Factor:
     if material.family == "engineered":
         if "KScp" not in material.applies or member.service == "dry":
             return Factor("KScp", 1.0, f"KScp = 1.00: {member.service} service, product report")
@@ -364,7 +178,7 @@ def _kscp(member: Member, material: Material, pack: ResistancePack) -> Factor:
     return Factor("KScp", value, f"KScp = {value:.2f}: {member.service} service", entry.clause)
 
 
-def _fc_parallel(member: Member, material: Material, pack: ResistancePack, angle: float | None) -> float | None:
+def _fc_parallel(member: Member, material: Material, pack: O86Pack, angle: float | None) -> float | None:
     if angle is None or abs(angle - math.pi / 2) < 1e-9:
         return None
     if material.fc is None:
@@ -381,34 +195,10 @@ def _fc_parallel(member: Member, material: Material, pack: ResistancePack, angle
     return material.fc * ksc * (member.kt if "KT" in material.applies else 1.0)
 
 
-def fcp_on_face(check: RequiredCheck, material: Material) -> tuple[float, str]:
-    """fcp on the face the check bears on, and how it was chosen (glulam has a compression and a tension face).
-
-    For a layup installed as designed a beam's top face, where loads land, is its compression
-    face and its underside, on its supports, its tension face; a near-support check loads both
-    and takes the lesser.
-    """
-    compression = material.fcp if material.fcp is not None else 0.0
-    if material.family != "glulam":
-        return compression, ""
-    tension = material.fcp_tension_face
-    if tension is None:
-        return compression, ", one value for both faces"
-    if check.kind == NEAR:
-        value = min(compression, tension)
-        return value, (
-            f", lesser of the compression face ({compression / 1e6:.2f} MPa) and tension face "
-            f"({tension / 1e6:.2f} MPa): the load passes through both"
-        )
-    if check.face == "top":
-        return compression, ", compression-face laminations (loads on the beam's top face)"
-    return tension, ", tension-face laminations (the beam's underside on its support)"
-
-
 def resistance_inputs(
     check: RequiredCheck,
     model: Model,
-    pack: ResistancePack,
+    pack: O86Pack,
     readings: dict[str, str],
 ) -> tuple[ResistanceInputs, tuple[Factor, ...], str]:
     """Every input of Qr but KD, each with its reason; ``readings`` are the pack's choices in force."""
@@ -438,30 +228,24 @@ def resistance_inputs(
             f"Ab = {c.width * 1000:.0f} x {c.length * 1000:.0f} = {area * 1e6:,.0f} mm²: "
             f"width: {c.width_note}; length: {c.length_note}"
         )
-        coefficient = Factor("coefficient", 1.0, "local bearing")
+        coefficient = None  # local bearing: no coefficient
     else:
         area, area_reason = _near_area(check, pack, readings)
         kb = _near_kb(check, material, pack, readings)
         factor = pack.near_factor.value
         coefficient = Factor("2/3", factor, f"near-support factor {factor:.3f}", pack.near_factor.clause)
+    factors = with_roles((phi, fcp, kscp, kt, kb, kzcp) + ((coefficient,) if coefficient else ()), SYMBOLS)
     inputs = ResistanceInputs(
-        phi=phi.value,
-        coefficient=coefficient.value,
-        fcp=fcp_value,
-        kscp=kscp.value,
-        kt=kt.value,
-        kb=kb.value,
-        kzcp=kzcp.value,
+        factors=factors,
         area=area,
-        uses_kd="KD" in material.applies,
+        uses_duration="KD" in material.applies,
         fc_parallel=_fc_parallel(member, material, pack, check.angle),
         angle=check.angle,
     )
-    factors = (phi, fcp, kscp, kt, kb, kzcp) + ((coefficient,) if check.kind == NEAR else ())
     return inputs, factors, area_reason
 
 
-def _near_area(check: RequiredCheck, pack: ResistancePack, readings: dict[str, str]) -> tuple[float, str]:
+def _near_area(check: RequiredCheck, pack: O86Pack, readings: dict[str, str]) -> tuple[float, str]:
     reading = readings["near_support.area_limit"]
     l1, l2, b = near_support_geometry(check, readings["near_support.opposite_bearings"])
     ratio = pack.near_area_ratio
@@ -490,7 +274,7 @@ def _near_area(check: RequiredCheck, pack: ResistancePack, readings: dict[str, s
     return area, text
 
 
-def _near_kb(check: RequiredCheck, material: Material, pack: ResistancePack, readings: dict[str, str]) -> Factor:
+def _near_kb(check: RequiredCheck, material: Material, pack: O86Pack, readings: dict[str, str]) -> Factor:
     reading = readings["near_support.kb_reading"]
     support = check.contact
     top_length, top_end = top_bearing(check, readings["near_support.opposite_bearings"])
@@ -507,159 +291,12 @@ def _near_kb(check: RequiredCheck, material: Material, pack: ResistancePack, rea
 # ---------------------------------------------------------------- results
 
 
-def resistance(inputs: ResistanceInputs, kd: float) -> float:
-    """coefficient phi f (KD ...) A KB KZcp, the product every standard here states its bearing resistance as,
-    with Hankinson's formula for a load at an angle to the grain."""
-    kd_used = kd if inputs.uses_kd else 1.0
-    fcp_modified = inputs.fcp * kd_used * inputs.kscp * inputs.kt
-    qr = inputs.coefficient * inputs.phi * fcp_modified * inputs.area * inputs.kb * inputs.kzcp
-    if inputs.fc_parallel is None or inputs.angle is None:
-        return qr
-    pr = inputs.phi * inputs.fc_parallel * kd_used * inputs.area
-    s, c = math.sin(inputs.angle), math.cos(inputs.angle)
-    return pr * qr / (pr * s * s + qr * c * c)
-
-
-def _principal_present(combo: LoadCombination, forces: Forces, floor: float = 0.0) -> bool:
-    """A combination whose principal load is absent here only repeats another; skip it.
-
-    The principal is the case with the largest load factor other than dead load (dead load
-    itself for a dead-only combination).
-    """
-    return any(abs(forces.get(case, 0.0)) > floor for case in combo.principal_cases)
-
-
-def _wind_absent(combo: LoadCombination, forces: Forces, envelope: dict, floor: float = 0.0) -> bool:
-    """A combination with wind at a check no wind reaches only repeats the one without it: skip it."""
-    wind = [case for case, factor in combo.factors.items() if factor and base_case(case) == "W"]
-    return bool(wind) and all(abs(forces.get(case, 0.0)) <= floor and case not in envelope for case in wind)
-
-
-DurationRule = Callable[[Forces, LoadCombination], tuple[float, str]]
-
-
-def evaluate(
-    check: RequiredCheck,
-    inputs: ResistanceInputs,
-    combos: tuple[LoadCombination, ...],
-    pack: ResistancePack,
-    forces: Forces | None = None,
-    counteracting: float = 1.0,
-    patterned: bool = True,
-) -> tuple[tuple[CombinationResult, ...], CombinationResult, tuple[str, ...]]:
-    """Every combination's Qf, KD and Qr at the check; the governing one; the combinations with uplift.
-
-    ``forces`` replaces the check's own (diagnosis); ``patterned`` False ignores pattern loading.
-    """
-
-    def kd_rule(placed: Forces, combo: LoadCombination) -> tuple[float, str]:
-        if not inputs.uses_kd:
-            return 1.0, "KD = 1.00: the product's evaluation report does not apply KD"
-        return load_duration_factor(placed, combo, pack)
-
-    return evaluate_with(check, inputs, combos, kd_rule, pack.kd["standard"].value, forces, counteracting, patterned)
-
-
-def evaluate_with(
-    check: RequiredCheck,
-    inputs: ResistanceInputs,
-    combos: tuple[LoadCombination, ...],
-    duration: DurationRule,
-    unloaded_factor: float,
-    forces: Forces | None = None,
-    counteracting: float = 1.0,
-    patterned: bool = True,
-) -> tuple[tuple[CombinationResult, ...], CombinationResult, tuple[str, ...]]:
-    """``evaluate`` for any standard: ``duration`` gives the duration (or modification) factor of a combination."""
-    forces = check.forces if forces is None else forces
-    envelope = check.envelope if patterned else {}
-    results = []
-    reasons = []  # kept aside: only the governing combination's reason is stored (memory on large buildings)
-    uplift = []
-    floor = force_floor(sizes_at(forces, envelope))  # relative to the load here: alike for scaled loads
-    for combo in combos:
-        if not _principal_present(combo, forces, floor) or _wind_absent(combo, forces, envelope, floor):
-            continue
-        low = least_force(forces, envelope, combo, counteracting)
-        if low < -floor:
-            uplift.append(combo.name)
-        best: CombinationResult | None = None
-        best_reason = ""
-        for placing in placings(forces, envelope, combo) if envelope else [()]:
-            placed, pattern = placed_forces(forces, envelope, combo, placing)
-            qf = factored_force(placed, combo)
-            kd, kd_reason = duration(placed, combo)
-            qr = resistance(inputs, kd)
-            utilisation = max(qf, 0.0) / qr
-            row = CombinationResult(combo.name, combo.duration, qf, kd, "", qr, utilisation, pattern, low, placing)
-            if best is None or row.utilisation > best.utilisation + 1e-12:
-                best, best_reason = row, kd_reason
-        assert best is not None
-        results.append(best)
-        reasons.append(best_reason)
-    if not results:
-        qr = resistance(inputs, unloaded_factor)
-        results.append(CombinationResult("no load", "standard", 0.0, 1.0, "", qr, 0.0))
-        reasons.append("no load reaches this bearing")
-    index = max(range(len(results)), key=lambda i: results[i].utilisation)
-    results[index] = replace(results[index], kd_reason=reasons[index])
-    return tuple(results), results[index], tuple(uplift)
-
-
-InputsOf = Callable[[RequiredCheck], tuple[ResistanceInputs, tuple[Factor, ...], str]]
-
-
-def resist_each(
-    checklist: CheckList,
-    model: Model,
-    cpack: CombinationPack,
-    inputs_of: InputsOf,
-    duration_of: Callable[[RequiredCheck, ResistanceInputs], DurationRule],
-    unloaded_of: Callable[[RequiredCheck], float],
-) -> tuple[CheckResult, ...]:
-    """Every check's result under any standard: its inputs and reasons, each combination, the governing one.
-
-    Errors in the inputs of several checks (a missing fc, a wet factor) are reported together."""
-    combos = load_combinations(model, cpack)
-    out = []
-    errors = ErrorCollector()
-    for check in checklist.checks:
-        try:
-            inputs, factors, area_reason = inputs_of(check)
-        except InputError as exc:
-            errors.extend(exc)
-            continue
-        results, governing, uplift = evaluate_with(
-            check,
-            inputs,
-            combos,
-            duration_of(check, inputs),
-            unloaded_of(check),
-            counteracting=cpack.counteracting_dead.value,
-        )
-        out.append(
-            CheckResult(
-                check=check,
-                material=model.members[check.member].material,
-                inputs=inputs,
-                factors=factors,
-                area_reason=area_reason,
-                combinations=results,
-                governing=governing,
-                uplift=uplift,
-                passes=governing.utilisation <= PASS_LIMIT,
-            )
-        )
-    errors.raise_if_any()
-    return tuple(out)
-
-
-def resist(checklist: CheckList, model: Model, pack: ResistancePack, cpack: CombinationPack) -> tuple[CheckResult, ...]:
+def resist(checklist: CheckList, model: Model, pack: O86Pack, cpack: CombinationPack) -> tuple[CheckResult, ...]:
     readings = pack.in_force(model.project.readings)
 
     def duration_of(check: RequiredCheck, inputs: ResistanceInputs) -> DurationRule:
         def rule(placed: Forces, combo: LoadCombination) -> tuple[float, str]:
-            if not inputs.uses_kd:
+            if not inputs.uses_duration:
                 return 1.0, "KD = 1.00: the product's evaluation report does not apply KD"
             return load_duration_factor(placed, combo, pack)
 
@@ -675,6 +312,106 @@ def resist(checklist: CheckList, model: Model, pack: ResistancePack, cpack: Comb
     )
 
 
+# ---------------------------------------------------------------- slips
+
+
+def o86_slips(result: CheckResult, model: Model, pack: O86Pack, kd: float) -> list[ResistanceSlip]:
+    """The slips reviewers find in an O86 resistance, each as the inputs it changes; ``kd``: the duration factor of
+    the loads the calc used (the recomputed one where the calc's loads are the engine's)."""
+    g = result.governing
+    check, inputs = result.check, result.inputs
+    readings = pack.in_force(model.project.readings)
+    member = model.members[check.member]
+    other = model.members.get(check.other_member, member)  # a point load's own check: no member above
+    material = model.materials[member.material]
+    out: list[ResistanceSlip] = []
+
+    def variant(name: str, text: str, symbol: str = "", value: float = 0.0, **changes: Any) -> None:
+        factors: tuple[Factor, ...] = ()
+        if symbol:
+            found = inputs.factor(symbol)
+            assert found is not None  # O86 states every factor it varies
+            factors = (replace(found, value=value),)
+        out.append(ResistanceSlip(name, text, factors, **changes))
+
+    if inputs.value("KB") == 1.0 and ("KB" in material.applies):
+        length = (
+            check.contact.length
+            if check.kind == LOCAL
+            else min(check.contact.length, top_bearing(check, readings["near_support.opposite_bearings"])[0])
+        )
+        kb_table = pack.kb_table.value.at(length)
+        if kb_table > 1.0:
+            variant(
+                "kb-where-not-allowed",
+                f"KB = {kb_table:.2f} taken at an end bearing or over {pack.kb_max_length.value * 1000:g} mm",
+                "KB",
+                kb_table,
+            )
+    kz_max = pack.kzcp_table.value.points[0][1]
+    kzcp = inputs.value("KZcp")
+    if kzcp < kz_max:
+        variant(
+            "kzcp-flat-plate", f"KZcp = {kz_max:.2f} taken for a plate or plank laid flat (or glulam)", "KZcp", kz_max
+        )
+    if kzcp > 1.0 + 1e-9:
+        variant("kzcp-left-out", f"KZcp = 1.00 taken where the member's proportions give {kzcp:.2f}", "KZcp", 1.0)
+    wider = max(member.b, other.b)
+    width = check.contact.width if check.kind == LOCAL else near_support_width(check)
+    if wider > width + 1e-9:
+        variant(
+            "wider-width-area",
+            f"bearing area from the wider member's width ({wider * 1000:.0f} mm) "
+            f"instead of the contact width ({width * 1000:.0f} mm)",
+            implies={"width": wider},
+            area=inputs.area * wider / width,
+        )
+    if inputs.value("KScp") < 1.0:
+        variant("wet-factor-left-out", "the wet service factor KScp was left out", "KScp", 1.0)
+    short = pack.kd["short"].value
+    if g.duration != "short" and inputs.uses_duration:
+        variant(
+            "short-term-kd", f"KD = {short:.2f} (short term) used for a snow or occupancy combination", duration=short
+        )
+    if check.kind == NEAR:
+        variant("two-thirds-left-out", "the 2/3 factor was left out of Qr'", "2/3", 1.0)
+    standard_kd = pack.kd["standard"].value
+    if g.duration == "standard" and inputs.uses_duration and kd < standard_kd - 1e-9:
+        variant(
+            "long-term-kd-ignored",
+            f"KD = {standard_kd:.2f} taken although the dead load exceeds the standard-term load here "
+            f"(the long-term formula gives {kd:.2f})",
+            duration=standard_kd,
+        )
+    if inputs.angle is not None and inputs.fc_parallel is not None:
+        slope = math.pi / 2 - inputs.angle
+        if slope > 1e-6:
+            variant(
+                "hankinson-roof-slope",
+                f"Hankinson's angle taken as the roof slope ({math.degrees(slope):.1f} deg) instead of the angle "
+                f"between load and grain ({math.degrees(inputs.angle):.1f} deg)",
+                angle=slope,
+            )
+    out += _species_slips(inputs, material, pack)
+    return out
+
+
+def _species_slips(inputs: ResistanceInputs, material: Material, pack: O86Pack) -> list[ResistanceSlip]:
+    """The fcp of another species of the member's family used instead of its own."""
+    own = inputs.factor("fcp")
+    assert own is not None  # O86 states fcp at every check
+    return [
+        ResistanceSlip(
+            "wrong-species-fcp",
+            f"fcp of {species} ({strength.fcp.value / 1e6:.2f} MPa) used instead of {material.species} "
+            f"({inputs.strength / 1e6:.2f} MPa)",
+            (replace(own, value=strength.fcp.value),),
+        )
+        for species, strength in sorted(pack.fcp.get(material.family, {}).items())
+        if species != material.species and abs(strength.fcp.value - inputs.strength) > 1.0
+    ]
+
+
 # ---------------------------------------------------------------- the standard, as the review sees it
 
 
@@ -687,16 +424,21 @@ class _O86:
     check_kinds: dict[str, str] = field(
         default_factory=lambda: {LOCAL: "local bearing", NEAR: "near-support bearing (loads within d of a support)"}
     )
-    slip_recipes: tuple[str, ...] = ("o86-factors",)
     length_factor: str = "KB"
+    symbols: dict[str, Symbol] = field(default_factory=lambda: SYMBOLS)  # its factors: role, how claims state them
+    column_symbols: tuple[str, str] = (
+        "KD",
+        "Fcp",
+    )  # the JSON columns of the duration factor and the strength it modifies
     combination_formats: tuple[str, ...] = ("limit-states",)
     claim_headers: dict[str, str] = field(default_factory=dict)  # the default headers are O86's (Qf, Qr, KB)
 
-    def read_pack(self, root: Node, path: str) -> ResistancePack:
-        return read_resistance_pack(root, path)
+    def read_pack(self, root: Node, path: str) -> O86Pack:
+        return read_o86_pack(root, path)
 
     def list_checks(self, model: Model, flow: TakeDown, pack: PackCore, readings: dict[str, str]) -> CheckList:
-        return list_checks(model, flow, o86_pack(pack), readings)
+        p = o86_pack(pack)
+        return list_checks(model, flow, p, readings, p.near_reach.value)
 
     def resist(
         self, checklist: CheckList, model: Model, pack: PackCore, cpack: CombinationPack
@@ -723,8 +465,11 @@ class _O86:
             "the highest Qf/Qr.",
         }
 
-    def resistance_variants(self, result: Any, model: Model, pack: PackCore) -> list[tuple[str, str, dict[str, float]]]:
-        return []  # O86's slips are the reconciler's own factor family ("o86-factors")
+    def claim_values(self, inputs: ResistanceInputs, duration: float) -> dict[str, float]:
+        return factor_values(inputs, duration, SYMBOLS)
+
+    def resistance_variants(self, result: CheckResult, model: Model, pack: PackCore, kd: float) -> list[ResistanceSlip]:
+        return o86_slips(result, model, o86_pack(pack), kd)
 
     def duration_reason(
         self, check: RequiredCheck, forces: Forces, combination: Any, model: Model, pack: PackCore
@@ -732,18 +477,8 @@ class _O86:
         return load_duration_factor(forces, combination, o86_pack(pack))[1]
 
 
-def o86_pack(pack: PackCore) -> ResistancePack:
-    return pack_as(pack, ResistancePack)
-
-
-PackType = TypeVar("PackType", bound=PackCore)
-
-
-def pack_as(pack: PackCore, kind: type[PackType]) -> PackType:
-    """The pack as its standard's own type (a standard only ever receives its own packs)."""
-    if not isinstance(pack, kind):
-        raise TypeError(f"rule pack {pack.id} is a {pack.standard} pack, not a {kind.__name__}")
-    return pack
+def o86_pack(pack: PackCore) -> O86Pack:
+    return pack_as(pack, O86Pack)
 
 
 O86 = _O86()

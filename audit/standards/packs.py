@@ -7,56 +7,23 @@ where it came from.
 
 from __future__ import annotations
 
-import itertools
 import math
 from collections.abc import Mapping
 from dataclasses import dataclass
-from functools import cached_property
-from importlib import resources
-from pathlib import Path
 from typing import Any
 
-from audit.core.errors import ErrorCollector, InputError, Location
-from audit.core.located_yaml import Node, node_text, read_yaml_file
+from audit.core.errors import ErrorCollector, InputError
+from audit.core.located_yaml import Node, node_text
+from audit.core.suggest import did_you_mean
 from audit.core.units import parse_quantity
 from audit.engine.model import STORAGE_LIVE, base_case
 from audit.standards import plausible
 
 DURATIONS = ("permanent", "standard", "short")
-# The two-way readings every resistance pack states, as (section, key); a project selects one
-# by its dotted name "section.key".
-CHOICES = (
-    ("near_support", "area_limit"),
-    ("near_support", "kb_reading"),
-    ("near_support", "opposite_bearings"),
-    ("near_support", "distributed_loads"),
-    ("kzcp", "built_up"),
-)
-# The readings O86's resistance code implements at each choice: a pack naming another is refused
-# (a new reading is new code in the standard's module, never a label the old formula runs under).
-O86_READINGS = {
-    "near_support.area_limit": ("length_cap", "area_cap"),
-    "near_support.kb_reading": ("both_qualify", "shorter_bearing"),
-    "near_support.opposite_bearings": ("longest_single", "summed"),
-    "near_support.distributed_loads": ("within_d", "bearings_only"),
-    "kzcp.built_up": ("per_ply", "combined"),
-}
+# The check kinds whose clauses an O86 pack states; a standard with other kinds declares its own (NDS and EC5
+# have no near-support check, so their packs state the local clause alone).
+CLAUSE_KINDS = ("local", "near-support")
 PACK_HEAD_KEYS = ("kind", "id", "title", "edition", "provenance", "standard", "review")
-O86_KEYS = (
-    *PACK_HEAD_KEYS,
-    "phi",
-    "timber_families",
-    "clauses",
-    "fcp",
-    "fc",
-    "kb",
-    "kzcp",
-    "kd",
-    "kscp",
-    "ksc",
-    "uplift",
-    "near_support",
-)
 SERVICES = ("dry", "wet")
 TIMBER_FAMILIES_ALL = ("sawn_lumber", "timber", "glulam", "engineered")
 ALL_FAMILIES = (*TIMBER_FAMILIES_ALL, "steel", "concrete", "masonry")
@@ -70,27 +37,6 @@ class Sourced:
     clause: str
     source: str
     status: str
-
-
-@dataclass(frozen=True)
-class Table:
-    """Piecewise-linear table, held constant beyond its ends."""
-
-    points: tuple[tuple[float, float], ...]
-
-    def __post_init__(self) -> None:
-        xs = [p[0] for p in self.points]
-        if len(xs) < 2 or any(b <= a for a, b in itertools.pairwise(xs)):
-            raise ValueError("table x values must rise strictly, with at least two points")
-
-    def at(self, x: float) -> float:
-        pts = self.points
-        if x <= pts[0][0]:
-            return pts[0][1]
-        for (x0, y0), (x1, y1) in itertools.pairwise(pts):
-            if x <= x1:
-                return y0 + (y1 - y0) * (x - x0) / (x1 - x0)
-        return pts[-1][1]
 
 
 @dataclass(frozen=True)
@@ -143,7 +89,7 @@ class PackCore:
 
     def clause_for(self, family: str, kind: str) -> str:
         """The clause a finding on this family cites: local bearing, or loads near a support."""
-        return self.clauses[family].value["near_support" if kind == "near-support" else "local"]
+        return self.clauses[family].value[clause_key(kind)]
 
     def in_force(self, chosen: dict[str, str]) -> dict[str, str]:
         """The reading in force at every choice: the project's where it chose, else the pack's default."""
@@ -166,54 +112,6 @@ class PackCore:
     def all_sourced(self) -> list[tuple[str, Sourced]]:
         """Every value with a dotted name, for listing."""
         return self.core_sourced() + [(name, c.default) for name, c in self.choices.items()]
-
-
-@dataclass(frozen=True)
-class ResistancePack(PackCore):
-    """A CSA O86 pack: the core, and the factors and readings of O86's bearing clauses."""
-
-    phi: Sourced
-    kb_max_length: Sourced  # m
-    kb_min_end_distance: Sourced  # m
-    kb_table: Sourced  # Table over bearing length in m
-    kzcp_families: Sourced
-    kzcp_table: Sourced  # Table over b/d
-    kd: dict[str, Sourced]
-    kd_long_term: Sourced  # dict intercept/slope/floor
-    kd_long_term_live: Sourced  # live-load kinds counted as long-term in the KD formula, e.g. [storage]
-    kscp: dict[str, Sourced]  # family -> {dry, wet}
-    ksc: dict[str, Sourced]
-    near_factor: Sourced
-    near_reach: Sourced
-    near_area_ratio: float
-
-    @cached_property
-    def long_term_live(self) -> tuple[str, ...]:
-        """The load cases of live load the KD formula counts as long-term, e.g. ('L:storage',)."""
-        return tuple(f"L:{kind}" for kind in self.kd_long_term_live.value)
-
-    def all_sourced(self) -> list[tuple[str, Sourced]]:
-        """Every value with a dotted name, for listing."""
-        out: list[tuple[str, Sourced]] = [("phi", self.phi), *self.core_sourced()]
-        out += [
-            ("kb.max_length", self.kb_max_length),
-            ("kb.min_end_distance", self.kb_min_end_distance),
-            ("kb.table", self.kb_table),
-            ("kzcp.families", self.kzcp_families),
-            ("kzcp.table", self.kzcp_table),
-        ]
-        out += [(f"kd.{k}", v) for k, v in self.kd.items()]
-        out.append(("kd.long_term_formula", self.kd_long_term))
-        out.append(("kd.long_term_live", self.kd_long_term_live))
-        out.append(("uplift.note_below", self.uplift_note_below))
-        out += [(f"kscp.{k}", v) for k, v in self.kscp.items()]
-        out += [(f"ksc.{k}", v) for k, v in self.ksc.items()]
-        out += [
-            ("near_support.factor", self.near_factor),
-            ("near_support.reach", self.near_reach),
-        ]
-        out += [(name, c.default) for name, c in self.choices.items()]
-        return out
 
 
 @dataclass(frozen=True)
@@ -335,34 +233,6 @@ def force_or_zero(node: Node, _parent: Node) -> float:
     return value
 
 
-def _number_conv(node: Node, _parent: Node) -> float:
-    return _number(node)
-
-
-def _table(node: Node, parent: Node) -> Table:
-    if not isinstance(node.value, list):
-        raise InputError("expected a list of [x, y] points", node.loc)
-    scale = 1.0
-    unit_node = parent.value.get("unit")
-    if unit_node is not None:
-        scale = parse_quantity(f"1 {unit_node.value}", "length", unit_node.loc)
-    points = []
-    for item in node.value:
-        if not isinstance(item.value, list) or len(item.value) != 2:
-            raise InputError("expected a point [x, y]", item.loc)
-        points.append((_number(item.value[0]) * scale, _number(item.value[1])))
-    try:
-        return Table(tuple(points))
-    except ValueError as exc:
-        raise InputError(str(exc), node.loc) from None
-
-
-def _service_pair(node: Node, _parent: Node) -> dict[str, float]:
-    if not isinstance(node.value, dict) or set(node.value) != set(SERVICES):
-        raise InputError("expected {dry: number, wet: number}", node.loc)
-    return {k: _number(node.value[k], 0.0, 2.0) for k in SERVICES}
-
-
 def _family_list(node: Node, _parent: Node) -> tuple[str, ...]:
     if not isinstance(node.value, list):
         raise InputError("expected a list of material families", node.loc)
@@ -382,18 +252,6 @@ def _reading(node: Node, parent: Node) -> str:
     return str(node.value)
 
 
-def _live_kinds(node: Node, _parent: Node) -> tuple[str, ...]:
-    if not isinstance(node.value, list) or any(item.value not in ("storage",) for item in node.value):
-        raise InputError("expected a list of live-load kinds: [storage] or []", node.loc)
-    return tuple(str(item.value) for item in node.value)
-
-
-def _long_term(node: Node, _parent: Node) -> dict[str, float]:
-    if not isinstance(node.value, dict) or set(node.value) != {"intercept", "slope", "floor"}:
-        raise InputError("expected {intercept, slope, floor}", node.loc)
-    return {k: _number(v) for k, v in node.value.items()}
-
-
 def _plausible_strength(value: Any, name: str, family: str, node: Node, errors: ErrorCollector) -> bool:
     """A strength (or one per grade) within the plausible range of its family; errors where it is not."""
     bounds = (plausible.ranges().fcp if name == "fcp" else plausible.ranges().fc).get(family)
@@ -406,8 +264,11 @@ def _plausible_strength(value: Any, name: str, family: str, node: Node, errors: 
     return plausible.check(value, bounds, f"{name} of {family}", raw.loc, errors)
 
 
-def read_core_fields(root: Node, r: PackReader, errors: ErrorCollector) -> dict[str, Any]:
-    """The fields every standard's pack states: strengths, compression parallel, families, clauses, uplift note."""
+def read_core_fields(
+    root: Node, r: PackReader, errors: ErrorCollector, kinds: tuple[str, ...] = CLAUSE_KINDS
+) -> dict[str, Any]:
+    """The fields every standard's pack states: strengths, compression parallel, families, the clause of each check
+    kind the standard declares (``kinds``), uplift note."""
     get = root.value.get
 
     def sub(parent: Node | None, key: str) -> Node | None:
@@ -446,7 +307,7 @@ def read_core_fields(root: Node, r: PackReader, errors: ErrorCollector) -> dict[
         "clauses": {
             fam: c
             for fam, n in (clauses_node.value.items() if clauses_node else [])
-            if (c := r.sourced(n, clause_pair))
+            if (c := r.sourced(n, clauses_of(kinds)))
         },
         "uplift_note_below": r.sourced(sub(sub(root, "uplift"), "note_below"), force_or_zero),
         "own_comment_from": _own_comment_from(root, r),
@@ -484,8 +345,6 @@ def refuse_unknown_fields(root: Node, allowed: tuple[str, ...], standard: str, e
     """A pack field the standard does not implement is refused, never ignored."""
     for key in root.value:
         if key not in allowed:
-            from audit.inputs.fields import did_you_mean
-
             errors.add(
                 f"field '{key}' is not one that standard {standard} implements{did_you_mean(key, allowed)}",
                 root.key_loc(key),
@@ -510,82 +369,6 @@ def check_readings(
             )
 
 
-def read_resistance_pack(root: Node, path: str) -> ResistancePack:
-    """A CSA O86 pack."""
-    errors = ErrorCollector()
-    r = PackReader(errors)
-    refuse_unknown_fields(root, O86_KEYS, "o86", errors)
-    get = root.value.get
-
-    def sub(parent: Node | None, key: str) -> Node | None:
-        return r.mapping(parent, key) if parent is not None else None
-
-    core = read_core_fields(root, r, errors)
-    kb = sub(root, "kb")
-    kz = sub(root, "kzcp")
-    kd = sub(root, "kd")
-    ns = sub(root, "near_support")
-    kscp = sub(root, "kscp")
-    ksc = get("ksc")
-    area = sub(ns, "area_limit")
-    pack_kwargs: dict[str, Any] = dict(
-        phi=r.sourced(get("phi"), lambda n, p: _number(n, 0.0, 1.0)),
-        clauses=core["clauses"],
-        timber_families=core["timber_families"],
-        kb_max_length=r.sourced(sub(kb, "max_length"), _length),
-        kb_min_end_distance=r.sourced(sub(kb, "min_end_distance"), _length),
-        kb_table=r.sourced(sub(kb, "table"), _table),
-        kzcp_families=r.sourced(sub(kz, "families"), _family_list),
-        kzcp_table=r.sourced(sub(kz, "table"), _table),
-        kd={d: s for d in DURATIONS if (s := r.sourced(sub(kd, d), _number_conv))},
-        kd_long_term=r.sourced(sub(kd, "long_term_formula"), _long_term),
-        kd_long_term_live=r.sourced(sub(kd, "long_term_live"), _live_kinds),
-        kscp={f: s for f, n in (kscp.value.items() if kscp else []) if (s := r.sourced(n, _service_pair))},
-        ksc={f: s for f, n in (ksc.value.items() if ksc else []) if (s := r.sourced(n, _service_pair))},
-        near_factor=r.sourced(sub(ns, "factor"), lambda n, p: _number(n, 0.0, 1.0)),
-        near_reach=r.sourced(sub(ns, "reach"), _number_conv),
-        uplift_note_below=core["uplift_note_below"],
-    )
-    pack_kwargs["own_comment_from"] = core["own_comment_from"]
-    choices = {}
-    for section, key in CHOICES:
-        parent = root.value.get(section)
-        node = parent.value.get(key) if parent is not None and isinstance(parent.value, dict) else None
-        if node is None:
-            errors.add(f"missing '{key}': a reading of the standard every pack states", root.child_loc(section))
-            continue
-        choice = read_choice(r, node, f"{section}.{key}")
-        if choice is not None:
-            check_readings(choice, node, O86_READINGS, "o86", errors)
-            choices[choice.name] = choice
-    ratio = 1.5
-    if area is not None and "ratio" in area.value:
-        try:
-            ratio = _number(area.value["ratio"])
-        except InputError as exc:
-            errors.extend(exc)
-    errors.raise_if_any()
-    missing = [k for k, v in pack_kwargs.items() if v is None]
-    if missing:
-        raise InputError(f"rule pack lacks {', '.join(missing)}", root.loc)
-    uncited = [f for f in pack_kwargs["timber_families"].value if f not in pack_kwargs["clauses"]]
-    if uncited:
-        raise InputError(f"rule pack gives no clauses for {', '.join(uncited)}", root.child_loc("clauses"))
-    return ResistancePack(
-        id=r.text(root, "id"),
-        title=r.text(root, "title", ""),
-        edition=r.text(root, "edition", ""),
-        provenance=r.text(root, "provenance", ""),
-        path=path,
-        standard="o86",
-        fcp=core["fcp"],
-        fc=core["fc"],
-        near_area_ratio=ratio,
-        choices=choices,
-        **pack_kwargs,
-    )
-
-
 def _tension_face(node: Node, compression: Sourced | None, errors: ErrorCollector) -> Sourced | None:
     """A glulam species' fcp on its tension face, under the same provenance as its fcp."""
     item = node.value.get("tension_face") if isinstance(node.value, dict) else None
@@ -599,10 +382,21 @@ def _tension_face(node: Node, compression: Sourced | None, errors: ErrorCollecto
     return Sourced(value, compression.clause, compression.source + " (tension-face bearing)", compression.status)
 
 
-def clause_pair(node: Node, _parent: Node) -> dict[str, str]:
-    if not isinstance(node.value, dict) or set(node.value) != {"local", "near_support"}:
-        raise InputError("expected {local: clause, near_support: clause}", node.loc)
-    return {k: node_text(v) for k, v in node.value.items()}
+def clause_key(kind: str) -> str:
+    """A check kind as a pack's clauses name it: near-support -> near_support."""
+    return kind.replace("-", "_")
+
+
+def clauses_of(kinds: tuple[str, ...]):
+    """The reader of one family's clauses: one per check kind the standard declares, no more and no fewer."""
+    keys = tuple(clause_key(k) for k in kinds)
+
+    def read(node: Node, _parent: Node) -> dict[str, str]:
+        if not isinstance(node.value, dict) or set(node.value) != set(keys):
+            raise InputError("expected {" + ", ".join(f"{k}: clause" for k in keys) + "}", node.loc)
+        return {k: node_text(v) for k, v in node.value.items()}
+
+    return read
 
 
 def read_choice(r: PackReader, node: Node, name: str) -> Choice | None:
@@ -699,106 +493,3 @@ def _number_or_zero(node: Node) -> float:
     if node.value == 0:
         return 0.0
     return _number(node, 0.0, 1.0)
-
-
-# ---------------------------------------------------------------- finding packs
-
-
-def builtin_rules_dir() -> Path:
-    """The bundled packs: installed as ``audit.rules``; a source checkout has them in rules/."""
-    try:
-        return Path(str(resources.files("audit.rules")))
-    except ModuleNotFoundError:
-        return Path(__file__).resolve().parents[2] / "rules"
-
-
-def pack_files(extra_dirs: tuple[Path, ...] = ()) -> list[Path]:
-    """Pack files: the reviewer's own folders first, then the bundled packs."""
-    out: list[Path] = []
-    for folder in (*extra_dirs, builtin_rules_dir()):
-        if not folder.is_dir():
-            raise InputError("rules folder does not exist", Location(str(folder)))
-        out += sorted(folder.glob("*.yaml"))
-    return out
-
-
-def load_all_packs(
-    extra_dirs: tuple[Path, ...] = (),
-) -> tuple[dict[str, PackCore], dict[str, CombinationPack]]:
-    from audit.standards.registry import standard_named
-
-    resistance: dict[str, PackCore] = {}
-    combos: dict[str, CombinationPack] = {}
-    ids: dict[tuple[str, str], tuple[Path, Location]] = {}  # (kind, id) -> the file that gave it, and where
-    for path in pack_files(extra_dirs):
-        root = read_yaml_file(path)
-        if not isinstance(root.value, dict):
-            raise InputError("a rule pack must be a mapping", root.loc)
-        kind = root.value.get("kind")
-        kind_value = kind.value if kind else None
-        if kind_value == "resistance":
-            named = root.value.get("standard")
-            standard = standard_named(
-                str(named.value) if named is not None else "o86", named.loc if named else root.loc
-            )
-            pack = standard.read_pack(root, str(path))
-            _refuse_same_id(("resistance", pack.id), path, root, ids)
-            resistance[pack.id] = pack
-        elif kind_value == plausible.KIND and path.parent == builtin_rules_dir():
-            continue  # the plausible ranges (standards/plausible.py): bounds, not a pack to select
-        elif kind_value == "combinations":
-            cpack = read_combination_pack(root, str(path))
-            _refuse_same_id(("combinations", cpack.id), path, root, ids)
-            combos[cpack.id] = cpack
-        else:
-            raise InputError("kind must be 'resistance' or 'combinations'", root.child_loc("kind"))
-    return resistance, combos
-
-
-def _refuse_same_id(
-    key: tuple[str, str], path: Path, root: Node, ids: dict[tuple[str, str], tuple[Path, Location]]
-) -> None:
-    """Two packs of one id: whichever came first would win without a word, so neither is used. The
-    reviewer's own pack is blamed (the bundled one is not theirs to change)."""
-    node = root.value.get("id") if isinstance(root.value, dict) else None
-    where = node.loc if node is not None else root.child_loc("id")
-    if key not in ids:
-        ids[key] = (path, where)
-        return
-    earlier, earlier_where = ids[key]
-    bundled = path.parent == builtin_rules_dir()
-    other, blamed = (path, earlier_where) if bundled else (earlier, where)
-    whose = "a bundled pack" if bundled else "the pack"
-    raise InputError(
-        f"rule pack id '{key[1]}' is also the id of {whose} {other}; give each pack its own id (a pack of "
-        "your own is selected by its id: copy the bundled one and give the copy a new id)",
-        blamed,
-    )
-
-
-def select_packs(
-    resistance_id: str,
-    combinations_id: str,
-    extra_dirs: tuple[Path, ...] = (),
-    where: Location | None = None,
-) -> tuple[PackCore, CombinationPack]:
-    resistance, combos = load_all_packs(extra_dirs)
-    if resistance_id not in resistance:
-        raise InputError(f"unknown rule pack '{resistance_id}' (available: {', '.join(sorted(resistance))})", where)
-    if combinations_id not in combos:
-        raise InputError(
-            f"unknown combination pack '{combinations_id}' (available: {', '.join(sorted(combos))})",
-            where,
-        )
-    from audit.standards.registry import standard_named
-
-    pack, cpack = resistance[resistance_id], combos[combinations_id]
-    formats = standard_named(pack.standard).combination_formats
-    if cpack.format not in formats:
-        fitting = sorted(c.id for c in combos.values() if c.format in formats)
-        raise InputError(
-            f"combination pack '{cpack.id}' is {cpack.format}; rule pack {pack.id} ({pack.standard}) reads "
-            f"{' or '.join(formats)} combinations (e.g. {', '.join(fitting) or 'none installed'})",
-            where,
-        )
-    return pack, cpack

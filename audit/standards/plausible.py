@@ -17,6 +17,7 @@ from typing import Any
 from audit.core.errors import ErrorCollector, InputError, Location
 from audit.core.located_yaml import Node, read_yaml_file
 from audit.core.units import parse_quantity
+from audit.standards.bundled import builtin_rules_dir
 
 FILE = "plausible-ranges.yaml"
 KIND = "plausible"
@@ -70,7 +71,6 @@ def _range(node: Node, dimension: str | None, unit: str) -> Range:
 
 @lru_cache(maxsize=1)
 def ranges() -> Ranges:
-    from audit.standards.packs import builtin_rules_dir
 
     root = read_yaml_file(builtin_rules_dir() / FILE)
     get = root.value.get

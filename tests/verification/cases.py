@@ -15,8 +15,8 @@ from audit.core.errors import Location
 from audit.core.units import parse_quantity
 from audit.engine.beam_statics import reactions
 from audit.engine.model import Material
+from audit.standards.catalogue import load_all_packs
 from audit.standards.o86 import kb_factor
-from audit.standards.packs import load_all_packs
 
 INCH_MM = 25.4
 

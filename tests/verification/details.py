@@ -636,7 +636,7 @@ def stud_plate_cases() -> list[Case]:
 
 def slip_cases() -> list[Case]:
     """The numbers two slips of a continuous beam give, as a calc that made them would print them."""
-    from audit.review.reconcile import qf_slips
+    from audit.review.slips import qf_slips
 
     review = review_dict(beam_on_posts([4.0, 4.0, 4.0]))
     slips = {s.name: s.value for s in qf_slips(review.result("B/C2:B"), review)}

@@ -11,7 +11,7 @@ HAND = "hand derivation in tests/verification/diagnosis.py"
 
 
 def diagnosis_cases() -> list[Case]:
-    from audit.review.reconcile import qf_slips, qr_slips_with_load
+    from audit.review.slips import qf_slips, qr_slips_with_load
     from tests.conftest import base_model, review_dict
     from tests.verification.details import beam_on_posts
 
