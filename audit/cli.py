@@ -366,7 +366,7 @@ def expand(
     """Write the model with its layout expanded: every member, bearing and load, each with where it came from."""
     from audit.core.errors import visible
     from audit.core.outfiles import Output, output_limit, write_outputs
-    from audit.inputs.expand_layout import explicit_model_with_warnings
+    from audit.inputs.explicit_model import explicit_model_with_warnings
 
     try:
         input_bytes = _check_files({"MODEL": model}, {"--out": out}, _dirs(rules_dir))

@@ -15,8 +15,9 @@ from dataclasses import dataclass
 
 from audit.core.errors import ErrorCollector, InputError
 from audit.core.located_yaml import Node
+from audit.core.suggest import did_you_mean
 from audit.core.units import parse_quantity
-from audit.inputs.fields import FieldReader, describe_value, did_you_mean, list_items
+from audit.inputs.fields import FieldReader, describe_value, list_items
 from audit.inputs.layout import ROUND, Layout, Placed, Placer, metres, synth
 from audit.inputs.layout_contacts import SQUARE
 

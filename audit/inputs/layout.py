@@ -21,9 +21,10 @@ from dataclasses import dataclass, field
 
 from audit.core.errors import ErrorCollector, InputError, Location
 from audit.core.located_yaml import Node, node_text
+from audit.core.suggest import did_you_mean
 from audit.core.units import parse_quantity
 from audit.engine.plan_geometry import Axis, Point, Polygon, box, strip
-from audit.inputs.fields import FieldReader, describe_value, did_you_mean, list_items
+from audit.inputs.fields import FieldReader, describe_value, list_items
 
 LAYOUT_KEYS = {"levels", "grids", "members", "runs", "posts", "walls", "areas"}
 # Fields a placed member passes to the member reader as written, so their errors point at the layout line.

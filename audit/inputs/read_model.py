@@ -16,6 +16,7 @@ from pathlib import Path
 
 from audit.core.errors import ErrorCollector, InputError, Location
 from audit.core.located_yaml import Node, node_text, read_yaml_file
+from audit.core.suggest import did_you_mean
 from audit.core.units import parse_quantity
 from audit.engine.model import (
     FACTORED_PREFIX,
@@ -36,7 +37,7 @@ from audit.engine.model import (
     normalise_label,
 )
 from audit.inputs.expand_layout import Sections, model_sections
-from audit.inputs.fields import FieldReader, describe_value, did_you_mean, list_items
+from audit.inputs.fields import FieldReader, describe_value, list_items
 from audit.inputs.stud_walls import StudWall, place_studs, read_stud_wall
 from audit.standards.packs import (
     ALL_FAMILIES,

@@ -575,7 +575,7 @@ def _answers(rows: list[list[str]], form: int, name: str) -> Answers:
 
 def disposition_of(number: int, word: str, reply: str, stage: str, where: Location) -> Disposition:
     """One disposition, refused (with its place) when its word is unknown or what it needs is missing."""
-    from audit.inputs.fields import did_you_mean
+    from audit.core.suggest import did_you_mean
 
     said = " ".join(word.lower().replace("_", " ").replace("-", " ").split())
     if said not in DISPOSITIONS:
