@@ -127,25 +127,9 @@ def review(
     """Recompute every required bearing check; with --claims, reconcile the calc's claims."""
     import datetime as dt
 
-    from audit.core.outfiles import Output, output_limit, write_outputs
-    from audit.inputs.read_claims import merge_claim_sources, read_claims
-    from audit.report.comment_log import comments_csv, comments_xlsx
     from audit.report.export import summary_line
-    from audit.report.memo import MemoOptions, appendix_chunks, findings_json_chunks, memo_chunks
-    from audit.review.comments import build_comments
-    from audit.review.reconcile import failing_without_claims, reconcile
-    from audit.review.review import review_model
-    from audit.review.round_files import responses_left_out
-    from audit.review.rounds import (
-        ASKING,
-        check_dispositions,
-        first_round,
-        input_hashes,
-        next_round,
-        read_dispositions,
-        read_last_round,
-        read_log,
-    )
+    from audit.report.outputs import RunOutputs, write_run
+    from audit.review.run import RunRequest, run_review
 
     for option, given in (("--responses", responses), ("--dispositions", dispositions)):
         if given and not previous:
@@ -156,112 +140,47 @@ def review(
     except ValueError:
         typer.echo(f"error: --date: expected YYYY-MM-DD, got {date!r}", err=True)
         raise typer.Exit(2) from None
-    try:
-        input_bytes = _check_files(
-            {
-                "MODEL": model,
-                "--claims": claims,
-                "--calc-pdf": calc_pdf,
-                "--map": column_map,
-                "--previous": previous,
-                "--responses": responses,
-                "--dispositions": dispositions,
-            },
-            {"--memo": memo, "--appendix": appendix, "--json": json_out, "--csv": csv_out, "--xlsx": xlsx_out},
-            _dirs(rules_dir),
-        )
-        result = review_model(model, _dirs(rules_dir), rule_pack)
-        claim_list = read_claims(claims) if claims else ()
-        if calc_pdf:
-            extracted = _extract(calc_pdf, pages, column_map, result.standard.claim_headers)
-            claim_list = merge_claim_sources(claim_list, extracted.claims, calc_pdf.name)
-    except InputError as exc:
-        _fail(exc)
-    from audit.core.errors import visible
-
-    for warning in result.model.warnings:
-        typer.echo(f"warning: {visible(warning)}", err=True)
-    input_bytes = max(input_bytes, expanded_bytes(result.model))
-    rec = reconcile(result, claim_list) if (claims or calc_pdf) else None
-    findings = rec.findings if rec else result.engine_findings + failing_without_claims(result)
-    comments = build_comments(result, rec, claim_list)
-    inputs = input_hashes({"model": model, "claims": claims, "calc_pdf": calc_pdf, "map": column_map})
-    title = result.model.project.title
-    try:
-        if previous:
-            last = read_last_round(previous, title)
-            answers = read_log(responses) if responses else None
-            disposed = dict(answers.dispositions) if answers else {}
-            if dispositions:
-                for number, d in read_dispositions(dispositions).items():
-                    if number in disposed and disposed[number] != d:
-                        raise InputError(f"comment {number} has another disposition at {disposed[number].loc}", d.loc)
-                    disposed[number] = d
-            check_dispositions(disposed, last)
-            if answers:
-                asked = {e.number for e in last.comments if e.status in ASKING}
-                known = {e.number for e in last.comments}
-                for warning in responses_left_out(answers.responses, asked, known, str(responses)):
-                    typer.echo(f"warning: {warning}", err=True)
-            comments, round_ = next_round(
-                comments, last, result.model, inputs, answers.responses if answers else {}, disposed
-            )
-        else:
-            round_ = first_round(comments, title, inputs)
-    except InputError as exc:
-        _fail(exc)
-    typer.echo(_terminal_checks(result, all_rows))
-    for comment in comments:
-        if not comment.quiet:
-            typer.echo(f"{comment.number:>3}. [{comment.weight}] {comment.kind}: {comment.title}")
-    typer.echo(summary_line(result))
-    if rec is not None:
-        counts = rec.counts()
-        typer.echo("findings: " + ", ".join(f"{n} {k}" for k, n in counts.items()))
-    outputs = []
-    memo_options = MemoOptions(
+    wanted = RunOutputs(
+        memo=memo,
+        appendix=appendix,
+        json=json_out,
+        csv=csv_out,
+        xlsx=xlsx_out,
         date=memo_date,
         all_derivations=all_derivations,
-        comments=comments,
-        round=round_,
-        appendix=appendix.name if appendix else None,  # the letter names its appendix by the file's name
-        workbook=xlsx_out.name if xlsx_out else None,
-        json=json_out.name if json_out else None,
     )
-    if memo:
-        outputs.append(Output("--memo", memo, lambda: memo_chunks(result, rec, claim_list, memo_options)))
-    if appendix:
-        outputs.append(Output("--appendix", appendix, lambda: appendix_chunks(result, rec, claim_list, memo_options)))
-    if json_out:
-        outputs.append(
-            Output("--json", json_out, lambda: findings_json_chunks(result, rec, findings, comments, round_))
-        )
-    if csv_out:
-        outputs.append(Output("--csv", csv_out, lambda: comments_csv(comments, round_)))
-    if xlsx_out:
-        outputs.append(Output("--xlsx", xlsx_out, lambda: [comments_xlsx(result, rec, comments, round_)]))
+    request = RunRequest(
+        model=model,
+        claims=claims,
+        calc_pdf=calc_pdf,
+        pages=pages,
+        column_map=column_map,
+        previous=previous,
+        responses=responses,
+        dispositions=dispositions,
+        outputs=wanted.by_option(),
+        rules_dirs=_dirs(rules_dir),
+        rule_pack=rule_pack,
+    )
     try:
-        write_outputs(outputs, output_limit(input_bytes))
+        run = run_review(request, _extract, lambda line: typer.echo(line, err=True))
     except InputError as exc:
         _fail(exc)
-    for out in outputs:
-        typer.echo(f"wrote {out.path}")
-    serious = any(f.severity in ("safety", "revise") for f in findings)
-    failing = any(not r.passes for r in result.results)
-    raise typer.Exit(1 if serious or failing else 0)
-
-
-# A layout is short for the model it expands to (about 65 times smaller): outputs are bounded by
-# the expanded model as if it had been typed, each member, bearing and load entry counted at a
-# little less than the explicit model writes one (the layout demo: 545 entries in 96 KB, 176 each).
-BYTES_PER_ENTRY = 160
-
-
-def expanded_bytes(model) -> int:
-    """A lower estimate of the size of the explicit model a layout expands to (0 for a typed model)."""
-    if model.frame is None:
-        return 0
-    return BYTES_PER_ENTRY * (len(model.members) + len(model.bearings) + len(model.loads))
+    typer.echo(_terminal_checks(run.review, all_rows))
+    for comment in run.comments:
+        if not comment.quiet:
+            typer.echo(f"{comment.number:>3}. [{comment.weight}] {comment.kind}: {comment.title}")
+    typer.echo(summary_line(run.review))
+    if run.reconciliation is not None:
+        counts = run.reconciliation.counts()
+        typer.echo("findings: " + ", ".join(f"{n} {k}" for k, n in counts.items()))
+    try:
+        written = write_run(run, wanted)
+    except InputError as exc:
+        _fail(exc)
+    for path in written:
+        typer.echo(f"wrote {path}")
+    raise typer.Exit(1 if run.needs_revision else 0)
 
 
 def _terminal_checks(result, all_rows: bool) -> str:
@@ -291,26 +210,15 @@ def _terminal_checks(result, all_rows: bool) -> str:
 def _check_files(
     inputs: dict[str, Path | None], outputs: dict[str, Path | None], rules_dirs: tuple[Path, ...] | None = None
 ) -> int:
-    """Inputs must be readable regular files; outputs may destroy nothing. Before any reading.
+    """``input_files.check_files``: every file a command names, checked before anything is read."""
+    from audit.inputs.input_files import check_files
 
-    With ``rules_dirs`` (a command that reads rule packs), every pack file, the reviewer's and the
-    bundled ones, is an input too: an output onto a pack would replace it. Returns the inputs'
-    total size (packs left out), which bounds the outputs."""
-    from audit.core.outfiles import check_outputs, require_input_file
-
-    given_inputs = [(option, path) for option, path in inputs.items() if path is not None]
-    total = sum(require_input_file(path, option).st_size for option, path in given_inputs)
-    packs: list[tuple[str, Path]] = []
-    if rules_dirs is not None:
-        from audit.standards.packs import pack_files
-
-        packs = [("rule pack", path) for path in pack_files(rules_dirs)]
-    check_outputs([(o, p) for o, p in outputs.items() if p is not None], given_inputs + packs)
-    return total
+    return check_files(inputs, outputs, rules_dirs)
 
 
 def _extract(pdf: Path, pages: str | None, column_map: Path | None, headers: dict[str, str] | None = None):
     """Run the extraction with a progress bar on long documents; warnings go to stderr."""
+    from audit.inputs.calc_pdf import extraction_notes, require_claims
     from audit.inputs.pdf.extract import extract, read_column_map
 
     cmap = read_column_map(column_map, headers) if column_map else None
@@ -330,29 +238,9 @@ def _extract(pdf: Path, pages: str | None, column_map: Path | None, headers: dic
     finally:
         if bar:
             bar.stop()
-    for warning in result.warnings:
-        typer.echo(f"warning: {warning}", err=True)
-    if result.no_text_pages:
-        listed = ", ".join(str(p) for p in result.no_text_pages[:30])
-        more = " ..." if len(result.no_text_pages) > 30 else ""
-        typer.echo(f"warning: {pdf}: pages {listed}{more} have no text layer: they need OCR first", err=True)
-    for item in result.unread:
-        typer.echo(f"warning: {pdf}: {item.line()}", err=True)
-    typer.echo(f"{pdf}: {result.coverage()}", err=True)
-    if not result.claims:
-        where = f"pages {pages}" if pages else f"{result.pages_scanned} pages"
-        if result.candidate_pages:
-            listed = ", ".join(str(p) for p in result.candidate_pages[:20])
-            raise InputError(
-                f"bearing-check symbols on pages {listed}, but no check could be read there: look at those pages "
-                "and give a --map naming their column headers (see the README, Claims from the calc's PDF)",
-                Location(str(pdf), 1, 1, "(document)"),
-            )
-        raise InputError(
-            f"no bearing checks found in {where} (no table headed Qf/Qr and no line such as 'Qr = 45.2 kN >= "
-            "Qf = 31.0 kN'); give a --map for unusual headers",
-            Location(str(pdf), 1, 1, "(document)"),
-        )
+    for line in extraction_notes(pdf, result):
+        typer.echo(line, err=True)
+    require_claims(pdf, pages, result)
     return result
 
 
