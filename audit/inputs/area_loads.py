@@ -18,8 +18,9 @@ from audit.core.located_yaml import Node
 from audit.core.suggest import did_you_mean
 from audit.core.units import parse_quantity
 from audit.inputs.fields import FieldReader, describe_value, list_items
-from audit.inputs.layout import ROUND, Layout, Placed, Placer, metres, synth
 from audit.inputs.layout_contacts import SQUARE
+from audit.inputs.layout_placer import Placer
+from audit.inputs.layout_records import ROUND, Layout, Placed, metres, synth
 
 AREA_KEYS = {"id", "level", "corners", "span", "loads", "live", "openings", "carried_by"}
 Rect = tuple[float, float, float, float]  # x0, y0, x1, y1

@@ -14,8 +14,9 @@ from dataclasses import dataclass, field
 from audit.core.errors import ErrorCollector
 from audit.core.located_yaml import Node, node_text
 from audit.inputs.area_loads import area_shares, share_entries
-from audit.inputs.layout import Layout, Placed, metres, read_layout, synth
+from audit.inputs.layout import read_layout
 from audit.inputs.layout_contacts import Found, at_xy, find_contacts, reach_up
+from audit.inputs.layout_records import Layout, Placed, metres, synth
 
 
 @dataclass(frozen=True)
