@@ -62,72 +62,82 @@ def _dirs(rules_dir: list[Path] | None) -> tuple[Path, ...]:
     return tuple(rules_dir or ())
 
 
+# the review command's options (declared here so that the command reads as what it does)
+MODEL_ARGUMENT = typer.Argument(..., help="The review model (YAML).", metavar="MODEL")
+CLAIMS_OPTION = typer.Option(None, "--claims", help="What the calc claims (YAML), to reconcile.", metavar="FILE")
+CALC_PDF_OPTION = typer.Option(None, "--calc-pdf", help="Extract the claims from the calc's PDF.", metavar="FILE")
+PAGES_OPTION = typer.Option(None, "--pages", help="With --calc-pdf: pages to read, e.g. 12-30,35.", metavar="PAGES")
+COLUMN_MAP_OPTION = typer.Option(None, "--map", help="With --calc-pdf: a column map (YAML).", metavar="FILE")
+MEMO_OPTION = typer.Option(
+    None,
+    "--memo",
+    metavar="FILE",
+    help="Write the review letter as HTML: summary, comments, assumptions, cautions.",
+)
+APPENDIX_OPTION = typer.Option(
+    None,
+    "--appendix",
+    help="Write the letter's appendix as HTML: every check and claim, plans, elevations, derivations.",
+    metavar="FILE",
+)
+ALL_DERIVATIONS_OPTION = typer.Option(
+    False, "--all-derivations", help="In the appendix, derive confirmed and covered checks too."
+)
+JSON_OUT_OPTION = typer.Option(None, "--json", help="Write every check and finding as JSON.", metavar="FILE")
+CSV_OUT_OPTION = typer.Option(
+    None, "--csv", help="Write the comment log as CSV (one row per place, a reply column).", metavar="FILE"
+)
+XLSX_OUT_OPTION = typer.Option(
+    None, "--xlsx", help="Write the comment log as a workbook, with a sheet of every check.", metavar="FILE"
+)
+DATE_OPTION = typer.Option(None, "--date", help="Memo date (YYYY-MM-DD); default project.date.", metavar="YYYY-MM-DD")
+PREVIOUS_OPTION = typer.Option(
+    None, "--previous", metavar="LAST.json", help="The JSON of the last review round, to match comments with."
+)
+RESPONSES_OPTION = typer.Option(
+    None,
+    "--responses",
+    metavar="LOG",
+    help="With --previous: the last round's comment log (CSV or workbook) with the designer's responses "
+    "(and the reviewer's dispositions, where its disposition column is filled in).",
+)
+DISPOSITIONS_OPTION = typer.Option(
+    None,
+    "--dispositions",
+    metavar="FILE",
+    help="With --previous: the reviewer's dispositions of the designer's responses (YAML).",
+)
+ALL_ROWS_OPTION = typer.Option(
+    False,
+    "--all-rows",
+    help=f"List every check in the terminal (past {TERMINAL_ROWS} checks only the failing ones are listed).",
+)
+
+
 @app.command()
 def review(
-    model: Path = typer.Argument(..., help="The review model (YAML).", metavar="MODEL"),
-    claims: Path | None = typer.Option(
-        None, "--claims", help="What the calc claims (YAML), to reconcile.", metavar="FILE"
-    ),
-    calc_pdf: Path | None = typer.Option(
-        None, "--calc-pdf", help="Extract the claims from the calc's PDF.", metavar="FILE"
-    ),
-    pages: str | None = typer.Option(
-        None, "--pages", help="With --calc-pdf: pages to read, e.g. 12-30,35.", metavar="PAGES"
-    ),
-    column_map: Path | None = typer.Option(None, "--map", help="With --calc-pdf: a column map (YAML).", metavar="FILE"),
-    memo: Path | None = typer.Option(
-        None,
-        "--memo",
-        metavar="FILE",
-        help="Write the review letter as HTML: summary, comments, assumptions, cautions.",
-    ),
-    appendix: Path | None = typer.Option(
-        None,
-        "--appendix",
-        help="Write the letter's appendix as HTML: every check and claim, plans, elevations, derivations.",
-        metavar="FILE",
-    ),
-    all_derivations: bool = typer.Option(
-        False, "--all-derivations", help="In the appendix, derive confirmed and covered checks too."
-    ),
-    json_out: Path | None = typer.Option(None, "--json", help="Write every check and finding as JSON.", metavar="FILE"),
-    csv_out: Path | None = typer.Option(
-        None, "--csv", help="Write the comment log as CSV (one row per place, a reply column).", metavar="FILE"
-    ),
-    xlsx_out: Path | None = typer.Option(
-        None, "--xlsx", help="Write the comment log as a workbook, with a sheet of every check.", metavar="FILE"
-    ),
-    date: str | None = typer.Option(
-        None, "--date", help="Memo date (YYYY-MM-DD); default project.date.", metavar="YYYY-MM-DD"
-    ),
-    previous: Path | None = typer.Option(
-        None, "--previous", metavar="LAST.json", help="The JSON of the last review round, to match comments with."
-    ),
-    responses: Path | None = typer.Option(
-        None,
-        "--responses",
-        metavar="LOG",
-        help="With --previous: the last round's comment log (CSV or workbook) with the designer's responses "
-        "(and the reviewer's dispositions, where its disposition column is filled in).",
-    ),
-    dispositions: Path | None = typer.Option(
-        None,
-        "--dispositions",
-        metavar="FILE",
-        help="With --previous: the reviewer's dispositions of the designer's responses (YAML).",
-    ),
-    all_rows: bool = typer.Option(
-        False,
-        "--all-rows",
-        help=f"List every check in the terminal (past {TERMINAL_ROWS} checks only the failing ones are listed).",
-    ),
+    model: Path = MODEL_ARGUMENT,
+    claims: Path | None = CLAIMS_OPTION,
+    calc_pdf: Path | None = CALC_PDF_OPTION,
+    pages: str | None = PAGES_OPTION,
+    column_map: Path | None = COLUMN_MAP_OPTION,
+    memo: Path | None = MEMO_OPTION,
+    appendix: Path | None = APPENDIX_OPTION,
+    all_derivations: bool = ALL_DERIVATIONS_OPTION,
+    json_out: Path | None = JSON_OUT_OPTION,
+    csv_out: Path | None = CSV_OUT_OPTION,
+    xlsx_out: Path | None = XLSX_OUT_OPTION,
+    date: str | None = DATE_OPTION,
+    previous: Path | None = PREVIOUS_OPTION,
+    responses: Path | None = RESPONSES_OPTION,
+    dispositions: Path | None = DISPOSITIONS_OPTION,
+    all_rows: bool = ALL_ROWS_OPTION,
     rules_dir: list[Path] | None = RulesDir,
     rule_pack: str | None = RulePack,
 ) -> None:
     """Recompute every required bearing check; with --claims, reconcile the calc's claims."""
     import datetime as dt
 
-    from audit.report.export import summary_line
     from audit.report.outputs import RunOutputs, write_run
     from audit.review.run import RunRequest, run_review
 
@@ -166,6 +176,20 @@ def review(
         run = run_review(request, _extract, lambda line: typer.echo(line, err=True))
     except InputError as exc:
         _fail(exc)
+    _print_run(run, all_rows)
+    try:
+        written = write_run(run, wanted)
+    except InputError as exc:
+        _fail(exc)
+    for path in written:
+        typer.echo(f"wrote {path}")
+    raise typer.Exit(1 if run.needs_revision else 0)
+
+
+def _print_run(run, all_rows: bool) -> None:
+    """The run in the terminal: the checks, every comment that asks for something, the counts."""
+    from audit.report.export import summary_line
+
     typer.echo(_terminal_checks(run.review, all_rows))
     for comment in run.comments:
         if not comment.quiet:
@@ -174,13 +198,6 @@ def review(
     if run.reconciliation is not None:
         counts = run.reconciliation.counts()
         typer.echo("findings: " + ", ".join(f"{n} {k}" for k, n in counts.items()))
-    try:
-        written = write_run(run, wanted)
-    except InputError as exc:
-        _fail(exc)
-    for path in written:
-        typer.echo(f"wrote {path}")
-    raise typer.Exit(1 if run.needs_revision else 0)
 
 
 def _terminal_checks(result, all_rows: bool) -> str:
@@ -357,59 +374,15 @@ def explain(
 @app.command()
 def rules(rules_dir: list[Path] | None = RulesDir) -> None:
     """List the rule packs and every value with its provenance."""
+    from audit.report.pack_listing import pack_lines
     from audit.standards.packs import load_all_packs
-    from audit.standards.registry import standard_named
 
     try:
         resistance, combos = load_all_packs(_dirs(rules_dir))
     except InputError as exc:
         _fail(exc)
-    for pack in resistance.values():
-        typer.echo(f"resistance pack {pack.id}: {pack.title}\n  edition: {pack.edition}\n  file: {pack.path}")
-        typer.echo(f"  provenance: {pack.provenance}")
-        kinds = standard_named(pack.standard).check_kinds.values()
-        typer.echo(f"  standard: {pack.standard}; checks: {'; '.join(kinds)}")
-        for name, value in pack.all_sourced():
-            typer.echo(f"  {name} = {_shown(name, value.value)}  [{value.clause}; {value.source}; {value.status}]")
-            if name in pack.choices:
-                for reading, text in pack.choices[name].readings.items():
-                    mark = "default" if reading == value.value else "choose with project.readings"
-                    typer.echo(f"      {reading} ({mark}): {text}")
-    for cpack in combos.values():
-        typer.echo(f"combinations pack {cpack.id}: {cpack.title}\n  edition: {cpack.edition}\n  file: {cpack.path}")
-        typer.echo(f"  provenance: {cpack.provenance}")
-        for c in cpack.combinations:
-            typer.echo(f"  {c.name} ({c.duration} term)  [{c.source.clause}; {c.source.source}; {c.source.status}]")
-        extras = [("counteracting_dead", cpack.counteracting_dead), ("storage_live.companion", cpack.storage_companion)]
-        extras += [(f"patterns.{case}", value) for case, value in cpack.patterns.items()]
-        for name, value in extras:
-            shown = " or ".join(f"{v:g}" for v in value.value) if isinstance(value.value, tuple) else f"{value.value:g}"
-            typer.echo(f"  {name} = {shown}  [{value.clause}; {value.source}; {value.status}]")
-    from audit.standards import plausible
-    from audit.standards.packs import builtin_rules_dir
-
-    bounds = plausible.ranges()
-    typer.echo(f"plausible ranges (a value outside is refused)\n  file: {builtin_rules_dir() / plausible.FILE}")
-    named = [(f"fcp of {fam}", r) for fam, r in bounds.fcp.items()] + [(f"fc of {f}", r) for f, r in bounds.fc.items()]
-    named += [("load factor", bounds.load_factor), ("section dimension", bounds.section)]
-    for name, r in named:
-        typer.echo(f"  {name}: {r.shown()}  [{r.source}]")
-
-
-def _shown(name: str, value: object) -> str:
-    """A pack value in the unit its listing names: lengths in mm, strengths in MPa, 4 figures."""
-    if hasattr(value, "points"):
-        in_mm = name.startswith("kb.")  # KB is tabulated by bearing length; KZcp by a plain ratio
-        return ", ".join(f"{x * 1000:g} mm -> {y:.4g}" if in_mm else f"{x:.4g} -> {y:.4g}" for x, y in value.points)
-    if isinstance(value, dict) and name.startswith("fc"):
-        return ", ".join(f"{key} {_shown(name, item)}" for key, item in value.items())
-    if isinstance(value, float):
-        if name.startswith("fc"):
-            return f"{value / 1e6:g} MPa"
-        if name.startswith("kb.m"):
-            return f"{value * 1000:g} mm"
-        return f"{value:.4g}"
-    return str(value)
+    for line in pack_lines(resistance, combos):
+        typer.echo(line)
 
 
 @app.command()
