@@ -24,6 +24,7 @@ from audit.inputs.fields import FieldReader, describe_value, list_items
 from audit.inputs.layout_framing import place_post, place_run, place_wall
 from audit.inputs.layout_placer import Placer
 from audit.inputs.layout_records import (
+    GRID_KEYS,
     LAYOUT_KEYS,
     LAYOUT_MEMBERS,
     Grids,
@@ -86,7 +87,7 @@ def _read_grids(f: FieldReader, errors: ErrorCollector) -> Grids | None:
     lines: dict[str, dict[str, float]] = {"x": {}, "y": {}}
     if not f.has("grids"):
         return Grids({}, {})
-    g = FieldReader(f.map["grids"], {"x", "y"}, errors, "layout grids")
+    g = FieldReader(f.map["grids"], GRID_KEYS, errors, "layout grids")
     ok = g.ok
     for axis in ("x", "y"):
         if not g.has(axis):

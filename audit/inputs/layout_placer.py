@@ -11,9 +11,11 @@ from audit.core.units import parse_quantity
 from audit.engine.plan_geometry import Axis, Point, strip
 from audit.inputs.fields import FieldReader, describe_value
 from audit.inputs.layout_records import (
+    GRID_KEYS,
     LAYOUT_MEMBERS,
     MEMBER_KEYS,
     PASSED,
+    POINT_KEYS,
     Grids,
     Placed,
 )
@@ -46,7 +48,7 @@ class Placer:
                 self.errors.extend(exc)
                 return None
         if isinstance(value, dict):
-            f = FieldReader(node, {"grid", "dx", "dy"}, self.errors, "point")
+            f = FieldReader(node, POINT_KEYS, self.errors, "point")
             base = self.point(f.map["grid"]) if f.has("grid") else None
             if not f.has("grid"):
                 self.errors.add("missing field 'grid' (the grid point the offset is from)", node.child_loc("grid"))
@@ -79,7 +81,7 @@ class Placer:
     def line(self, node: Node) -> tuple[str, float, str] | None:
         """A grid line by name, or {x: ..} / {y: ..}: (axis, coordinate, name)."""
         if isinstance(node.value, dict):
-            f = FieldReader(node, {"x", "y"}, self.errors, "line")
+            f = FieldReader(node, GRID_KEYS, self.errors, "line")
             if len(f.map) != 1:
                 self.errors.add("give a line as a grid name or one of {x: ..} or {y: ..}", node.loc)
                 return None

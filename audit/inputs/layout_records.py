@@ -38,6 +38,8 @@ RUN_KEYS = {
 }
 POST_KEYS = {"id", "at", "base", "drop", "top", "d_along", "material", "b", "d", "service", "KT", "label"}
 WALL_KEYS = {"id", "from", "to", "base", "drop", "top", "extend", "sole", *PASSED} - {"support", "bears_on"}
+GRID_KEYS = {"x", "y"}  # also the two keys of a line given as {x: ..} or {y: ..}
+POINT_KEYS = {"grid", "dx", "dy"}
 SOLE_KEYS = {"material", "b", "d", "plies", "ply_thickness", "bears_on", "label"}
 ROUND = 6  # decimals of a metre (a micrometre) for every placed coordinate: the explicit model reads back exactly
 

@@ -59,6 +59,8 @@ BEARING_KEYS = {"id", "upper", "lower", "width", "aliases", "typical", "note", "
 
 
 SIDE_KEYS = {"member", "at", "length", "width", "angle"}
+TOLERANCE_KEYS = {"relative", "absolute"}
+WIND_KEYS = {"pressure", "suction"}  # W both ways, on a load or an area
 
 
 LOAD_KEYS = {

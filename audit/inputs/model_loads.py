@@ -6,7 +6,7 @@ from audit.core.errors import ErrorCollector
 from audit.core.located_yaml import Node
 from audit.engine.model import FACTORED_PREFIX, STORAGE_LIVE, WIND_PRESSURE, WIND_SUCTION, FactoredGroup, Load, Member
 from audit.inputs.fields import FieldReader, list_items
-from audit.inputs.model_keys import LIVE_KINDS, LOAD_KEYS
+from audit.inputs.model_keys import LIVE_KINDS, LOAD_KEYS, WIND_KEYS
 from audit.inputs.model_members import KnownMembers
 from audit.standards.packs import DURATIONS, CombinationPack
 
@@ -103,7 +103,7 @@ def _check_load_values(f: FieldReader, kind: str, combos: CombinationPack, error
 
 def _wind_both_ways(node: Node, dimension: str, errors: ErrorCollector) -> list[tuple[str, float]]:
     """W given as {pressure, suction}: each a size; pressure acts down, suction up."""
-    w = FieldReader(node, {"pressure", "suction"}, errors, "wind both ways")
+    w = FieldReader(node, WIND_KEYS, errors, "wind both ways")
     out = []
     for key, case, sign in (("pressure", WIND_PRESSURE, 1.0), ("suction", WIND_SUCTION, -1.0)):
         if w.has(key):

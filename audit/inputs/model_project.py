@@ -9,7 +9,7 @@ from audit.core.located_yaml import Node, node_text
 from audit.core.suggest import did_you_mean
 from audit.engine.model import Project
 from audit.inputs.fields import FieldReader, describe_value
-from audit.inputs.model_keys import PROJECT_KEYS, READING_KEYS
+from audit.inputs.model_keys import PROJECT_KEYS, READING_KEYS, TOLERANCE_KEYS
 from audit.standards.packs import SERVICES, PackCore
 
 # ---------------------------------------------------------------- sections
@@ -19,7 +19,7 @@ def read_project(node: Node, errors: ErrorCollector) -> Project:
     f = FieldReader(node, PROJECT_KEYS, errors, "project")
     tol_rel, tol_abs = 0.03, 500.0
     if f.has("tolerance"):
-        t = FieldReader(f.map["tolerance"], {"relative", "absolute"}, errors, "project.tolerance")
+        t = FieldReader(f.map["tolerance"], TOLERANCE_KEYS, errors, "project.tolerance")
         tol_rel = t.number("relative", 0.0, 1.0, tol_rel)
         abs_value = t.quantity("absolute", "force", required=False)
         if abs_value is not None:

@@ -16,6 +16,7 @@ from audit.core.units import force_unit_of
 from audit.inputs.fields import FieldReader, describe_value, list_items
 
 CLAIM_KEYS = {"id", "where", "location", "member", "kind", "Qf", "Qr", "utilisation", "factors", "adequate", "text"}
+FILE_KEYS = {"claims"}
 WHERE_KEYS = {"page", "sheet", "table", "item", "x", "y"}
 # factor name -> dimension for reading it
 CLAIM_FACTORS = {
@@ -88,7 +89,7 @@ def read_claims(path: Path | str) -> tuple[Claim, ...]:
 
 def build_claims(root: Node) -> tuple[Claim, ...]:
     errors = ErrorCollector()
-    top = FieldReader(root, {"claims"}, errors, "the claims file")
+    top = FieldReader(root, FILE_KEYS, errors, "the claims file")
     if top.ok and "claims" not in top.map:
         errors.add("missing section 'claims'", root.child_loc("claims"))
     errors.raise_if_any()
