@@ -305,10 +305,28 @@ def next_round(
             closed_now.add(id(c))
         tracked.append(t)
     continued = {t.number for t in tracked}
-    quiet_at = _quiet_at(comments)
-    for e in carried:
-        if e.number in continued:
-            continue
+    ended = [e for e in carried if e.number not in continued]
+    tracked += _ended_earlier(ended, carried_by, renamed, _quiet_at(comments), number, responses, dispositions)
+    for c in comments:
+        if c.quiet:  # for the record: numbered after every comment that asks for something
+            numbered[id(c)] = next_number
+            next_number += 1
+    ordered = tuple(replace(c, number=numbered[id(c)], closed=c.closed or id(c) in closed_now) for c in comments)
+    return ordered, Round(number, last.project, inputs, last, tuple(tracked), next_number - 1)
+
+
+def _ended_earlier(
+    ended: list[Earlier],
+    carried_by: dict[int, list[int]],
+    renamed: dict[int, list[tuple[Key | None, str]]],
+    quiet_at: dict[Key, str],
+    number: int,
+    responses: dict[int, str],
+    dispositions: dict[int, Disposition],
+) -> list[Tracked]:
+    """The earlier comments no comment of this round continues: merged into others, or ended."""
+    out = []
+    for e in ended:
         if e.status == "closed":
             continue  # closed by a response in an earlier round, and nothing asks there now
         into = sorted(set(carried_by.get(e.number, [])))
@@ -316,19 +334,14 @@ def next_round(
             status, reason = "merged", "merged into " + ", ".join(f"#{x}" for x in into)
         else:
             status, reason = _ended(renamed[e.number], quiet_at)
-        tracked.append(
+        out.append(
             Tracked(
                 e.number, status, e.kind, e.weight, e.title, e.keys, e.numbers,
                 (*e.history, Step(number, status, e.kind, reason)), reason, responses.get(e.number, ""),
                 disposition=dispositions.get(e.number),
             )
         )  # fmt: skip
-    for c in comments:
-        if c.quiet:  # for the record: numbered after every comment that asks for something
-            numbered[id(c)] = next_number
-            next_number += 1
-    ordered = tuple(replace(c, number=numbered[id(c)], closed=c.closed or id(c) in closed_now) for c in comments)
-    return ordered, Round(number, last.project, inputs, last, tuple(tracked), next_number - 1)
+    return out
 
 
 def _standing(
