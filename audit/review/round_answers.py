@@ -1,20 +1,65 @@
-"""What the last round's comment log and the reviewer's dispositions bring back to the next round.
+"""What the last round brings back to the next: its comments (from its JSON), the designer's responses
+(from its comment log) and the reviewer's dispositions.
 
-The designer's responses and the reviewer's dispositions (accepted, not accepted, deferred) are
-read from the columns ``log_columns`` names, which the comment log's writer writes; every value
-is checked against the last round before it is used.
+The last round's JSON is refused unless it is an earlier round of this project. The designer's
+responses and the reviewer's dispositions (accepted, not accepted, deferred) are read from the
+columns ``log_columns`` names, which the comment log's writer writes; every value is checked
+against the last round before it is used.
 """
 
 from __future__ import annotations
 
 from dataclasses import dataclass
 from pathlib import Path
+from typing import Any
 
 from audit.core.errors import ErrorCollector, InputError, Location
 from audit.core.outfiles import require_input_file
+from audit.engine.model import normalise_label
 from audit.review.log_columns import READ_BACK
-from audit.review.round_files import check_response_rows, read_csv_rows, read_workbook_rows
-from audit.review.rounds import CARRIED, DISPOSITIONS, Disposition, LastRound
+from audit.review.round_files import check_response_rows, load_round_json, read_csv_rows, read_workbook_rows
+from audit.review.rounds import CARRIED, DISPOSITIONS, Disposition, Earlier, LastRound, Step
+
+
+def read_last_round(path: Path, project: str) -> LastRound:
+    """The comments of an earlier round's JSON; refused unless it is an earlier round of this project."""
+    where = Location(str(path))
+    data = load_round_json(path)  # every value read below is checked there, each fault located
+    round_ = data["round"]
+    theirs = str(round_.get("project", ""))
+    if normalise_label(theirs) != normalise_label(project):
+        raise InputError(
+            f"--previous: a round of project '{theirs}', not of this project '{project}'; give an earlier round "
+            "of the same project",
+            where,
+        )
+    try:
+        comments = tuple(_earlier(item) for item in data.get("round_comments", []))
+    except (KeyError, TypeError, ValueError) as exc:
+        raise InputError(f"--previous: a round comment cannot be read ({exc})", where) from None
+    return LastRound(
+        str(path),
+        round_["number"],
+        theirs,
+        dict(round_.get("inputs", {})),
+        int(round_.get("last_number", 0)),
+        comments,
+    )
+
+
+def _earlier(item: dict[str, Any]) -> Earlier:
+    return Earlier(
+        int(item["number"]),
+        str(item["status"]),
+        str(item.get("kind", item.get("code", ""))),
+        str(item["weight"]),
+        str(item["title"]),
+        tuple(tuple(str(v) for v in k) for k in item["keys"]),  # type: ignore[misc]
+        tuple((str(q), a, b) for q, a, b in item["numbers"]),
+        tuple(Step(int(r), str(s), str(c), str(t)) for r, s, c, t in item["history"]),
+        bool(item.get("closed_by_response", False)),
+        str(item.get("deferred_to", "")),
+    )
 
 
 @dataclass(frozen=True)

@@ -21,10 +21,9 @@ from dataclasses import dataclass, field, replace
 from pathlib import Path
 from typing import Any
 
-from audit.core.errors import InputError, Location
+from audit.core.errors import Location
 from audit.engine.model import Model, normalise_label
 from audit.review.comments import Comment
-from audit.review.round_files import load_round_json
 
 STATUSES = ("new", "open", "changed", "split", "deferred", "merged", "closed", "withdrawn")
 ASKING = ("new", "open", "changed", "split")  # statuses of a comment that still asks for something
@@ -427,48 +426,7 @@ def _ended(mapped: list[tuple[Key | None, str]], quiet_at: dict[Key, str]) -> tu
     return "closed", "no comment asks for anything there now"
 
 
-# ---------------------------------------------------------------- reading the last round
-
-
-def read_last_round(path: Path, project: str) -> LastRound:
-    """The comments of an earlier round's JSON; refused unless it is an earlier round of this project."""
-    where = Location(str(path))
-    data = load_round_json(path)  # every value read below is checked there, each fault located
-    round_ = data["round"]
-    theirs = str(round_.get("project", ""))
-    if normalise_label(theirs) != normalise_label(project):
-        raise InputError(
-            f"--previous: a round of project '{theirs}', not of this project '{project}'; give an earlier round "
-            "of the same project",
-            where,
-        )
-    try:
-        comments = tuple(_earlier(item) for item in data.get("round_comments", []))
-    except (KeyError, TypeError, ValueError) as exc:
-        raise InputError(f"--previous: a round comment cannot be read ({exc})", where) from None
-    return LastRound(
-        str(path),
-        round_["number"],
-        theirs,
-        dict(round_.get("inputs", {})),
-        int(round_.get("last_number", 0)),
-        comments,
-    )
-
-
-def _earlier(item: dict[str, Any]) -> Earlier:
-    return Earlier(
-        int(item["number"]),
-        str(item["status"]),
-        str(item.get("kind", item.get("code", ""))),
-        str(item["weight"]),
-        str(item["title"]),
-        tuple(tuple(str(v) for v in k) for k in item["keys"]),  # type: ignore[misc]
-        tuple((str(q), a, b) for q, a, b in item["numbers"]),
-        tuple(Step(int(r), str(s), str(c), str(t)) for r, s, c, t in item["history"]),
-        bool(item.get("closed_by_response", False)),
-        str(item.get("deferred_to", "")),
-    )
+# ---------------------------------------------------------------- the round as the JSON holds it
 
 
 def round_record(r: Round) -> tuple[dict[str, Any], list[dict[str, Any]]]:

@@ -17,9 +17,9 @@ from audit.review.comments import Comment, build_comments
 from audit.review.findings import Finding
 from audit.review.reconcile import Reconciliation, failing_without_claims, reconcile
 from audit.review.review import Review, review_model
-from audit.review.round_answers import check_dispositions, read_dispositions, read_log
+from audit.review.round_answers import check_dispositions, read_dispositions, read_last_round, read_log
 from audit.review.round_files import responses_left_out
-from audit.review.rounds import ASKING, Round, first_round, input_hashes, next_round, read_last_round
+from audit.review.rounds import ASKING, Round, first_round, input_hashes, next_round
 
 # what reads a calc's PDF for a run (the command line's, which shows progress and says what it read):
 # (pdf, pages, column map, the standard's own symbols) -> the extraction
