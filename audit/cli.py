@@ -62,90 +62,84 @@ def _dirs(rules_dir: list[Path] | None) -> tuple[Path, ...]:
     return tuple(rules_dir or ())
 
 
+# the review command's options (declared here so that the command reads as what it does)
+MODEL_ARGUMENT = typer.Argument(..., help="The review model (YAML).", metavar="MODEL")
+CLAIMS_OPTION = typer.Option(None, "--claims", help="What the calc claims (YAML), to reconcile.", metavar="FILE")
+CALC_PDF_OPTION = typer.Option(None, "--calc-pdf", help="Extract the claims from the calc's PDF.", metavar="FILE")
+PAGES_OPTION = typer.Option(None, "--pages", help="With --calc-pdf: pages to read, e.g. 12-30,35.", metavar="PAGES")
+COLUMN_MAP_OPTION = typer.Option(None, "--map", help="With --calc-pdf: a column map (YAML).", metavar="FILE")
+MEMO_OPTION = typer.Option(
+    None,
+    "--memo",
+    metavar="FILE",
+    help="Write the review letter as HTML: summary, comments, assumptions, cautions.",
+)
+APPENDIX_OPTION = typer.Option(
+    None,
+    "--appendix",
+    help="Write the letter's appendix as HTML: every check and claim, plans, elevations, derivations.",
+    metavar="FILE",
+)
+ALL_DERIVATIONS_OPTION = typer.Option(
+    False, "--all-derivations", help="In the appendix, derive confirmed and covered checks too."
+)
+JSON_OUT_OPTION = typer.Option(None, "--json", help="Write every check and finding as JSON.", metavar="FILE")
+CSV_OUT_OPTION = typer.Option(
+    None, "--csv", help="Write the comment log as CSV (one row per place, a reply column).", metavar="FILE"
+)
+XLSX_OUT_OPTION = typer.Option(
+    None, "--xlsx", help="Write the comment log as a workbook, with a sheet of every check.", metavar="FILE"
+)
+DATE_OPTION = typer.Option(None, "--date", help="Memo date (YYYY-MM-DD); default project.date.", metavar="YYYY-MM-DD")
+PREVIOUS_OPTION = typer.Option(
+    None, "--previous", metavar="LAST.json", help="The JSON of the last review round, to match comments with."
+)
+RESPONSES_OPTION = typer.Option(
+    None,
+    "--responses",
+    metavar="LOG",
+    help="With --previous: the last round's comment log (CSV or workbook) with the designer's responses "
+    "(and the reviewer's dispositions, where its disposition column is filled in).",
+)
+DISPOSITIONS_OPTION = typer.Option(
+    None,
+    "--dispositions",
+    metavar="FILE",
+    help="With --previous: the reviewer's dispositions of the designer's responses (YAML).",
+)
+ALL_ROWS_OPTION = typer.Option(
+    False,
+    "--all-rows",
+    help=f"List every check in the terminal (past {TERMINAL_ROWS} checks only the failing ones are listed).",
+)
+
+
 @app.command()
 def review(
-    model: Path = typer.Argument(..., help="The review model (YAML).", metavar="MODEL"),
-    claims: Path | None = typer.Option(
-        None, "--claims", help="What the calc claims (YAML), to reconcile.", metavar="FILE"
-    ),
-    calc_pdf: Path | None = typer.Option(
-        None, "--calc-pdf", help="Extract the claims from the calc's PDF.", metavar="FILE"
-    ),
-    pages: str | None = typer.Option(
-        None, "--pages", help="With --calc-pdf: pages to read, e.g. 12-30,35.", metavar="PAGES"
-    ),
-    column_map: Path | None = typer.Option(None, "--map", help="With --calc-pdf: a column map (YAML).", metavar="FILE"),
-    memo: Path | None = typer.Option(
-        None,
-        "--memo",
-        metavar="FILE",
-        help="Write the review letter as HTML: summary, comments, assumptions, cautions.",
-    ),
-    appendix: Path | None = typer.Option(
-        None,
-        "--appendix",
-        help="Write the letter's appendix as HTML: every check and claim, plans, elevations, derivations.",
-        metavar="FILE",
-    ),
-    all_derivations: bool = typer.Option(
-        False, "--all-derivations", help="In the appendix, derive confirmed and covered checks too."
-    ),
-    json_out: Path | None = typer.Option(None, "--json", help="Write every check and finding as JSON.", metavar="FILE"),
-    csv_out: Path | None = typer.Option(
-        None, "--csv", help="Write the comment log as CSV (one row per place, a reply column).", metavar="FILE"
-    ),
-    xlsx_out: Path | None = typer.Option(
-        None, "--xlsx", help="Write the comment log as a workbook, with a sheet of every check.", metavar="FILE"
-    ),
-    date: str | None = typer.Option(
-        None, "--date", help="Memo date (YYYY-MM-DD); default project.date.", metavar="YYYY-MM-DD"
-    ),
-    previous: Path | None = typer.Option(
-        None, "--previous", metavar="LAST.json", help="The JSON of the last review round, to match comments with."
-    ),
-    responses: Path | None = typer.Option(
-        None,
-        "--responses",
-        metavar="LOG",
-        help="With --previous: the last round's comment log (CSV or workbook) with the designer's responses "
-        "(and the reviewer's dispositions, where its disposition column is filled in).",
-    ),
-    dispositions: Path | None = typer.Option(
-        None,
-        "--dispositions",
-        metavar="FILE",
-        help="With --previous: the reviewer's dispositions of the designer's responses (YAML).",
-    ),
-    all_rows: bool = typer.Option(
-        False,
-        "--all-rows",
-        help=f"List every check in the terminal (past {TERMINAL_ROWS} checks only the failing ones are listed).",
-    ),
+    model: Path = MODEL_ARGUMENT,
+    claims: Path | None = CLAIMS_OPTION,
+    calc_pdf: Path | None = CALC_PDF_OPTION,
+    pages: str | None = PAGES_OPTION,
+    column_map: Path | None = COLUMN_MAP_OPTION,
+    memo: Path | None = MEMO_OPTION,
+    appendix: Path | None = APPENDIX_OPTION,
+    all_derivations: bool = ALL_DERIVATIONS_OPTION,
+    json_out: Path | None = JSON_OUT_OPTION,
+    csv_out: Path | None = CSV_OUT_OPTION,
+    xlsx_out: Path | None = XLSX_OUT_OPTION,
+    date: str | None = DATE_OPTION,
+    previous: Path | None = PREVIOUS_OPTION,
+    responses: Path | None = RESPONSES_OPTION,
+    dispositions: Path | None = DISPOSITIONS_OPTION,
+    all_rows: bool = ALL_ROWS_OPTION,
     rules_dir: list[Path] | None = RulesDir,
     rule_pack: str | None = RulePack,
 ) -> None:
     """Recompute every required bearing check; with --claims, reconcile the calc's claims."""
     import datetime as dt
 
-    from audit.core.outfiles import Output, output_limit, write_outputs
-    from audit.inputs.read_claims import merge_claim_sources, read_claims
-    from audit.report.comment_log import comments_csv, comments_xlsx
-    from audit.report.export import summary_line
-    from audit.report.memo import MemoOptions, appendix_chunks, findings_json_chunks, memo_chunks
-    from audit.review.comments import build_comments
-    from audit.review.reconcile import failing_without_claims, reconcile
-    from audit.review.review import review_model
-    from audit.review.round_files import responses_left_out
-    from audit.review.rounds import (
-        ASKING,
-        check_dispositions,
-        first_round,
-        input_hashes,
-        next_round,
-        read_dispositions,
-        read_last_round,
-        read_log,
-    )
+    from audit.report.outputs import RunOutputs, write_run
+    from audit.review.run import RunRequest, run_review
 
     for option, given in (("--responses", responses), ("--dispositions", dispositions)):
         if given and not previous:
@@ -156,112 +150,54 @@ def review(
     except ValueError:
         typer.echo(f"error: --date: expected YYYY-MM-DD, got {date!r}", err=True)
         raise typer.Exit(2) from None
-    try:
-        input_bytes = _check_files(
-            {
-                "MODEL": model,
-                "--claims": claims,
-                "--calc-pdf": calc_pdf,
-                "--map": column_map,
-                "--previous": previous,
-                "--responses": responses,
-                "--dispositions": dispositions,
-            },
-            {"--memo": memo, "--appendix": appendix, "--json": json_out, "--csv": csv_out, "--xlsx": xlsx_out},
-            _dirs(rules_dir),
-        )
-        result = review_model(model, _dirs(rules_dir), rule_pack)
-        claim_list = read_claims(claims, result.standard) if claims else ()
-        if calc_pdf:
-            extracted = _extract(calc_pdf, pages, column_map, result.standard.claim_headers)
-            claim_list = merge_claim_sources(claim_list, extracted.claims, calc_pdf.name)
-    except InputError as exc:
-        _fail(exc)
-    from audit.core.errors import visible
-
-    for warning in result.model.warnings:
-        typer.echo(f"warning: {visible(warning)}", err=True)
-    input_bytes = max(input_bytes, expanded_bytes(result.model))
-    rec = reconcile(result, claim_list) if (claims or calc_pdf) else None
-    findings = rec.findings if rec else result.engine_findings + failing_without_claims(result)
-    comments = build_comments(result, rec, claim_list)
-    inputs = input_hashes({"model": model, "claims": claims, "calc_pdf": calc_pdf, "map": column_map})
-    title = result.model.project.title
-    try:
-        if previous:
-            last = read_last_round(previous, title)
-            answers = read_log(responses) if responses else None
-            disposed = dict(answers.dispositions) if answers else {}
-            if dispositions:
-                for number, d in read_dispositions(dispositions).items():
-                    if number in disposed and disposed[number] != d:
-                        raise InputError(f"comment {number} has another disposition at {disposed[number].loc}", d.loc)
-                    disposed[number] = d
-            check_dispositions(disposed, last)
-            if answers:
-                asked = {e.number for e in last.comments if e.status in ASKING}
-                known = {e.number for e in last.comments}
-                for warning in responses_left_out(answers.responses, asked, known, str(responses)):
-                    typer.echo(f"warning: {warning}", err=True)
-            comments, round_ = next_round(
-                comments, last, result.model, inputs, answers.responses if answers else {}, disposed
-            )
-        else:
-            round_ = first_round(comments, title, inputs)
-    except InputError as exc:
-        _fail(exc)
-    typer.echo(_terminal_checks(result, all_rows))
-    for comment in comments:
-        if not comment.quiet:
-            typer.echo(f"{comment.number:>3}. [{comment.weight}] {comment.kind}: {comment.title}")
-    typer.echo(summary_line(result))
-    if rec is not None:
-        counts = rec.counts()
-        typer.echo("findings: " + ", ".join(f"{n} {k}" for k, n in counts.items()))
-    outputs = []
-    memo_options = MemoOptions(
+    wanted = RunOutputs(
+        memo=memo,
+        appendix=appendix,
+        json=json_out,
+        csv=csv_out,
+        xlsx=xlsx_out,
         date=memo_date,
         all_derivations=all_derivations,
-        comments=comments,
-        round=round_,
-        appendix=appendix.name if appendix else None,  # the letter names its appendix by the file's name
-        workbook=xlsx_out.name if xlsx_out else None,
-        json=json_out.name if json_out else None,
     )
-    if memo:
-        outputs.append(Output("--memo", memo, lambda: memo_chunks(result, rec, claim_list, memo_options)))
-    if appendix:
-        outputs.append(Output("--appendix", appendix, lambda: appendix_chunks(result, rec, claim_list, memo_options)))
-    if json_out:
-        outputs.append(
-            Output("--json", json_out, lambda: findings_json_chunks(result, rec, findings, comments, round_))
-        )
-    if csv_out:
-        outputs.append(Output("--csv", csv_out, lambda: comments_csv(comments, round_)))
-    if xlsx_out:
-        outputs.append(Output("--xlsx", xlsx_out, lambda: [comments_xlsx(result, rec, comments, round_)]))
+    request = RunRequest(
+        model=model,
+        claims=claims,
+        calc_pdf=calc_pdf,
+        pages=pages,
+        column_map=column_map,
+        previous=previous,
+        responses=responses,
+        dispositions=dispositions,
+        outputs=wanted.by_option(),
+        rules_dirs=_dirs(rules_dir),
+        rule_pack=rule_pack,
+    )
     try:
-        write_outputs(outputs, output_limit(input_bytes))
+        run = run_review(request, _extract, lambda line: typer.echo(line, err=True))
     except InputError as exc:
         _fail(exc)
-    for out in outputs:
-        typer.echo(f"wrote {out.path}")
-    serious = any(f.severity in ("safety", "revise") for f in findings)
-    failing = any(not r.passes for r in result.results)
-    raise typer.Exit(1 if serious or failing else 0)
+    _print_run(run, all_rows)
+    try:
+        written = write_run(run, wanted)
+    except InputError as exc:
+        _fail(exc)
+    for path in written:
+        typer.echo(f"wrote {path}")
+    raise typer.Exit(1 if run.needs_revision else 0)
 
 
-# A layout is short for the model it expands to (about 65 times smaller): outputs are bounded by
-# the expanded model as if it had been typed, each member, bearing and load entry counted at a
-# little less than the explicit model writes one (the layout demo: 545 entries in 96 KB, 176 each).
-BYTES_PER_ENTRY = 160
+def _print_run(run, all_rows: bool) -> None:
+    """The run in the terminal: the checks, every comment that asks for something, the counts."""
+    from audit.report.export import summary_line
 
-
-def expanded_bytes(model) -> int:
-    """A lower estimate of the size of the explicit model a layout expands to (0 for a typed model)."""
-    if model.frame is None:
-        return 0
-    return BYTES_PER_ENTRY * (len(model.members) + len(model.bearings) + len(model.loads))
+    typer.echo(_terminal_checks(run.review, all_rows))
+    for comment in run.comments:
+        if not comment.quiet:
+            typer.echo(f"{comment.number:>3}. [{comment.weight}] {comment.kind}: {comment.title}")
+    typer.echo(summary_line(run.review))
+    if run.reconciliation is not None:
+        counts = run.reconciliation.counts()
+        typer.echo("findings: " + ", ".join(f"{n} {k}" for k, n in counts.items()))
 
 
 def _terminal_checks(result, all_rows: bool) -> str:
@@ -291,26 +227,15 @@ def _terminal_checks(result, all_rows: bool) -> str:
 def _check_files(
     inputs: dict[str, Path | None], outputs: dict[str, Path | None], rules_dirs: tuple[Path, ...] | None = None
 ) -> int:
-    """Inputs must be readable regular files; outputs may destroy nothing. Before any reading.
+    """``input_files.check_files``: every file a command names, checked before anything is read."""
+    from audit.inputs.input_files import check_files
 
-    With ``rules_dirs`` (a command that reads rule packs), every pack file, the reviewer's and the
-    bundled ones, is an input too: an output onto a pack would replace it. Returns the inputs'
-    total size (packs left out), which bounds the outputs."""
-    from audit.core.outfiles import check_outputs, require_input_file
-
-    given_inputs = [(option, path) for option, path in inputs.items() if path is not None]
-    total = sum(require_input_file(path, option).st_size for option, path in given_inputs)
-    packs: list[tuple[str, Path]] = []
-    if rules_dirs is not None:
-        from audit.standards.catalogue import pack_files
-
-        packs = [("rule pack", path) for path in pack_files(rules_dirs)]
-    check_outputs([(o, p) for o, p in outputs.items() if p is not None], given_inputs + packs)
-    return total
+    return check_files(inputs, outputs, rules_dirs)
 
 
 def _extract(pdf: Path, pages: str | None, column_map: Path | None, headers: dict[str, str] | None = None):
     """Run the extraction with a progress bar on long documents; warnings go to stderr."""
+    from audit.inputs.calc_pdf import extraction_notes, require_claims
     from audit.inputs.pdf.extract import extract, read_column_map
 
     cmap = read_column_map(column_map, headers) if column_map else None
@@ -330,29 +255,9 @@ def _extract(pdf: Path, pages: str | None, column_map: Path | None, headers: dic
     finally:
         if bar:
             bar.stop()
-    for warning in result.warnings:
-        typer.echo(f"warning: {warning}", err=True)
-    if result.no_text_pages:
-        listed = ", ".join(str(p) for p in result.no_text_pages[:30])
-        more = " ..." if len(result.no_text_pages) > 30 else ""
-        typer.echo(f"warning: {pdf}: pages {listed}{more} have no text layer: they need OCR first", err=True)
-    for item in result.unread:
-        typer.echo(f"warning: {pdf}: {item.line()}", err=True)
-    typer.echo(f"{pdf}: {result.coverage()}", err=True)
-    if not result.claims:
-        where = f"pages {pages}" if pages else f"{result.pages_scanned} pages"
-        if result.candidate_pages:
-            listed = ", ".join(str(p) for p in result.candidate_pages[:20])
-            raise InputError(
-                f"bearing-check symbols on pages {listed}, but no check could be read there: look at those pages "
-                "and give a --map naming their column headers (see the README, Claims from the calc's PDF)",
-                Location(str(pdf), 1, 1, "(document)"),
-            )
-        raise InputError(
-            f"no bearing checks found in {where} (no table headed Qf/Qr and no line such as 'Qr = 45.2 kN >= "
-            "Qf = 31.0 kN'); give a --map for unusual headers",
-            Location(str(pdf), 1, 1, "(document)"),
-        )
+    for line in extraction_notes(pdf, result):
+        typer.echo(line, err=True)
+    require_claims(pdf, pages, result)
     return result
 
 
@@ -366,7 +271,7 @@ def expand(
     """Write the model with its layout expanded: every member, bearing and load, each with where it came from."""
     from audit.core.errors import visible
     from audit.core.outfiles import Output, output_limit, write_outputs
-    from audit.inputs.expand_layout import explicit_model_with_warnings
+    from audit.inputs.explicit_model import explicit_model_with_warnings
 
     try:
         input_bytes = _check_files({"MODEL": model}, {"--out": out}, _dirs(rules_dir))
@@ -478,74 +383,31 @@ def rules(
     output: Path | None = typer.Option(None, "-o", "--output", metavar="FILE", help="Where --sheet or --adopt writes."),
 ) -> None:
     """List the rule packs and every value with its provenance; --sheet and --adopt verify a pack."""
+    from audit.report.pack_listing import pack_lines
     from audit.standards.catalogue import load_all_packs
-    from audit.standards.registry import standard_named
 
     if sheet is not None or adopt is not None or output is not None:
-        from audit.report.pack_sheet import adopt_pack, write_sheet
-
-        try:
-            if (sheet is None) == (adopt is None) or output is None:
-                raise InputError("give --sheet PACK -o FILE.xlsx, or --adopt FILE.xlsx -o FILE.yaml")
-            if sheet is not None:
-                lines = write_sheet(sheet, output, _dirs(rules_dir))
-            else:
-                assert adopt is not None
-                lines = adopt_pack(adopt, output, _dirs(rules_dir))
-        except InputError as exc:
-            _fail(exc)
-        typer.echo("\n".join(lines))
+        _verify_pack(sheet, adopt, output, _dirs(rules_dir))
         return
     try:
         resistance, combos = load_all_packs(_dirs(rules_dir))
     except InputError as exc:
         _fail(exc)
-    for pack in resistance.values():
-        typer.echo(f"resistance pack {pack.id}: {pack.title}\n  edition: {pack.edition}\n  file: {pack.path}")
-        typer.echo(f"  provenance: {pack.provenance}")
-        kinds = standard_named(pack.standard).check_kinds.values()
-        typer.echo(f"  standard: {pack.standard}; checks: {'; '.join(kinds)}")
-        for name, value in pack.all_sourced():
-            typer.echo(f"  {name} = {_shown(name, value.value)}  [{value.clause}; {value.source}; {value.status}]")
-            if name in pack.choices:
-                for reading, text in pack.choices[name].readings.items():
-                    mark = "default" if reading == value.value else "choose with project.readings"
-                    typer.echo(f"      {reading} ({mark}): {text}")
-    for cpack in combos.values():
-        typer.echo(f"combinations pack {cpack.id}: {cpack.title}\n  edition: {cpack.edition}\n  file: {cpack.path}")
-        typer.echo(f"  provenance: {cpack.provenance}")
-        for c in cpack.combinations:
-            typer.echo(f"  {c.name} ({c.duration} term)  [{c.source.clause}; {c.source.source}; {c.source.status}]")
-        extras = [("counteracting_dead", cpack.counteracting_dead), ("storage_live.companion", cpack.storage_companion)]
-        extras += [(f"patterns.{case}", value) for case, value in cpack.patterns.items()]
-        for name, value in extras:
-            shown = " or ".join(f"{v:g}" for v in value.value) if isinstance(value.value, tuple) else f"{value.value:g}"
-            typer.echo(f"  {name} = {shown}  [{value.clause}; {value.source}; {value.status}]")
-    from audit.standards import plausible
-    from audit.standards.bundled import builtin_rules_dir
-
-    bounds = plausible.ranges()
-    typer.echo(f"plausible ranges (a value outside is refused)\n  file: {builtin_rules_dir() / plausible.FILE}")
-    named = [(f"fcp of {fam}", r) for fam, r in bounds.fcp.items()] + [(f"fc of {f}", r) for f, r in bounds.fc.items()]
-    named += [("load factor", bounds.load_factor), ("section dimension", bounds.section)]
-    for name, r in named:
-        typer.echo(f"  {name}: {r.shown()}  [{r.source}]")
+    for line in pack_lines(resistance, combos):
+        typer.echo(line)
 
 
-def _shown(name: str, value: object) -> str:
-    """A pack value in the unit its listing names: lengths in mm, strengths in MPa, 4 figures."""
-    if hasattr(value, "points"):
-        in_mm = name.startswith("kb.")  # KB is tabulated by bearing length; KZcp by a plain ratio
-        return ", ".join(f"{x * 1000:g} mm -> {y:.4g}" if in_mm else f"{x:.4g} -> {y:.4g}" for x, y in value.points)
-    if isinstance(value, dict) and name.startswith("fc"):
-        return ", ".join(f"{key} {_shown(name, item)}" for key, item in value.items())
-    if isinstance(value, float):
-        if name.startswith("fc"):
-            return f"{value / 1e6:g} MPa"
-        if name.startswith("kb.m"):
-            return f"{value * 1000:g} mm"
-        return f"{value:.4g}"
-    return str(value)
+def _verify_pack(sheet: str | None, adopt: Path | None, output: Path | None, dirs: tuple[Path, ...]) -> None:
+    """`rules --sheet PACK -o FILE.xlsx` or `rules --adopt FILE.xlsx -o FILE.yaml`."""
+    from audit.report.pack_sheet import adopt_pack, write_sheet
+
+    try:
+        if (sheet is None) == (adopt is None) or output is None:
+            raise InputError("give --sheet PACK -o FILE.xlsx, or --adopt FILE.xlsx -o FILE.yaml")
+        lines = write_sheet(sheet, output, dirs) if sheet is not None else adopt_pack(adopt, output, dirs)  # type: ignore[arg-type]
+    except InputError as exc:
+        _fail(exc)
+    typer.echo("\n".join(lines))
 
 
 @app.command()

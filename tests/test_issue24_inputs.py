@@ -226,12 +226,12 @@ def test_a_line_load_of_one_newton_per_metre_is_warned_and_a_real_floor_is_not(t
 
 
 def test_a_layout_s_outputs_are_bounded_by_the_model_it_expands_to_not_by_its_few_lines(tmp_path):
-    from audit.cli import expanded_bytes
     from audit.core.outfiles import OUTPUT_PER_INPUT
     from audit.report.memo import findings_json_chunks
     from audit.review.comments import build_comments
     from audit.review.review import review_model
     from audit.review.rounds import first_round
+    from audit.review.run import expanded_bytes
     from tests.conftest import ROOT
 
     model = ROOT / "fixtures" / "demo-layout" / "model.yaml"

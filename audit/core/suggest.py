@@ -1,4 +1,4 @@
-"""Near misses in what a person typed: every reader's 'did you mean'."""
+"""A near miss named back to the writer: the one suggestion every reader's error gives for a mistyped word."""
 
 from __future__ import annotations
 

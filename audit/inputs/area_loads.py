@@ -15,10 +15,13 @@ from dataclasses import dataclass
 
 from audit.core.errors import ErrorCollector, InputError
 from audit.core.located_yaml import Node
+from audit.core.suggest import did_you_mean
 from audit.core.units import parse_quantity
-from audit.inputs.fields import FieldReader, describe_value, did_you_mean, list_items
-from audit.inputs.layout import ROUND, Layout, Placed, Placer, metres, synth
+from audit.inputs.fields import FieldReader, describe_value, list_items
 from audit.inputs.layout_contacts import SQUARE
+from audit.inputs.layout_placer import Placer
+from audit.inputs.layout_records import ROUND, Layout, Placed, metres, synth
+from audit.inputs.model_keys import WIND_KEYS
 
 AREA_KEYS = {"id", "level", "corners", "span", "loads", "live", "openings", "carried_by"}
 Rect = tuple[float, float, float, float]  # x0, y0, x1, y1
@@ -112,7 +115,7 @@ def _pressures(f: FieldReader, errors: ErrorCollector) -> tuple[tuple[str, objec
     for case, item in node.value.items():
         try:
             if case == "W" and isinstance(item.value, dict):
-                w = FieldReader(item, {"pressure", "suction"}, errors, "wind both ways")
+                w = FieldReader(item, WIND_KEYS, errors, "wind both ways")
                 both = {k: w.quantity(k, "stress") for k in ("pressure", "suction") if w.has(k)}
                 if not w.ok or not both:
                     return None

@@ -14,6 +14,8 @@ from audit.core.located_yaml import Node, node_text
 from audit.core.suggest import did_you_mean
 from audit.core.units import parse_quantity
 
+__all__ = ["FieldReader", "describe_value", "list_items"]
+
 
 class FieldReader:
     """Reads the fields of one mapping node, collecting errors instead of stopping."""

@@ -25,7 +25,7 @@ from audit.engine.plan_geometry import (
     is_upright_box,
     overlap_region,
 )
-from audit.inputs.layout import ROUND, Placed
+from audit.inputs.layout_records import ROUND, Placed
 
 Box = tuple[float, float, float, float]  # x0, y0, x1, y1
 LEVEL_TOLERANCE = 1e-3  # m: an underside within 1 mm of a top bears on it

@@ -20,6 +20,7 @@ from audit.standards.registry import DEFAULT_STANDARD, standard_named, standards
 from audit.standards.resistance import ANGLE
 
 CLAIM_KEYS = {"id", "where", "location", "member", "kind", "Qf", "Qr", "utilisation", "factors", "adequate", "text"}
+FILE_KEYS = {"claims"}
 WHERE_KEYS = {"page", "sheet", "table", "item", "x", "y"}
 # What a claim may state of its contact under any standard, with the dimension it is read in; its factors it
 # names in its standard's own symbols (``Standard.symbols``: O86 KB, KZcp, KD, fcp; NDS Cb, CM, Ct, Ci, Fc-perp;
@@ -93,7 +94,7 @@ def build_claims(root: Node, standard: Standard | None = None) -> tuple[Claim, .
     vocabulary = claim_factors(standard or standard_named(DEFAULT_STANDARD))
     title = (standard or standard_named(DEFAULT_STANDARD)).title
     errors = ErrorCollector()
-    top = FieldReader(root, {"claims"}, errors, "the claims file")
+    top = FieldReader(root, FILE_KEYS, errors, "the claims file")
     if top.ok and "claims" not in top.map:
         errors.add("missing section 'claims'", root.child_loc("claims"))
     errors.raise_if_any()

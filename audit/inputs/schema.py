@@ -292,6 +292,11 @@ MODEL_SCHEMA: dict[str, Any] = {
                         "label": {"type": "string"},
                         "place": PLACE,
                         "note": {"type": "string"},
+                        "aliases": {
+                            "type": "array",
+                            "items": {"type": "string"},
+                            "description": "the member's earlier ids, so a renamed member keeps its comments",
+                        },
                     },
                     ["id", "material", "b", "d", "length"],
                 ),

@@ -122,6 +122,26 @@ def _read_pack(item: Node, index: int, plate_id: str, thickness: float, errors: 
     return Pack(pack_id, at, width, note, item.loc)
 
 
+def _pack_spans(plate: Member, wall: StudWall, errors: ErrorCollector) -> list[tuple[float, float, Pack]] | None:
+    """Each pack's extent along the plate, in order; None (with the error) for one past the plate's ends or
+    overlapping the one before."""
+    spans: list[tuple[float, float, Pack]] = []
+    for pack in sorted(wall.packs, key=lambda p: p.at):
+        lo, hi = pack.at - pack.width / 2, pack.at + pack.width / 2
+        if lo < -1e-9 or hi > plate.length + 1e-9:
+            errors.add(
+                f"stud pack '{pack.id}' ({pack.width * 1000:.0f} mm at {pack.at * 1000:.0f} mm) runs past the "
+                f"ends of plate '{plate.id}' (length {plate.length * 1000:.0f} mm)",
+                pack.loc,
+            )
+            return None
+        if spans and lo < spans[-1][1] - 1e-9:
+            errors.add(f"stud packs '{spans[-1][2].id}' and '{pack.id}' overlap under '{plate.id}'", pack.loc)
+            return None
+        spans.append((lo, hi, pack))
+    return spans
+
+
 def place_studs(plate: Member, wall: StudWall, errors: ErrorCollector) -> tuple[list[Member], list[Bearing]]:
     """The studs and packs as posts under the plate, each with its bearing.
 
@@ -137,20 +157,9 @@ def place_studs(plate: Member, wall: StudWall, errors: ErrorCollector) -> tuple[
             wall.loc,
         )
         return [], []
-    spans: list[tuple[float, float, Pack]] = []
-    for pack in sorted(wall.packs, key=lambda p: p.at):
-        lo, hi = pack.at - pack.width / 2, pack.at + pack.width / 2
-        if lo < -1e-9 or hi > plate.length + 1e-9:
-            errors.add(
-                f"stud pack '{pack.id}' ({pack.width * 1000:.0f} mm at {pack.at * 1000:.0f} mm) runs past the "
-                f"ends of plate '{plate.id}' (length {plate.length * 1000:.0f} mm)",
-                pack.loc,
-            )
-            return [], []
-        if spans and lo < spans[-1][1] - 1e-9:
-            errors.add(f"stud packs '{spans[-1][2].id}' and '{pack.id}' overlap under '{plate.id}'", pack.loc)
-            return [], []
-        spans.append((lo, hi, pack))
+    spans = _pack_spans(plate, wall, errors)
+    if spans is None:
+        return [], []
     first = wall.first if wall.first is not None else t / 2
     if first < t / 2 - 1e-9 or first > plate.length - t / 2 + 1e-9:
         errors.add(f"first stud at {first * 1000:.0f} mm does not stand under plate '{plate.id}'", wall.loc)

@@ -11,34 +11,12 @@ from typing import Any
 
 from audit.report.export import rows_to_csv
 from audit.review.comments import Comment
+from audit.review.log_columns import CSV_COLUMNS, FILLED_IN, WORKBOOK_COLUMNS
 from audit.review.reconcile import Reconciliation
 from audit.review.review import Review
 from audit.review.rounds import Round
 
-COLUMNS = [
-    "comment",
-    "weight",
-    "kind",
-    "title",
-    "check",
-    "bearing",
-    "calc_label",
-    "member",
-    "claim",
-    "calc_reference",
-    "quantity",
-    "unit",
-    "claimed",
-    "recomputed",
-    "clause",
-    "points",
-    "round_status",
-    "previous_response",
-    "designer_response",
-    "disposition",  # the reviewer fills these in on the designer's reply: accepted | not accepted | deferred
-    "reviewer_reply",
-    "deferred_to",
-]
+COLUMNS = list(CSV_COLUMNS)
 
 
 def _number(value: float | None) -> Any:
@@ -77,10 +55,7 @@ def comment_rows(comments: tuple[Comment, ...], record: bool = True, round_: Rou
                         " ".join(p.points),
                         status,
                         response,
-                        "",
-                        "",
-                        "",
-                        "",
+                        *("" for _ in FILLED_IN),
                     ]
                 )
     return rows
@@ -138,22 +113,7 @@ def comments_xlsx(
     book = Workbook()
     sheet = book.active
     sheet.title = "Comments"
-    head = [
-        "No.",
-        "Weight",
-        "Kind",
-        "Comment",
-        "Where, and the numbers compared",
-        "Points",
-        "Clause",
-        "Calc reference",
-        "Status",
-        "Previous response",
-        "Designer's response",
-        "Disposition",
-        "Reviewer's reply",
-        "Deferred to",
-    ]
+    head = list(WORKBOOK_COLUMNS)
     sheet.append(head)
     standing = {t.number: t for t in round_.tracked} if round_ is not None else {}
     for c in (c for c in comments if not c.quiet):
@@ -162,7 +122,7 @@ def comments_xlsx(
         t = standing.get(c.number)
         status, response = (t.status, t.response) if t is not None else ("", "")
         row = [c.number, c.weight, c.kind, _asked(c), _place_lines(c), points, c.clause, pages, status, response]
-        row += ["", "", "", ""]  # the designer's response and the reviewer's disposition, reply and stage
+        row += ["" for _ in FILLED_IN]  # the designer's response and the reviewer's disposition, reply and stage
         sheet.append([_cell(v) for v in row])
     widths = [6, 10, 16, 50, 50, 80, 16, 22, 10, 40, 40, 14, 40, 20]
     _shape(sheet, widths, Alignment, Font)
