@@ -8,6 +8,8 @@ import json
 import re
 from dataclasses import replace
 
+from markupsafe import escape as html_escape
+
 from audit.inputs.read_claims import read_claims
 from audit.report.memo import MemoOptions, render_appendix, render_memo
 from audit.review.reconcile import reconcile
@@ -38,7 +40,7 @@ def _run_demo(run_cli, out):
 
 def test_committed_demo_outputs_are_byte_identical_to_a_fresh_run(run_cli, tmp_path):
     result = _run_demo(run_cli, tmp_path)
-    assert result.exit_code == 1  # the demo has critical and major findings
+    assert result.exit_code == 1  # the demo has comments that weigh safety and revise
     for name in ("demo-memo.html", "demo-appendix.html", "demo-findings.json", "demo-findings.csv"):
         fresh = (tmp_path / name).read_bytes()
         committed = (ROOT / "reports" / name).read_bytes()
@@ -104,7 +106,8 @@ def test_a_comment_with_many_places_names_the_first_in_the_letter_and_all_in_the
     # the letter keeps the comment's own order (the comment puts its worst place first)
     shown = [int(n) for n in re.findall(r"<td>spot(\d+)</td>", letter)]
     assert shown == list(range(12, 12 - LETTER_PLACES, -1))
-    assert f"{12 - LETTER_PLACES} more are listed under comment {many.number} in the appendix (a.html)" in letter
+    more = f"{LETTER_PLACES} of 12 places shown; the other {12 - LETTER_PLACES} are under comment {many.number}"
+    assert f"{more} in the appendix and in the comment log" in letter
     places = appendix.split('id="places"')[1].split("</section>")[0]
     # the appendix lists every place once, in natural order (spot2 before spot10)
     assert [int(n) for n in re.findall(r"<td>spot(\d+)</td>", places)] == list(range(1, 13))
@@ -115,7 +118,23 @@ def test_memo_shows_the_cautions_and_the_readings_used():
     html = render_memo(review, None, (), MemoOptions())
     assert "never replaces it" in html
     assert "verified against the edition" in html
-    assert "stiffness method" in html and "1.5 L1" in html
+    assert "1.5 L1" in html  # a reading of the rule pack: in the letter
+
+
+def test_how_the_model_is_read_leaves_the_letter_for_the_appendix_and_the_letter_says_where():
+    from audit.report.memo import assumptions, letter_assumptions
+
+    review = review_model(DEMO)
+    options = MemoOptions(appendix="a.html")
+    letter = render_memo(review, None, (), options)
+    appendix = render_appendix(review, None, (), options)
+    every, kept = assumptions(review), letter_assumptions(review)
+    assert set(kept) < set(every)
+    assert "stiffness method" not in letter and "Contact area on each member" not in letter
+    assert "How the model is read (statics," in letter and "in the appendix (a.html)" in letter
+    listed = appendix.split('id="assumptions"')[1].split("</section>")[0]
+    for line in every:  # every assumption, kept or not, is in the appendix
+        assert str(html_escape(line)) in listed
 
 
 def test_markup_in_labels_is_escaped_in_the_memo():

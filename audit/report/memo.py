@@ -93,32 +93,69 @@ def _slot(lines: dict[str, str], name: str) -> list[str]:
     return [lines[name]] if name in lines else []
 
 
+STATICS_LINE = (
+    "Members on two supports are solved by statics; members on three or more supports by the stiffness "
+    "method for a continuous beam of constant EI on unyielding supports."
+)
+PATTERN_PATH_LINE = (
+    "The worst and the least pattern at each support pass down the load path: the members below (posts, sills, "
+    "girders, plates) take each force from above at whichever of the two is worse at each of their own checks, in "
+    "their reactions, local checks and near-support loads. Each combination is evaluated with every patterned case "
+    "at its worst pattern, on every span, and at its least downward placing, and the highest Qf/Qr kept: less live "
+    "or snow load can lower the load-duration factor more than the load."
+)
+SPANS_LINE = "Spans run between bearing centres; loads beyond an end support act on an overhang."
+STUD_WALL_LINE = (
+    "A plate on a stud wall (support: studs) stands on studs placed at their spacing from the plate's start, "
+    "with an end stud, and on the stud packs the model gives, each replacing the studs it covers; the plate is "
+    "checked over each loaded stud and pack and squeezed where a load above lies within d of one. Members "
+    "continuously supported (support: continuous) get local checks under every bearing on them; their "
+    "underside is checked only where the model shows what is under them, and point loads on one whose support "
+    "is not shown are listed as not checked. A bearing no load passes through needs no check. A point load that "
+    "states its bearing length (an equipment leg, a post of framing not modelled) gets a local check of the "
+    "member under it, across the load's stated width or else the member's b; one that states no length is "
+    "listed as not checked."
+)
+CONTACT_LINE = (
+    "Contact area on each member: along its grain, the bearing length on it (where the model gives none, "
+    "the other member's width for a square crossing, or a post's depth); across its grain, the least of its "
+    "own width b, the other member's extent across it (a post's width, or a crossing member's seat along its "
+    "own grain) and any stated plate or seat width. A stated plate or seat limits the contact, never widens it."
+)
+# How the model is read, the same on every job: stated in full in the appendix, named in the letter. The
+# letter keeps the readings a reviewer weighs (rule-pack readings, patterns, loads, KD, uplift, calc forces).
+METHOD_TOPICS = (
+    "statics, patterns down the load path, spans, where near-support checks are made, stud walls and continuous "
+    "supports, contact areas, glulam faces"
+)
+
+
+def _method_lines(review: Review) -> set[str]:
+    lines = review.standard.assumption_lines(review)
+    standard_lines = [*_slot(lines, "faces"), *_slot(lines, "near_support")]
+    return {STATICS_LINE, PATTERN_PATH_LINE, SPANS_LINE, STUD_WALL_LINE, CONTACT_LINE, *standard_lines}
+
+
+def letter_assumptions(review: Review) -> list[str]:
+    """The assumptions the letter states; the rest (``_method_lines``) are in the appendix's full list."""
+    method = _method_lines(review)
+    return [line for line in assumptions(review) if line not in method]
+
+
 def assumptions(review: Review) -> list[str]:
     pack = review.pack
     lines = review.standard.assumption_lines(review)  # what the standard of the rule pack says
     out = [
-        "Members on two supports are solved by statics; members on three or more supports by the stiffness "
-        "method for a continuous beam of constant EI on unyielding supports.",
+        STATICS_LINE,
         *_pattern_lines(review),
-        "Spans run between bearing centres; loads beyond an end support act on an overhang.",
+        SPANS_LINE,
         *(
             f"{choice.title}: {choice.text(review.readings[name])} [reading {review.readings[name]}]."
             for name, choice in pack.choices.items()
         ),
         *_slot(lines, "near_support"),
-        "A plate on a stud wall (support: studs) stands on studs placed at their spacing from the plate's start, "
-        "with an end stud, and on the stud packs the model gives, each replacing the studs it covers; the plate is "
-        "checked over each loaded stud and pack and squeezed where a load above lies within d of one. Members "
-        "continuously supported (support: continuous) get local checks under every bearing on them; their "
-        "underside is checked only where the model shows what is under them, and point loads on one whose support "
-        "is not shown are listed as not checked. A bearing no load passes through needs no check. A point load that "
-        "states its bearing length (an equipment leg, a post of framing not modelled) gets a local check of the "
-        "member under it, across the load's stated width or else the member's b; one that states no length is "
-        "listed as not checked.",
-        "Contact area on each member: along its grain, the bearing length on it (where the model gives none, "
-        "the other member's width for a square crossing, or a post's depth); across its grain, the least of its "
-        "own width b, the other member's extent across it (a post's width, or a crossing member's seat along its "
-        "own grain) and any stated plate or seat width. A stated plate or seat limits the contact, never widens it.",
+        STUD_WALL_LINE,
+        CONTACT_LINE,
         *_slot(lines, "faces"),
         "Specified loads are taken as given: snow, wind and earthquake loads must already include their "
         "importance factors (the tool applies none). Wind given as pressure and suction is taken each way in every "
@@ -129,10 +166,10 @@ def assumptions(review: Review) -> list[str]:
     ]
     threshold, whose = uplift_threshold(review.model, pack)
     out.append(
-        f"Calculated uplift below {threshold / 1000:.2f} kN ({whose}) is a minor note, likely continuity of the "
-        "statics; larger uplift is a major finding."
+        f"Calculated uplift below {threshold / 1000:.2f} kN ({whose}) is a note that weighs clarify, likely "
+        "continuity of the statics; larger uplift weighs revise."
         if threshold > 0
-        else "Every calculated uplift is a major finding (no note threshold set by the project or the rule pack)."
+        else "Every calculated uplift weighs revise (no note threshold set by the project or the rule pack)."
     )
     if review.model.factored_groups:
         out.append(
@@ -161,13 +198,9 @@ def _pattern_lines(review: Review) -> list[str]:
     )
     return [
         f"Pattern loading at the supports of members on three or more supports: {placed}, whichever is worse at each "
-        "check; the check names its governing pattern. The worst and the least pattern at each support pass down the "
-        "load path: the members below (posts, sills, girders, plates) take each force from above at whichever of the "
-        "two is worse at each of their own checks, in their reactions, local checks and near-support loads. "
-        "Each combination is evaluated with every patterned case at its worst pattern, on "
-        "every span, and at its least downward placing, and the highest Qf/Qr kept: less live or snow load can "
-        "lower the load-duration factor more than the load. A plate on studs (and a wall's sole plate) is not "
+        "check; the check names its governing pattern. A plate on studs (and a wall's sole plate) is not "
         "patterned over its stud bays unless the model says so (studs: patterned: true).",
+        PATTERN_PATH_LINE,
         f"Uplift is looked for under every combination with dead load at {cpack.counteracting_dead.value:g}D where it "
         "counteracts and every patterned case at its least favourable placing.",
         *_joint_maxima_line(review),
@@ -547,7 +580,8 @@ def letter_view(
         "rest": _where_the_rest_is(review, options),
         "appendix": options.appendix,
         "letter_places": LETTER_PLACES,
-        "assumptions": assumptions(review),
+        "assumptions": letter_assumptions(review),
+        "method_topics": METHOD_TOPICS,
     }
 
 
@@ -620,6 +654,7 @@ def appendix_view(
         "derivation_limit": DERIVATION_LIMIT,
         "large_derivations": LARGE_DERIVATIONS,
         "has_claims": reconciliation is not None,
+        "assumptions": assumptions(review),
         "kinds": list(KINDS.values()),
         "weight_words": WEIGHT_WORDS,
     }

@@ -209,7 +209,7 @@ def uplift_findings(
     display: Display | None = None,
     counteracting: float = 1.0,
 ) -> tuple[Finding, ...]:
-    """One finding per bearing with uplift; below the project's threshold it is a minor note that says so."""
+    """One finding per bearing with uplift; below the project's threshold it weighs clarify and says so."""
     factors = factors or {}
     display = display or Display()
     seen: set[str] = set()
