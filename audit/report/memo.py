@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import datetime as dt
 from collections.abc import Iterator
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Any
 
 import jinja2
@@ -325,6 +325,17 @@ def _comment_view(c: Comment, standing: Any = None, shown: int | None = None) ->
     }
 
 
+def worst_places_first(c: Comment, utilisation: dict[str, float], shown: int) -> Comment:
+    """The comment with its ``shown`` worst places (highest recomputed Qf/Qr) first, each group in the comment's own
+    order: the places a letter shows of a longer comment, so the worst place its title names is among them."""
+    if len(c.places) <= shown:
+        return c
+    ranked = sorted(range(len(c.places)), key=lambda i: (-utilisation.get(c.places[i].check_id, 0.0), i))
+    keep = set(ranked[:shown])
+    first = tuple(p for i, p in enumerate(c.places) if i in keep)
+    return replace(c, places=first + tuple(p for i, p in enumerate(c.places) if i not in keep))
+
+
 def _status_of(review: Review, rec: Reconciliation | None) -> dict[str, str]:
     if rec is not None:
         return {o.check_id: o.status for o in rec.checks}
@@ -567,13 +578,17 @@ def letter_view(
 ) -> dict[str, Any]:
     ctx = _context(review, reconciliation, claims, options)
     asking = [c for c in ctx.comments if not c.quiet]
+    utilisation = {r.check.id: r.governing.utilisation for r in review.results}
     return {
         **_head(review, options),
         "title": options.title,
         "summary": _summary(review, reconciliation, ctx.counts, claims),
         "count_rows": _count_rows(ctx.counts),
         "by_weight": {WEIGHT_WORDS[w]: sum(c.weight == w for c in asking) for w in SEVERITIES[:3]},
-        "comments": [_comment_view(c, ctx.standing.get(c.number), LETTER_PLACES) for c in asking],
+        "comments": [
+            _comment_view(worst_places_first(c, utilisation, LETTER_PLACES), ctx.standing.get(c.number), LETTER_PLACES)
+            for c in asking
+        ],
         "for_record": sum(c.quiet for c in ctx.comments),
         "record_where": "in the JSON export" if len(review.results) > EVERY_CHECK_LIMIT else "in the appendix",
         "round": _round_view(options.round),
