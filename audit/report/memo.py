@@ -558,7 +558,8 @@ def _where_the_rest_is(review: Review, options: MemoOptions) -> str:
     what = (
         listed
         + ("the level plans, " if review.model.frame is not None else "")
-        + "the elevations of the members with comments and the derivation of each check with a comment"
+        + "the elevations of the members with comments, the derivation of each check with a comment and every "
+        "assumption of the review"
     )
     json_words = (
         f" Every check and finding is also in the JSON export, {options.json}."
