@@ -8,6 +8,9 @@ import json
 import re
 from dataclasses import replace
 
+import pytest
+from markupsafe import escape as html_escape
+
 from audit.inputs.read_claims import read_claims
 from audit.report.memo import MemoOptions, render_appendix, render_memo
 from audit.review.reconcile import reconcile
@@ -38,7 +41,7 @@ def _run_demo(run_cli, out):
 
 def test_committed_demo_outputs_are_byte_identical_to_a_fresh_run(run_cli, tmp_path):
     result = _run_demo(run_cli, tmp_path)
-    assert result.exit_code == 1  # the demo has critical and major findings
+    assert result.exit_code == 1  # the demo has comments that weigh safety and revise
     for name in ("demo-memo.html", "demo-appendix.html", "demo-findings.json", "demo-findings.csv"):
         fresh = (tmp_path / name).read_bytes()
         committed = (ROOT / "reports" / name).read_bytes()
@@ -101,10 +104,13 @@ def test_a_comment_with_many_places_names_the_first_in_the_letter_and_all_in_the
     letter = render_memo(review, rec, claims, options)
     appendix = render_appendix(review, rec, claims, options)
     assert LETTER_PLACES < 12
-    # the letter keeps the comment's own order (the comment puts its worst place first)
+    # places alike in Qf/Qr: the letter keeps the comment's own order
     shown = [int(n) for n in re.findall(r"<td>spot(\d+)</td>", letter)]
     assert shown == list(range(12, 12 - LETTER_PLACES, -1))
-    assert f"{12 - LETTER_PLACES} more are listed under comment {many.number} in the appendix (a.html)" in letter
+    more = (
+        f"The {LETTER_PLACES} worst of 12 places shown; the other {12 - LETTER_PLACES} are under comment {many.number}"
+    )
+    assert f"{more} in the appendix and in the comment log" in letter
     places = appendix.split('id="places"')[1].split("</section>")[0]
     # the appendix lists every place once, in natural order (spot2 before spot10)
     assert [int(n) for n in re.findall(r"<td>spot(\d+)</td>", places)] == list(range(1, 13))
@@ -115,7 +121,23 @@ def test_memo_shows_the_cautions_and_the_readings_used():
     html = render_memo(review, None, (), MemoOptions())
     assert "never replaces it" in html
     assert "verified against the edition" in html
-    assert "stiffness method" in html and "1.5 L1" in html
+    assert "1.5 L1" in html  # a reading of the rule pack: in the letter
+
+
+def test_how_the_model_is_read_leaves_the_letter_for_the_appendix_and_the_letter_says_where():
+    from audit.report.memo import assumptions, letter_assumptions
+
+    review = review_model(DEMO)
+    options = MemoOptions(appendix="a.html")
+    letter = render_memo(review, None, (), options)
+    appendix = render_appendix(review, None, (), options)
+    every, kept = assumptions(review), letter_assumptions(review)
+    assert set(kept) < set(every)
+    assert "stiffness method" not in letter and "Contact area on each member" not in letter
+    assert "How the model is read (statics," in letter and "in the appendix (a.html)" in letter
+    listed = appendix.split('id="assumptions"')[1].split("</section>")[0]
+    for line in every:  # every assumption, kept or not, is in the appendix
+        assert str(html_escape(line)) in listed
 
 
 def test_markup_in_labels_is_escaped_in_the_memo():
@@ -211,3 +233,26 @@ def test_above_the_size_limit_the_appendix_lists_checks_with_comments_and_names_
     assert "(not written with this appendix: --xlsx FILE writes it)" in unwritten
     letter = unescape(render_memo(review, rec, claims, MemoOptions(appendix="a.html")))
     assert "which holds the checks a comment is on (every check is in the workbook's sheet 'Checks')" in letter
+
+
+def test_the_letter_shows_the_worst_places_of_a_long_comment_in_the_comments_own_order():
+    from audit.report.memo import LETTER_PLACES, letter_view
+    from audit.review.comments import build_comments
+
+    demo = ROOT / "fixtures" / "demo-layout"
+    review = review_model(demo / "model.yaml")
+    claims = read_claims(demo / "claims.yaml")
+    rec = reconcile(review, claims)
+    view = letter_view(review, rec, claims, MemoOptions())
+    # Qf/Qr of each check: its governing Qf over its governing Qr
+    ratio = {r.check.id: r.governing.qf / r.governing.qr for r in review.results}
+    long = [c for c in view["comments"] if c["more"]]
+    assert long
+    for c in long:
+        full = next(x for x in build_comments(review, rec, claims) if x.number == c["number"])
+        every = sorted((ratio[p.check_id] for p in full.places if p.check_id), reverse=True)
+        shown = [ratio[p["id"]] for p in c["places"]]
+        assert len(shown) == LETTER_PLACES
+        assert sorted(shown, reverse=True) == pytest.approx(every[:LETTER_PLACES]), c["number"]
+        order = [p.check_id for p in full.places]
+        assert [order.index(p["id"]) for p in c["places"]] == sorted(order.index(p["id"]) for p in c["places"])

@@ -144,3 +144,38 @@ def test_no_header_or_name_of_the_summary_table_is_split_mid_word_on_letter(tmp_
         words = {w["text"] for w in pdf.pages[0].extract_words()}
     for word in ("finding", "code", "count", *(k.name for k in KINDS.values()), *(k.code for k in KINDS.values())):
         assert word in words, f"'{word}' is not printed whole on page 1"
+
+
+LETTER_PAGE_LIMIT = 10  # issue 22: the letter of the layout demo prints on at most 10 Letter pages
+
+
+def test_the_layout_demo_letter_prints_on_at_most_ten_letter_pages_with_the_summary_and_comment_1_on_page_1(
+    tmp_path,
+):
+    import json
+
+    import pypdfium2
+    from typer.testing import CliRunner
+
+    from audit.cli import app
+
+    demo = ROOT / "fixtures" / "demo-layout"
+    letter, out = tmp_path / "layout-demo-memo.html", tmp_path / "layout-demo-findings.json"
+    args = ["review", str(demo / "model.yaml"), "--claims", str(demo / "claims.yaml"), "--memo", str(letter)]
+    args += ["--appendix", str(tmp_path / "layout-demo-appendix.html"), "--json", str(out)]
+    assert CliRunner().invoke(app, args, catch_exceptions=False).exit_code == 1
+    first = next(c for c in json.loads(out.read_text(encoding="utf-8"))["comments"] if c["comment"] == 1)
+    pdf_path = browser.print_pdf(letter, tmp_path / "layout-demo-memo.pdf", tmp_path / "profile")
+    ARTEFACTS.mkdir(parents=True, exist_ok=True)
+    shutil.copy(pdf_path, ARTEFACTS / "layout-demo-memo.pdf")
+    pdf = pypdfium2.PdfDocument(pdf_path)
+    try:
+        width, height = pdf[0].get_size()
+        assert (round(width), round(height)) == (612, 792)  # Letter, in points
+        pages = len(pdf)
+        page_1 = _squash(pdf[0].get_textpage().get_text_range())
+    finally:
+        pdf.close()
+    assert pages <= LETTER_PAGE_LIMIT, f"the layout demo's letter takes {pages} Letter pages"
+    assert "Summary" in page_1 and _squash("Of 499 required bearing checks") in page_1
+    assert _squash(f"1. {first['weight'].upper()}") in page_1 and _squash(first["title"][:40]) in page_1

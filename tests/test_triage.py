@@ -237,3 +237,34 @@ def _no_claims(tmp_path):
     path = tmp_path / "claims.yaml"
     path.write_text("claims: []\n", encoding="utf-8")
     return path
+
+
+def test_the_layout_demos_appendix_lists_every_check_and_claim_once_with_the_comment_of_the_json(tmp_path):
+    import re
+    from html import unescape
+
+    from typer.testing import CliRunner
+
+    from audit.cli import app
+
+    demo = ROOT / "fixtures" / "demo-layout"
+    out, appendix = tmp_path / "layout.json", tmp_path / "appendix.html"
+    args = ["review", str(demo / "model.yaml"), "--claims", str(demo / "claims.yaml"), "--json", str(out)]
+    args += ["--appendix", str(appendix)]
+    assert CliRunner().invoke(app, args, catch_exceptions=False).exit_code == 1
+    data = json.loads(out.read_text(encoding="utf-8"))
+    html = appendix.read_text(encoding="utf-8")
+    number = {p["check"]: c["comment"] for c in data["comments"] for p in c["places"] if p["check"]}
+
+    def rows(section: str, cells: int) -> list[list[str]]:
+        body = html.split(f'<section id="{section}">')[1].split('<section id="', 1)[0]
+        found = []
+        for row in re.findall(r"<tr>((?:<td[^>]*>[^<]*</td>){" + str(cells) + r"})</tr>", body):
+            found.append([unescape(c) for c in re.findall(r"<td[^>]*>([^<]*)</td>", row)])
+        return found
+
+    checks = rows("checks", 9)
+    assert sorted(r[0] for r in checks) == sorted(c["id"] for c in data["checks"])  # each check once
+    assert all(r[8] == str(number[r[0]]) for r in checks)  # with the number of its one comment
+    claims = rows("claims", 5)
+    assert sorted(r[0] for r in claims) == sorted(o["claim"] for o in data["claim_outcomes"])  # each claim once

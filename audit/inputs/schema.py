@@ -210,7 +210,8 @@ MODEL_SCHEMA: dict[str, Any] = {
                     "uplift_note_below": {
                         "type": "string",
                         "description": "a force, e.g. '0.5 kN': a smaller calculated uplift (continuity noise at a "
-                        "nailed plate) is reported as a minor note stating this threshold, not a major finding",
+                        "nailed plate) is a note that weighs clarify and states this threshold; larger uplift "
+                        "weighs revise",
                     },
                     "own_comment_from": {
                         "type": "number",

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import datetime as dt
 from collections.abc import Iterator
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Any
 
 import jinja2
@@ -95,32 +95,69 @@ def _slot(lines: dict[str, str], name: str) -> list[str]:
     return [lines[name]] if name in lines else []
 
 
+STATICS_LINE = (
+    "Members on two supports are solved by statics; members on three or more supports by the stiffness "
+    "method for a continuous beam of constant EI on unyielding supports."
+)
+PATTERN_PATH_LINE = (
+    "The worst and the least pattern at each support pass down the load path: the members below (posts, sills, "
+    "girders, plates) take each force from above at whichever of the two is worse at each of their own checks, in "
+    "their reactions, local checks and near-support loads. Each combination is evaluated with every patterned case "
+    "at its worst pattern, on every span, and at its least downward placing, and the highest Qf/Qr kept: less live "
+    "or snow load can lower the load-duration factor more than the load."
+)
+SPANS_LINE = "Spans run between bearing centres; loads beyond an end support act on an overhang."
+STUD_WALL_LINE = (
+    "A plate on a stud wall (support: studs) stands on studs placed at their spacing from the plate's start, "
+    "with an end stud, and on the stud packs the model gives, each replacing the studs it covers; the plate is "
+    "checked over each loaded stud and pack and squeezed where a load above lies within d of one. Members "
+    "continuously supported (support: continuous) get local checks under every bearing on them; their "
+    "underside is checked only where the model shows what is under them, and point loads on one whose support "
+    "is not shown are listed as not checked. A bearing no load passes through needs no check. A point load that "
+    "states its bearing length (an equipment leg, a post of framing not modelled) gets a local check of the "
+    "member under it, across the load's stated width or else the member's b; one that states no length is "
+    "listed as not checked."
+)
+CONTACT_LINE = (
+    "Contact area on each member: along its grain, the bearing length on it (where the model gives none, "
+    "the other member's width for a square crossing, or a post's depth); across its grain, the least of its "
+    "own width b, the other member's extent across it (a post's width, or a crossing member's seat along its "
+    "own grain) and any stated plate or seat width. A stated plate or seat limits the contact, never widens it."
+)
+# How the model is read, the same on every job: stated in full in the appendix, named in the letter. The
+# letter keeps the readings a reviewer weighs (rule-pack readings, patterns, loads, KD, uplift, calc forces).
+METHOD_TOPICS = (
+    "statics, patterns down the load path, spans, where near-support checks are made, stud walls and continuous "
+    "supports, contact areas, glulam faces"
+)
+
+
+def _method_lines(review: Review) -> set[str]:
+    lines = review.standard.assumption_lines(review)
+    standard_lines = [*_slot(lines, "faces"), *_slot(lines, "near_support")]
+    return {STATICS_LINE, PATTERN_PATH_LINE, SPANS_LINE, STUD_WALL_LINE, CONTACT_LINE, *standard_lines}
+
+
+def letter_assumptions(review: Review) -> list[str]:
+    """The assumptions the letter states; the rest (``_method_lines``) are in the appendix's full list."""
+    method = _method_lines(review)
+    return [line for line in assumptions(review) if line not in method]
+
+
 def assumptions(review: Review) -> list[str]:
     pack = review.pack
     lines = review.standard.assumption_lines(review)  # what the standard of the rule pack says
     out = [
-        "Members on two supports are solved by statics; members on three or more supports by the stiffness "
-        "method for a continuous beam of constant EI on unyielding supports.",
+        STATICS_LINE,
         *_pattern_lines(review),
-        "Spans run between bearing centres; loads beyond an end support act on an overhang.",
+        SPANS_LINE,
         *(
             f"{choice.title}: {choice.text(review.readings[name])} [reading {review.readings[name]}]."
             for name, choice in pack.choices.items()
         ),
         *_slot(lines, "near_support"),
-        "A plate on a stud wall (support: studs) stands on studs placed at their spacing from the plate's start, "
-        "with an end stud, and on the stud packs the model gives, each replacing the studs it covers; the plate is "
-        "checked over each loaded stud and pack and squeezed where a load above lies within d of one. Members "
-        "continuously supported (support: continuous) get local checks under every bearing on them; their "
-        "underside is checked only where the model shows what is under them, and point loads on one whose support "
-        "is not shown are listed as not checked. A bearing no load passes through needs no check. A point load that "
-        "states its bearing length (an equipment leg, a post of framing not modelled) gets a local check of the "
-        "member under it, across the load's stated width or else the member's b; one that states no length is "
-        "listed as not checked.",
-        "Contact area on each member: along its grain, the bearing length on it (where the model gives none, "
-        "the other member's width for a square crossing, or a post's depth); across its grain, the least of its "
-        "own width b, the other member's extent across it (a post's width, or a crossing member's seat along its "
-        "own grain) and any stated plate or seat width. A stated plate or seat limits the contact, never widens it.",
+        STUD_WALL_LINE,
+        CONTACT_LINE,
         *_slot(lines, "faces"),
         "Specified loads are taken as given: snow, wind and earthquake loads must already include their "
         "importance factors (the tool applies none). Wind given as pressure and suction is taken each way in every "
@@ -165,13 +202,9 @@ def _pattern_lines(review: Review) -> list[str]:
     )
     return [
         f"Pattern loading at the supports of members on three or more supports: {placed}, whichever is worse at each "
-        "check; the check names its governing pattern. The worst and the least pattern at each support pass down the "
-        "load path: the members below (posts, sills, girders, plates) take each force from above at whichever of the "
-        "two is worse at each of their own checks, in their reactions, local checks and near-support loads. "
-        "Each combination is evaluated with every patterned case at its worst pattern, on "
-        "every span, and at its least downward placing, and the highest Qf/Qr kept: less live or snow load can "
-        "lower the load-duration factor more than the load. A plate on studs (and a wall's sole plate) is not "
+        "check; the check names its governing pattern. A plate on studs (and a wall's sole plate) is not "
         "patterned over its stud bays unless the model says so (studs: patterned: true).",
+        PATTERN_PATH_LINE,
         f"Uplift is looked for under every combination with dead load at {cpack.counteracting_dead.value:g}D where it "
         "counteracts and every patterned case at its least favourable placing.",
         *_joint_maxima_line(review),
@@ -294,6 +327,17 @@ def _comment_view(c: Comment, standing: Any = None, shown: int | None = None) ->
         "flagged": bool(standing.flagged) if standing is not None else False,
         "history": history_sentence(history, len(c.places) > 1) if history else "",
     }
+
+
+def worst_places_first(c: Comment, utilisation: dict[str, float], shown: int) -> Comment:
+    """The comment with its ``shown`` worst places (highest recomputed Qf/Qr) first, each group in the comment's own
+    order: the places a letter shows of a longer comment, so the worst place its title names is among them."""
+    if len(c.places) <= shown:
+        return c
+    ranked = sorted(range(len(c.places)), key=lambda i: (-utilisation.get(c.places[i].check_id, 0.0), i))
+    keep = set(ranked[:shown])
+    first = tuple(p for i, p in enumerate(c.places) if i in keep)
+    return replace(c, places=first + tuple(p for i, p in enumerate(c.places) if i not in keep))
 
 
 def _status_of(review: Review, rec: Reconciliation | None) -> dict[str, str]:
@@ -518,7 +562,8 @@ def _where_the_rest_is(review: Review, options: MemoOptions) -> str:
     what = (
         listed
         + ("the level plans, " if review.model.frame is not None else "")
-        + "the elevations of the members with comments and the derivation of each check with a comment"
+        + "the elevations of the members with comments, the derivation of each check with a comment and every "
+        "assumption of the review"
     )
     json_words = (
         f" Every check and finding is also in the JSON export, {options.json}."
@@ -538,20 +583,25 @@ def letter_view(
 ) -> dict[str, Any]:
     ctx = _context(review, reconciliation, claims, options)
     asking = [c for c in ctx.comments if not c.quiet]
+    utilisation = {r.check.id: r.governing.utilisation for r in review.results}
     return {
         **_head(review, options),
         "title": options.title,
         "summary": _summary(review, reconciliation, ctx.counts, claims),
         "count_rows": _count_rows(ctx.counts),
         "by_weight": {WEIGHT_WORDS[w]: sum(c.weight == w for c in asking) for w in SEVERITIES[:3]},
-        "comments": [_comment_view(c, ctx.standing.get(c.number), LETTER_PLACES) for c in asking],
+        "comments": [
+            _comment_view(worst_places_first(c, utilisation, LETTER_PLACES), ctx.standing.get(c.number), LETTER_PLACES)
+            for c in asking
+        ],
         "for_record": sum(c.quiet for c in ctx.comments),
         "record_where": "in the JSON export" if len(review.results) > EVERY_CHECK_LIMIT else "in the appendix",
         "round": _round_view(options.round),
         "rest": _where_the_rest_is(review, options),
         "appendix": options.appendix,
         "letter_places": LETTER_PLACES,
-        "assumptions": assumptions(review),
+        "assumptions": letter_assumptions(review),
+        "method_topics": METHOD_TOPICS,
     }
 
 
@@ -624,6 +674,7 @@ def appendix_view(
         "derivation_limit": DERIVATION_LIMIT,
         "large_derivations": LARGE_DERIVATIONS,
         "has_claims": reconciliation is not None,
+        "assumptions": assumptions(review),
         "kinds": list(KINDS.values()),
         "weight_words": WEIGHT_WORDS,
     }
