@@ -42,11 +42,51 @@ UNIT_ALIASES = {
     "in2": "in**2",
     "in²": "in**2",
 }
-# The trade's symbols on a page worth reading: O86 (Qf, Qr, Fcp, KZcp), US NDS (P', Fc⊥), EN 1995 (F_c,90,d)
+# The trade's symbols on a page worth reading: O86 (Qf, Qr, Fcp, KZcp), US NDS (P', Fc⊥), EN 1995 (F_c,90,d).
+# Every symbol starts with one of the letters in the lookahead, which lets the search skip the other
+# characters of a page's text quickly (this search runs over the text of every page).
 CANDIDATE = re.compile(
-    r"Q\s?'?\s?[fr]\b|Q[fr]'|F\s?cp|K\s?ZCP|KZcp|Qf|Qr|\bP\s?'\s?=|F\s?c\s?⊥|F\s?c\s?-?perp|[Ff]\s?_?c\s?,\s?90",
+    r"(?=[fkpq])(?:Q\s?'?\s?[fr]\b|Q[fr]'|F\s?cp|K\s?ZCP|KZcp|Qf|Qr|\bP\s?'\s?=|F\s?c\s?⊥|F\s?c\s?-?perp|[Ff]\s?_?c\s?,\s?90)",
     re.IGNORECASE,
 )
+
+
+@dataclass(frozen=True)
+class Vocabulary:
+    """What makes a page worth reading: the trade's symbols, and the head texts of a standard's value
+    columns (its claim_headers for Qf, Qr, the utilisation and the factors, found as words anywhere on
+    the page). ``any_text``: every page with text (a reviewer's own column map names heads the reader
+    cannot guess)."""
+
+    patterns: tuple[re.Pattern[str], ...] = (CANDIDATE,)
+    any_text: bool = False
+
+    def search(self, text: str) -> re.Match[str] | None:
+        for pattern in self.patterns:
+            if (found := pattern.search(text)) is not None:
+                return found
+        return None
+
+    def picks(self, text: str) -> bool:
+        return bool(text.strip()) and (self.any_text or self.search(text) is not None)
+
+
+def page_vocabulary(standard_headers: dict[str, str] | None = None, any_text: bool = False) -> Vocabulary:
+    """The vocabulary of the pages to read under a standard whose sheets use ``standard_headers``."""
+    own = [_on_the_page(v) for k, v in (standard_headers or {}).items() if k in (*NUMERIC_FIELDS, *FACTOR_FIELDS)]
+    if not own:
+        return Vocabulary(any_text=any_text)
+    try:
+        words = re.compile(r"(?<![A-Za-z0-9])(?:" + "|".join(f"(?:{p})" for p in own) + ")", re.IGNORECASE)
+    except re.error:  # a head pattern that does not read unanchored: every page with text is read
+        return Vocabulary(any_text=True)
+    return Vocabulary((CANDIDATE, words), any_text)
+
+
+def _on_the_page(head: str) -> str:
+    """A head cell's pattern (anchored at the cell's start and end) as a pattern for a word of a page."""
+    head = re.sub(r"(?<![\\\[])\^", "", head)
+    return re.sub(r"(?<!\\)\$", "(?![A-Za-z0-9])", head)
 
 
 @dataclass(frozen=True)
@@ -57,6 +97,23 @@ class ColumnMap:
     kind: str = ""  # a kind for every claim read with this map
     positions: dict[int, str] = field(default_factory=dict)  # column number (from 1, left) -> field
     bands: dict[str, re.Pattern[str]] = field(default_factory=dict)  # field -> a band over its column
+    # every header pattern in one: a cell none of them names (most cells of a page: its running text) is
+    # known as such in one search; None where the patterns cannot be joined (back references, mixed flags)
+    any_head: re.Pattern[str] | None = field(init=False, default=None, compare=False, repr=False)
+
+    def __post_init__(self) -> None:
+        object.__setattr__(self, "any_head", _joined(tuple(self.headers.values())))
+
+
+def _joined(patterns: tuple[re.Pattern[str], ...]) -> re.Pattern[str] | None:
+    """One pattern that matches wherever one of ``patterns`` does."""
+    flags = {p.flags for p in patterns}
+    if len(flags) != 1 or any(re.search(r"\\\d|\(\?P=|\(\?\(", p.pattern) for p in patterns):
+        return None
+    try:
+        return re.compile("|".join(f"(?:{p.pattern})" for p in patterns), flags.pop())
+    except re.error:
+        return None
 
 
 def default_map(standard_headers: dict[str, str] | None = None) -> ColumnMap:

@@ -19,11 +19,12 @@ from pathlib import Path
 from audit.core.errors import InputError, Location
 from audit.inputs.pdf.bands import NUMBER_CELL, close_below, compose, is_head_like
 from audit.inputs.pdf.columns import (
-    CANDIDATE,
     FACTOR_FIELDS,
     NUMERIC_FIELDS,
     ColumnMap,
+    Vocabulary,
     default_map,
+    page_vocabulary,
     read_column_map,
 )
 from audit.inputs.pdf.equations import EQUATION_HINT, claim_from_equation, find_equation, joined_equation
@@ -444,9 +445,12 @@ def extract(
     count = len(doc)
     doc.close()
     wanted = parse_pages(pages or cmap.pages, count, Location(str(path), 0, 0, "pages"))
-    custom_headers = cmap.headers != default_map().headers or bool(cmap.positions)
+    # a reviewer's own map may name heads without the trade's symbols: then every page with text is read;
+    # the standard's own heads (its claim_headers) are its vocabulary, as the trade's symbols are
+    custom_headers = cmap.headers != default_map(standard_headers).headers or bool(cmap.positions)
+    vocabulary = page_vocabulary(standard_headers, any_text=custom_headers)
     read: dict = {}
-    candidates, empty, warnings = scan_pages(path, wanted, any_text=custom_headers, read=read)
+    candidates, empty, warnings = scan_pages(path, wanted, vocabulary, read=read)
     workers = workers if workers is not None else max(1, min(os.cpu_count() or 1, 8))
     parsed = {**read, **page_words(path, [n for n in candidates if n not in read], workers, progress)}
     if progress and read:
@@ -481,7 +485,9 @@ def extract(
     for number in candidates:
         if per_page.get(number, 0) == 0 and number not in with_rows:
             unread.append(
-                Unread(number, "page with bearing-check vocabulary gave no claim", _vocabulary(parsed, number))
+                Unread(
+                    number, "page with bearing-check vocabulary gave no claim", _vocabulary(parsed, number, vocabulary)
+                )
             )
     unread.sort(key=lambda u: (u.page, u.what))
     return Extraction(
@@ -532,11 +538,11 @@ def _arrow(role: str) -> str:
     return f"-> {role}" if role else ""
 
 
-def _vocabulary(parsed: dict, number: int) -> str:
+def _vocabulary(parsed: dict, number: int, vocabulary: Vocabulary) -> str:
     """The page's first line with the trade's symbols, to say where to look."""
     words = parsed.get(number, ([], [], ""))[0]
     for line in group_lines(number, words):
-        if CANDIDATE.search(line.text):
+        if vocabulary.search(line.text):
             return line.text[:160]
     return ""
 
@@ -549,8 +555,6 @@ def _force(value: float | None) -> str | None:
 
 
 def claims_yaml(extraction: Extraction, source: str) -> str:
-    import yaml
-
     items = []
     for c in extraction.claims:
         item: dict = {
@@ -583,7 +587,33 @@ def claims_yaml(extraction: Extraction, source: str) -> str:
         header += f"# not read: {u.line()}\n"
     for w in extraction.warnings:
         header += f"# warning: {w}\n"
-    return header + yaml.safe_dump({"claims": items}, sort_keys=False, allow_unicode=True, width=120)
+    return header + _dump_claims(items)
+
+
+# Characters that both PyYAML emitters write as they are: where every string of the file is made of them,
+# libyaml's emitter gives the same bytes as PyYAML's own (tests/test_extract_speed.py checks it) in a
+# tenth of the time. Others (tabs, control characters, line and paragraph separators, a byte-order mark,
+# characters past U+FFFF) are escaped and folded differently by the two: the Python emitter writes those.
+_C_EMITTER_SAFE = re.compile("[\x20-\x7e\xa0-\u2027\u202a-\ud7ff\ue000-\ufefe\uff00-\ufffd]*")
+
+
+def _strings(node) -> list[str]:
+    if isinstance(node, str):
+        return [node]
+    if isinstance(node, dict):
+        return [s for k, v in node.items() for s in (*_strings(k), *_strings(v))]
+    if isinstance(node, list):
+        return [s for v in node for s in _strings(v)]
+    return []
+
+
+def _dump_claims(items: list[dict]) -> str:
+    import yaml
+
+    data = {"claims": items}
+    fast = getattr(yaml, "CSafeDumper", None)
+    dumper = fast if fast is not None and _C_EMITTER_SAFE.fullmatch("".join(_strings(data))) else yaml.SafeDumper
+    return yaml.dump(data, Dumper=dumper, sort_keys=False, allow_unicode=True, width=120)
 
 
 def _factor_text(name: str, value: float) -> float | str:

@@ -10,7 +10,7 @@ from concurrent.futures import ProcessPoolExecutor
 from pathlib import Path
 
 from audit.core.errors import InputError, Location
-from audit.inputs.pdf.columns import CANDIDATE
+from audit.inputs.pdf.columns import Vocabulary
 from audit.inputs.pdf.pdfium_words import page_words_pdfium
 from audit.inputs.pdf.settings import SETTINGS
 
@@ -74,17 +74,18 @@ def count_objects(raw, page, limit: int) -> int:
 
 
 def scan_pages(
-    path: Path, pages: list[int], any_text: bool = False, read: dict | None = None
+    path: Path, pages: list[int], vocabulary: Vocabulary | None = None, read: dict | None = None
 ) -> tuple[list[int], list[int], list[str]]:
     """Cheap pass: (candidate pages, pages with no text layer, warnings).
 
-    A candidate page carries the trade's symbols; with ``any_text`` (a column map of the
-    reviewer's own headers) every page with text is a candidate. Given ``read``, the words and
+    A candidate page carries the ``vocabulary`` (the trade's symbols and the standard's heads; every
+    page with text under a column map of the reviewer's own headers). Given ``read``, the words and
     rules of each candidate are read in the same pass (from pdfium) into it; a candidate that
     pdfium cannot read that way is left for ``page_words``.
     """
     import pypdfium2.raw as pdfium_raw
 
+    vocabulary = vocabulary or Vocabulary()
     doc = open_document(path)
     candidates, empty, warnings = [], [], []
     scanned = 0  # characters of the pages read so far: the work is bounded per document, not per page
@@ -112,7 +113,7 @@ def scan_pages(
                     continue
                 scanned += count
                 text = textpage.get_text_range() if count else ""
-                candidate = bool(text.strip()) and (any_text or CANDIDATE.search(text) is not None)
+                candidate = vocabulary.picks(text)
                 # the page after a candidate too: a table may go on over the page without a header
                 if (candidate or number - 1 in candidates) and read is not None and text.strip():
                     with contextlib.suppress(Exception):  # sideways text or the like: page_words reads it

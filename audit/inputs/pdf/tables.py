@@ -147,6 +147,8 @@ def _name_cell(head: HeadCell, position: int, cmap: ColumnMap, used: set[str]) -
     while j > 0 and (not _strip(path[j]) or UNIT_CELL.match(path[j].strip())):
         j -= 1  # units under the symbol stay with it
     own, groups, label = " ".join(path[j:]), path[:j], _strip(path[j])
+    if cmap.any_head is not None and cmap.any_head.search(label) is None:
+        return Found("", head.x0, head.x1, own, groups)  # no pattern names it (the loop below would say so)
     for name, pattern in cmap.headers.items():
         if name in used or name in cmap.positions.values() or not pattern.search(label):
             continue
