@@ -10,7 +10,6 @@ claim keeps its page, its position and the raw text it came from.
 
 from __future__ import annotations
 
-import os
 import re
 from collections.abc import Callable
 from dataclasses import dataclass, replace
@@ -28,7 +27,7 @@ from audit.inputs.pdf.columns import (
     read_column_map,
 )
 from audit.inputs.pdf.equations import EQUATION_HINT, claim_from_equation, find_equation, joined_equation
-from audit.inputs.pdf.pages import EdgeT, open_document, page_words, parse_pages, scan_pages
+from audit.inputs.pdf.pages import EdgeT, Scan, open_document, page_words, parse_pages, scan_pages
 from audit.inputs.pdf.settings import SETTINGS
 from audit.inputs.pdf.tables import (
     UNIT_CELL,
@@ -449,37 +448,37 @@ def extract(
     # the standard's own heads (its claim_headers) are its vocabulary, as the trade's symbols are
     custom_headers = cmap.headers != default_map(standard_headers).headers or bool(cmap.positions)
     vocabulary = page_vocabulary(standard_headers, any_text=custom_headers)
-    read: dict = {}
-    candidates, empty, warnings = scan_pages(path, wanted, vocabulary, read=read)
-    workers = workers if workers is not None else max(1, min(os.cpu_count() or 1, 8))
-    parsed = {**read, **page_words(path, [n for n in candidates if n not in read], workers, progress)}
-    if progress and read:
-        progress(len(read))
+    del workers  # pages are read in the one pass, in order (kept for callers that name it)
     state = _State()
     claims: list[Claim] = []
     unread: list[Unread] = []
+    warnings: list[str] = []
     per_page: dict[int, int] = {}
-    wanted_set = set(wanted)
-    queue = sorted(candidates)  # pages read ahead (the page after a candidate) wait until a table goes on
+    parsed: dict = {}
     done: set[int] = set()
-    while queue:
-        number = queue.pop(0)
-        if number in done:
-            continue
-        done.add(number)
-        if number not in parsed:
-            parsed.update(page_words(path, [number], 1))
-        words, edges, problem = parsed[number]
+
+    def goes_on(number: int) -> bool:
+        """The table at the foot of the page before may go on over this page without a header."""
+        return state.open_at_end and number - 1 in done
+
+    found = Scan()
+    for number, data in scan_pages(path, wanted, vocabulary, goes_on, found):
+        if data is None:
+            data = page_words(path, [number], 1)[number]
+        parsed[number] = data
+        words, edges, problem = data
         if problem:
             warnings.append(problem)
         if state.open_at_end and number - 1 not in done:
             state.open_at_end = False
-        found = claims_of_page(group_lines(number, words), state, cmap, str(path), warnings, edges, unread)
-        per_page[number] = len(found)
-        claims += found
-        following = number + 1
-        if state.open_at_end and following in wanted_set and following not in done and following not in queue:
-            queue.insert(0, following)  # the table may go on over the page without a header
+        done.add(number)
+        page_claims = claims_of_page(group_lines(number, words), state, cmap, str(path), warnings, edges, unread)
+        per_page[number] = len(page_claims)
+        claims += page_claims
+        if progress:
+            progress(1)
+    candidates, empty = found.candidates, found.empty
+    warnings = found.warnings + warnings
     numbered = tuple(replace(c, id=f"p{c.where.page}-{i + 1}") for i, c in enumerate(claims))
     with_rows = {u.page for u in unread}
     for number in candidates:

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import functools
 import itertools
 import re
 from collections.abc import Iterable
@@ -18,9 +19,13 @@ class Line:
     top: float
     words: tuple[WordT, ...]
 
-    @property
-    def text(self) -> str:
-        return " ".join(w[0] for w in self.words)
+    @functools.cached_property
+    def text(self) -> str:  # a line is looked at many times: its text and cells are kept once made
+        return " ".join([w[0] for w in self.words])
+
+    @functools.cached_property
+    def cells(self) -> tuple[tuple[str, float, float], ...]:
+        return tuple(_cells(self.words, SETTINGS.cell_gap))
 
 
 def group_lines(page: int, words: Iterable[WordT], tolerance: float = SETTINGS.line) -> list[Line]:
@@ -35,8 +40,12 @@ def group_lines(page: int, words: Iterable[WordT], tolerance: float = SETTINGS.l
 
 def cells_of(line: Line, gap: float = SETTINGS.cell_gap) -> list[tuple[str, float, float]]:
     """Words joined into cells where the horizontal gap is small: (text, x0, x1)."""
+    return list(line.cells) if gap == SETTINGS.cell_gap else _cells(line.words, gap)
+
+
+def _cells(words: tuple[WordT, ...], gap: float) -> list[tuple[str, float, float]]:
     cells: list[list] = []
-    for text, x0, x1, _, _ in line.words:
+    for text, x0, x1, _, _ in words:
         if cells and x0 - cells[-1][2] <= gap:
             cells[-1][0] += " " + text
             cells[-1][2] = x1
@@ -164,6 +173,8 @@ def header_of(
 ) -> Table | None:
     """The table a head line (or a head of several bands, ``heads``) opens, or None when it is not one."""
     heads = heads if heads is not None else single_band(line)
+    if len(heads) < 2:
+        return None  # a table head names two fields at least (the test below): most lines are one cell
     found: list[Found] = []
     used: set[str] = set()
     for position, head in enumerate(heads, start=1):
