@@ -173,7 +173,9 @@ def review(
         result = review_model(model, _dirs(rules_dir), rule_pack)
         claim_list = read_claims(claims) if claims else ()
         if calc_pdf:
-            extracted = _extract(calc_pdf, pages, column_map, result.standard.claim_headers)
+            extracted = _extract(
+                calc_pdf, pages, column_map, result.standard.claim_headers, _decimal_of(result.standard)
+            )
             claim_list = merge_claim_sources(claim_list, extracted.claims, calc_pdf.name)
     except InputError as exc:
         _fail(exc)
@@ -309,7 +311,19 @@ def _check_files(
     return total
 
 
-def _extract(pdf: Path, pages: str | None, column_map: Path | None, headers: dict[str, str] | None = None):
+def _decimal_of(standard: object) -> str:
+    """How a standard's calc sheets mark decimals (its ``decimal_mark``; points where it declares none)."""
+    return str(getattr(standard, "decimal_mark", "point"))
+
+
+def _extract(
+    pdf: Path,
+    pages: str | None,
+    column_map: Path | None,
+    headers: dict[str, str] | None = None,
+    standard_decimal: str | None = None,
+    decimal_mark: str | None = None,
+):
     """Run the extraction with a progress bar on long documents; warnings go to stderr."""
     from audit.inputs.pdf.extract import extract, read_column_map
 
@@ -326,7 +340,15 @@ def _extract(pdf: Path, pages: str | None, column_map: Path | None, headers: dic
             bar.update(task, advance=n)
 
     try:
-        result = extract(pdf, pages, cmap, progress=advance if bar else None, standard_headers=headers)
+        result = extract(
+            pdf,
+            pages,
+            cmap,
+            progress=advance if bar else None,
+            standard_headers=headers,
+            decimal_mark=decimal_mark,
+            standard_decimal=standard_decimal,
+        )
     finally:
         if bar:
             bar.stop()
@@ -394,6 +416,13 @@ def extract(
     show: int | None = typer.Option(
         None, "--show", metavar="PAGE", help="Print how the reader sees one page (heads, columns, each row)."
     ),
+    decimal_mark: str | None = typer.Option(
+        None,
+        "--decimal-mark",
+        metavar="MARK",
+        help="How the calc's numbers mark decimals: point (3,125 is 3125), comma (3,125 is 3.125) or either "
+        "(numbers that could be read both ways are reported, not read). Default: the standard's habit.",
+    ),
 ) -> None:
     """Pull the claimed bearing checks out of a calc package PDF into a claims file."""
     from audit.core.outfiles import write_atomic
@@ -401,14 +430,15 @@ def extract(
     from audit.standards.registry import standard_named
 
     try:
-        headers = standard_named(standard, Location("--standard")).claim_headers
+        chosen = standard_named(standard, Location("--standard"))
+        headers = chosen.claim_headers
         if show is not None:
-            _show_page(pdf, show, column_map, headers)
+            _show_page(pdf, show, column_map, headers, _decimal_of(chosen), decimal_mark)
             return
         if output is None:
             raise InputError("give -o FILE for the claims, or --show PAGE to see a page", Location("-o"))
         _check_files({"PDF": pdf, "--map": column_map}, {"--output": output})
-        result = _extract(pdf, pages, column_map, headers)
+        result = _extract(pdf, pages, column_map, headers, _decimal_of(chosen), decimal_mark)
         write_atomic(output, claims_yaml(result, pdf.name), "--output")
     except InputError as exc:
         _fail(exc)
@@ -416,12 +446,19 @@ def extract(
     typer.echo(f"wrote {output}: {count} claim{'' if count == 1 else 's'} from pages {_page_list(result.pages_parsed)}")
 
 
-def _show_page(pdf: Path, page: int, column_map: Path | None, headers: dict[str, str]) -> None:
+def _show_page(
+    pdf: Path,
+    page: int,
+    column_map: Path | None,
+    headers: dict[str, str],
+    standard_decimal: str | None = None,
+    decimal_mark: str | None = None,
+) -> None:
     from audit.inputs.pdf.extract import read_column_map, show_page
 
     _check_files({"PDF": pdf, "--map": column_map}, {})
     cmap = read_column_map(column_map, headers) if column_map else None
-    typer.echo(show_page(pdf, page, cmap, headers), nl=False)
+    typer.echo(show_page(pdf, page, cmap, headers, decimal_mark, standard_decimal), nl=False)
 
 
 def _page_list(pages: tuple[int, ...]) -> str:

@@ -347,6 +347,9 @@ class _Ec5:
     slip_recipes: tuple[str, ...] = ()
     length_factor: str = "kc,90"
     combination_formats: tuple[str, ...] = ("EN 1990",)
+    # how its calc sheets mark decimals, for the PDF reader: a comma in most countries that use it (common
+    # practice; British and Irish sheets print points: extract --decimal-mark point)
+    decimal_mark: str = "comma"
     claim_headers: dict[str, str] = field(
         default_factory=lambda: {
             "Qf": r"^(?-i:F)\s*_?\s*c\s*,?\s*90\s*,?\s*d\b",

@@ -97,6 +97,7 @@ class ColumnMap:
     kind: str = ""  # a kind for every claim read with this map
     positions: dict[int, str] = field(default_factory=dict)  # column number (from 1, left) -> field
     bands: dict[str, re.Pattern[str]] = field(default_factory=dict)  # field -> a band over its column
+    decimal_mark: str = ""  # how the calc's numbers mark decimals (point, comma, either); '' the standard's
     # every header pattern in one: a cell none of them names (most cells of a page: its running text) is
     # known as such in one search; None where the patterns cannot be joined (back references, mixed flags)
     any_head: re.Pattern[str] | None = field(init=False, default=None, compare=False, repr=False)
@@ -132,9 +133,9 @@ def read_column_map(path: Path | str, standard_headers: dict[str, str] | None = 
     errors = ErrorCollector()
     if not isinstance(root.value, dict):
         raise InputError("a column map must be a mapping", root.loc)
-    unknown = set(root.value) - {"columns", "pages", "kind"}
+    unknown = set(root.value) - {"columns", "pages", "kind", "decimal_mark"}
     for key in sorted(unknown):
-        errors.add(f"unknown key '{key}' (allowed: columns, pages, kind)", root.key_loc(key))
+        errors.add(f"unknown key '{key}' (allowed: columns, pages, kind, decimal_mark)", root.key_loc(key))
     headers = dict(default_map(standard_headers).headers)
     units: dict[str, str] = {}
     positions: dict[int, str] = {}
@@ -178,7 +179,16 @@ def read_column_map(path: Path | str, standard_headers: dict[str, str] | None = 
     kind = root.value.get("kind")
     if kind is not None and kind.value not in ("local", "near-support"):
         errors.add("kind must be local or near-support", kind.loc)
+    decimal = root.value.get("decimal_mark")
+    if decimal is not None and decimal.value not in ("point", "comma", "either"):
+        errors.add("decimal_mark must be point, comma or either", decimal.loc)
     errors.raise_if_any()
     return ColumnMap(
-        headers, units, str(pages.value) if pages else None, str(kind.value) if kind else "", positions, bands
+        headers,
+        units,
+        str(pages.value) if pages else None,
+        str(kind.value) if kind else "",
+        positions,
+        bands,
+        str(decimal.value) if decimal is not None else "",
     )

@@ -42,7 +42,15 @@ from audit.inputs.pdf.tables import (
     stacked,
     unit_row,
 )
-from audit.inputs.pdf.values import STARTS_NUMERIC, parse_adequate, parse_value
+from audit.inputs.pdf.values import (
+    DECIMAL_MARKS,
+    POINT,
+    STARTS_NUMERIC,
+    Numbers,
+    marks_seen,
+    parse_adequate,
+    parse_value,
+)
 from audit.inputs.read_claims import Claim, Where
 
 __all__ = ["ColumnMap", "Extraction", "claims_yaml", "extract", "read_column_map"]
@@ -56,6 +64,7 @@ class _State:
     open_at_end: bool = False
     last_location: str = ""
     table_count: int = 0
+    decimal: str = "point"  # the decimal mark the calc is read with: point, comma or either
 
 
 @dataclass(frozen=True)
@@ -109,7 +118,7 @@ def _split_verdicts(cells: dict[str, str]) -> tuple[dict[str, str], bool | None]
 
 
 def _claim_from_row(
-    cells: dict[str, str], table: Table, line: Line, state: _State, cmap: ColumnMap, name: str
+    cells: dict[str, str], table: Table, line: Line, state: _State, cmap: ColumnMap, name: str, numbers: Numbers
 ) -> Claim:
     where = Location(name, line.page, int(line.words[0][1]), "row")
     location = cells.get("location", "").strip() or state.last_location
@@ -120,7 +129,7 @@ def _claim_from_row(
     values: dict[str, float] = {}
     for field_name in (*NUMERIC_FIELDS, *FACTOR_FIELDS):
         if cells.get(field_name, "").strip():
-            values[field_name] = parse_value(cells[field_name], field_name, table.units, where)
+            values[field_name] = parse_value(cells[field_name], field_name, table.units, where, numbers)
     if not any(f in values for f in NUMERIC_FIELDS):
         raise InputError("row has no Qf, Qr or utilisation", where)
     kind = cmap.kind or kind_in_words(cells) or table.kind or "local"
@@ -131,16 +140,22 @@ def _claim_from_row(
 
 
 def pair_claims(
-    cells: dict[str, str], table: Table, line: Line, state: _State, cmap: ColumnMap, name: str
+    cells: dict[str, str],
+    table: Table,
+    line: Line,
+    state: _State,
+    cmap: ColumnMap,
+    name: str,
+    numbers: Numbers = POINT,
 ) -> list[Claim]:
     """A row's claims: one, or a local and a near-support one where the row carries Qf | Qr | Qf' | Qr'."""
-    first = _claim_from_row(cells, table, line, state, cmap, name)
+    first = _claim_from_row(cells, table, line, state, cmap, name, numbers)
     if not any(cells.get(f, "").strip() for f in ("Qf'", "Qr'")):
         return [first]
     where = Location(name, line.page, int(line.words[0][1]), "row")
     cells, _ = _split_verdicts(cells)
     near = {
-        f: parse_value(cells[f"{f}'"], f, {f: table.units.get(f"{f}'", table.units.get(f, ""))}, where)
+        f: parse_value(cells[f"{f}'"], f, {f: table.units.get(f"{f}'", table.units.get(f, ""))}, where, numbers)
         for f in ("Qf", "Qr")
         if cells.get(f"{f}'", "").strip()
     }
@@ -237,6 +252,10 @@ def claims_of_page(
     just_headed = False
     skip: set[int] = set()
     unnamed_reported: set[tuple[str, str]] = set()
+    # the page's numbers: the calc's decimal mark, and the marks its own values show beyond doubt
+    numbers = Numbers(
+        state.decimal, marks_seen(line.text for line in lines) if state.decimal != "either" else frozenset()
+    )
     for i, line in enumerate(lines):
         if i in skip:
             continue  # a later line of a head or an equation read with an earlier one
@@ -261,7 +280,7 @@ def claims_of_page(
             roles[last] = "equation (its second line)"
         if eq:
             try:
-                claim = claim_from_equation(eq, eq_line, lines[:i], name)
+                claim = claim_from_equation(eq, eq_line, lines[:i], name, numbers)
                 if claim:
                     out.append(claim)
                     roles[i] = f"claim {claim.label}: {claim.kind} (worked equation)"
@@ -313,7 +332,7 @@ def claims_of_page(
             roles[i] = "not read: a total, not a check"
             continue
         try:
-            claims = pair_claims(cells, table, line, state, cmap, name)
+            claims = pair_claims(cells, table, line, state, cmap, name, numbers)
             out += claims
             row_table, last_row_index = table, i
             roles[i] = "claim " + "; ".join(f"{c.label}: {c.kind}" for c in claims)
@@ -436,8 +455,12 @@ def extract(
     workers: int | None = None,
     progress: Callable[[int], None] | None = None,
     standard_headers: dict[str, str] | None = None,
+    decimal_mark: str | None = None,
+    standard_decimal: str | None = None,
 ) -> Extraction:
-    """Read the claimed bearing checks of a calc package PDF; ``standard_headers``: a standard's own symbols."""
+    """Read the claimed bearing checks of a calc package PDF; ``standard_headers``: a standard's own symbols.
+    How its numbers mark decimals (point, comma, either): ``decimal_mark`` (the reviewer's), else the column
+    map's ``decimal_mark``, else ``standard_decimal`` (the standard's declaration), else points."""
     path = Path(path)
     cmap = cmap or default_map(standard_headers)
     doc = open_document(path)
@@ -449,7 +472,7 @@ def extract(
     custom_headers = cmap.headers != default_map(standard_headers).headers or bool(cmap.positions)
     vocabulary = page_vocabulary(standard_headers, any_text=custom_headers)
     del workers  # pages are read in the one pass, in order (kept for callers that name it)
-    state = _State()
+    state = _State(decimal=decimal_in_force(decimal_mark, cmap, standard_decimal))
     claims: list[Claim] = []
     unread: list[Unread] = []
     warnings: list[str] = []
@@ -494,8 +517,22 @@ def extract(
     )
 
 
+def decimal_in_force(given: str | None, cmap: ColumnMap, standard: str | None = None) -> str:
+    """The decimal mark a calc is read with: the reviewer's on the command line, else a column map's, else
+    the standard's own declaration, else decimal points."""
+    mark = given or cmap.decimal_mark or standard or "point"
+    if mark not in DECIMAL_MARKS:
+        raise InputError(f"decimal mark '{mark}' must be one of {', '.join(DECIMAL_MARKS)}", Location("--decimal-mark"))
+    return mark
+
+
 def show_page(
-    path: Path | str, number: int, cmap: ColumnMap | None = None, standard_headers: dict[str, str] | None = None
+    path: Path | str,
+    number: int,
+    cmap: ColumnMap | None = None,
+    standard_headers: dict[str, str] | None = None,
+    decimal_mark: str | None = None,
+    standard_decimal: str | None = None,
 ) -> str:
     """The page as the reader sees it: each line with its position and what it became (a head and the
     columns found, units, a group, a claim, not read and why), and the cells of each head with their
@@ -509,7 +546,7 @@ def show_page(
         raise InputError(f"page {number} is not in the document (1 to {count})", Location(str(path), 0, 0, "--show"))
     wanted = [n for n in (number - 1, number) if n >= 1]
     parsed = page_words(path, wanted, 1)
-    state = _State()
+    state = _State(decimal=decimal_in_force(decimal_mark, cmap, standard_decimal))
     out = [f"{path.name}, page {number} as the reader sees it (x and y in points from the page's top left)"]
     for n in wanted:
         words, edges, problem = parsed[n]
