@@ -82,6 +82,30 @@ class Scan:
     warnings: list[str] = field(default_factory=list)
 
 
+def content_keys(path: Path) -> dict[int, str]:
+    """page -> what it draws as the file says it (its content streams, resources, boxes and rotation), from
+    the page tree alone (no page is loaded): pages with one key draw the same thing. Empty where the file
+    cannot be read that way. Asked for only once a document's work has grown large."""
+    try:
+        from pdfminer.pdfdocument import PDFDocument
+        from pdfminer.pdfpage import PDFPage
+        from pdfminer.pdfparser import PDFParser
+
+        keys: dict[int, str] = {}
+        with path.open("rb") as handle:
+            document = PDFDocument(PDFParser(handle))
+            for number, page in enumerate(PDFPage.create_pages(document), start=1):
+                attrs = page.attrs
+                if "Contents" not in attrs:
+                    continue
+                keys[number] = repr(
+                    tuple(attrs.get(k) for k in ("Contents", "Resources", "MediaBox", "CropBox", "Rotate"))
+                )
+        return keys
+    except Exception:  # a file pdfminer cannot walk: every page is read on its own
+        return {}
+
+
 def scan_pages(
     path: Path, pages: list[int], vocabulary: Vocabulary, wants: Callable[[int], bool], found: Scan
 ) -> Iterator[tuple[int, PageData | None]]:
@@ -96,6 +120,12 @@ def scan_pages(
 
     doc = open_document(path)
     scanned = objects_seen = 0
+    refused: set[int] = set()  # pages too large to read
+    # once the work grows large, pages that draw what an earlier page drew (one content stream shared by
+    # many pages) are known from the page tree and take that page's outcome without being loaded
+    keys: dict[int, str] | None = None
+    first_of: dict[str, int] = {}  # a content key -> the first page read with it
+    outcome: dict[int, tuple[bool, bool, PageData | None]] = {}  # page -> (no text, candidate, words)
     try:
         for at, number in enumerate(pages):
             if (bound := _document_bound(scanned, objects_seen)) is not None:
@@ -107,6 +137,27 @@ def scan_pages(
                 )
                 break
             data: PageData | None = None
+            if keys is None and (refused or scanned > SETTINGS.shared_content_after):
+                keys = content_keys(path)
+                for earlier in sorted(refused):
+                    if earlier in keys:
+                        first_of.setdefault(keys[earlier], earlier)
+            key = keys.get(number) if keys else None
+            if key is not None and (same := first_of.get(key)) is not None:
+                if same in refused:
+                    found.warnings.append(f"page {number}: draws what page {same} draws, too much to read; skipped")
+                    continue
+                if same in outcome:
+                    no_text, candidate, data = outcome[same]
+                    if no_text:
+                        found.empty.append(number)
+                    elif candidate:
+                        found.candidates.append(number)
+                    if candidate or wants(number):
+                        yield number, data
+                    continue
+            if key is not None:
+                first_of.setdefault(key, number)
             try:
                 page = doc[number - 1]
                 try:
@@ -114,6 +165,7 @@ def scan_pages(
                     objects_seen += objects
                     if objects > SETTINGS.max_page_objects:
                         found.warnings.append(f"page {number}: {objects} drawing objects, too many to read; skipped")
+                        refused.add(number)
                         continue
                     textpage = page.get_textpage()
                     try:
@@ -121,6 +173,7 @@ def scan_pages(
                         scanned += max(count, 0)
                         if count > SETTINGS.max_page_text:
                             found.warnings.append(f"page {number}: {count} characters, too many to read; skipped")
+                            refused.add(number)
                             continue
                         text = textpage.get_text_range() if count else ""
                         candidate = vocabulary.picks(text)
@@ -143,6 +196,8 @@ def scan_pages(
                 found.empty.append(number)
             elif candidate:
                 found.candidates.append(number)
+            if key is not None and (read or not candidate):
+                outcome[number] = (not text.strip(), candidate, data if read else None)
             if read:
                 yield number, data
     finally:
