@@ -132,7 +132,9 @@ def _words(raw, textpage, height: float) -> list[WordT]:
             words.append(("".join([c[0] for c in chars]), r[4], r[5], r[6], r[7]))
     sample = range(0, count, 16)  # the text's direction, from every sixteenth character
     printed = [i for i in sample if 32 < buffer[i] < 0xFFFE]
-    if sum(1 for i in printed if raw.FPDFText_GetCharAngle(text_handle, i) not in (0.0, -1.0)) * 2 > len(printed):
+    angle = _unchecked(raw.FPDFText_GetCharAngle, ctypes.c_float)
+    angle, at = (angle, handle) if angle is not None else (raw.FPDFText_GetCharAngle, text_handle)
+    if sum(1 for i in printed if angle(at, i) not in (0.0, -1.0)) * 2 > len(printed):
         raise Sideways()
     return words
 
@@ -140,14 +142,14 @@ def _words(raw, textpage, height: float) -> list[WordT]:
 CharT = tuple[str, float, float, float, float]  # (text, left, right, top, bottom)
 
 
-def _unchecked(function):
+def _unchecked(function, restype=ctypes.c_int):
     """pdfium's ``function`` called without ctypes' per-call argument conversion (pointers and ints passed
     as they are), in the library's own calling convention; the checked binding where that cannot be made.
     The calls below are made once per character of every page read, and the conversion costs more than
     the call itself."""
     try:
         fast = type(function)(ctypes.cast(function, ctypes.c_void_p).value)
-        fast.restype = ctypes.c_int
+        fast.restype = restype
         return fast
     except (TypeError, AttributeError, ValueError):
         return None

@@ -44,14 +44,20 @@ def cells_of(line: Line, gap: float = SETTINGS.cell_gap) -> list[tuple[str, floa
 
 
 def _cells(words: tuple[WordT, ...], gap: float) -> list[tuple[str, float, float]]:
-    cells: list[list] = []
-    for text, x0, x1, _, _ in words:
-        if cells and x0 - cells[-1][2] <= gap:
-            cells[-1][0] += " " + text
-            cells[-1][2] = x1
-        else:
-            cells.append([text, x0, x1])
-    return [(c[0], c[1], c[2]) for c in cells]
+    cells: list[tuple[str, float, float]] = []
+    texts: list[str] = []
+    x0 = x1 = 0.0
+    for text, left, right, _, _ in words:
+        if texts and left - x1 <= gap:
+            texts.append(text)
+            x1 = right
+            continue
+        if texts:
+            cells.append((" ".join(texts), x0, x1))
+        texts, x0, x1 = [text], left, right
+    if texts:
+        cells.append((" ".join(texts), x0, x1))
+    return cells
 
 
 @dataclass(frozen=True)
@@ -74,7 +80,7 @@ def single_band(line: Line) -> list[HeadCell]:
 def head_cells(line: Line) -> list[tuple[str, float, float]]:
     """A head line's cells, less a spreadsheet's row number standing first (a bare whole number)."""
     cells = cells_of(line)
-    if len(cells) > 1 and re.fullmatch(r"\d{1,5}", cells[0][0]):
+    if len(cells) > 1 and ROW_NUMBER.fullmatch(cells[0][0]):
         return cells[1:]
     return cells
 
@@ -140,8 +146,12 @@ def _bracketed_unit(text: str) -> str | None:
     return None
 
 
+ROW_NUMBER = re.compile(r"\d{1,5}")
+BRACKETED = re.compile(r"[\(\[].*?[\)\]]")
+
+
 def _strip(text: str) -> str:
-    return re.sub(r"[\(\[].*?[\)\]]", "", text).strip()
+    return BRACKETED.sub("", text).strip()
 
 
 def _name_cell(head: HeadCell, position: int, cmap: ColumnMap, used: set[str]) -> Found:

@@ -85,12 +85,9 @@ def marks_seen(texts: Iterable[str]) -> frozenset[str]:
     """The decimal marks that numbers in ``texts`` show beyond doubt: a mark followed by other than three
     digits, or after a whole part of 0 or of more than three digits, cannot group thousands."""
     seen: set[str] = set()
-    for text in texts:
-        if "," not in text and "." not in text:
-            continue
-        for whole, mark, fraction in _ONE_MARK.findall(text):
-            if len(fraction) != 3 or whole.startswith("0") or len(whole) > 3:
-                seen.add("comma" if mark == "," else "point")
+    for whole, mark, fraction in _ONE_MARK.findall("\n".join(texts)):
+        if len(fraction) != 3 or whole.startswith("0") or len(whole) > 3:
+            seen.add("comma" if mark == "," else "point")
     return frozenset(seen)
 
 
