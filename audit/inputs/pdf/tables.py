@@ -30,7 +30,9 @@ class Line:
 
 def group_lines(page: int, words: Iterable[WordT], tolerance: float = SETTINGS.line) -> list[Line]:
     rows: list[list[WordT]] = []
-    for w in sorted(words, key=lambda w: (round(w[3], 1), w[1])):
+    words = list(words)
+    tenth = {top: round(top, 1) for top in {w[3] for w in words}}  # a line's words share their top: round once
+    for w in sorted(words, key=lambda w: (tenth[w[3]], w[1])):
         if rows and abs(rows[-1][0][3] - w[3]) <= tolerance:
             rows[-1].append(w)
         else:
