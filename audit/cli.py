@@ -5,7 +5,7 @@ from __future__ import annotations
 import gc
 import sys
 from pathlib import Path
-from typing import NoReturn
+from typing import Any, NoReturn
 
 import typer
 
@@ -233,32 +233,25 @@ def _check_files(
     return check_files(inputs, outputs, rules_dirs)
 
 
-def _extract(pdf: Path, pages: str | None, column_map: Path | None, headers: dict[str, str] | None = None):
-    """Run the extraction with a progress bar on long documents; warnings go to stderr."""
-    from audit.inputs.calc_pdf import extraction_notes, require_claims
-    from audit.inputs.pdf.extract import extract, read_column_map
+def _decimal_of(standard: object) -> str:
+    from audit.inputs.calc_pdf import decimal_mark_of
 
-    cmap = read_column_map(column_map, headers) if column_map else None
-    bar = None
-    if sys.stderr.isatty():
-        from rich.progress import Progress  # rich comes with typer
+    return decimal_mark_of(standard)
 
-        bar = Progress(transient=True)
-        bar.start()
-        task = bar.add_task("reading pages", total=None)
 
-        def advance(n: int) -> None:
-            bar.update(task, advance=n)
+def _extract(
+    pdf: Path,
+    pages: str | None,
+    column_map: Path | None,
+    headers: dict[str, str] | None = None,
+    standard_decimal: str | None = None,
+    decimal_mark: str | None = None,
+) -> Any:
+    """``calc_pdf.read_calc_pdf``, its notes on stderr."""
+    from audit.inputs.calc_pdf import read_calc_pdf
 
-    try:
-        result = extract(pdf, pages, cmap, progress=advance if bar else None, standard_headers=headers)
-    finally:
-        if bar:
-            bar.stop()
-    for line in extraction_notes(pdf, result):
-        typer.echo(line, err=True)
-    require_claims(pdf, pages, result)
-    return result
+    echo = lambda line: typer.echo(line, err=True)  # noqa: E731
+    return read_calc_pdf(pdf, pages, column_map, headers, standard_decimal, decimal_mark, echo)
 
 
 @app.command()
@@ -299,6 +292,13 @@ def extract(
     show: int | None = typer.Option(
         None, "--show", metavar="PAGE", help="Print how the reader sees one page (heads, columns, each row)."
     ),
+    decimal_mark: str | None = typer.Option(
+        None,
+        "--decimal-mark",
+        metavar="MARK",
+        help="How the calc's numbers mark decimals: point (3,125 is 3125), comma (3,125 is 3.125) or either "
+        "(numbers that could be read both ways are reported, not read). Default: the standard's habit.",
+    ),
 ) -> None:
     """Pull the claimed bearing checks out of a calc package PDF into a claims file."""
     from audit.core.outfiles import write_atomic
@@ -306,27 +306,35 @@ def extract(
     from audit.standards.registry import standard_named
 
     try:
-        headers = standard_named(standard, Location("--standard")).claim_headers
+        chosen = standard_named(standard, Location("--standard"))
+        headers = chosen.claim_headers
         if show is not None:
-            _show_page(pdf, show, column_map, headers)
+            _show_page(pdf, show, column_map, headers, _decimal_of(chosen), decimal_mark)
             return
         if output is None:
             raise InputError("give -o FILE for the claims, or --show PAGE to see a page", Location("-o"))
         _check_files({"PDF": pdf, "--map": column_map}, {"--output": output})
-        result = _extract(pdf, pages, column_map, headers)
-        write_atomic(output, claims_yaml(result, pdf.name), "--output")
+        result = _extract(pdf, pages, column_map, headers, _decimal_of(chosen), decimal_mark)
+        write_atomic(output, claims_yaml(result, pdf.name, chosen.symbols), "--output")
     except InputError as exc:
         _fail(exc)
     count = len(result.claims)
     typer.echo(f"wrote {output}: {count} claim{'' if count == 1 else 's'} from pages {_page_list(result.pages_parsed)}")
 
 
-def _show_page(pdf: Path, page: int, column_map: Path | None, headers: dict[str, str]) -> None:
+def _show_page(
+    pdf: Path,
+    page: int,
+    column_map: Path | None,
+    headers: dict[str, str],
+    standard_decimal: str | None = None,
+    decimal_mark: str | None = None,
+) -> None:
     from audit.inputs.pdf.extract import read_column_map, show_page
 
     _check_files({"PDF": pdf, "--map": column_map}, {})
     cmap = read_column_map(column_map, headers) if column_map else None
-    typer.echo(show_page(pdf, page, cmap, headers), nl=False)
+    typer.echo(show_page(pdf, page, cmap, headers, decimal_mark, standard_decimal), nl=False)
 
 
 def _page_list(pages: tuple[int, ...]) -> str:

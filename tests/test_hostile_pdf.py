@@ -157,3 +157,64 @@ def test_pages_past_the_documents_text_bound_are_named_not_read(tmp_path, monkey
     result = extract(tmp_path / "three.pdf")
     assert [c.where.page for c in result.claims] == [1, 2]  # 70, then 140 > 100: page 3 is not read
     assert any(w.startswith("page 3: not read") for w in result.warnings)
+
+
+# ---------------------------------------------------------------- work bounded per document (issue 24, item 9)
+
+
+def _text_stream(characters: int) -> bytes:
+    """One page's worth of narrative drawn in tiny type, about ``characters`` long: costly for any text
+    layout, and no check in it."""
+    line = b"Narrative text of a hostile sheet with no checks on it at all, repeated many times over."
+    count = characters // (len(line) + 5)
+    return b"".join(
+        b"BT /F1 1 Tf %d %d Td (%d %s) Tj ET\n" % ((i * 37) % 500, (i * 7) % 780, i, line) for i in range(count)
+    )
+
+
+def test_pages_sharing_one_text_stream_too_large_to_read_are_refused_once_and_known_again(tmp_path):
+    # 300 pages draw one content stream of more characters than a page may hold: the first is read and
+    # refused; the others are known from the page tree as the same drawing, without being laid out
+    raw_pdf(tmp_path / "shared.pdf", [text_lines(EQUATION)] + [_text_stream(420_000)] * 300)
+    done = _capped_child(["extract", str(tmp_path / "shared.pdf"), "-o", str(tmp_path / "s.yaml")])
+    assert done.returncode == 0, done.stderr
+    assert "page 2: " in done.stderr and "characters, too many to read; skipped" in done.stderr
+    assert done.stderr.count("draws what page") >= 298 and "page 301: draws what page" in done.stderr
+    assert "page: 1" in (tmp_path / "s.yaml").read_text()
+
+
+def test_pages_sharing_one_large_text_stream_are_laid_out_once_the_work_is_large(tmp_path):
+    raw_pdf(tmp_path / "shared.pdf", [text_lines(EQUATION)] + [_text_stream(300_000)] * 300)
+    done = _capped_child(["extract", str(tmp_path / "shared.pdf"), "-o", str(tmp_path / "s.yaml")])
+    assert done.returncode == 0, done.stderr
+    assert "too many to read" not in done.stderr and "not read, the pages before" not in done.stderr
+    assert "301 pages read" in done.stderr
+
+
+def test_a_shared_page_gives_its_claims_on_every_page_that_shares_it(tmp_path, monkeypatch):
+    from dataclasses import replace
+
+    from audit.inputs.pdf import pages
+    from audit.inputs.pdf.extract import extract
+
+    raw_pdf(tmp_path / "same.pdf", [text_lines(EQUATION)] * 12)  # one stream, twelve pages
+    read_each = extract(tmp_path / "same.pdf")
+    monkeypatch.setattr(pages, "SETTINGS", replace(pages.SETTINGS, shared_content_after=100))
+    shared = extract(tmp_path / "same.pdf")  # past page 2 the pages take page 1's outcome
+    assert [c.where.page for c in shared.claims] == list(range(1, 13))
+    assert [(c.where, c.qf, c.qr, c.label) for c in shared.claims] == [
+        (c.where, c.qf, c.qr, c.label) for c in read_each.claims
+    ]
+
+
+def test_drawing_objects_in_form_objects_are_bounded_per_document(tmp_path, monkeypatch):
+    from dataclasses import replace
+
+    from audit.inputs.pdf import pages
+    from audit.inputs.pdf.extract import extract
+
+    _pdf_with_a_form_object(tmp_path / "form.pdf", 30_000)  # page 1 draws 30,000 objects through a form
+    monkeypatch.setattr(pages, "SETTINGS", replace(pages.SETTINGS, max_document_objects=20_000))
+    result = extract(tmp_path / "form.pdf")
+    assert [c.where.page for c in result.claims] == [1]  # page 1 is under the page bound, and read
+    assert any(w.startswith("page 2: not read") and "20,000 drawing objects" in w for w in result.warnings)

@@ -3,10 +3,65 @@ located refusal when it found no check to read."""
 
 from __future__ import annotations
 
+import sys
+from collections.abc import Callable
 from pathlib import Path
 
 from audit.core.errors import InputError, Location
 from audit.inputs.pdf.extract import Extraction
+
+
+def decimal_mark_of(standard: object) -> str:
+    """How a standard's calc sheets mark decimals (its ``decimal_mark``; points where it declares none)."""
+    return str(getattr(standard, "decimal_mark", "point"))
+
+
+def _to_stderr(line: str) -> None:
+    print(line, file=sys.stderr)
+
+
+def read_calc_pdf(
+    pdf: Path,
+    pages: str | None,
+    column_map: Path | None,
+    headers: dict[str, str] | None = None,
+    standard_decimal: str | None = None,
+    decimal_mark: str | None = None,
+    warn: Callable[[str], None] = _to_stderr,
+) -> Extraction:
+    """Run the extraction with a progress bar on long documents (a terminal only); its notes go to ``warn``;
+    a document that gave no claim is refused."""
+    from audit.inputs.pdf.extract import extract, read_column_map
+
+    cmap = read_column_map(column_map, headers) if column_map else None
+    bar = None
+    if sys.stderr.isatty():
+        from rich.progress import Progress  # rich comes with typer
+
+        bar = Progress(transient=True)
+        bar.start()
+        task = bar.add_task("reading pages", total=None)
+
+        def advance(n: int) -> None:
+            bar.update(task, advance=n)
+
+    try:
+        result = extract(
+            pdf,
+            pages,
+            cmap,
+            progress=advance if bar else None,
+            standard_headers=headers,
+            decimal_mark=decimal_mark,
+            standard_decimal=standard_decimal,
+        )
+    finally:
+        if bar:
+            bar.stop()
+    for line in extraction_notes(pdf, result):
+        warn(line)
+    require_claims(pdf, pages, result)
+    return result
 
 
 def extraction_notes(pdf: Path, result: Extraction) -> list[str]:

@@ -10,6 +10,7 @@ from pathlib import Path
 
 from audit.core.errors import InputError, visible
 from audit.engine.model import Model
+from audit.inputs.calc_pdf import decimal_mark_of
 from audit.inputs.input_files import check_files
 from audit.inputs.pdf.extract import Extraction
 from audit.inputs.read_claims import Claim, merge_claim_sources, read_claims
@@ -22,8 +23,8 @@ from audit.review.round_files import responses_left_out
 from audit.review.rounds import ASKING, Round, first_round, input_hashes, next_round
 
 # what reads a calc's PDF for a run (the command line's, which shows progress and says what it read):
-# (pdf, pages, column map, the standard's own symbols) -> the extraction
-ReadCalcPdf = Callable[[Path, str | None, Path | None, dict[str, str] | None], Extraction]
+# (pdf, pages, column map, the standard's own symbols, its decimal mark) -> the extraction
+ReadCalcPdf = Callable[[Path, str | None, Path | None, dict[str, str] | None, str | None], Extraction]
 
 # A layout is short for the model it expands to (about 65 times smaller): outputs are bounded by
 # the expanded model as if it had been typed, each member, bearing and load entry counted at a
@@ -92,7 +93,10 @@ def run_review(request: RunRequest, read_calc_pdf: ReadCalcPdf, warn: Callable[[
     result = review_model(request.model, request.rules_dirs, request.rule_pack)
     claim_list = read_claims(request.claims, result.standard) if request.claims else ()
     if request.calc_pdf:
-        extracted = read_calc_pdf(request.calc_pdf, request.pages, request.column_map, result.standard.claim_headers)
+        decimal = decimal_mark_of(result.standard)  # the standard's habit; points if none
+        extracted = read_calc_pdf(
+            request.calc_pdf, request.pages, request.column_map, result.standard.claim_headers, decimal
+        )
         claim_list = merge_claim_sources(claim_list, extracted.claims, request.calc_pdf.name)
     for warning in result.model.warnings:
         warn(f"warning: {visible(warning)}")

@@ -11,14 +11,13 @@ from typing import Any
 
 from audit.engine.beam_statics import simple_span_reactions
 from audit.engine.take_down import FORCE_RESOLUTION
+from audit.inputs.pdf.columns import standard_symbol
 from audit.inputs.read_claims import Claim
 from audit.review.remedies import recheck
 from audit.review.review import Review
 from audit.review.tolerance import FACTOR_TOLERANCE, Tolerance
 from audit.standards.checks import LOCAL, NEAR, RequiredCheck
 from audit.standards.resistance import (
-    DURATION,
-    LENGTH,
     CheckResult,
     LoadCombination,
     factored_force,
@@ -255,21 +254,11 @@ def recomputed_factors(result: CheckResult, review: Review) -> dict[str, float]:
     return out
 
 
-# The extractor names a calc sheet's factor columns by role, in O86's words (``pdf/columns.FACTOR_FIELDS``): its
-# length and duration factor columns are the standard's own symbol of that role.
-EXTRACTED_ROLES = {"KB": LENGTH, "KD": DURATION}
-
-
 def claimed_factors(claim: Claim, review: Review) -> dict[str, float]:
     """The claim's factors by the standard's symbols: a factor column read from a PDF under another standard's
     word for its role (KB for NDS's Cb) is taken as that standard's symbol of the role."""
     symbols = review.standard.symbols
-    out: dict[str, float] = {}
-    for name, value in claim.factors.items():
-        if name not in symbols and name in EXTRACTED_ROLES:
-            name = next((s for s, sym in symbols.items() if sym.role == EXTRACTED_ROLES[name]), name)
-        out[name] = value
-    return out
+    return {standard_symbol(name, symbols): value for name, value in claim.factors.items()}
 
 
 def qr_slips_with_load(result: CheckResult, review: Review, load: Slip | None) -> list[Slip]:

@@ -375,12 +375,16 @@ class _Ec5:
         "kmod fc,90,k",
     )  # the JSON columns of the duration factor and the strength it modifies
     combination_formats: tuple[str, ...] = ("EN 1990",)
+    # how its calc sheets mark decimals, for the PDF reader: a comma in most countries that use it (common
+    # practice; British and Irish sheets print points: extract --decimal-mark point)
+    decimal_mark: str = "comma"
     claim_headers: dict[str, str] = field(
         default_factory=lambda: {
             "Qf": r"^(?-i:F)\s*_?\s*c\s*,?\s*90\s*,?\s*d\b",
             "Qr": r"^(?-i:F)\s*_?\s*c\s*,?\s*90\s*,?\s*R\s*d\b",
             "KB": r"^k\s*_?\s*c\s*,?\s*90$",
-            "fcp": r"^(?-i:f)\s*_?\s*c\s*,?\s*90\s*,?\s*[kd]\b",
+            # the characteristic strength only: a design value fc,90,d column is not fc,90,k
+            "fcp": r"^(?-i:f)\s*_?\s*c\s*,?\s*90\s*,?\s*k\b",
             "utilisation": r"^(sigma|σ)",
         }
     )

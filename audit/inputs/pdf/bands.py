@@ -14,17 +14,17 @@ import re
 from audit.inputs.pdf.pages import EdgeT
 from audit.inputs.pdf.settings import SETTINGS
 from audit.inputs.pdf.tables import HeadCell, Line, head_cells, rulings_across
-from audit.inputs.pdf.values import parse_number
+from audit.inputs.pdf.values import NUMBER_TEXT, lenient_number
 
 CellT = tuple[str, float, float]
 
-NUMBER_CELL = re.compile(r"^[-+\u2212]?[\d,]*\.?\d+(\s*[A-Za-z%²]+\.?)?$")
+NUMBER_CELL = re.compile(rf"^[-+\u2212]?{NUMBER_TEXT}(\s*[A-Za-z%²]+\.?)?$")
 
 
 def is_head_like(line: Line) -> bool:
     """A line that may be a band of a table head: no number standing as a cell, no long text."""
     for text, _, _ in head_cells(line):
-        if NUMBER_CELL.match(text.strip()) and parse_number(text.split()[0]) is not None:
+        if NUMBER_CELL.match(text.strip()) and lenient_number(text.split()[0]) is not None:
             return False
         if len(text.split()) > SETTINGS.head_cell_words:
             return False

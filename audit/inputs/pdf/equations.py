@@ -18,13 +18,20 @@ from dataclasses import dataclass
 
 from audit.core.errors import InputError, Location
 from audit.inputs.pdf.tables import Line
-from audit.inputs.pdf.values import parse_adequate, parse_number, quantity
+from audit.inputs.pdf.values import (
+    NUMBER_TEXT,
+    POINT,
+    NumberProblem,
+    Numbers,
+    lenient_number,
+    parse_adequate,
+    quantity,
+    read_number,
+)
 from audit.inputs.read_claims import Claim, Where
 
 OPERATOR = re.compile(r">=|≥|=>|<=|≤|=<|>|<")
-VALUE = re.compile(
-    r"^\s*(?P<v>[-\u2212]?(?:\d{1,3}(?:,\d{3})+(?:\.\d+)?|\d*\.?\d+))\s*(?P<u>[A-Za-z]+(?:\*\*2|²|2)?)?(?P<tail>.*)$"
-)
+VALUE = re.compile(rf"^\s*(?P<v>[-\u2212]?(?:{NUMBER_TEXT}|\.\d+))\s*(?P<u>[A-Za-z]+(?:\*\*2|²|2)?)?(?P<tail>.*)$")
 _Q = r"Q\s?'?\s?(?P<q>[fr])\s?'?"
 _EC5_LOAD = r"F\s?_?\s?c\s?,?\s?90\s?,?\s?d"
 _EC5_RESIST = r"F\s?_?\s?c\s?,?\s?90\s?,?\s?R\s?d"
@@ -45,6 +52,7 @@ class Side:
     symbol: str
     prefix: str  # text before the symbol: a label on the same line
     tail: str  # words after the value: a verdict
+    number: str = ""  # the value as printed, read with the page's decimal mark when the claim is made
 
 
 @dataclass(frozen=True)
@@ -88,7 +96,9 @@ def parse_side(text: str) -> Side | None:
     if value is None:
         tail = head[symbol_match.end("s") :] if symbol_match else ""
         return Side(role, near, None, "", symbol, prefix, tail.strip())
-    return Side(role, near, parse_number(value["v"]), value["u"] or "", symbol, prefix, value["tail"].strip())
+    return Side(
+        role, near, lenient_number(value["v"]), value["u"] or "", symbol, prefix, value["tail"].strip(), value["v"]
+    )
 
 
 def _role(symbol: str, head: str) -> str:
@@ -128,7 +138,7 @@ def _pair(text: str, a: Side | None, b: Side | None) -> Worked | None:
 
 
 def _as(side: Side, role: str) -> Side:
-    return Side(role, side.near, side.value, side.unit, side.symbol, side.prefix, side.tail)
+    return Side(role, side.near, side.value, side.unit, side.symbol, side.prefix, side.tail, side.number)
 
 
 def half_of(text: str) -> Side | None:
@@ -159,7 +169,7 @@ def joined_equation(lines: list[Line], i: int) -> tuple[Worked, Line, int] | Non
                 if len(valued) == 1 and bare:
                     second = Side(
                         valued[0].role, valued[0].near or bare[0].near, valued[0].value, valued[0].unit,
-                        valued[0].symbol, valued[0].prefix, valued[0].tail or bare[0].tail,
+                        valued[0].symbol, valued[0].prefix, valued[0].tail or bare[0].tail, valued[0].number,
                     )  # fmt: skip
         if second is not None and second.role and second.role != first.role:
             joined = f"{lines[i].text} / {text}"
@@ -182,13 +192,19 @@ MEMBER_LINE = re.compile(r"member(\s+checked)?\s*[:=\-–]\s*(?P<member>[^\s,;]+
 NEAR_HEADING = re.compile(r"near[- ]?(the\s+)?support|squeez|within\s+d\b", re.IGNORECASE)
 
 
-def claim_from_equation(worked: Worked, line: Line, above: list[Line], name: str) -> Claim | None:
+def claim_from_equation(
+    worked: Worked, line: Line, above: list[Line], name: str, numbers: Numbers = POINT
+) -> Claim | None:
     where = Location(name, line.page, int(line.words[0][1]), "equation")
     values: dict[str, float] = {}
     for key, side in (("Qf", worked.load), ("Qr", worked.resistance)):
         if not side.unit:
             raise InputError(f"'{worked.text}' gives {key} without a unit", where)
-        values[key] = quantity(side.value or 0.0, side.unit, "force", where)
+        try:
+            number = read_number(side.number, numbers) if side.number else side.value or 0.0
+        except NumberProblem as problem:
+            raise InputError(f"{key} {problem}", where) from None
+        values[key] = quantity(number, side.unit, "force", where)
     label = ""
     member = ""
     prefix = (worked.load.prefix or worked.resistance.prefix).rstrip(":").strip()

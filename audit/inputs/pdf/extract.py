@@ -10,7 +10,6 @@ claim keeps its page, its position and the raw text it came from.
 
 from __future__ import annotations
 
-import os
 import re
 from collections.abc import Callable
 from dataclasses import dataclass, replace
@@ -19,15 +18,17 @@ from pathlib import Path
 from audit.core.errors import InputError, Location
 from audit.inputs.pdf.bands import NUMBER_CELL, close_below, compose, is_head_like
 from audit.inputs.pdf.columns import (
-    CANDIDATE,
     FACTOR_FIELDS,
     NUMERIC_FIELDS,
     ColumnMap,
+    Vocabulary,
     default_map,
+    page_vocabulary,
     read_column_map,
+    standard_symbol,
 )
 from audit.inputs.pdf.equations import EQUATION_HINT, claim_from_equation, find_equation, joined_equation
-from audit.inputs.pdf.pages import EdgeT, open_document, page_words, parse_pages, scan_pages
+from audit.inputs.pdf.pages import EdgeT, Scan, open_document, page_words, parse_pages, scan_pages
 from audit.inputs.pdf.settings import SETTINGS
 from audit.inputs.pdf.tables import (
     UNIT_CELL,
@@ -42,8 +43,17 @@ from audit.inputs.pdf.tables import (
     stacked,
     unit_row,
 )
-from audit.inputs.pdf.values import STARTS_NUMERIC, parse_adequate, parse_value
+from audit.inputs.pdf.values import (
+    DECIMAL_MARKS,
+    POINT,
+    STARTS_NUMERIC,
+    Numbers,
+    marks_seen,
+    parse_adequate,
+    parse_value,
+)
 from audit.inputs.read_claims import Claim, Where
+from audit.standards.resistance import Symbol
 
 __all__ = ["ColumnMap", "Extraction", "claims_yaml", "extract", "read_column_map"]
 
@@ -56,6 +66,7 @@ class _State:
     open_at_end: bool = False
     last_location: str = ""
     table_count: int = 0
+    decimal: str = "point"  # the decimal mark the calc is read with: point, comma or either
 
 
 @dataclass(frozen=True)
@@ -109,7 +120,7 @@ def _split_verdicts(cells: dict[str, str]) -> tuple[dict[str, str], bool | None]
 
 
 def _claim_from_row(
-    cells: dict[str, str], table: Table, line: Line, state: _State, cmap: ColumnMap, name: str
+    cells: dict[str, str], table: Table, line: Line, state: _State, cmap: ColumnMap, name: str, numbers: Numbers
 ) -> Claim:
     where = Location(name, line.page, int(line.words[0][1]), "row")
     location = cells.get("location", "").strip() or state.last_location
@@ -120,7 +131,7 @@ def _claim_from_row(
     values: dict[str, float] = {}
     for field_name in (*NUMERIC_FIELDS, *FACTOR_FIELDS):
         if cells.get(field_name, "").strip():
-            values[field_name] = parse_value(cells[field_name], field_name, table.units, where)
+            values[field_name] = parse_value(cells[field_name], field_name, table.units, where, numbers)
     if not any(f in values for f in NUMERIC_FIELDS):
         raise InputError("row has no Qf, Qr or utilisation", where)
     kind = cmap.kind or kind_in_words(cells) or table.kind or "local"
@@ -131,16 +142,22 @@ def _claim_from_row(
 
 
 def pair_claims(
-    cells: dict[str, str], table: Table, line: Line, state: _State, cmap: ColumnMap, name: str
+    cells: dict[str, str],
+    table: Table,
+    line: Line,
+    state: _State,
+    cmap: ColumnMap,
+    name: str,
+    numbers: Numbers = POINT,
 ) -> list[Claim]:
     """A row's claims: one, or a local and a near-support one where the row carries Qf | Qr | Qf' | Qr'."""
-    first = _claim_from_row(cells, table, line, state, cmap, name)
+    first = _claim_from_row(cells, table, line, state, cmap, name, numbers)
     if not any(cells.get(f, "").strip() for f in ("Qf'", "Qr'")):
         return [first]
     where = Location(name, line.page, int(line.words[0][1]), "row")
     cells, _ = _split_verdicts(cells)
     near = {
-        f: parse_value(cells[f"{f}'"], f, {f: table.units.get(f"{f}'", table.units.get(f, ""))}, where)
+        f: parse_value(cells[f"{f}'"], f, {f: table.units.get(f"{f}'", table.units.get(f, ""))}, where, numbers)
         for f in ("Qf", "Qr")
         if cells.get(f"{f}'", "").strip()
     }
@@ -237,6 +254,10 @@ def claims_of_page(
     just_headed = False
     skip: set[int] = set()
     unnamed_reported: set[tuple[str, str]] = set()
+    # the page's numbers: the calc's decimal mark, and the marks its own values show beyond doubt
+    numbers = Numbers(
+        state.decimal, marks_seen(line.text for line in lines) if state.decimal != "either" else frozenset()
+    )
     for i, line in enumerate(lines):
         if i in skip:
             continue  # a later line of a head or an equation read with an earlier one
@@ -261,7 +282,7 @@ def claims_of_page(
             roles[last] = "equation (its second line)"
         if eq:
             try:
-                claim = claim_from_equation(eq, eq_line, lines[:i], name)
+                claim = claim_from_equation(eq, eq_line, lines[:i], name, numbers)
                 if claim:
                     out.append(claim)
                     roles[i] = f"claim {claim.label}: {claim.kind} (worked equation)"
@@ -313,7 +334,7 @@ def claims_of_page(
             roles[i] = "not read: a total, not a check"
             continue
         try:
-            claims = pair_claims(cells, table, line, state, cmap, name)
+            claims = pair_claims(cells, table, line, state, cmap, name, numbers)
             out += claims
             row_table, last_row_index = table, i
             roles[i] = "claim " + "; ".join(f"{c.label}: {c.kind}" for c in claims)
@@ -436,52 +457,61 @@ def extract(
     workers: int | None = None,
     progress: Callable[[int], None] | None = None,
     standard_headers: dict[str, str] | None = None,
+    decimal_mark: str | None = None,
+    standard_decimal: str | None = None,
 ) -> Extraction:
-    """Read the claimed bearing checks of a calc package PDF; ``standard_headers``: a standard's own symbols."""
+    """Read the claimed bearing checks of a calc package PDF; ``standard_headers``: a standard's own symbols.
+    How its numbers mark decimals (point, comma, either): ``decimal_mark`` (the reviewer's), else the column
+    map's ``decimal_mark``, else ``standard_decimal`` (the standard's declaration), else points."""
     path = Path(path)
     cmap = cmap or default_map(standard_headers)
     doc = open_document(path)
     count = len(doc)
     doc.close()
     wanted = parse_pages(pages or cmap.pages, count, Location(str(path), 0, 0, "pages"))
-    custom_headers = cmap.headers != default_map().headers or bool(cmap.positions)
-    read: dict = {}
-    candidates, empty, warnings = scan_pages(path, wanted, any_text=custom_headers, read=read)
-    workers = workers if workers is not None else max(1, min(os.cpu_count() or 1, 8))
-    parsed = {**read, **page_words(path, [n for n in candidates if n not in read], workers, progress)}
-    if progress and read:
-        progress(len(read))
-    state = _State()
+    # a reviewer's own map may name heads without the trade's symbols: then every page with text is read;
+    # the standard's own heads (its claim_headers) are its vocabulary, as the trade's symbols are
+    custom_headers = cmap.headers != default_map(standard_headers).headers or bool(cmap.positions)
+    vocabulary = page_vocabulary(standard_headers, any_text=custom_headers)
+    del workers  # pages are read in the one pass, in order (kept for callers that name it)
+    state = _State(decimal=decimal_in_force(decimal_mark, cmap, standard_decimal))
     claims: list[Claim] = []
     unread: list[Unread] = []
+    warnings: list[str] = []
     per_page: dict[int, int] = {}
-    wanted_set = set(wanted)
-    queue = sorted(candidates)  # pages read ahead (the page after a candidate) wait until a table goes on
+    parsed: dict = {}
     done: set[int] = set()
-    while queue:
-        number = queue.pop(0)
-        if number in done:
-            continue
-        done.add(number)
-        if number not in parsed:
-            parsed.update(page_words(path, [number], 1))
-        words, edges, problem = parsed[number]
+
+    def goes_on(number: int) -> bool:
+        """The table at the foot of the page before may go on over this page without a header."""
+        return state.open_at_end and number - 1 in done
+
+    found = Scan()
+    for number, data in scan_pages(path, wanted, vocabulary, goes_on, found):
+        if data is None:
+            data = page_words(path, [number], 1)[number]
+        parsed[number] = data
+        words, edges, problem = data
         if problem:
             warnings.append(problem)
         if state.open_at_end and number - 1 not in done:
             state.open_at_end = False
-        found = claims_of_page(group_lines(number, words), state, cmap, str(path), warnings, edges, unread)
-        per_page[number] = len(found)
-        claims += found
-        following = number + 1
-        if state.open_at_end and following in wanted_set and following not in done and following not in queue:
-            queue.insert(0, following)  # the table may go on over the page without a header
+        done.add(number)
+        page_claims = claims_of_page(group_lines(number, words), state, cmap, str(path), warnings, edges, unread)
+        per_page[number] = len(page_claims)
+        claims += page_claims
+        if progress:
+            progress(1)
+    candidates, empty = found.candidates, found.empty
+    warnings = found.warnings + warnings
     numbered = tuple(replace(c, id=f"p{c.where.page}-{i + 1}") for i, c in enumerate(claims))
     with_rows = {u.page for u in unread}
     for number in candidates:
         if per_page.get(number, 0) == 0 and number not in with_rows:
             unread.append(
-                Unread(number, "page with bearing-check vocabulary gave no claim", _vocabulary(parsed, number))
+                Unread(
+                    number, "page with bearing-check vocabulary gave no claim", _vocabulary(parsed, number, vocabulary)
+                )
             )
     unread.sort(key=lambda u: (u.page, u.what))
     return Extraction(
@@ -489,8 +519,22 @@ def extract(
     )
 
 
+def decimal_in_force(given: str | None, cmap: ColumnMap, standard: str | None = None) -> str:
+    """The decimal mark a calc is read with: the reviewer's on the command line, else a column map's, else
+    the standard's own declaration, else decimal points."""
+    mark = given or cmap.decimal_mark or standard or "point"
+    if mark not in DECIMAL_MARKS:
+        raise InputError(f"decimal mark '{mark}' must be one of {', '.join(DECIMAL_MARKS)}", Location("--decimal-mark"))
+    return mark
+
+
 def show_page(
-    path: Path | str, number: int, cmap: ColumnMap | None = None, standard_headers: dict[str, str] | None = None
+    path: Path | str,
+    number: int,
+    cmap: ColumnMap | None = None,
+    standard_headers: dict[str, str] | None = None,
+    decimal_mark: str | None = None,
+    standard_decimal: str | None = None,
 ) -> str:
     """The page as the reader sees it: each line with its position and what it became (a head and the
     columns found, units, a group, a claim, not read and why), and the cells of each head with their
@@ -504,7 +548,7 @@ def show_page(
         raise InputError(f"page {number} is not in the document (1 to {count})", Location(str(path), 0, 0, "--show"))
     wanted = [n for n in (number - 1, number) if n >= 1]
     parsed = page_words(path, wanted, 1)
-    state = _State()
+    state = _State(decimal=decimal_in_force(decimal_mark, cmap, standard_decimal))
     out = [f"{path.name}, page {number} as the reader sees it (x and y in points from the page's top left)"]
     for n in wanted:
         words, edges, problem = parsed[n]
@@ -532,11 +576,11 @@ def _arrow(role: str) -> str:
     return f"-> {role}" if role else ""
 
 
-def _vocabulary(parsed: dict, number: int) -> str:
+def _vocabulary(parsed: dict, number: int, vocabulary: Vocabulary) -> str:
     """The page's first line with the trade's symbols, to say where to look."""
     words = parsed.get(number, ([], [], ""))[0]
     for line in group_lines(number, words):
-        if CANDIDATE.search(line.text):
+        if vocabulary.search(line.text):
             return line.text[:160]
     return ""
 
@@ -548,9 +592,8 @@ def _force(value: float | None) -> str | None:
     return None if value is None else f"{value / 1000:.9g} kN"
 
 
-def claims_yaml(extraction: Extraction, source: str) -> str:
-    import yaml
-
+def claims_yaml(extraction: Extraction, source: str, symbols: dict[str, Symbol] | None = None) -> str:
+    """The claims file, its factors in the standard's own symbols (``symbols``; O86's words when None)."""
     items = []
     for c in extraction.claims:
         item: dict = {
@@ -568,7 +611,7 @@ def claims_yaml(extraction: Extraction, source: str) -> str:
         if c.utilisation is not None:
             item["utilisation"] = round(c.utilisation, 6)
         if c.factors:
-            item["factors"] = {k: _factor_text(k, v) for k, v in c.factors.items()}
+            item["factors"] = {standard_symbol(k, symbols or {}): _factor_text(k, v) for k, v in c.factors.items()}
         if c.adequate is not None:
             item["adequate"] = c.adequate
         item["text"] = c.text
@@ -583,7 +626,33 @@ def claims_yaml(extraction: Extraction, source: str) -> str:
         header += f"# not read: {u.line()}\n"
     for w in extraction.warnings:
         header += f"# warning: {w}\n"
-    return header + yaml.safe_dump({"claims": items}, sort_keys=False, allow_unicode=True, width=120)
+    return header + _dump_claims(items)
+
+
+# Characters that both PyYAML emitters write as they are: where every string of the file is made of them,
+# libyaml's emitter gives the same bytes as PyYAML's own (tests/test_extract_speed.py checks it) in a
+# tenth of the time. Others (tabs, control characters, line and paragraph separators, a byte-order mark,
+# characters past U+FFFF) are escaped and folded differently by the two: the Python emitter writes those.
+_C_EMITTER_SAFE = re.compile("[\x20-\x7e\xa0-\u2027\u202a-\ud7ff\ue000-\ufefe\uff00-\ufffd]*")
+
+
+def _strings(node) -> list[str]:
+    if isinstance(node, str):
+        return [node]
+    if isinstance(node, dict):
+        return [s for k, v in node.items() for s in (*_strings(k), *_strings(v))]
+    if isinstance(node, list):
+        return [s for v in node for s in _strings(v)]
+    return []
+
+
+def _dump_claims(items: list[dict]) -> str:
+    import yaml
+
+    data = {"claims": items}
+    fast = getattr(yaml, "CSafeDumper", None)
+    dumper = fast if fast is not None and _C_EMITTER_SAFE.fullmatch("".join(_strings(data))) else yaml.SafeDumper
+    return yaml.dump(data, Dumper=dumper, sort_keys=False, allow_unicode=True, width=120)
 
 
 def _factor_text(name: str, value: float) -> float | str:

@@ -3,14 +3,14 @@
 
 from __future__ import annotations
 
-import contextlib
 import re
-from collections.abc import Callable
+from collections.abc import Callable, Iterator
 from concurrent.futures import ProcessPoolExecutor
+from dataclasses import dataclass, field
 from pathlib import Path
 
 from audit.core.errors import InputError, Location
-from audit.inputs.pdf.columns import CANDIDATE
+from audit.inputs.pdf.columns import Vocabulary
 from audit.inputs.pdf.pdfium_words import page_words_pdfium
 from audit.inputs.pdf.settings import SETTINGS
 
@@ -73,62 +73,143 @@ def count_objects(raw, page, limit: int) -> int:
     return total
 
 
-def scan_pages(
-    path: Path, pages: list[int], any_text: bool = False, read: dict | None = None
-) -> tuple[list[int], list[int], list[str]]:
-    """Cheap pass: (candidate pages, pages with no text layer, warnings).
+@dataclass
+class Scan:
+    """What the cheap pass found, filled as it goes: candidate pages, pages with no text layer, warnings."""
 
-    A candidate page carries the trade's symbols; with ``any_text`` (a column map of the
-    reviewer's own headers) every page with text is a candidate. Given ``read``, the words and
-    rules of each candidate are read in the same pass (from pdfium) into it; a candidate that
-    pdfium cannot read that way is left for ``page_words``.
-    """
+    candidates: list[int] = field(default_factory=list)
+    empty: list[int] = field(default_factory=list)
+    warnings: list[str] = field(default_factory=list)
+
+
+def content_keys(path: Path) -> dict[int, str]:
+    """page -> what it draws as the file says it (its content streams, resources, boxes and rotation), from
+    the page tree alone (no page is loaded): pages with one key draw the same thing. Empty where the file
+    cannot be read that way. Asked for only once a document's work has grown large."""
+    try:
+        from pdfminer.pdfdocument import PDFDocument
+        from pdfminer.pdfpage import PDFPage
+        from pdfminer.pdfparser import PDFParser
+
+        keys: dict[int, str] = {}
+        with path.open("rb") as handle:
+            document = PDFDocument(PDFParser(handle))
+            for number, page in enumerate(PDFPage.create_pages(document), start=1):
+                attrs = page.attrs
+                if "Contents" not in attrs:
+                    continue
+                keys[number] = repr(
+                    tuple(attrs.get(k) for k in ("Contents", "Resources", "MediaBox", "CropBox", "Rotate"))
+                )
+        return keys
+    except Exception:  # a file pdfminer cannot walk: every page is read on its own
+        return {}
+
+
+def scan_pages(
+    path: Path, pages: list[int], vocabulary: Vocabulary, wants: Callable[[int], bool], found: Scan
+) -> Iterator[tuple[int, PageData | None]]:
+    """One pass over ``pages`` in order: each page's text is read and searched for the ``vocabulary``
+    (the trade's symbols and the standard's heads; every page with text under a column map of the
+    reviewer's own heads). Yields (page, its words and rules) for every candidate, and for every other
+    page that ``wants(page)`` asks for when the pass reaches it (the page after one whose table goes on:
+    the caller has read the pages before by then); words None where pdfium cannot give them (sideways
+    text): ``page_words`` reads those. The work is bounded per document as well as per page: characters
+    and drawing objects (those in form objects counted) of all pages read so far."""
     import pypdfium2.raw as pdfium_raw
 
     doc = open_document(path)
-    candidates, empty, warnings = [], [], []
-    scanned = 0  # characters of the pages read so far: the work is bounded per document, not per page
+    scanned = objects_seen = 0
+    refused: set[int] = set()  # pages too large to read
+    # once the work grows large, pages that draw what an earlier page drew (one content stream shared by
+    # many pages) are known from the page tree and take that page's outcome without being loaded
+    keys: dict[int, str] | None = None
+    first_of: dict[str, int] = {}  # a content key -> the first page read with it
+    outcome: dict[int, tuple[bool, bool, PageData | None]] = {}  # page -> (no text, candidate, words)
     try:
         for at, number in enumerate(pages):
-            if scanned > SETTINGS.max_document_text:
+            if (bound := _document_bound(scanned, objects_seen)) is not None:
                 rest = pages[at:]
                 span = f"page {rest[0]}" if len(rest) == 1 else f"pages {rest[0]} to {rest[-1]} ({len(rest)} pages)"
-                warnings.append(
-                    f"{span}: not read, the pages before already hold more than {SETTINGS.max_document_text:,} "
-                    "characters (the bound of one document's work); give --pages to read the rest"
+                found.warnings.append(
+                    f"{span}: not read, the pages before already hold more than {bound} (the bound of one "
+                    "document's work); give --pages to read the rest"
                 )
                 break
+            data: PageData | None = None
+            if keys is None and (refused or scanned > SETTINGS.shared_content_after):
+                keys = content_keys(path)
+                for earlier in sorted(refused):
+                    if earlier in keys:
+                        first_of.setdefault(keys[earlier], earlier)
+            key = keys.get(number) if keys else None
+            if key is not None and (same := first_of.get(key)) is not None:
+                if same in refused:
+                    found.warnings.append(f"page {number}: draws what page {same} draws, too much to read; skipped")
+                    continue
+                if same in outcome:
+                    no_text, candidate, data = outcome[same]
+                    if no_text:
+                        found.empty.append(number)
+                    elif candidate:
+                        found.candidates.append(number)
+                    if candidate or wants(number):
+                        yield number, data
+                    continue
+            if key is not None:
+                first_of.setdefault(key, number)
             try:
                 page = doc[number - 1]
-                objects = count_objects(pdfium_raw, page.raw, SETTINGS.max_page_objects)
-                if objects > SETTINGS.max_page_objects:
-                    warnings.append(f"page {number}: {objects} drawing objects, too many to read; skipped")
+                try:
+                    objects = count_objects(pdfium_raw, page.raw, SETTINGS.max_page_objects)
+                    objects_seen += objects
+                    if objects > SETTINGS.max_page_objects:
+                        found.warnings.append(f"page {number}: {objects} drawing objects, too many to read; skipped")
+                        refused.add(number)
+                        continue
+                    textpage = page.get_textpage()
+                    try:
+                        count = textpage.count_chars()
+                        scanned += max(count, 0)
+                        if count > SETTINGS.max_page_text:
+                            found.warnings.append(f"page {number}: {count} characters, too many to read; skipped")
+                            refused.add(number)
+                            continue
+                        text = textpage.get_text_range() if count else ""
+                        candidate = vocabulary.picks(text)
+                        if candidate or wants(number):
+                            try:
+                                data = (*page_words_pdfium(page, textpage), "") if text.strip() else ([], [], "")
+                            except Exception:  # sideways text or the like: page_words reads it
+                                data = None
+                            read = True
+                        else:
+                            read = False
+                    finally:
+                        textpage.close()
+                finally:
                     page.close()
-                    continue
-                textpage = page.get_textpage()
-                count = textpage.count_chars()
-                if count > SETTINGS.max_page_text:
-                    warnings.append(f"page {number}: {count} characters, too many to read; skipped")
-                    continue
-                scanned += count
-                text = textpage.get_text_range() if count else ""
-                candidate = bool(text.strip()) and (any_text or CANDIDATE.search(text) is not None)
-                # the page after a candidate too: a table may go on over the page without a header
-                if (candidate or number - 1 in candidates) and read is not None and text.strip():
-                    with contextlib.suppress(Exception):  # sideways text or the like: page_words reads it
-                        read[number] = (*page_words_pdfium(page, textpage), "")
-                textpage.close()
-                page.close()
             except Exception as exc:  # a damaged page must not stop the others
-                warnings.append(f"page {number}: cannot be read ({type(exc).__name__}); skipped")
+                found.warnings.append(f"page {number}: cannot be read ({type(exc).__name__}); skipped")
                 continue
             if not text.strip():
-                empty.append(number)
+                found.empty.append(number)
             elif candidate:
-                candidates.append(number)
+                found.candidates.append(number)
+            if key is not None and (read or not candidate):
+                outcome[number] = (not text.strip(), candidate, data if read else None)
+            if read:
+                yield number, data
     finally:
         doc.close()
-    return candidates, empty, warnings
+
+
+def _document_bound(characters: int, objects: int) -> str | None:
+    if characters > SETTINGS.max_document_text:
+        return f"{SETTINGS.max_document_text:,} characters"
+    if objects > SETTINGS.max_document_objects:
+        return f"{SETTINGS.max_document_objects:,} drawing objects"
+    return None
 
 
 # A page's words as plain tuples (cheap to send between processes): (text, x0, x1, top, bottom)

@@ -44,76 +44,142 @@ def _words(raw, textpage, height: float) -> list[WordT]:
     buffer = (ctypes.c_ushort * (count + 1))()
     raw.FPDFText_GetText(textpage.raw, 0, count, buffer)
     rect = raw.FS_RECTF()
-    get_box = raw.FPDFText_GetLooseCharBox
-    generated = raw.FPDFText_IsGenerated
-    handle = textpage.raw
+    generated, get_box, handle, box = _box_reader(raw, textpage.raw, rect)
+    text_handle = textpage.raw
     run_gap, word_y = SETTINGS.run_gap, SETTINGS.word_y
-    # a run: (characters, gaps between them, the tallest character's height, the widest gap, x1, top, bottom)
-    runs: list[tuple[list[CharT], list[float], float, float, float, float, float]] = []
-    chars: list[CharT] = []
-    gaps: list[float] = []
-    size = widest = x1 = 0.0
-    t = b = 0.0
+    codes = buffer[:count]
+    # The hot loop of extraction (a few hundred thousand characters in a large package) keeps per run only
+    # its span of character indices and its extent: (first, last, the tallest character's height, the
+    # widest gap, x0, x1, top, bottom, the first character's top, every box read). The few runs that must
+    # be split, or whose gaps give the line's letter spacing, read their characters' boxes again.
+    runs: list[tuple[int, int, float, float, float, float, float, float, float, bool]] = []
+    first = last = -1  # no run open
+    size = widest = x0 = x1 = t = b = t0 = 0.0
+    every_box = True
     pl = pr = pt = pb = ph = 0.0
-    for i in range(count):
-        code = buffer[i]
+    for i, code in enumerate(codes):
         if code <= 32 or code >= 0xFFFE:
             if code == 32 and generated(handle, i) == 1:
                 continue  # pdfium's own guess at a space: the gap rule below decides
-            if chars:
-                runs.append((chars, gaps, size, widest, x1, t, b))
-                chars, gaps = [], []
+            if first >= 0:
+                runs.append((first, last, size, widest, x0, x1, t, b, t0, every_box))
+                first = -1
             continue
-        if not get_box(handle, i, rect):
+        if not get_box(handle, i, box):
+            every_box = every_box and first < 0
             continue
-        left, right, top, bottom = rect.left, rect.right, height - rect.top, height - rect.bottom
+        left = rect.left
+        right = rect.right
+        top = height - rect.top
+        bottom = height - rect.bottom
         h = bottom - top
-        if chars:
+        if first >= 0:
             gap = left - pr
-            tall = max(h, ph, 1.0)
-            middle = (top + bottom) / 2
             # the same run: forward, within a loose gap (wider than any letter spacing, narrower than a
-            # column gap), on the same line or a subscript or superscript of the character before
+            # column gap: gap <= run_gap * max(h, ph, 1.0)), on the same line or a subscript or superscript
+            # of the character before
             if (
-                gap > run_gap * tall
-                or left < pl - 0.5
-                or (abs(top - pt) > word_y and not pt - 0.5 <= middle <= pb + 0.5)
+                (gap <= run_gap * h or gap <= run_gap * ph or gap <= run_gap)
+                and left >= pl - 0.5
+                and (-word_y <= top - pt <= word_y or pt - 0.5 <= (top + bottom) / 2 <= pb + 0.5)
             ):
-                runs.append((chars, gaps, size, widest, x1, t, b))
-                chars, gaps = [], []
+                if gap > widest:
+                    widest = gap
+                if h > size:
+                    size = h
+                if right > x1:
+                    x1 = right
+                if top < t:
+                    t = top
+                if bottom > b:
+                    b = bottom
             else:
-                gaps.append(gap)
-                widest = max(widest, gap)
-                size, x1, t, b = max(size, h), max(x1, right), min(t, top), max(b, bottom)
-        if not chars:
-            size, widest, x1, t, b = h, 0.0, right, top, bottom
-        chars.append((chr(code), left, right, top, bottom))
-        pl, pr, pt, pb, ph = left, right, top, bottom, h
-    if chars:
-        runs.append((chars, gaps, size, widest, x1, t, b))
+                runs.append((first, last, size, widest, x0, x1, t, b, t0, every_box))
+                first, size, widest, x0, x1, t, b, t0, every_box = i, h, 0.0, left, right, top, bottom, top, True
+        else:
+            first, size, widest, x0, x1, t, b, t0, every_box = i, h, 0.0, left, right, top, bottom, top, True
+        last = i
+        pl = left
+        pr = right
+        pt = top
+        pb = bottom
+        ph = h
+    if first >= 0:
+        runs.append((first, last, size, widest, x0, x1, t, b, t0, every_box))
     word_x, word_gap = SETTINGS.word_x, SETTINGS.word_gap
+    # a run with a gap wide enough to split it, whatever the spacing: gap > max(word_x, word_gap * height)
+    wide = [r[3] > word_x and r[3] > word_gap * r[2] for r in runs]
     spacing: dict[tuple[int, int], float] = {}
-    if any(r[3] > max(word_x, word_gap * r[2]) for r in runs):
+    boxes: dict[int, tuple[list[CharT], list[float]]] = {}  # a run's characters and gaps, read again
+    if any(wide):
         # letter spacing is a property of a line's style: estimated from every run of one line and size
         gaps_of_line: dict[tuple[int, int], list[float]] = {}
         for r in runs:
-            gaps_of_line.setdefault(_line_key(r[0][0][3], r[2]), []).extend(r[1])
+            boxes[r[0]] = _run_chars(codes, r[0], r[1], (get_box, handle, box), rect, height)
+            gaps_of_line.setdefault(_line_key(r[8], r[2]), []).extend(boxes[r[0]][1])
         estimates = {key: _letter_spacing(g, key[1]) for key, g in gaps_of_line.items()}
         spacing = {key: _settled(key, value, estimates) for key, value in estimates.items()}
+    units = "".join(map(chr, codes))  # one character per code, as the indices count them
     words: list[WordT] = []
-    for r in runs:
-        if r[3] <= max(word_x, word_gap * r[2]):  # no gap wide enough to split it, whatever the spacing
-            words.append(("".join(c[0] for c in r[0]), r[0][0][1], r[4], r[5], r[6]))
+    for r, split in zip(runs, wide, strict=True):
+        if split:
+            chars, gaps = boxes[r[0]]
+            words += _split_run(chars, gaps, r[2], spacing[_line_key(r[8], r[2])])
+        elif r[9]:  # within a run every space is pdfium's guess, left out
+            words.append((units[r[0] : r[1] + 1].replace(" ", ""), r[4], r[5], r[6], r[7]))
         else:
-            words += _split_run(r[0], r[1], r[2], spacing[_line_key(r[0][0][3], r[2])])
+            chars = _run_chars(codes, r[0], r[1], (get_box, handle, box), rect, height)[0]
+            words.append(("".join([c[0] for c in chars]), r[4], r[5], r[6], r[7]))
     sample = range(0, count, 16)  # the text's direction, from every sixteenth character
     printed = [i for i in sample if 32 < buffer[i] < 0xFFFE]
-    if sum(1 for i in printed if raw.FPDFText_GetCharAngle(handle, i) not in (0.0, -1.0)) * 2 > len(printed):
+    angle = _unchecked(raw.FPDFText_GetCharAngle, ctypes.c_float)
+    angle, at = (angle, handle) if angle is not None else (raw.FPDFText_GetCharAngle, text_handle)
+    if sum(1 for i in printed if angle(at, i) not in (0.0, -1.0)) * 2 > len(printed):
         raise Sideways()
     return words
 
 
 CharT = tuple[str, float, float, float, float]  # (text, left, right, top, bottom)
+
+
+def _unchecked(function, restype=ctypes.c_int):
+    """pdfium's ``function`` called without ctypes' per-call argument conversion (pointers and ints passed
+    as they are), in the library's own calling convention; the checked binding where that cannot be made.
+    The calls below are made once per character of every page read, and the conversion costs more than
+    the call itself."""
+    try:
+        fast = type(function)(ctypes.cast(function, ctypes.c_void_p).value)
+        fast.restype = restype
+        return fast
+    except (TypeError, AttributeError, ValueError):
+        return None
+
+
+def _box_reader(raw, handle, rect):
+    """(is generated, loose box, the text page handle, the rectangle argument) for calls as
+    ``box(handle, index, rectangle)`` (the character's loose box into ``rect``) and ``generated(handle,
+    index)``."""
+    box, generated = _unchecked(raw.FPDFText_GetLooseCharBox), _unchecked(raw.FPDFText_IsGenerated)
+    if box is None or generated is None:
+        return raw.FPDFText_IsGenerated, raw.FPDFText_GetLooseCharBox, handle, rect
+    return generated, box, ctypes.c_void_p(ctypes.cast(handle, ctypes.c_void_p).value), ctypes.byref(rect)
+
+
+def _run_chars(codes, first: int, last: int, reader, rect, height: float) -> tuple[list[CharT], list[float]]:
+    """The characters of one run with their boxes, and the gaps between them, as the scan read them: the
+    run's spaces are pdfium's guesses and characters without a box are left out, as there."""
+    get_box, handle, box = reader
+    chars: list[CharT] = []
+    gaps: list[float] = []
+    for i in range(first, last + 1):
+        code = codes[i]
+        if code == 32 or not get_box(handle, i, box):
+            continue
+        left, right = rect.left, rect.right
+        if chars:
+            gaps.append(left - chars[-1][2])
+        chars.append((chr(code), left, right, height - rect.top, height - rect.bottom))
+    return chars, gaps
 
 
 def _line_key(top: float, size: float) -> tuple[int, int]:

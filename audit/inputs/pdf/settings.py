@@ -26,6 +26,8 @@ class Tolerances:
     max_page_text: int = 400_000  # characters; a page with more is skipped with a warning
     max_page_objects: int = 100_000  # drawing objects; a page with more is skipped with a warning
     max_document_text: int = 20_000_000  # characters in all pages read; the pages past it are named, not read
+    max_document_objects: int = 2_000_000  # drawing objects (in form objects too) of all pages; likewise
+    shared_content_after: int = 2_000_000  # characters read: past it, pages that share content are read once
 
 
 SETTINGS = Tolerances()

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import functools
 import itertools
 import re
 from collections.abc import Iterable
@@ -18,14 +19,20 @@ class Line:
     top: float
     words: tuple[WordT, ...]
 
-    @property
-    def text(self) -> str:
-        return " ".join(w[0] for w in self.words)
+    @functools.cached_property
+    def text(self) -> str:  # a line is looked at many times: its text and cells are kept once made
+        return " ".join([w[0] for w in self.words])
+
+    @functools.cached_property
+    def cells(self) -> tuple[tuple[str, float, float], ...]:
+        return tuple(_cells(self.words, SETTINGS.cell_gap))
 
 
 def group_lines(page: int, words: Iterable[WordT], tolerance: float = SETTINGS.line) -> list[Line]:
     rows: list[list[WordT]] = []
-    for w in sorted(words, key=lambda w: (round(w[3], 1), w[1])):
+    words = list(words)
+    tenth = {top: round(top, 1) for top in {w[3] for w in words}}  # a line's words share their top: round once
+    for w in sorted(words, key=lambda w: (tenth[w[3]], w[1])):
         if rows and abs(rows[-1][0][3] - w[3]) <= tolerance:
             rows[-1].append(w)
         else:
@@ -35,14 +42,24 @@ def group_lines(page: int, words: Iterable[WordT], tolerance: float = SETTINGS.l
 
 def cells_of(line: Line, gap: float = SETTINGS.cell_gap) -> list[tuple[str, float, float]]:
     """Words joined into cells where the horizontal gap is small: (text, x0, x1)."""
-    cells: list[list] = []
-    for text, x0, x1, _, _ in line.words:
-        if cells and x0 - cells[-1][2] <= gap:
-            cells[-1][0] += " " + text
-            cells[-1][2] = x1
-        else:
-            cells.append([text, x0, x1])
-    return [(c[0], c[1], c[2]) for c in cells]
+    return list(line.cells) if gap == SETTINGS.cell_gap else _cells(line.words, gap)
+
+
+def _cells(words: tuple[WordT, ...], gap: float) -> list[tuple[str, float, float]]:
+    cells: list[tuple[str, float, float]] = []
+    texts: list[str] = []
+    x0 = x1 = 0.0
+    for text, left, right, _, _ in words:
+        if texts and left - x1 <= gap:
+            texts.append(text)
+            x1 = right
+            continue
+        if texts:
+            cells.append((" ".join(texts), x0, x1))
+        texts, x0, x1 = [text], left, right
+    if texts:
+        cells.append((" ".join(texts), x0, x1))
+    return cells
 
 
 @dataclass(frozen=True)
@@ -65,7 +82,7 @@ def single_band(line: Line) -> list[HeadCell]:
 def head_cells(line: Line) -> list[tuple[str, float, float]]:
     """A head line's cells, less a spreadsheet's row number standing first (a bare whole number)."""
     cells = cells_of(line)
-    if len(cells) > 1 and re.fullmatch(r"\d{1,5}", cells[0][0]):
+    if len(cells) > 1 and ROW_NUMBER.fullmatch(cells[0][0]):
         return cells[1:]
     return cells
 
@@ -131,8 +148,12 @@ def _bracketed_unit(text: str) -> str | None:
     return None
 
 
+ROW_NUMBER = re.compile(r"\d{1,5}")
+BRACKETED = re.compile(r"[\(\[].*?[\)\]]")
+
+
 def _strip(text: str) -> str:
-    return re.sub(r"[\(\[].*?[\)\]]", "", text).strip()
+    return BRACKETED.sub("", text).strip()
 
 
 def _name_cell(head: HeadCell, position: int, cmap: ColumnMap, used: set[str]) -> Found:
@@ -147,6 +168,8 @@ def _name_cell(head: HeadCell, position: int, cmap: ColumnMap, used: set[str]) -
     while j > 0 and (not _strip(path[j]) or UNIT_CELL.match(path[j].strip())):
         j -= 1  # units under the symbol stay with it
     own, groups, label = " ".join(path[j:]), path[:j], _strip(path[j])
+    if cmap.any_head is not None and cmap.any_head.search(label) is None:
+        return Found("", head.x0, head.x1, own, groups)  # no pattern names it (the loop below would say so)
     for name, pattern in cmap.headers.items():
         if name in used or name in cmap.positions.values() or not pattern.search(label):
             continue
@@ -162,6 +185,8 @@ def header_of(
 ) -> Table | None:
     """The table a head line (or a head of several bands, ``heads``) opens, or None when it is not one."""
     heads = heads if heads is not None else single_band(line)
+    if len(heads) < 2:
+        return None  # a table head names two fields at least (the test below): most lines are one cell
     found: list[Found] = []
     used: set[str] = set()
     for position, head in enumerate(heads, start=1):

@@ -1,0 +1,52 @@
+"""A claims file written by `extract` under a standard names its factors in that standard's symbols, so it reads
+back under the same standard (the reader refuses another standard's symbols)."""
+
+from __future__ import annotations
+
+import pytest
+
+from audit.core.located_yaml import read_yaml_file
+from audit.inputs.pdf.extract import claims_yaml, extract
+from audit.inputs.read_claims import build_claims
+from audit.standards.registry import standard_named
+
+
+def _table_pdf(path, rows):
+    from fpdf import FPDF
+
+    pdf = FPDF()
+    pdf.add_page()
+    pdf.set_font("helvetica", size=9)
+    for row in rows:
+        for text in row:
+            pdf.cell(38, 7, text, border=1)
+        pdf.ln(7)
+    pdf.output(str(path))
+    return path
+
+
+def _round_trip(tmp_path, rows, standard_id):
+    standard = standard_named(standard_id)
+    pdf = _table_pdf(tmp_path / "calc.pdf", rows)
+    written = tmp_path / "claims.yaml"
+    written.write_text(claims_yaml(extract(pdf, standard_headers=standard.claim_headers), "calc.pdf", standard.symbols))
+    return build_claims(read_yaml_file(written), standard)
+
+
+def test_an_nds_claims_file_names_the_bearing_area_factor_cb_and_reads_back_under_the_nds(tmp_path):
+    rows = (["Location", "P (lbf)", "P' (lbf)", "Cb"], ["Rafter at wall", "480", "4383", "1.25"])
+    (claim,) = _round_trip(tmp_path, rows, "nds")
+    assert claim.factors == {"Cb": pytest.approx(1.25)}  # the Cb column as printed (NDS 3.10.4)
+    assert claim.qf == pytest.approx(480 * 4.4482216152605, rel=1e-6)  # lbf by definition
+
+
+def test_an_en_1995_claims_file_names_kc90_and_the_characteristic_strength_and_reads_back(tmp_path):
+    rows = (
+        ["Location", "F_c,90,d (kN)", "F_c,90,Rd (kN)", "k_c,90", "f_c,90,k (MPa)"],
+        ["Joist on beam", "6.2", "14.8", "1.50", "2.5"],
+    )
+    (claim,) = _round_trip(tmp_path, rows, "ec5")
+    # EN 1995-1-1 6.1.5 symbols: kc,90 a plain number, fc,90,k a stress (2.5 MPa as printed)
+    assert claim.factors["kc,90"] == pytest.approx(1.5)
+    assert claim.factors["fc,90,k"] == pytest.approx(2.5e6)
+    assert claim.qf == pytest.approx(6200.0)
