@@ -50,3 +50,28 @@ def test_an_en_1995_claims_file_names_kc90_and_the_characteristic_strength_and_r
     assert claim.factors["kc,90"] == pytest.approx(1.5)
     assert claim.factors["fc,90,k"] == pytest.approx(2.5e6)
     assert claim.qf == pytest.approx(6200.0)
+
+
+@pytest.mark.parametrize(
+    ("demo", "strength", "duration"),
+    [
+        # each standard's own words (EN 1995-1-1 6.1.5 with kmod of 3.1.3; NDS Fc-perp adjusted by CM and Ct, no
+        # load-duration factor, NDS 2.3.2): no O86 word in another standard's explanation
+        ("demo-ec5", "kmod fc,90,k =", "kmod ="),
+        ("demo-nds", "Fc-perp CM Ct =", "no "),
+    ],
+)
+def test_explain_names_the_strength_and_duration_factor_in_the_standards_own_symbols(demo, strength, duration):
+    from pathlib import Path
+
+    from typer.testing import CliRunner
+
+    from audit.cli import app
+
+    model = Path(__file__).resolve().parents[1] / "fixtures" / demo / "model.yaml"
+    table = CliRunner().invoke(app, ["review", str(model)]).output.splitlines()
+    check_id = table[2].split()[0]
+    text = CliRunner().invoke(app, ["explain", str(model), check_id]).output
+    rows = [line for line in text.splitlines() if " Qf = " in line]
+    assert rows and all(strength in row and duration in row for row in rows)
+    assert "Fcp =" not in text and "KD =" not in text

@@ -257,6 +257,7 @@ def explain(review: Review, check_id: str) -> str:
                 f"(most {e.placing(True)}; least {e.placing(False)})"
             )
     combos = {c.name: c for c in review.combinations}
+    duration_symbol, strength_symbol = review.standard.column_symbols  # each standard's own words
     for x in r.combinations:
         mark = "  <- governs" if x is r.governing else ""
         combo = combos.get(x.combination)
@@ -264,10 +265,11 @@ def explain(review: Review, check_id: str) -> str:
         reason = x.kd_reason or (
             review.standard.duration_reason(c, placed, combos[x.combination], review.model, review.pack)
             if r.inputs.uses_duration and x.combination in combos
-            else f"KD = {x.kd:.2f}"
+            else (duration_symbol if duration_symbol.startswith("no ") else f"{duration_symbol} = {x.kd:.2f}")
         )
         lines.append(
-            f"  {x.combination:28s} Qf = {q.force(x.qf, 8)}  {reason:60.60s}  Fcp = {q.stress(_fcp(r, x.kd), 5)}  "
+            f"  {x.combination:28s} Qf = {q.force(x.qf, 8)}  {reason:60.60s}  "
+            f"{strength_symbol} = {q.stress(_fcp(r, x.kd), 5)}  "
             f"Qr = {q.force(x.qr, 8)}  Qf/Qr = {x.utilisation:.3f}{mark}"
         )
         if x.pattern:

@@ -173,6 +173,10 @@ class PackReader:
         for k in ("source", "status"):
             if k not in node.value:
                 self.errors.add(f"missing '{k}': every value carries its provenance", node.child_loc(k))
+        for k, item in node.value.items():
+            if isinstance(k, str) and k != "value" and item.value is None:
+                # in a one-line {...} mapping an unquoted comma ends the text and starts a key of its own
+                self.errors.add(f"'{k}' has no value: quote a text that holds a comma", node.child_loc(k))
         raw = node.value["value"]
         try:
             value = convert(raw, node) if convert else _plain(raw)
