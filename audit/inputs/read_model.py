@@ -103,8 +103,7 @@ def build_model_and_sections(
     frame = None
     if sections.layout is not None:
         frame = Frame(dict(sections.layout.levels), dict(sections.layout.grids.x), dict(sections.layout.grids.y))
-    named = {b.hanger for b in bearings if b.hanger}
-    used = {h: hangers[h] for h in sorted(named)}
+    used = {h: hangers[h] for h in sorted({b.hanger for b in bearings if b.hanger})}
     model = Model(name, project, materials, members, bearings, loads, groups, warnings, frame, used)
     return model, resistance, combos, sections
 
