@@ -190,7 +190,8 @@ def _in_hanger(
     hanger the carrier (lower) under its flange; None, with the error, where the hanger is unknown or does not fit.
 
     On the carried member the contact is the seat: its length along the member's grain, its width across it (no
-    wider than the member). Under a top flange the carrier is loaded over the flange length across its top and,
+    wider than the member); a seat that would reach past the member's end is moved in to end at it (the member's end
+    sits in the hanger). Under a top flange the carrier is loaded over the flange length across its top and,
     along its grain, over the hanger's width, taken as the seat's and no more than the carried member's b."""
     hanger = hangers.get(name)
     if hanger is None:
@@ -209,7 +210,11 @@ def _in_hanger(
         errors.add(f"hanger '{name}' joins two horizontal members: a carried member and its carrier", f.loc("hanger"))
         return None
     seat_width = hanger.seat_width if shorter(hanger.seat_width, carried.b) else None
-    upper = replace(upper, length=hanger.seat_length, width=seat_width)
+    at = upper.at
+    if at is not None and not shorter(carried.length, hanger.seat_length):
+        half = 0.5 * hanger.seat_length  # the member's end sits in the hanger: the seat never reaches past it
+        at = min(max(at, half), carried.length - half)
+    upper = replace(upper, at=at, length=hanger.seat_length, width=seat_width)
     if hanger.kind == "top-flange" and hanger.flange_length is not None:
         across = hanger.flange_length if shorter(hanger.flange_length, carrier.b) else None
         lower = replace(lower, length=min(hanger.seat_width, carried.b), width=across)
