@@ -113,7 +113,7 @@ def test_the_reaction_is_compared_with_the_listed_capacity_of_its_duration(rules
     assert check.capacity == pytest.approx(6000.0)
     assert check.utilisation == pytest.approx(QF_J1 / 6000.0, rel=1e-3)
     assert not check.passes
-    assert QF_PERMANENT / 4000.0 < check.utilisation  # the permanent row does not govern here
+    assert check.utilisation > QF_PERMANENT / 4000.0  # the permanent row does not govern here
     (finding,) = [f for f in review.engine_findings if f.kind == "hanger-capacity"]
     assert finding.severity == "safety"
     assert finding.clause == "invented listing, page 3"  # the listing's source is the clause field
