@@ -154,6 +154,19 @@ KINDS: dict[str, FindingKind] = {
 }
 
 
+# Kinds of a part only some models have (hangers): counted and listed only where a finding of the kind was made, so
+# the summary of a model without that part is as it was.
+PART_KINDS = frozenset({"hanger-capacity", "hanger-flange", "hanger-side"})
+
+
+def counted(findings) -> dict[str, int]:
+    """Findings by kind, in the order of KINDS: every kind, but a part's kinds only where they were found."""
+    out = {k: 0 for k in KINDS}
+    for f in findings:
+        out[f.kind] += 1
+    return {k: n for k, n in out.items() if n or k not in PART_KINDS}
+
+
 @dataclass(frozen=True)
 class Finding:
     kind: str  # a key of KINDS
