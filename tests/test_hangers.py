@@ -219,3 +219,33 @@ def test_a_typical_claim_covers_the_seats_of_a_runs_hangers():
     rec = reconcile(review, claims)
     matched = {o.check_id for o in rec.checks if o.claim_id == "H-1"}
     assert matched == {f"J-A-B-{n}/BB:J-A-B-{n}" for n in range(1, 7)}
+
+
+def test_committed_framing_demo_outputs_are_byte_identical_to_a_fresh_run(tmp_path, run_cli):
+    files = [
+        ("--memo", "framing-demo-memo.html"),
+        ("--appendix", "framing-demo-appendix.html"),
+        ("--json", "framing-demo-findings.json"),
+        ("--csv", "framing-demo-findings.csv"),
+    ]
+    result = run_cli(
+        "review",
+        DEMO / "model.yaml",
+        "--rules-dir",
+        DEMO / "rules",
+        "--claims",
+        DEMO / "claims.yaml",
+        *[v for o, n in files for v in (o, tmp_path / n)],
+    )
+    assert result.exit_code == 1  # a hanger over its listed capacity
+    for _, name in files:
+        fresh, committed = (tmp_path / name).read_bytes(), (ROOT / "reports" / name).read_bytes()
+        assert fresh == committed, f"reports/{name} is stale: run the hanger demo command in the README"
+
+
+def test_the_framing_demo_expands_and_reads_back_with_its_hangers(tmp_path, run_cli):
+    out = tmp_path / "explicit.yaml"
+    assert run_cli("expand", DEMO / "model.yaml", "-o", out, "--rules-dir", DEMO / "rules").exit_code == 0
+    assert "hanger: HG-1" in out.read_text(encoding="utf-8")
+    again = review_model(out, (DEMO / "rules",))
+    assert len(again.hangers) == 12
