@@ -11,7 +11,7 @@ import math
 from dataclasses import dataclass
 
 from audit.core.errors import InputError
-from audit.engine.model import Bearing, Load, Member, Model
+from audit.engine.model import Bearing, Load, Member, Model, Side
 from audit.engine.take_down import AppliedForce
 
 # Ties are decided at a stated resolution, not by float noise: lengths along a member (an end distance
@@ -71,6 +71,9 @@ def contact_on(member: Member, other: Member, bearing: Bearing) -> Contact:
     (its stated seat), a seat stated on either side. A stated plate or seat limits, never widens.
     """
     side, far = bearing.side_of(member.id), bearing.side_of(other.id)
+    if bearing.hanger and side.length is not None:  # each member bears on the hanger, not on the other member
+        length, length_note, width, width_note = _on_hanger(member, side, bearing)
+        return _placed(member, side, bearing, length, length_note, width, width_note)
     if side.length is not None:
         length, length_note = side.length, "stated in the model"
     elif other.vertical:
@@ -102,6 +105,24 @@ def contact_on(member: Member, other: Member, bearing: Bearing) -> Contact:
             (bearing.width, "stated plate or seat width"),
         ]
     )
+    return _placed(member, side, bearing, length, length_note, width, width_note)
+
+
+def _on_hanger(member: Member, side: Side, bearing: Bearing) -> tuple[float, str, float, str]:
+    """A member's contact on a hanger: the seat under the carried member, the top flange on the carrier (the reader
+    states both on the side, from the connector pack); across the grain no wider than the member."""
+    part = "seat" if member.id == bearing.upper.member else "top flange"
+    length = side.length if side.length is not None else 0.0
+    width, width_note = least_extent(
+        [(side.width, f"{part} of hanger {bearing.hanger} across {member.id}"), (member.b, f"b of {member.id}")]
+    )
+    return length, f"{part} of hanger {bearing.hanger}", width, width_note
+
+
+def _placed(
+    member: Member, side: Side, bearing: Bearing, length: float, length_note: str, width: float, width_note: str
+) -> Contact:
+    """The contact placed along the member at the side's centre, cut at the member's ends."""
     centre = side.at if side.at is not None else 0.0
     start, end = centre - 0.5 * length, centre + 0.5 * length
     if start < 0.0 or end > member.length:

@@ -113,6 +113,39 @@ class Side:
     loc: Location = field(default=Location(""), compare=False)
 
 
+HANGER_KINDS = ("face-mount", "top-flange")
+DURATIONS = ("permanent", "standard", "short")  # longest first
+
+
+@dataclass(frozen=True)
+class Hanger:
+    """A hanger from the firm's connector pack: its seat, its top flange, its listed capacity per load duration."""
+
+    id: str
+    kind: str  # face-mount | top-flange
+    seat_width: float  # m, across the carried member's grain
+    seat_length: float  # m, along the carried member's grain
+    flange_length: float | None  # m, top-flange: how far the flange reaches across the carrier's top
+    capacity: tuple[tuple[str, float], ...]  # (duration, N) as listed
+    source: str  # where the listing comes from ("firm's verified listing, page ...")
+    status: str
+    pack: str = ""  # the connector pack's id
+    loc: Location = field(default=Location(""), compare=False)
+
+    def capacity_for(self, duration: str) -> tuple[float, str]:
+        """The listed capacity for a load duration (N), and how it was taken: the listed one, else that of the
+        nearest longer duration listed, else the least listed (conservative either way)."""
+        listed = dict(self.capacity)
+        if duration in listed:
+            return listed[duration], f"listed for {duration} term"
+        longer = [d for d in DURATIONS[: DURATIONS.index(duration)] if d in listed] if duration in DURATIONS else []
+        if longer:
+            taken = longer[-1]
+            return listed[taken], f"none listed for {duration} term: the {taken}-term capacity taken"
+        least = min(listed, key=lambda d: listed[d])
+        return listed[least], f"none listed for {duration} term: the least listed ({least} term) taken"
+
+
 @dataclass(frozen=True)
 class Bearing:
     id: str
@@ -124,6 +157,7 @@ class Bearing:
     note: str = field(default="", compare=False)  # how a found bearing was found
     calc_force: tuple[tuple[str, float], ...] = ()  # the calc's own force through it, per case (N): no take-down
     loc: Location = field(default=Location(""), compare=False)
+    hanger: str = ""  # the id of the hanger (Model.hangers) the upper member is carried in; "" : it sits on top
 
     def side_of(self, member_id: str) -> Side:
         return self.upper if self.upper.member == member_id else self.lower
@@ -183,6 +217,7 @@ class Model:
     factored_groups: dict[str, FactoredGroup]
     warnings: tuple[str, ...] = ()  # located, one line each: printed, never fatal
     frame: Frame | None = None  # the layout's levels and grids, where the model has a layout
+    hangers: dict[str, Hanger] = field(default_factory=dict)  # the hangers the bearings name, by id
 
     def material_of(self, member_id: str) -> Material:
         return self.materials[self.members[member_id].material]

@@ -148,11 +148,14 @@ def bearing_entry(c: Found) -> Node:
     sides: dict[str, object] = {}
     for role, p, s in (("upper", c.upper, c.upper_side), ("lower", c.lower, c.lower_side)):
         side: dict[str, object] = {"member": p.id}
-        if s.at is not None and s.length is not None:
+        if s.at is not None:
             side["at"] = metres(s.at)
+        if s.at is not None and s.length is not None:
             side["length"] = metres(s.length)
         sides[role] = side
     entry: dict[str, object] = {"id": c.id, **sides}
+    if c.hanger:
+        entry["hanger"] = c.hanger  # the seat gives the contact
     if c.width is not None:
         entry["width"] = metres(c.width)
     typical = _typical(c)
@@ -166,7 +169,8 @@ def bearing_entry(c: Found) -> Node:
         for p, s in ((c.upper, c.upper_side), (c.lower, c.lower_side))
         if s.length is not None
     )
-    entry["note"] = f"found from the layout: {c.upper.id} on {c.lower.id}" + (f", {lengths}" if lengths else "")
+    how = f" in hanger {c.hanger}, framing into its side" if c.hanger else ""
+    entry["note"] = f"found from the layout: {c.upper.id} on {c.lower.id}{how}" + (f", {lengths}" if lengths else "")
     return synth(entry, c.upper.source, "")
 
 

@@ -51,6 +51,7 @@ class Found:
     x: float
     y: float
     region: Polygon
+    hanger: str = ""  # the upper member frames into the lower's side in this hanger
 
     @property
     def id(self) -> str:
@@ -121,6 +122,10 @@ def find_contacts(placed: tuple[Placed, ...], errors: ErrorCollector, warnings: 
         elif abs(b.bottom - (a.top or 0.0)) <= LEVEL_TOLERANCE:
             upper, lower = b, a
         else:
+            framed = _framed_in(a, b, region) or _framed_in(b, a, region)
+            if framed is not None:
+                found.append(framed)
+                continue
             low, high = max(a.bottom, b.bottom), min(a.top or 0.0, b.top or 0.0)
             if high - low > LEVEL_TOLERANCE:
                 x, y = centroid(region)
@@ -170,6 +175,27 @@ def _contact(
         upper_side = _at_most(upper_side, lower.b)
         lower_side = _at_most(lower_side, upper.b)
     return Found(upper, lower, upper_side, lower_side, width, x, y, region)
+
+
+def _framed_in(carried: Placed, carrier: Placed, region: Polygon) -> Found | None:
+    """A member of a run that names a hanger, its end in the side of a horizontal member it crosses square and whose
+    top it does not rise above: a bearing in the hanger (its contact is the hanger's seat, which the model reader
+    takes from the connector pack), centred on the overlap along each member; else None."""
+    if not carried.hanger or carried.axis is None or carrier.axis is None:
+        return None
+    if (carried.top or 0.0) > (carrier.top or 0.0) + LEVEL_TOLERANCE:
+        return None
+    if abs(carried.axis.ux * carrier.axis.ux + carried.axis.uy * carrier.axis.uy) > SQUARE:
+        return None  # not square: not a hanger the layout places
+    lo, hi = extent(region, carried.axis.along)
+    if lo > LEVEL_TOLERANCE and hi < carried.axis.length - LEVEL_TOLERANCE:
+        return None  # the carrier crosses it away from its ends: not framing in
+    upper_side = _side(carried, region)
+    lower_side = _side(carrier, region)
+    x, y = centroid(region)
+    return Found(
+        carried, carrier, SideAt(upper_side.at, None), SideAt(lower_side.at, None), None, x, y, region, carried.hanger
+    )
 
 
 def _at_most(side: SideAt, length: float) -> SideAt:

@@ -33,6 +33,7 @@ def place_run(placer: Placer, item: Node) -> list[Placed]:
     drop = f.quantity("drop", "length", required=False) or 0.0
     prefix = f.text("prefix", required=False, limit=60)
     typical = f.text("typical", required=False, limit=100) or run_id
+    hanger = f.text("hanger", required=False, limit=120)
     lines = {key: pair for key in ("between", "span") if (pair := _line_pair(placer, f, item, key)) is not None}
     if not f.ok or level is None or section is None or spacing is None or len(lines) != 2:
         return []
@@ -66,7 +67,7 @@ def place_run(placer: Placer, item: Node) -> list[Placed]:
         offsets.append(reach)  # the last member of the run, ``last`` short of its far line
     centres = [lo + sign * o for o in offsets]
     name = prefix if prefix else f"{run_id}-{s0[2]}-{s1[2]}-"
-    shape = RunShape(run_id, name, typical, level, drop, section, a0[0], s0, s1, ends)
+    shape = RunShape(run_id, name, typical, level, drop, section, a0[0], s0, s1, ends, hanger)
     return _run_members(placer, f, item, shape, centres)
 
 
@@ -84,6 +85,7 @@ class RunShape:
     s0: tuple[str, float, str]
     s1: tuple[str, float, str]
     ends: tuple[tuple[str, Node], ...]
+    hanger: str = ""  # the hanger its members frame into their carriers' sides in
 
 
 def _run_members(placer: Placer, f: FieldReader, item: Node, run: RunShape, centres: list[float]) -> list[Placed]:
@@ -116,6 +118,7 @@ def _run_members(placer: Placer, f: FieldReader, item: Node, run: RunShape, cent
                 drop=drop,
                 typical=(run.typical,),
                 group=run_id,
+                hanger=run.hanger,
                 calc_ends=run.ends,
                 footprint=strip(axis, b),
             )

@@ -30,6 +30,7 @@ RUN_KEYS = {
     "drop",
     "extend",
     "typical",
+    "hanger",
     *PASSED,
 } - {
     "support",
@@ -85,6 +86,7 @@ class Placed:
     free_ends: frozenset[str] = frozenset()
     typical: tuple[str, ...] = ()
     group: str = ""  # the run a member belongs to
+    hanger: str = ""  # a run's members frame into the side of what carries them, in this hanger
     calc_ends: tuple[tuple[str, Node], ...] = ()  # (start | end, the calc's force there per case), as written
     footprint: Polygon = field(default=(), compare=False)
 

@@ -3,11 +3,13 @@
 from __future__ import annotations
 
 import math
+from dataclasses import replace
 
 from audit.core.errors import ErrorCollector, Location
 from audit.core.located_yaml import Node
 from audit.engine.contacts import longer, shorter
-from audit.engine.model import Bearing, Side, normalise_label
+from audit.engine.model import Bearing, Hanger, Side, normalise_label
+from audit.inputs.connectors import unknown_hanger
 from audit.inputs.fields import FieldReader, list_items
 from audit.inputs.model_keys import BEARING_KEYS, SIDE_KEYS
 from audit.inputs.model_members import KnownMembers, case_twin, label_list
@@ -64,7 +66,11 @@ def _read_side(node: Node, role: str, known: KnownMembers, errors: ErrorCollecto
 
 
 def read_bearings(
-    node: Node, known: KnownMembers, combos: CombinationPack, errors: ErrorCollector
+    node: Node,
+    known: KnownMembers,
+    combos: CombinationPack,
+    errors: ErrorCollector,
+    hangers: dict[str, Hanger] | None = None,
 ) -> tuple[Bearing, ...]:
     out: list[Bearing] = []
     seen: dict[str, Location] = {}
@@ -91,6 +97,12 @@ def read_bearings(
         if upper.member == lower.member:
             errors.add(f"member '{upper.member}' cannot bear on itself", item.loc)
             continue
+        hanger_id = f.text("hanger", required=False, limit=120)
+        if hanger_id:
+            seated = _in_hanger(hanger_id, hangers or {}, upper, lower, f, known, errors)
+            if seated is None:
+                continue
+            upper, lower = seated
         if not _crossing_fits(upper, lower, f, known, errors):
             continue
         bearing_id = f.text("id", required=False, limit=120) or f"{upper.member}/{lower.member}"
@@ -110,7 +122,7 @@ def read_bearings(
         calc_force = read_calc_force(f.map["calc_force"], combos, errors) if f.has("calc_force") else ()
         if calc_force is None:
             continue
-        out.append(Bearing(bearing_id, upper, lower, width, aliases, typical, note, calc_force, item.loc))
+        out.append(Bearing(bearing_id, upper, lower, width, aliases, typical, note, calc_force, item.loc, hanger_id))
     ids = {normalise_label(b.id): b.id for b in out}
     own = {normalise_label(a): b.id for b in out for a in b.aliases} | ids
     for b in out:
@@ -163,3 +175,47 @@ def _crossing_fits(upper: Side, lower: Side, f: FieldReader, known: KnownMembers
             )
             ok = False
     return ok
+
+
+def _in_hanger(
+    name: str,
+    hangers: dict[str, Hanger],
+    upper: Side,
+    lower: Side,
+    f: FieldReader,
+    known: KnownMembers,
+    errors: ErrorCollector,
+) -> tuple[Side, Side] | None:
+    """The two sides of a bearing in a hanger: the carried member (upper) on the hanger's seat, and for a top-flange
+    hanger the carrier (lower) under its flange; None, with the error, where the hanger is unknown or does not fit.
+
+    On the carried member the contact is the seat: its length along the member's grain, its width across it (no
+    wider than the member); a seat that would reach past the member's end is moved in to end at it (the member's end
+    sits in the hanger). Under a top flange the carrier is loaded over the flange length across its top and,
+    along its grain, over the hanger's width, taken as the seat's and no more than the carried member's b."""
+    hanger = hangers.get(name)
+    if hanger is None:
+        errors.add(unknown_hanger(name, hangers), f.loc("hanger"))
+        return None
+    carried, carrier = known.members[upper.member], known.members[lower.member]
+    given = [key for key, value in (("length", upper.length), ("width", upper.width)) if value is not None]
+    if f.has("width"):
+        given.append("width (on the bearing)")
+    if hanger.kind == "top-flange" and (lower.length is not None or lower.width is not None):
+        given.append("the carrier's length or width")
+    if given:
+        errors.add(f"hanger '{name}' gives the contact: state no {', '.join(given)} as well", f.loc("hanger"))
+        return None
+    if carried.vertical or carrier.vertical:
+        errors.add(f"hanger '{name}' joins two horizontal members: a carried member and its carrier", f.loc("hanger"))
+        return None
+    seat_width = hanger.seat_width if shorter(hanger.seat_width, carried.b) else None
+    at = upper.at
+    if at is not None and not shorter(carried.length, hanger.seat_length):
+        half = 0.5 * hanger.seat_length  # the member's end sits in the hanger: the seat never reaches past it
+        at = min(max(at, half), carried.length - half)
+    upper = replace(upper, at=at, length=hanger.seat_length, width=seat_width)
+    if hanger.kind == "top-flange" and hanger.flange_length is not None:
+        across = hanger.flange_length if shorter(hanger.flange_length, carrier.b) else None
+        lower = replace(lower, length=min(hanger.seat_width, carried.b), width=across)
+    return upper, lower

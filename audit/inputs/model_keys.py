@@ -55,7 +55,7 @@ MEMBER_KEYS = {
 }
 
 
-BEARING_KEYS = {"id", "upper", "lower", "width", "aliases", "typical", "note", "calc_force"}
+BEARING_KEYS = {"id", "upper", "lower", "width", "aliases", "typical", "note", "calc_force", "hanger"}
 
 
 SIDE_KEYS = {"member", "at", "length", "width", "angle"}

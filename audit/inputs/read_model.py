@@ -13,6 +13,7 @@ from pathlib import Path
 from audit.core.errors import ErrorCollector, Location
 from audit.core.located_yaml import Node, read_yaml_file
 from audit.engine.model import Frame, Model
+from audit.inputs.connectors import read_connectors
 from audit.inputs.expand_layout import Sections, model_sections
 from audit.inputs.fields import FieldReader, describe_value
 from audit.inputs.model_bearings import read_bearings
@@ -84,7 +85,8 @@ def build_model_and_sections(
     )
     placed = place_walls(members, walls, errors)
     known = KnownMembers(members, broken)
-    bearings = read_bearings(_listed(sections.bearings, root, "bearings"), known, combos, errors)
+    hangers = read_connectors(rules_dirs)
+    bearings = read_bearings(_listed(sections.bearings, root, "bearings"), known, combos, errors, hangers)
     taken = {b.id for b in bearings}
     for b in placed:
         if b.id in taken:
@@ -101,7 +103,8 @@ def build_model_and_sections(
     frame = None
     if sections.layout is not None:
         frame = Frame(dict(sections.layout.levels), dict(sections.layout.grids.x), dict(sections.layout.grids.y))
-    model = Model(name, project, materials, members, bearings, loads, groups, warnings, frame)
+    used = {h: hangers[h] for h in sorted({b.hanger for b in bearings if b.hanger})}
+    model = Model(name, project, materials, members, bearings, loads, groups, warnings, frame, used)
     return model, resistance, combos, sections
 
 

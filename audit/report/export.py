@@ -18,6 +18,7 @@ from audit.report.quantities import quantities_of
 from audit.review.comments import own_comment_threshold
 from audit.review.review import Review
 from audit.review.wording import check_name
+from audit.standards.hangers import CAPACITY, HangerCheck
 from audit.standards.resistance import CheckResult, placed_forces
 
 
@@ -89,7 +90,33 @@ def _fcp(r: CheckResult, kd: float) -> float:
     return r.inputs.modified_strength(kd)
 
 
+def hanger_record(h: HangerCheck) -> dict[str, Any]:
+    """One hanger's reaction against its listed capacity, as the JSON gives it."""
+    return {
+        "kind": CAPACITY,
+        "bearing": h.bearing,
+        "hanger": h.hanger,
+        "carried": h.carried,
+        "carrier": h.carrier,
+        "governing": h.combination,
+        "duration": h.duration,
+        "Qf_kN": round(h.qf / 1000, 3),
+        "capacity_kN": round(h.capacity / 1000, 3),
+        "capacity_taken": h.capacity_reason,
+        "utilisation": round(h.utilisation, 4),
+        "passes": h.passes,
+        "clause": h.source,
+    }
+
+
 def review_record(review: Review) -> dict[str, Any]:
+    record = _review_record(review)
+    if review.hangers:  # only where the model has hangers: the JSON of a model without them is unchanged
+        record["hangers"] = [hanger_record(h) for h in review.hangers]
+    return record
+
+
+def _review_record(review: Review) -> dict[str, Any]:
     p = review.model.project
     return {
         "tool": {"name": "bearing-audit", "version": __version__},

@@ -20,7 +20,7 @@ from audit.core.units import Display
 from audit.inputs.read_claims import Claim
 from audit.report.export import check_record, name_of
 from audit.review.comments import WEIGHT_WORDS, Comment, build_comments
-from audit.review.findings import KINDS, SEVERITIES, Finding
+from audit.review.findings import KINDS, SEVERITIES, Finding, counted
 from audit.review.pack_use import pack_use_sentence
 from audit.review.reconcile import Reconciliation, failing_without_claims
 from audit.review.review import Review, uplift_threshold
@@ -512,9 +512,7 @@ def _context(
     review: Review, reconciliation: Reconciliation | None, claims: tuple[Claim, ...], options: MemoOptions
 ) -> _Context:
     findings = reconciliation.findings if reconciliation else review.engine_findings + failing_without_claims(review)
-    counts = {k: 0 for k in KINDS}
-    for f in findings:
-        counts[f.kind] += 1
+    counts = counted(findings)
     comments = options.comments if options.comments is not None else build_comments(review, reconciliation, claims)
     shown_round = options.round if options.round is not None and options.round.previous is not None else None
     return _Context(
@@ -675,7 +673,7 @@ def appendix_view(
         "large_derivations": LARGE_DERIVATIONS,
         "has_claims": reconciliation is not None,
         "assumptions": assumptions(review),
-        "kinds": list(KINDS.values()),
+        "kinds": [KINDS[k] for k in ctx.counts],
         "weight_words": WEIGHT_WORDS,
     }
 

@@ -36,6 +36,7 @@ from audit.standards.checks import NEAR, RequiredCheck
 
 QUIET = {"covered", "confirmed", "calc-force"}  # listed for the record, after every comment that asks for something
 BY_MEMBER = {"uplift", "force-differs", "calc-force"}  # notes without a check: one comment per member and kind
+BY_MEMBER_FOR_RECORD = {"hanger-capacity", "hanger-side"}  # hangers and their side loads: one per carrier and weight
 
 
 @dataclass(frozen=True)
@@ -192,7 +193,8 @@ def build_comments(review: Review, rec: Reconciliation | None, claims: tuple[Cla
         drafts.append(_draft(key, members, review, units, claim_of, roles))
     by_member: dict[tuple, list[Finding]] = defaultdict(list)
     for f in loose:
-        alike = (f.kind, f.severity, f.member) if f.kind in BY_MEMBER else (f.kind, f.severity, f.bearing, f.claim_id)
+        per_member = f.kind in BY_MEMBER or f.kind in BY_MEMBER_FOR_RECORD
+        alike = (f.kind, f.severity, f.member) if per_member else (f.kind, f.severity, f.bearing, f.claim_id)
         by_member[alike].append(f)
     for fs in by_member.values():
         drafts.append(_loose_draft(fs, review, units, labels))

@@ -128,8 +128,43 @@ KINDS: dict[str, FindingKind] = {
             "a bearing cannot resist uplift: a tie-down is needed and the load path must be confirmed",
             "{what}: uplift through the bearing",
         ),
+        FindingKind(
+            "hanger-capacity",
+            "safety",
+            "the governing factored reaction through a hanger against the capacity the firm's listing gives it",
+            "a hanger loaded past its listed capacity may tear or pull out; within it, listed for the record",
+            "{what}: the reaction against the hanger's listed capacity",
+        ),
+        FindingKind(
+            "hanger-flange",
+            "revise",
+            "a top-flange hanger's flange reaches further across its carrier than the carrier is wide",
+            "a flange that overhangs its carrier does not bear as listed: the listed capacity and the carrier's "
+            "bearing under it assume the flange on the carrier over its full length",
+            "{what}: the carrier is narrower than the hanger's top flange",
+        ),
+        FindingKind(
+            "hanger-side",
+            "record",
+            "a face-mount hanger takes its load into the side of its carrier through fasteners",
+            "that is not a bearing on the carrier's grain: no bearing check of the carrier is made there",
+            "{what}: face-mount hangers load its side, not a bearing",
+        ),
     )
 }
+
+
+# Kinds of a part only some models have (hangers): counted and listed only where a finding of the kind was made, so
+# the summary of a model without that part is as it was.
+PART_KINDS = frozenset({"hanger-capacity", "hanger-flange", "hanger-side"})
+
+
+def counted(findings) -> dict[str, int]:
+    """Findings by kind, in the order of KINDS: every kind, but a part's kinds only where they were found."""
+    out = {k: 0 for k in KINDS}
+    for f in findings:
+        out[f.kind] += 1
+    return {k: n for k, n in out.items() if n or k not in PART_KINDS}
 
 
 @dataclass(frozen=True)

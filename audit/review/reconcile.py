@@ -17,7 +17,7 @@ from typing import Any
 from audit.core.units import Display
 from audit.inputs.read_claims import Claim
 from audit.review import wording
-from audit.review.findings import KINDS, Finding, severity_rank
+from audit.review.findings import KINDS, Finding, counted, severity_rank
 from audit.review.matching import label_index, match_claims  # noqa: F401  (label_index: for `explain`)
 from audit.review.remedies import remedy_text
 from audit.review.review import Review
@@ -89,10 +89,7 @@ class Reconciliation:
         return self._by_check[check_id]
 
     def counts(self) -> dict[str, int]:
-        out = dict.fromkeys(KINDS, 0)
-        for f in self.findings:
-            out[f.kind] += 1
-        return out
+        return counted(self.findings)
 
 
 # ---------------------------------------------------------------- comparing

@@ -12,9 +12,11 @@ from audit.engine.take_down import TakeDown, force_floor, take_down
 from audit.inputs.read_model import read_model
 from audit.review import wording
 from audit.review.findings import KINDS, Finding
+from audit.review.hanger_findings import hanger_findings
 from audit.standards.base import Standard
 from audit.standards.checks import NO_LENGTH, CheckList, RequiredCheck
 from audit.standards.combinations import LoadCombination, counteracted, load_combinations
+from audit.standards.hangers import HangerCheck, flange_fits, hanger_checks
 from audit.standards.packs import CombinationPack, PackCore
 from audit.standards.registry import standard_named
 from audit.standards.resistance import CheckResult
@@ -29,6 +31,7 @@ class Review:
     checklist: CheckList
     results: tuple[CheckResult, ...]
     engine_findings: tuple[Finding, ...]  # uplift, and supports the model does not show
+    hangers: tuple[HangerCheck, ...] = ()  # each hanger's reaction against its listed capacity
 
     @cached_property
     def combinations(self) -> tuple[LoadCombination, ...]:
@@ -107,7 +110,9 @@ def review_built(model: Model, pack: PackCore, cpack: CombinationPack) -> Review
         + unseen_support_findings(checklist)
         + calc_force_findings(model, flow, display)
     )
-    return Review(model, pack, cpack, flow, checklist, results, engine)
+    hangers = hanger_checks(model, flow, cpack)
+    engine += hanger_findings(model, hangers, flange_fits(model), display)
+    return Review(model, pack, cpack, flow, checklist, results, engine, hangers)
 
 
 def calc_force_findings(model: Model, flow: TakeDown, display: Display) -> tuple[Finding, ...]:

@@ -210,3 +210,32 @@ def unseen_support(member: str, spots: str) -> str:
         "under it (support: studs, with a stud pack under each concentrated load) or the member below; for a sill "
         "on concrete or masonry, name that material with bears_on."
     )
+
+
+def hanger_capacity(
+    bearing: str, hanger: str, combination: str, qf: float, capacity: float, how: str, source: str, d: Display
+) -> str:
+    ratio = max(qf, 0.0) / capacity
+    if ratio <= 1.0 + 1e-9:
+        verdict = f"within it (Qf/capacity {ratio:.2f}), listed for the record; nothing is asked."
+    else:
+        verdict = f"over it (Qf/capacity {ratio:.2f}): give a hanger whose listed capacity carries it."
+    return (
+        f"Hanger {hanger} at {bearing}: the factored reaction under {combination} is {d.force(qf)} against the "
+        f"listed capacity of {d.force(capacity)} ({how}; {source}); {verdict}"
+    )
+
+
+def hanger_flange(bearing: str, hanger: str, carrier: str, flange: float, width: float) -> str:
+    return (
+        f"Hanger {hanger} at {bearing}: its top flange reaches {flange * 1000:.0f} mm across {carrier}, which is "
+        f"{width * 1000:.0f} mm wide; give a hanger whose flange fits the carrier, or a carrier as wide as the flange."
+    )
+
+
+def hanger_side(carrier: str, bearing: str, carried: str, hanger: str) -> str:
+    return (
+        f"{carrier} carries {carried} (bearing {bearing}) in face-mount hanger {hanger}: the load enters its side "
+        "through the hanger's fasteners, not a bearing on its grain, so no bearing check of the carrier is made "
+        "there; noted for the record, nothing is asked."
+    )

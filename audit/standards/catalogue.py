@@ -15,6 +15,8 @@ from audit.standards.bundled import builtin_rules_dir
 from audit.standards.packs import CombinationPack, PackCore, read_combination_pack
 from audit.standards.registry import standard_named
 
+CONNECTORS = "connectors"
+
 
 def pack_files(extra_dirs: tuple[Path, ...] = ()) -> list[Path]:
     """Pack files: the reviewer's own folders first, then the bundled packs."""
@@ -48,6 +50,8 @@ def load_all_packs(
             resistance[pack.id] = pack
         elif kind_value == plausible.KIND and path.parent == builtin_rules_dir():
             continue  # the plausible ranges (standards/plausible.py): bounds, not a pack to select
+        elif kind_value == CONNECTORS:
+            continue  # a firm's connector pack (inputs/connectors.py): hangers, not a pack to select
         elif kind_value == "combinations":
             cpack = read_combination_pack(root, str(path))
             _refuse_same_id(("combinations", cpack.id), path, root, ids)

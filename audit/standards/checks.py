@@ -188,8 +188,10 @@ def _bearing_checks(model: Model, flow: TakeDown, pack: PackCore) -> tuple[list[
         # with every load scaled lists the same checks
         unloaded = not any(forces.values()) and not any(e.low for e in flow.envelopes.get(bearing.id, {}).values())
         for member, other, face in ((lower, upper, "top"), (upper, lower, "bottom")):
-            reason = _no_check_reason(model, member, pack) or (
-                "no load passes through this bearing in any load case" if unloaded else ""
+            reason = (
+                _no_check_reason(model, member, pack)
+                or ("no load passes through this bearing in any load case" if unloaded else "")
+                or (face_mount_reason(model, bearing) if face == "top" else "")
             )
             if reason:
                 exempt.append(Exempt(bearing.id, member.id, reason))
@@ -211,6 +213,18 @@ def _bearing_checks(model: Model, flow: TakeDown, pack: PackCore) -> tuple[list[
                 )
             )
     return checks, exempt
+
+
+def face_mount_reason(model: Model, bearing: Bearing) -> str:
+    """Why the carrier of a face-mount hanger gets no bearing check there ('' for any other bearing): the hanger's
+    fasteners take the load into the carrier's side, which is not a bearing on its grain."""
+    hanger = model.hangers.get(bearing.hanger)
+    if hanger is None or hanger.kind != "face-mount":
+        return ""
+    return (
+        f"face-mount hanger {hanger.id}: the load enters the side of {bearing.lower.member} through the hanger's "
+        "fasteners, not a bearing on its grain"
+    )
 
 
 def unseen_supports(model: Model, flow: TakeDown, pack: PackCore) -> tuple[Unchecked, ...]:
@@ -253,6 +267,7 @@ def _near_support_checks(
         supports_of[bearing.upper.member].append(bearing)
     loads_by_id = {load.id: load for load in model.loads}
     bearings_by_id = {b.id: b for b in model.bearings}
+    side_loaded = {b.id for b in model.bearings if face_mount_reason(model, b)}  # not on the top face: no squeeze
     out: list[RequiredCheck] = []
     errors = ErrorCollector()  # found after reading, but reported like reader errors: all, once each
     for member_id in sorted(supports_of):
@@ -260,7 +275,11 @@ def _near_support_checks(
         if member.vertical or _no_check_reason(model, member, pack):
             continue
         top = sorted(
-            (a for a in flow.on_top.get(member_id, ()) if a.kind == "point" and a.at is not None),
+            (
+                a
+                for a in flow.on_top.get(member_id, ())
+                if a.kind == "point" and a.at is not None and a.source not in side_loaded
+            ),
             key=lambda a: a.at if a.at is not None else 0.0,
         )
         if not top:
