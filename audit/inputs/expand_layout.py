@@ -16,6 +16,7 @@ from audit.core.located_yaml import Node, node_text
 from audit.inputs.area_loads import area_shares, share_entries
 from audit.inputs.layout import read_layout
 from audit.inputs.layout_contacts import Found, at_xy, find_contacts, reach_up
+from audit.inputs.layout_labels import found_labels, half_contacts
 from audit.inputs.layout_records import Layout, Placed, metres, synth
 
 
@@ -55,6 +56,7 @@ def _model_sections(top: dict[str, Node], root: Node, errors: ErrorCollector) ->
         return Sections(typed["members"], typed["bearings"], typed["loads"], None)
     placed = reach_up(layout.placed, errors)
     found = find_contacts(placed, errors, warnings)
+    warnings.extend(half_contacts(found))
     shares = area_shares(layout, placed, errors, warnings)
     origin: dict[int, str] = {}
     members = []
@@ -63,11 +65,12 @@ def _model_sections(top: dict[str, Node], root: Node, errors: ErrorCollector) ->
         origin[id(node)] = f"{p.loc}: {p.origin}"
         members.append(node)
     stated = {_pair(n) for n in typed["bearings"]}
+    labels = found_labels(layout.labels, found, {f"{u}/{lo}" for u, lo in stated}, errors)
     bearings = []
     for c in found:
         if (c.upper.id, c.lower.id) in stated:
             continue  # a bearing the reviewer gave overrides the one the geometry shows
-        node = bearing_entry(c)
+        node = bearing_entry(c, labels.get(c.id))
         origin[id(node)] = f"{c.upper.loc}: found where {c.upper.id} meets {c.lower.id} at {at_xy(c.x, c.y)}"
         bearings.append(node)
     loads = []
@@ -144,7 +147,7 @@ def _place(p: Placed) -> dict[str, object]:
     }
 
 
-def bearing_entry(c: Found) -> Node:
+def bearing_entry(c: Found, aliases: Node | None = None) -> Node:
     sides: dict[str, object] = {}
     for role, p, s in (("upper", c.upper, c.upper_side), ("lower", c.lower, c.lower_side)):
         side: dict[str, object] = {"member": p.id}
@@ -155,6 +158,8 @@ def bearing_entry(c: Found) -> Node:
     entry: dict[str, object] = {"id": c.id, **sides}
     if c.width is not None:
         entry["width"] = metres(c.width)
+    if aliases is not None:
+        entry["aliases"] = aliases  # the calc's labels, as written in layout.labels
     typical = _typical(c)
     if typical:
         entry["typical"] = list(typical)

@@ -8,7 +8,7 @@ from audit.core.errors import Location
 from audit.core.located_yaml import Node
 from audit.engine.plan_geometry import Axis, Point, Polygon
 
-LAYOUT_KEYS = {"levels", "grids", "members", "runs", "posts", "walls", "areas"}
+LAYOUT_KEYS = {"levels", "grids", "members", "runs", "posts", "walls", "areas", "labels"}
 # Fields a placed member passes to the member reader as written, so their errors point at the layout line.
 PASSED = ("material", "b", "d", "service", "KT", "support", "bears_on", "plies", "ply_thickness", "label", "studs")
 # The work is bounded per model, not per entry: ten runs each under its own cap would still place
@@ -106,6 +106,7 @@ class Layout:
     placed: tuple[Placed, ...]
     areas: Node | None  # read by area_loads, which knows the placed members
     node: Node
+    labels: Node | None = None  # found bearing id -> the calc's labels for it (read by layout_labels)
 
 
 def synth(value: object, at: Node, key: str) -> Node:

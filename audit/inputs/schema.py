@@ -176,6 +176,11 @@ LAYOUT = _obj(
                 ["id", "level", "corners", "span", "loads"],
             ),
         },
+        "labels": {
+            "type": "object",
+            "additionalProperties": {"type": "array", "items": {"type": "string"}},
+            "description": "a found bearing's id (UPPER/LOWER) -> the calc's labels for it, as a bearing's aliases",
+        },
     },
     ["levels"],
     "a framing layout: the tool places the members, finds the bearings and shares the area loads",
