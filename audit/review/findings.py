@@ -122,6 +122,14 @@ KINDS: dict[str, FindingKind] = {
             "{what}: force taken from the calc",
         ),
         FindingKind(
+            "short-bearing",
+            "revise",
+            "the end bearing of a joist or beam is shorter than the building code's minimum length of bearing",
+            "the code asks that length whatever the load: a short seat leaves no margin for the tolerances of "
+            "framing, shrinkage and the member sliding off its support",
+            "{what}: shorter than the code's minimum bearing length",
+        ),
+        FindingKind(
             "uplift",
             "revise",
             "a factored combination gives an upward force through a bearing",
