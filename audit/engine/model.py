@@ -111,6 +111,7 @@ class Side:
     angle: float | None  # angle between load and grain (rad); None means perpendicular
     width: float | None = None  # seat width across this member's grain, when a seat states it (m)
     loc: Location = field(default=Location(""), compare=False)
+    notch: float = 0.0  # depth cut out of this member at this bearing (a notched end), m: its depth there is d less it
 
 
 @dataclass(frozen=True)

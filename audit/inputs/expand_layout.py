@@ -15,7 +15,7 @@ from audit.core.errors import ErrorCollector
 from audit.core.located_yaml import Node, node_text
 from audit.inputs.area_loads import area_shares, share_entries
 from audit.inputs.layout import read_layout
-from audit.inputs.layout_contacts import Found, at_xy, find_contacts, reach_up
+from audit.inputs.layout_contacts import Found, SideAt, at_xy, find_contacts, reach_up
 from audit.inputs.layout_labels import found_labels, half_contacts
 from audit.inputs.layout_records import Layout, Placed, metres, synth
 
@@ -154,6 +154,9 @@ def bearing_entry(c: Found, aliases: Node | None = None) -> Node:
         if s.at is not None and s.length is not None:
             side["at"] = metres(s.at)
             side["length"] = metres(s.length)
+        notch = _at_end(p, s, p.notch_ends) if role == "upper" else None  # a notched end sits on its support
+        if notch is not None:
+            side["notch"] = notch  # as written on the layout entry, by the end the bearing is at
         sides[role] = side
     entry: dict[str, object] = {"id": c.id, **sides}
     if c.width is not None:
@@ -177,11 +180,16 @@ def bearing_entry(c: Found, aliases: Node | None = None) -> Node:
 
 def _calc_force_at(c: Found) -> Node | None:
     """The calc's force at this bearing, where the member above states one for the end the bearing is at."""
-    axis, at = c.upper.axis, c.upper_side.at
-    if not c.upper.calc_ends or axis is None or at is None:
+    return _at_end(c.upper, c.upper_side, c.upper.calc_ends)
+
+
+def _at_end(p: Placed, side: SideAt, by_end: tuple[tuple[str, Node], ...]) -> Node | None:
+    """What a member states for the end a bearing is at (within d of it), where it states one."""
+    axis, at = p.axis, side.at
+    if not by_end or axis is None or at is None:
         return None
-    end = "start" if at <= c.upper.d else ("end" if at >= axis.length - c.upper.d else "")
-    return next((node for name, node in c.upper.calc_ends if name == end), None)
+    end = "start" if at <= p.d else ("end" if at >= axis.length - p.d else "")
+    return next((node for name, node in by_end if name == end), None)
 
 
 def _typical(c: Found) -> tuple[str, ...]:

@@ -38,6 +38,7 @@ def place_run(placer: Placer, item: Node) -> list[Placed]:
         return []
     (a0, a1), (s0, s1) = lines["between"], lines["span"]
     ends = placer.calc_ends(f, {s0[2]: "start", s1[2]: "end"})
+    notches = placer.calc_ends(f, {s0[2]: "start", s1[2]: "end"}, "notch")
     if a0[0] == s0[0]:
         placer.errors.add("a run's 'between' and 'span' lines must cross (x lines and y lines)", item.loc)
         return []
@@ -66,7 +67,7 @@ def place_run(placer: Placer, item: Node) -> list[Placed]:
         offsets.append(reach)  # the last member of the run, ``last`` short of its far line
     centres = [lo + sign * o for o in offsets]
     name = prefix if prefix else f"{run_id}-{s0[2]}-{s1[2]}-"
-    shape = RunShape(run_id, name, typical, level, drop, section, a0[0], s0, s1, ends)
+    shape = RunShape(run_id, name, typical, level, drop, section, a0[0], s0, s1, ends, notches)
     return _run_members(placer, f, item, shape, centres)
 
 
@@ -84,6 +85,7 @@ class RunShape:
     s0: tuple[str, float, str]
     s1: tuple[str, float, str]
     ends: tuple[tuple[str, Node], ...]
+    notches: tuple[tuple[str, Node], ...] = ()
 
 
 def _run_members(placer: Placer, f: FieldReader, item: Node, run: RunShape, centres: list[float]) -> list[Placed]:
@@ -117,6 +119,7 @@ def _run_members(placer: Placer, f: FieldReader, item: Node, run: RunShape, cent
                 typical=(run.typical,),
                 group=run_id,
                 calc_ends=run.ends,
+                notch_ends=run.notches,
                 footprint=strip(axis, b),
             )
         )

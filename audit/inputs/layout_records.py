@@ -16,11 +16,12 @@ PASSED = ("material", "b", "d", "service", "KT", "support", "bears_on", "plies",
 # (50,000 bearings, about 25,000 members) is allowed.
 LAYOUT_MEMBERS = 50_000
 
-MEMBER_KEYS = {"id", "from", "to", "level", "drop", "extend", "free_ends", "calc_force", *PASSED}
+MEMBER_KEYS = {"id", "from", "to", "level", "drop", "extend", "free_ends", "calc_force", "notch", *PASSED}
 RUN_KEYS = {
     "id",
     "prefix",
     "calc_force",
+    "notch",
     "between",
     "span",
     "spacing",
@@ -86,6 +87,7 @@ class Placed:
     typical: tuple[str, ...] = ()
     group: str = ""  # the run a member belongs to
     calc_ends: tuple[tuple[str, Node], ...] = ()  # (start | end, the calc's force there per case), as written
+    notch_ends: tuple[tuple[str, Node], ...] = ()  # (start | end, the notch depth cut out at that end), as written
     footprint: Polygon = field(default=(), compare=False)
 
     @property

@@ -58,9 +58,17 @@ def _read_side(node: Node, role: str, known: KnownMembers, errors: ErrorCollecto
     if angle is not None and not 0.0 < angle <= math.pi / 2 + 1e-12:
         errors.add("angle between load and grain must be more than 0 and at most 90 deg", f.loc("angle"))
         return None
+    notch = f.quantity("notch", "length", required=False) or 0.0
+    if notch < 0.0 or not shorter(notch, member.d):
+        errors.add(
+            f"notch depth {notch * 1000:.0f} mm must be at least 0 and less than the depth of '{member_id}' "
+            f"(d = {member.d * 1000:.0f} mm)",
+            f.loc("notch"),
+        )
+        return None
     if not f.ok:
         return None
-    return Side(member_id, at, length, angle, width, node.loc)
+    return Side(member_id, at, length, angle, width, node.loc, notch)
 
 
 def read_bearings(

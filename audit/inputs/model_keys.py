@@ -58,7 +58,7 @@ MEMBER_KEYS = {
 BEARING_KEYS = {"id", "upper", "lower", "width", "aliases", "typical", "note", "calc_force"}
 
 
-SIDE_KEYS = {"member", "at", "length", "width", "angle"}
+SIDE_KEYS = {"member", "at", "length", "width", "angle", "notch"}
 TOLERANCE_KEYS = {"relative", "absolute"}
 WIND_KEYS = {"pressure", "suction"}  # W both ways, on a load or an area
 

@@ -130,6 +130,13 @@ KINDS: dict[str, FindingKind] = {
             "{what}: shorter than the code's minimum bearing length",
         ),
         FindingKind(
+            "notched-end",
+            "record",
+            "a member notched at a bearing: its depth there, and the near-support reach, are d less the notch",
+            "the notch's own shear is another clause, not checked here; the reviewer checks it under the standard",
+            "{what}: notched at the bearing, its shear not checked here",
+        ),
+        FindingKind(
             "uplift",
             "revise",
             "a factored combination gives an upward force through a bearing",

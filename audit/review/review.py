@@ -13,6 +13,7 @@ from audit.inputs.read_model import read_model
 from audit.review import wording
 from audit.review.findings import KINDS, Finding
 from audit.review.minimum_bearing import short_bearing_findings
+from audit.review.notches import notched_end_findings
 from audit.standards.base import Standard
 from audit.standards.checks import NO_LENGTH, CheckList, RequiredCheck
 from audit.standards.combinations import LoadCombination, counteracted, load_combinations
@@ -108,6 +109,7 @@ def review_built(model: Model, pack: PackCore, cpack: CombinationPack) -> Review
         + unseen_support_findings(checklist)
         + calc_force_findings(model, flow, display)
         + short_bearing_findings(model, checklist, pack.standard, display)
+        + notched_end_findings(model)
     )
     return Review(model, pack, cpack, flow, checklist, results, engine)
 
