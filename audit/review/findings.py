@@ -137,6 +137,13 @@ KINDS: dict[str, FindingKind] = {
             "{what}: notched at the bearing, its shear not checked here",
         ),
         FindingKind(
+            "no-bearing-path",
+            "revise",
+            "a post lands between the members of a floor (joists either side) and bears on none of them",
+            "nothing in the framing carries it: the load needs blocking, a rim or a member under it, or a post below",
+            "{what}: no direct bearing path under it",
+        ),
+        FindingKind(
             "uplift",
             "revise",
             "a factored combination gives an upward force through a bearing",

@@ -11,7 +11,9 @@ from audit.engine.model import Bearing, Model
 from audit.engine.take_down import TakeDown, force_floor, take_down
 from audit.inputs.read_model import read_model
 from audit.review import wording
+from audit.review.details import member_roles
 from audit.review.findings import KINDS, Finding
+from audit.review.load_path import no_path_findings
 from audit.review.minimum_bearing import short_bearing_findings
 from audit.review.notches import notched_end_findings
 from audit.standards.base import Standard
@@ -110,6 +112,7 @@ def review_built(model: Model, pack: PackCore, cpack: CombinationPack) -> Review
         + calc_force_findings(model, flow, display)
         + short_bearing_findings(model, checklist, pack.standard, display)
         + notched_end_findings(model)
+        + no_path_findings(model, member_roles(model))
     )
     return Review(model, pack, cpack, flow, checklist, results, engine)
 
