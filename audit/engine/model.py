@@ -90,6 +90,7 @@ class Member:
     note: str = field(default="", compare=False)  # where a placed member came from
     aliases: tuple[str, ...] = ()  # earlier ids of the member, so an earlier review round still matches
     loc: Location = field(default=Location(""), compare=False)
+    separation: str = ""  # a continuous member on concrete or masonry: what separates it from what is under it
 
     @property
     def ply_section(self) -> tuple[float, float] | None:
@@ -125,6 +126,7 @@ class Bearing:
     note: str = field(default="", compare=False)  # how a found bearing was found
     calc_force: tuple[tuple[str, float], ...] = ()  # the calc's own force through it, per case (N): no take-down
     loc: Location = field(default=Location(""), compare=False)
+    separation: str = ""  # what keeps timber off concrete or masonry here (a membrane, a sill gasket), as stated
 
     def side_of(self, member_id: str) -> Side:
         return self.upper if self.upper.member == member_id else self.lower

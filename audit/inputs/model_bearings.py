@@ -118,7 +118,8 @@ def read_bearings(
         calc_force = read_calc_force(f.map["calc_force"], combos, errors) if f.has("calc_force") else ()
         if calc_force is None:
             continue
-        out.append(Bearing(bearing_id, upper, lower, width, aliases, typical, note, calc_force, item.loc))
+        separation = f.text("separation", required=False, limit=200)
+        out.append(Bearing(bearing_id, upper, lower, width, aliases, typical, note, calc_force, item.loc, separation))
     ids = {normalise_label(b.id): b.id for b in out}
     own = {normalise_label(a): b.id for b in out for a in b.aliases} | ids
     for b in out:

@@ -52,10 +52,11 @@ MEMBER_KEYS = {
     "place",
     "note",
     "aliases",
+    "separation",
 }
 
 
-BEARING_KEYS = {"id", "upper", "lower", "width", "aliases", "typical", "note", "calc_force"}
+BEARING_KEYS = {"id", "upper", "lower", "width", "aliases", "typical", "note", "calc_force", "separation"}
 
 
 SIDE_KEYS = {"member", "at", "length", "width", "angle", "notch"}

@@ -144,6 +144,14 @@ KINDS: dict[str, FindingKind] = {
             "{what}: no direct bearing path under it",
         ),
         FindingKind(
+            "no-separation",
+            "clarify",
+            "untreated timber bears on concrete or masonry and the model states no separation between them",
+            "wood in contact with concrete or masonry takes up its moisture: the code asks for a membrane, a sill "
+            "gasket or treated wood there",
+            "{what}: no separation from concrete or masonry stated",
+        ),
+        FindingKind(
             "uplift",
             "revise",
             "a factored combination gives an upward force through a bearing",

@@ -16,6 +16,7 @@ from audit.review.findings import KINDS, Finding
 from audit.review.load_path import no_path_findings
 from audit.review.minimum_bearing import short_bearing_findings
 from audit.review.notches import notched_end_findings
+from audit.review.separation import no_separation_findings
 from audit.standards.base import Standard
 from audit.standards.checks import NO_LENGTH, CheckList, RequiredCheck
 from audit.standards.combinations import LoadCombination, counteracted, load_combinations
@@ -113,6 +114,7 @@ def review_built(model: Model, pack: PackCore, cpack: CombinationPack) -> Review
         + short_bearing_findings(model, checklist, pack.standard, display)
         + notched_end_findings(model)
         + no_path_findings(model, member_roles(model))
+        + no_separation_findings(model)
     )
     return Review(model, pack, cpack, flow, checklist, results, engine)
 
