@@ -90,6 +90,7 @@ class Member:
     note: str = field(default="", compare=False)  # where a placed member came from
     aliases: tuple[str, ...] = ()  # earlier ids of the member, so an earlier review round still matches
     loc: Location = field(default=Location(""), compare=False)
+    separation: str = ""  # a continuous member on concrete or masonry: what separates it from what is under it
 
     @property
     def ply_section(self) -> tuple[float, float] | None:
@@ -111,6 +112,7 @@ class Side:
     angle: float | None  # angle between load and grain (rad); None means perpendicular
     width: float | None = None  # seat width across this member's grain, when a seat states it (m)
     loc: Location = field(default=Location(""), compare=False)
+    notch: float = 0.0  # depth cut out of this member at this bearing (a notched end), m: its depth there is d less it
 
 
 HANGER_KINDS = ("face-mount", "top-flange")
@@ -158,6 +160,7 @@ class Bearing:
     calc_force: tuple[tuple[str, float], ...] = ()  # the calc's own force through it, per case (N): no take-down
     loc: Location = field(default=Location(""), compare=False)
     hanger: str = ""  # the id of the hanger (Model.hangers) the upper member is carried in; "" : it sits on top
+    separation: str = ""  # what keeps timber off concrete or masonry here (a membrane, a sill gasket), as stated
 
     def side_of(self, member_id: str) -> Side:
         return self.upper if self.upper.member == member_id else self.lower

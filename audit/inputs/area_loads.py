@@ -25,6 +25,10 @@ from audit.inputs.model_keys import WIND_KEYS
 
 AREA_KEYS = {"id", "level", "corners", "span", "loads", "live", "openings", "carried_by"}
 Rect = tuple[float, float, float, float]  # x0, y0, x1, y1
+# An edge member whose strip out to the area's edge is 1.4 times its neighbour's (or more) is warned:
+# the edge strip is most likely carried by a rim or wall the layout does not name (the threshold of the issue
+# that asked for the warning; common practice, not a code value).
+EDGE_STRIP_RATIO = 1.4
 
 
 @dataclass(frozen=True)
@@ -185,6 +189,7 @@ def _shares(item: Node, read, placed: tuple[Placed, ...], errors: ErrorCollector
     pieces: dict[str, list[list[float]]] = {}  # member -> [[s0, s1, width, n, count]]
     words: dict[str, str] = {}
     taken = 0.0
+    heavy: dict[str, tuple[float, str, float, float]] = {}  # edge member -> its width, neighbour's, the edge
     groups: dict[tuple[float, float], list[Placed]] = {}  # members of one run share their span range
     for p in carriers:
         groups.setdefault(ranges[p.id], []).append(p)
@@ -195,11 +200,13 @@ def _shares(item: Node, read, placed: tuple[Placed, ...], errors: ErrorCollector
             key=lambda p: _cross(p, span),
         )
         across = _openings_across(openings, span, mid)
+        widths: list[tuple[Placed, float]] = []
         for n, p in enumerate(here):
             c = _cross(p, span)
             left = c_lo if n == 0 else (_cross(here[n - 1], span) + c) / 2
             right = c_hi if n == len(here) - 1 else (c + _cross(here[n + 1], span)) / 2
             width = right - left - _covered(across, left, right)
+            widths.append((p, right - left))  # the strip as the rule gives it, openings aside
             if width <= 1e-9:
                 continue
             taken += width * (s1 - s0)
@@ -209,6 +216,15 @@ def _shares(item: Node, read, placed: tuple[Placed, ...], errors: ErrorCollector
                 runs[-1][1] = s1
             else:
                 runs.append([s0, s1, width])
+        for name, seen in heavy_edges(widths, (c_lo, c_hi)).items():
+            heavy.setdefault(name, seen)
+    for name, (width, neighbour, other, edge) in heavy.items():
+        warnings.append(
+            f"{item.loc}: area '{area_id}': '{name}', the member nearest its edge at {edge:g} m, takes the strip "
+            f"out to that edge: {width * 1000:.0f} mm wide, {width / other:.2f} times the {other * 1000:.0f} mm "
+            f"of '{neighbour}'; if a rim, wall or blocking carries that edge, give the area's 'carried_by' "
+            "or bring its corner to the first member"
+        )
     out: list[Share] = []
     for p in carriers:
         for s0, s1, width in pieces.get(p.id, []):
@@ -219,6 +235,20 @@ def _shares(item: Node, read, placed: tuple[Placed, ...], errors: ErrorCollector
             f"{item.loc}: area '{area_id}': {whole - taken:.3f} m2 of its {whole:.3f} m2 reach no member "
             "(the members spanning it stop short of its edges)"
         )
+    return out
+
+
+def heavy_edges(
+    widths: list[tuple[Placed, float]], edges: tuple[float, float]
+) -> dict[str, tuple[float, str, float, float]]:
+    """Edge members of one slice whose strip out to the area's edge is at least ``EDGE_STRIP_RATIO`` times
+    their neighbour's: the rule that gives the edge strip to the first member then loads it well past the rest."""
+    out: dict[str, tuple[float, str, float, float]] = {}
+    if len(widths) < 2:
+        return out
+    for (p, width), (q, other), edge in ((widths[0], widths[1], edges[0]), (widths[-1], widths[-2], edges[1])):
+        if other > 1e-9 and width >= EDGE_STRIP_RATIO * other - 1e-9:
+            out[p.id] = (width, q.id, other, edge)
     return out
 
 

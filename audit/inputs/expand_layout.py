@@ -15,7 +15,8 @@ from audit.core.errors import ErrorCollector
 from audit.core.located_yaml import Node, node_text
 from audit.inputs.area_loads import area_shares, share_entries
 from audit.inputs.layout import read_layout
-from audit.inputs.layout_contacts import Found, at_xy, find_contacts, reach_up
+from audit.inputs.layout_contacts import Found, SideAt, at_xy, find_contacts, reach_up
+from audit.inputs.layout_labels import found_labels, half_contacts
 from audit.inputs.layout_records import Layout, Placed, metres, synth
 
 
@@ -55,6 +56,7 @@ def _model_sections(top: dict[str, Node], root: Node, errors: ErrorCollector) ->
         return Sections(typed["members"], typed["bearings"], typed["loads"], None)
     placed = reach_up(layout.placed, errors)
     found = find_contacts(placed, errors, warnings)
+    warnings.extend(half_contacts(found))
     shares = area_shares(layout, placed, errors, warnings)
     origin: dict[int, str] = {}
     members = []
@@ -63,11 +65,12 @@ def _model_sections(top: dict[str, Node], root: Node, errors: ErrorCollector) ->
         origin[id(node)] = f"{p.loc}: {p.origin}"
         members.append(node)
     stated = {_pair(n) for n in typed["bearings"]}
+    labels = found_labels(layout.labels, found, {f"{u}/{lo}" for u, lo in stated}, errors)
     bearings = []
     for c in found:
         if (c.upper.id, c.lower.id) in stated:
             continue  # a bearing the reviewer gave overrides the one the geometry shows
-        node = bearing_entry(c)
+        node = bearing_entry(c, labels.get(c.id))
         origin[id(node)] = f"{c.upper.loc}: found where {c.upper.id} meets {c.lower.id} at {at_xy(c.x, c.y)}"
         bearings.append(node)
     loads = []
@@ -144,7 +147,7 @@ def _place(p: Placed) -> dict[str, object]:
     }
 
 
-def bearing_entry(c: Found) -> Node:
+def bearing_entry(c: Found, aliases: Node | None = None) -> Node:
     sides: dict[str, object] = {}
     for role, p, s in (("upper", c.upper, c.upper_side), ("lower", c.lower, c.lower_side)):
         side: dict[str, object] = {"member": p.id}
@@ -152,12 +155,17 @@ def bearing_entry(c: Found) -> Node:
             side["at"] = metres(s.at)
         if s.at is not None and s.length is not None:
             side["length"] = metres(s.length)
+        notch = _at_end(p, s, p.notch_ends) if role == "upper" else None  # a notched end sits on its support
+        if notch is not None:
+            side["notch"] = notch  # as written on the layout entry, by the end the bearing is at
         sides[role] = side
     entry: dict[str, object] = {"id": c.id, **sides}
     if c.hanger:
         entry["hanger"] = c.hanger  # the seat gives the contact
     if c.width is not None:
         entry["width"] = metres(c.width)
+    if aliases is not None:
+        entry["aliases"] = aliases  # the calc's labels, as written in layout.labels
     typical = _typical(c)
     if typical:
         entry["typical"] = list(typical)
@@ -176,11 +184,16 @@ def bearing_entry(c: Found) -> Node:
 
 def _calc_force_at(c: Found) -> Node | None:
     """The calc's force at this bearing, where the member above states one for the end the bearing is at."""
-    axis, at = c.upper.axis, c.upper_side.at
-    if not c.upper.calc_ends or axis is None or at is None:
+    return _at_end(c.upper, c.upper_side, c.upper.calc_ends)
+
+
+def _at_end(p: Placed, side: SideAt, by_end: tuple[tuple[str, Node], ...]) -> Node | None:
+    """What a member states for the end a bearing is at (within d of it), where it states one."""
+    axis, at = p.axis, side.at
+    if not by_end or axis is None or at is None:
         return None
-    end = "start" if at <= c.upper.d else ("end" if at >= axis.length - c.upper.d else "")
-    return next((node for name, node in c.upper.calc_ends if name == end), None)
+    end = "start" if at <= p.d else ("end" if at >= axis.length - p.d else "")
+    return next((node for name, node in by_end if name == end), None)
 
 
 def _typical(c: Found) -> tuple[str, ...]:

@@ -63,7 +63,7 @@ def read_layout(node: Node, errors: ErrorCollector) -> Layout | None:
         if p.id in seen:
             errors.add(f"duplicate member id '{p.id}' in the layout (also at {seen[p.id]})", p.loc)
         seen.setdefault(p.id, p.loc)
-    return Layout(levels, grids, tuple(placed), f.map.get("areas"), node)
+    return Layout(levels, grids, tuple(placed), f.map.get("areas"), node, f.map.get("labels"))
 
 
 def _read_levels(f: FieldReader, errors: ErrorCollector) -> dict[str, float] | None:

@@ -39,6 +39,7 @@ def place_run(placer: Placer, item: Node) -> list[Placed]:
         return []
     (a0, a1), (s0, s1) = lines["between"], lines["span"]
     ends = placer.calc_ends(f, {s0[2]: "start", s1[2]: "end"})
+    notches = placer.calc_ends(f, {s0[2]: "start", s1[2]: "end"}, "notch")
     if a0[0] == s0[0]:
         placer.errors.add("a run's 'between' and 'span' lines must cross (x lines and y lines)", item.loc)
         return []
@@ -67,7 +68,7 @@ def place_run(placer: Placer, item: Node) -> list[Placed]:
         offsets.append(reach)  # the last member of the run, ``last`` short of its far line
     centres = [lo + sign * o for o in offsets]
     name = prefix if prefix else f"{run_id}-{s0[2]}-{s1[2]}-"
-    shape = RunShape(run_id, name, typical, level, drop, section, a0[0], s0, s1, ends, hanger)
+    shape = RunShape(run_id, name, typical, level, drop, section, a0[0], s0, s1, ends, hanger, notches)
     return _run_members(placer, f, item, shape, centres)
 
 
@@ -86,6 +87,7 @@ class RunShape:
     s1: tuple[str, float, str]
     ends: tuple[tuple[str, Node], ...]
     hanger: str = ""  # the hanger its members frame into their carriers' sides in
+    notches: tuple[tuple[str, Node], ...] = ()
 
 
 def _run_members(placer: Placer, f: FieldReader, item: Node, run: RunShape, centres: list[float]) -> list[Placed]:
@@ -120,6 +122,7 @@ def _run_members(placer: Placer, f: FieldReader, item: Node, run: RunShape, cent
                 group=run_id,
                 hanger=run.hanger,
                 calc_ends=run.ends,
+                notch_ends=run.notches,
                 footprint=strip(axis, b),
             )
         )

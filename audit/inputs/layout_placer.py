@@ -165,6 +165,7 @@ class Placer:
         drop = f.quantity("drop", "length", required=False) or 0.0
         free = self.free_ends(f)
         ends = self.calc_ends(f, {"start": "start", "end": "end"})
+        notches = self.calc_ends(f, {"start": "start", "end": "end"}, "notch")
         if not f.ok or level is None or section is None or start is None or end is None or free is None:
             return []
         axis = self.horizontal_axis(f, start, end, f"member '{member_id}'")
@@ -187,27 +188,29 @@ class Placer:
                 drop=drop,
                 free_ends=free,
                 calc_ends=ends,
+                notch_ends=notches,
                 footprint=strip(axis, b),
             )
         ]
 
-    def calc_ends(self, f: FieldReader, names: dict[str, str]) -> tuple[tuple[str, Node], ...]:
-        """``calc_force`` by end: {start: {D: .., L: ..}, end: ..}, or for a run by its span lines {A: .., B: ..}."""
-        if not f.has("calc_force"):
+    def calc_ends(self, f: FieldReader, names: dict[str, str], key: str = "calc_force") -> tuple[tuple[str, Node], ...]:
+        """``calc_force`` (or ``notch``) by end: {start: {D: .., L: ..}, end: ..}, or for a run by its span lines
+        {A: .., B: ..}."""
+        if not f.has(key):
             return ()
-        node = f.map["calc_force"]
+        node = f.map[key]
         if not isinstance(node.value, dict):
-            self.errors.add(f"calc_force gives the calc's force at each end by {' or '.join(names)}", node.loc)
+            self.errors.add(f"{key} gives its value at each end by {' or '.join(names)}", node.loc)
             f.ok = False
             return ()
         out = []
-        for key, forces in node.value.items():
-            if key not in names:
-                hint = did_you_mean(key, names)
-                self.errors.add(f"calc_force: '{key}' is not an end here{hint} (ends: {', '.join(names)})", forces.loc)
+        for end, given in node.value.items():
+            if end not in names:
+                hint = did_you_mean(end, names)
+                self.errors.add(f"{key}: '{end}' is not an end here{hint} (ends: {', '.join(names)})", given.loc)
                 f.ok = False
                 continue
-            out.append((names[key], forces))
+            out.append((names[end], given))
         return tuple(out)
 
     def free_ends(self, f: FieldReader) -> frozenset[str] | None:

@@ -8,7 +8,7 @@ from audit.core.errors import Location
 from audit.core.located_yaml import Node
 from audit.engine.plan_geometry import Axis, Point, Polygon
 
-LAYOUT_KEYS = {"levels", "grids", "members", "runs", "posts", "walls", "areas"}
+LAYOUT_KEYS = {"levels", "grids", "members", "runs", "posts", "walls", "areas", "labels"}
 # Fields a placed member passes to the member reader as written, so their errors point at the layout line.
 PASSED = ("material", "b", "d", "service", "KT", "support", "bears_on", "plies", "ply_thickness", "label", "studs")
 # The work is bounded per model, not per entry: ten runs each under its own cap would still place
@@ -16,11 +16,12 @@ PASSED = ("material", "b", "d", "service", "KT", "support", "bears_on", "plies",
 # (50,000 bearings, about 25,000 members) is allowed.
 LAYOUT_MEMBERS = 50_000
 
-MEMBER_KEYS = {"id", "from", "to", "level", "drop", "extend", "free_ends", "calc_force", *PASSED}
+MEMBER_KEYS = {"id", "from", "to", "level", "drop", "extend", "free_ends", "calc_force", "notch", *PASSED}
 RUN_KEYS = {
     "id",
     "prefix",
     "calc_force",
+    "notch",
     "between",
     "span",
     "spacing",
@@ -88,6 +89,7 @@ class Placed:
     group: str = ""  # the run a member belongs to
     hanger: str = ""  # a run's members frame into the side of what carries them, in this hanger
     calc_ends: tuple[tuple[str, Node], ...] = ()  # (start | end, the calc's force there per case), as written
+    notch_ends: tuple[tuple[str, Node], ...] = ()  # (start | end, the notch depth cut out at that end), as written
     footprint: Polygon = field(default=(), compare=False)
 
     @property
@@ -108,6 +110,7 @@ class Layout:
     placed: tuple[Placed, ...]
     areas: Node | None  # read by area_loads, which knows the placed members
     node: Node
+    labels: Node | None = None  # found bearing id -> the calc's labels for it (read by layout_labels)
 
 
 def synth(value: object, at: Node, key: str) -> Node:

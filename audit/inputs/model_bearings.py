@@ -60,9 +60,17 @@ def _read_side(node: Node, role: str, known: KnownMembers, errors: ErrorCollecto
     if angle is not None and not 0.0 < angle <= math.pi / 2 + 1e-12:
         errors.add("angle between load and grain must be more than 0 and at most 90 deg", f.loc("angle"))
         return None
+    notch = f.quantity("notch", "length", required=False) or 0.0
+    if notch < 0.0 or not shorter(notch, member.d):
+        errors.add(
+            f"notch depth {notch * 1000:.0f} mm must be at least 0 and less than the depth of '{member_id}' "
+            f"(d = {member.d * 1000:.0f} mm)",
+            f.loc("notch"),
+        )
+        return None
     if not f.ok:
         return None
-    return Side(member_id, at, length, angle, width, node.loc)
+    return Side(member_id, at, length, angle, width, node.loc, notch)
 
 
 def read_bearings(
@@ -122,7 +130,12 @@ def read_bearings(
         calc_force = read_calc_force(f.map["calc_force"], combos, errors) if f.has("calc_force") else ()
         if calc_force is None:
             continue
-        out.append(Bearing(bearing_id, upper, lower, width, aliases, typical, note, calc_force, item.loc, hanger_id))
+        separation = f.text("separation", required=False, limit=200)
+        out.append(
+            Bearing(
+                bearing_id, upper, lower, width, aliases, typical, note, calc_force, item.loc, hanger_id, separation
+            )
+        )
     ids = {normalise_label(b.id): b.id for b in out}
     own = {normalise_label(a): b.id for b in out for a in b.aliases} | ids
     for b in out:

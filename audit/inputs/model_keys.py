@@ -52,13 +52,14 @@ MEMBER_KEYS = {
     "place",
     "note",
     "aliases",
+    "separation",
 }
 
 
-BEARING_KEYS = {"id", "upper", "lower", "width", "aliases", "typical", "note", "calc_force", "hanger"}
+BEARING_KEYS = {"id", "upper", "lower", "width", "aliases", "typical", "note", "calc_force", "hanger", "separation"}
 
 
-SIDE_KEYS = {"member", "at", "length", "width", "angle"}
+SIDE_KEYS = {"member", "at", "length", "width", "angle", "notch"}
 TOLERANCE_KEYS = {"relative", "absolute"}
 WIND_KEYS = {"pressure", "suction"}  # W both ways, on a load or an area
 

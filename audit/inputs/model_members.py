@@ -99,6 +99,7 @@ def read_members(
             note=f.text("note", required=False),
             aliases=label_list(f, "aliases", "aliases must be a list of earlier ids", errors) or (),
             loc=item.loc,
+            separation=f.text("separation", required=False, limit=200),
         )
         if wall is not None:
             walls.append(wall)

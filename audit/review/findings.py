@@ -122,6 +122,36 @@ KINDS: dict[str, FindingKind] = {
             "{what}: force taken from the calc",
         ),
         FindingKind(
+            "short-bearing",
+            "revise",
+            "the end bearing of a joist or beam is shorter than the building code's minimum length of bearing",
+            "the code asks that length whatever the load: a short seat leaves no margin for the tolerances of "
+            "framing, shrinkage and the member sliding off its support",
+            "{what}: shorter than the code's minimum bearing length",
+        ),
+        FindingKind(
+            "notched-end",
+            "record",
+            "a member notched at a bearing: its depth there, and the near-support reach, are d less the notch",
+            "the notch's own shear is another clause, not checked here; the reviewer checks it under the standard",
+            "{what}: notched at the bearing, its shear not checked here",
+        ),
+        FindingKind(
+            "no-bearing-path",
+            "revise",
+            "a post lands between the members of a floor (joists either side) and bears on none of them",
+            "nothing in the framing carries it: the load needs blocking, a rim or a member under it, or a post below",
+            "{what}: no direct bearing path under it",
+        ),
+        FindingKind(
+            "no-separation",
+            "clarify",
+            "untreated timber bears on concrete or masonry and the model states no separation between them",
+            "wood in contact with concrete or masonry takes up its moisture: the code asks for a membrane, a sill "
+            "gasket or treated wood there",
+            "{what}: no separation from concrete or masonry stated",
+        ),
+        FindingKind(
             "uplift",
             "revise",
             "a factored combination gives an upward force through a bearing",
@@ -154,9 +184,20 @@ KINDS: dict[str, FindingKind] = {
 }
 
 
-# Kinds of a part only some models have (hangers): counted and listed only where a finding of the kind was made, so
-# the summary of a model without that part is as it was.
-PART_KINDS = frozenset({"hanger-capacity", "hanger-flange", "hanger-side"})
+# Kinds of a part or detail only some models have (hangers, notches, seats on concrete, posts between joists, short
+# seats): counted and listed only where a finding of the kind was made, so a letter's summary stays on its first page
+# and lists what this building has.
+PART_KINDS = frozenset(
+    {
+        "hanger-capacity",
+        "hanger-flange",
+        "hanger-side",
+        "short-bearing",
+        "notched-end",
+        "no-bearing-path",
+        "no-separation",
+    }
+)
 
 
 def counted(findings) -> dict[str, int]:

@@ -11,8 +11,13 @@ from audit.engine.model import Bearing, Model
 from audit.engine.take_down import TakeDown, force_floor, take_down
 from audit.inputs.read_model import read_model
 from audit.review import wording
+from audit.review.details import member_roles
 from audit.review.findings import KINDS, Finding
 from audit.review.hanger_findings import hanger_findings
+from audit.review.load_path import no_path_findings
+from audit.review.minimum_bearing import short_bearing_findings
+from audit.review.notches import notched_end_findings
+from audit.review.separation import no_separation_findings
 from audit.standards.base import Standard
 from audit.standards.checks import NO_LENGTH, CheckList, RequiredCheck
 from audit.standards.combinations import LoadCombination, counteracted, load_combinations
@@ -109,6 +114,10 @@ def review_built(model: Model, pack: PackCore, cpack: CombinationPack) -> Review
         uplift_findings(results, threshold, whose, factors, display, cpack.counteracting_dead.value)
         + unseen_support_findings(checklist)
         + calc_force_findings(model, flow, display)
+        + short_bearing_findings(model, checklist, pack.standard, display)
+        + notched_end_findings(model)
+        + no_path_findings(model, member_roles(model))
+        + no_separation_findings(model)
     )
     hangers = hanger_checks(model, flow, cpack)
     engine += hanger_findings(model, hangers, flange_fits(model), display)

@@ -239,3 +239,20 @@ def hanger_side(carrier: str, bearing: str, carried: str, hanger: str) -> str:
         "through the hanger's fasteners, not a bearing on its grain, so no bearing check of the carrier is made "
         "there; noted for the record, nothing is asked."
     )
+
+
+def short_bearing(
+    bearing: str, member: str, role: str, length: float, minimum: float, clause: str, status: str, d: Display
+) -> str:
+    return (
+        f"Bearing {bearing}: the {role} {member} bears {_length(length, d)} along its grain, less than the "
+        f"{_length(minimum, d)} {clause} asks at the end of a {role} (the value is {status}). Give a longer seat "
+        f"or show that {clause} does not apply."
+    )
+
+
+def _length(metres: float, d: Display) -> str:
+    """A bearing length in the project's units: mm (SI), inches to a hundredth (US)."""
+    if d.force_unit in ("lbf", "kip"):
+        return f"{metres / 0.0254:.2f} in"
+    return f"{metres * 1000:.0f} mm"

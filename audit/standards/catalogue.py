@@ -10,7 +10,7 @@ from pathlib import Path
 
 from audit.core.errors import InputError, Location
 from audit.core.located_yaml import Node, read_yaml_file
-from audit.standards import plausible
+from audit.standards import minimum_bearing, plausible
 from audit.standards.bundled import builtin_rules_dir
 from audit.standards.packs import CombinationPack, PackCore, read_combination_pack
 from audit.standards.registry import standard_named
@@ -48,8 +48,8 @@ def load_all_packs(
             pack = standard.read_pack(root, str(path))
             _refuse_same_id(("resistance", pack.id), path, root, ids)
             resistance[pack.id] = pack
-        elif kind_value == plausible.KIND and path.parent == builtin_rules_dir():
-            continue  # the plausible ranges (standards/plausible.py): bounds, not a pack to select
+        elif kind_value in (plausible.KIND, minimum_bearing.KIND) and path.parent == builtin_rules_dir():
+            continue  # plausible ranges and minimum bearing lengths: bundled data, not a pack to select
         elif kind_value == CONNECTORS:
             continue  # a firm's connector pack (inputs/connectors.py): hangers, not a pack to select
         elif kind_value == "combinations":

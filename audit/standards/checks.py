@@ -286,8 +286,9 @@ def _near_support_checks(
             continue
         spread_loads = [a for a in flow.on_top.get(member_id, ()) if a.kind == "uniform"] if count_spread else []
         positions = [cast(float, a.at) for a in top]  # filtered above: every one is placed
-        limit = reach * member.d
         for support in supports_of[member_id]:
+            depth = depth_at(member, support)
+            limit = reach * depth  # a notched end: the depth left at the support is what the load squeezes through
             x = cast(float, support.upper.at)  # a support of a horizontal member is placed along it
             tie = 0.5 * LENGTH_RESOLUTION  # a load d away to the stated resolution is within d, in SI and US input
             near = top[bisect_left(positions, x - limit - tie) : bisect_right(positions, x + limit + tie)]
@@ -326,8 +327,8 @@ def _near_support_checks(
                     angle=None,
                     other_member=lower.id,
                     why=(
-                        f"{names} on the top of {member_id} within d = {member.d * 1000:.0f} mm of the "
-                        f"support on {lower.id}: the load squeezes through the depth"
+                        f"{names} on the top of {member_id} within d = {depth * 1000:.0f} mm of the "
+                        f"support on {lower.id}{_notched(member, support)}: the load squeezes through the depth"
                     ),
                     spread=tuple((item.source, within) for item, within in spread),
                     spread_forces=dict(spread_forces),
@@ -336,6 +337,16 @@ def _near_support_checks(
             )
     errors.raise_if_any()
     return out
+
+
+def depth_at(member: Member, bearing: Bearing) -> float:
+    """The member's depth at a bearing: its d, less the notch cut out of it there."""
+    return member.d - bearing.side_of(member.id).notch
+
+
+def _notched(member: Member, bearing: Bearing) -> str:
+    notch = bearing.side_of(member.id).notch
+    return f" (d {member.d * 1000:.0f} mm notched {notch * 1000:.0f} mm there)" if notch > 0.0 else ""
 
 
 def _near_envelope(near: list[AppliedForce], spread_forces: Forces) -> dict[str, Envelope]:
