@@ -1,5 +1,7 @@
 """The reviewer's map for an IFC import: the file's material names to the model's material ids.
 
+A map file::
+
     names:                      # IFC material name -> the model's material id
       Lumber SPF No.2: SPF-2
     materials:                  # optional: copied as the written model's materials section
@@ -53,11 +55,16 @@ def read_map(path: Path) -> MaterialMap:
     if f.has("names"):
         node = f.map["names"]
         if not isinstance(node.value, dict):
-            errors.add(f"'names' maps each IFC material name to a material id, got {describe_value(node.value)}", node.loc)
+            errors.add(
+                f"'names' maps each IFC material name to a material id, got {describe_value(node.value)}", node.loc
+            )
         else:
             for name, target in node.value.items():
                 if target.value is None or isinstance(target.value, (dict, list)):
-                    errors.add(f"expected a material id for IFC material '{name}', got {describe_value(target.value)}", target.loc)
+                    errors.add(
+                        f"expected a material id for IFC material '{name}', got {describe_value(target.value)}",
+                        target.loc,
+                    )
                     continue
                 names[str(name)] = node_text(target)
                 where[str(name)] = target.loc

@@ -132,9 +132,7 @@ def write_layout(framing: IfcFraming, mapping: MaterialMap | None) -> WrittenLay
     return WrittenLayout(text, tuple(warnings))
 
 
-def _materials(
-    framing: IfcFraming, ids: list[str], mapping: MaterialMap | None
-) -> tuple[dict[str, str], list[str]]:
+def _materials(framing: IfcFraming, ids: list[str], mapping: MaterialMap | None) -> tuple[dict[str, str], list[str]]:
     """Each IFC material name's model id, and one warning per unmapped material naming every member of it."""
     users: dict[str, list[str]] = {}
     bare: list[str] = []
@@ -148,14 +146,14 @@ def _materials(
     where = (mapping.names_loc or Location(mapping.file)) if mapping is not None else Location(framing.path)
     material_of: dict[str, str] = {}
     warnings: list[str] = []
-    for material, who in users.items():
+    for material, members in users.items():
         if material in names:
             material_of[material] = names[material]
             continue
         material_of[material] = material  # the name kept as the id: the review names it until it is mapped
         hint = "add it to the map's names" if mapping is not None else "give --map with its model material"
         warnings.append(
-            f"{where}: IFC material '{material}' is not mapped ({hint}); used by {len(who)}: {', '.join(who)}"
+            f"{where}: IFC material '{material}' is not mapped ({hint}); used by {len(members)}: {', '.join(members)}"
         )
     if bare:
         warnings.append(f"{Location(framing.path)}: no material associated; {len(bare)} members: {', '.join(bare)}")
