@@ -248,6 +248,17 @@ def _bad_building(path: Path, schema: str) -> dict[str, str]:
     for rel in loose.ContainedInStructure:
         rel.RelatedElements = [e for e in rel.RelatedElements if e != loose]
     cases["outside every storey"] = "M-loose"
+    # a wall whose framing the file does not carry
+    writer.wall("W-plain", "Level 1", (2.0, 2.0, 0.0))
+    cases["carries no framing members"] = "W-plain"
+    # an I-shaped post (its outline is not its contact) and, read, an I-joist by its flange width
+    i_shape = f.createIfcIShapeProfileDef(
+        "AREA", None, f.createIfcAxis2Placement2D(f.createIfcCartesianPoint([0.0, 0.0]), None), 64.0, 302.0, 9.5, 38.0
+    )
+    post = {**base.__dict__, "name": "C-I", "axis": (0.0, 0.0, 1.0), "x_dir": (1.0, 0.0, 0.0)}
+    writer.piece(make_ifc.Piece(**post), profile=i_shape)
+    cases["an I-shaped post"] = "C-I"
+    writer.piece(make_ifc.Piece(**{**base.__dict__, "name": "J-I"}), profile=i_shape)
     f.write(str(path))
     return cases
 
@@ -267,8 +278,10 @@ def test_each_member_that_cannot_be_read_is_one_line_naming_it_and_the_rest_is_r
         assert len(lines) == 1, (name, err)
         assert reason in lines[0] and guid[name] in lines[0]
     data = yaml.safe_load(out.read_text(encoding="utf-8"))
-    placed = {e["id"] for e in data["layout"]["members"] + data["layout"]["posts"]}
-    assert placed == {p.name for p in make_ifc.building()}
+    placed = {e["id"]: e for e in data["layout"]["members"] + data["layout"]["posts"]}
+    assert set(placed) == {p.name for p in make_ifc.building()} | {"J-I"}
+    # the I-joist: 64 mm flanges (its overall width, what bears), 302 mm deep, as its profile states
+    assert (placed["J-I"]["b"], placed["J-I"]["d"]) == ("64 mm", "302 mm")
 
 
 def test_a_file_that_is_not_ifc_is_one_line_and_exit_2(tmp_path, capsys):

@@ -124,6 +124,7 @@ def read_framing(path: Path) -> IfcFraming:
                 materials = _material_names(element)
                 if len(materials) > 1:
                     several.append(f"{_who(element)}: several materials ({', '.join(materials)}); read as the first")
+    left_out += _walls_without_framing(model)
     project = next(iter(model.by_type("IfcProject")), None)
     return IfcFraming(
         str(path),
@@ -135,6 +136,19 @@ def read_framing(path: Path) -> IfcFraming:
         tuple(left_out),
         tuple(several),
     )
+
+
+def _walls_without_framing(model: Any) -> list[str]:
+    """A wall whose studs and plates the file carries is read through them (they are its parts); a wall
+    that carries none is one line: its framing is not in the file."""
+    import ifcopenshell.util.element as util
+
+    lines = []
+    for wall in model.by_type("IfcWall"):
+        parts = util.get_decomposition(wall)
+        if not any(part.is_a(framing) for part in parts for framing in FRAMING_CLASSES):
+            lines.append(f"{_who(wall)}: carries no framing members (studs, plates): give it as a layout wall")
+    return lines
 
 
 def _who(element: Any) -> str:
@@ -275,12 +289,17 @@ def _profile_frame(profile: Any) -> tuple[tuple[float, float], tuple[float, floa
     return (centre[0], centre[1]), (x[0] / n, x[1] / n)
 
 
-def _section(profile: Any) -> tuple[float, float] | str:
-    """(XDim, YDim) of a rectangular profile in file units, or why it is not read."""
+def _section(profile: Any) -> tuple[float, float, str] | str:
+    """(size along the profile's X, along its Y, shape) in file units, or why it is not read.
+
+    An I-shape is read by its overall width and depth: a level I-section bears on its flange, whose width
+    is the overall width."""
     kind = profile.is_a()
     if kind in ("IfcRectangleProfileDef", "IfcRoundedRectangleProfileDef", "IfcRectangleHollowProfileDef"):
-        return float(profile.XDim), float(profile.YDim)
-    return f"profile {kind} is not rectangular: only rectangular sections are read"
+        return float(profile.XDim), float(profile.YDim), "rectangle"
+    if kind == "IfcIShapeProfileDef":
+        return float(profile.OverallWidth), float(profile.OverallDepth), "I"
+    return f"profile {kind} is not rectangular or I-shaped: only those sections are read"
 
 
 def _piece(element: Any, scale: float, storeys: dict[str, str]) -> tuple[Piece | None, str]:
@@ -313,13 +332,17 @@ def _piece(element: Any, scale: float, storeys: dict[str, str]) -> tuple[Piece |
     x_world = _unit(_apply(world, (x2[0], x2[1], 0.0), 0.0))
     start = (start[0] * scale, start[1] * scale, start[2] * scale)
     end = (end[0] * scale, end[1] * scale, end[2] * scale)
-    x_dim, y_dim = section[0] * scale, section[1] * scale
+    x_dim, y_dim, shape = section[0] * scale, section[1] * scale, section[2]
     material = next(iter(_material_names(element)), None)
     name = (element.Name or "").strip()
     common = (element.GlobalId, name, element.is_a())
     if abs(axis[2]) >= math.cos(math.radians(SQUARE_DEGREES)):
+        if shape == "I":  # its outline is not its contact: the flanges and web bear, or a cap plate
+            return None, "an I-shaped post: its contact is not its outline; give its cap or base plate by hand"
         return _post(common, start, end, x_world, x_dim, y_dim, material, storey)
     if abs(axis[2]) <= _SIN_SQUARE:
+        if shape == "I" and abs(x_world[2]) > _SIN_SQUARE:
+            return None, "an I-section lying on its side: only an upright I-section is read"
         return _member(common, start, end, x_world, x_dim, y_dim, material, storey)
     slope = math.degrees(math.asin(min(1.0, abs(axis[2]))))
     return None, f"skewed: its axis slopes at {slope:.1f} degrees; only level and plumb members are read"
