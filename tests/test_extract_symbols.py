@@ -53,15 +53,18 @@ def test_an_en_1995_claims_file_names_kc90_and_the_characteristic_strength_and_r
 
 
 @pytest.mark.parametrize(
-    ("demo", "strength", "duration"),
+    ("demo", "strength", "duration", "force", "resist"),
     [
-        # each standard's own words (EN 1995-1-1 6.1.5 with kmod of 3.1.3; NDS Fc-perp adjusted by CM and Ct, no
-        # load-duration factor, NDS 2.3.2): no O86 word in another standard's explanation
-        ("demo-ec5", "kmod fc,90,k =", "kmod ="),
-        ("demo-nds", "Fc-perp CM Ct =", "no "),
+        # each standard's own words (EN 1995-1-1 6.1.5 with kmod of 3.1.3, Fc,90,d its design force (eq. 6.4) and
+        # Fc,90,Rd the resistance as practice writes it; NDS Fc-perp adjusted by CM and Ct, no load-duration factor,
+        # NDS 2.3.2, and P <= P' as US practice writes the check (common practice)): no O86 word in another's text
+        ("demo-ec5", "kmod fc,90,k =", "kmod =", "Fc,90,d", "Fc,90,Rd"),
+        ("demo-nds", "Fc-perp CM Ct =", "no ", "P", "P'"),
     ],
 )
-def test_explain_names_the_strength_and_duration_factor_in_the_standards_own_symbols(demo, strength, duration):
+def test_explain_names_the_forces_strength_and_duration_factor_in_the_standards_own_symbols(
+    demo, strength, duration, force, resist
+):
     from pathlib import Path
 
     from typer.testing import CliRunner
@@ -72,6 +75,7 @@ def test_explain_names_the_strength_and_duration_factor_in_the_standards_own_sym
     table = CliRunner().invoke(app, ["review", str(model)]).output.splitlines()
     check_id = table[2].split()[0]
     text = CliRunner().invoke(app, ["explain", str(model), check_id]).output
-    rows = [line for line in text.splitlines() if " Qf = " in line]
-    assert rows and all(strength in row and duration in row for row in rows)
-    assert "Fcp =" not in text and "KD =" not in text
+    rows = [line for line in text.splitlines() if f" {force} = " in line]
+    assert rows and all(strength in row and duration in row and f" {resist} = " in row for row in rows)
+    assert f"({force}/{resist} = " in text.splitlines()[-1] or f"({force}/{resist} = " in text
+    assert "Fcp =" not in text and "KD =" not in text and "Qf" not in text and "Qr =" not in text

@@ -101,6 +101,7 @@ class _Toy:
     length_factor: str = ""
     symbols: dict[str, Symbol] = field(default_factory=lambda: SYMBOLS)
     column_symbols: tuple[str, str] = ("no duration factor", "fb")
+    force_symbols: tuple[str, str] = ("Pd", "Pr")
     combination_formats: tuple[str, ...] = ("limit-states",)
     claim_headers: dict[str, str] = field(default_factory=dict)
 

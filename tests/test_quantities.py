@@ -96,7 +96,7 @@ def test_explain_of_a_us_project_gives_inches_kip_and_psi():
     assert 'Contact on the bottom face: 3" along the grain' in text
     assert '1 1/2" across' in text and '1 1/2" from the member end' in text
     assert "D = 0.18 kip, S = 0.30 kip" in text
-    assert "Fc-perp CM Ct =   625 psi" in text and "Qr =     2.81 kip" in text
+    assert "Fc-perp CM Ct =   625 psi" in text and "P' =     2.81 kip" in text
     assert " kN" not in text and "MPa" not in text
 
 

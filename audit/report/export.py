@@ -285,6 +285,7 @@ def explain(review: Review, check_id: str) -> str:
             )
     combos = {c.name: c for c in review.combinations}
     duration_symbol, strength_symbol = review.standard.column_symbols  # each standard's own words
+    force, resist = review.standard.force_symbols  # Qf/Qr, P/P', Fc,90,d/Fc,90,Rd
     for x in r.combinations:
         mark = "  <- governs" if x is r.governing else ""
         combo = combos.get(x.combination)
@@ -295,14 +296,15 @@ def explain(review: Review, check_id: str) -> str:
             else (duration_symbol if duration_symbol.startswith("no ") else f"{duration_symbol} = {x.kd:.2f}")
         )
         lines.append(
-            f"  {x.combination:28s} Qf = {q.force(x.qf, 8)}  {reason:60.60s}  "
+            f"  {x.combination:28s} {force} = {q.force(x.qf, 8)}  {reason:60.60s}  "
             f"{strength_symbol} = {q.stress(_fcp(r, x.kd), 5)}  "
-            f"Qr = {q.force(x.qr, 8)}  Qf/Qr = {x.utilisation:.3f}{mark}"
+            f"{resist} = {q.force(x.qr, 8)}  {force}/{resist} = {x.utilisation:.3f}{mark}"
         )
         if x.pattern:
             lines.append(f"      placed: {x.pattern}")
     verdict = "passes" if r.passes else "FAILS"
-    lines.append(f"Result: {verdict} (Qf/Qr = {r.governing.utilisation:.3f} under {r.governing.combination})")
+    governing = r.governing
+    lines.append(f"Result: {verdict} ({force}/{resist} = {governing.utilisation:.3f} under {governing.combination})")
     if r.uplift:
         lines.append(f"Uplift (upward force) under: {', '.join(r.uplift)}")
     return "\n".join(lines)

@@ -48,6 +48,10 @@ class Standard(Protocol):
         ...
 
     @property
+    def force_symbols(self) -> tuple[str, str]:  # its symbols of the force on a check and its resistance (Qf, Qr)
+        ...
+
+    @property
     def combination_formats(self) -> tuple[str, ...]:  # formats of combination pack it reads
         ...
 

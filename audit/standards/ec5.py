@@ -374,6 +374,7 @@ class _Ec5:
         "kmod",
         "kmod fc,90,k",
     )  # the JSON columns of the duration factor and the strength it modifies
+    force_symbols: tuple[str, str] = ("Fc,90,d", "Fc,90,Rd")  # EN 1995: design force, design resistance
     combination_formats: tuple[str, ...] = ("EN 1990",)
     # how its calc sheets mark decimals, for the PDF reader: a comma in most countries that use it (common
     # practice; British and Irish sheets print points: extract --decimal-mark point)

@@ -314,6 +314,7 @@ class _Nds:
         "no duration factor",
         "Fc-perp CM Ct",
     )  # the JSON columns of the duration factor and the strength it modifies
+    force_symbols: tuple[str, str] = ("P", "P'")  # NDS: the force on the bearing, its adjusted capacity
     combination_formats: tuple[str, ...] = ("ASD", "LRFD")
     claim_headers: dict[str, str] = field(
         default_factory=lambda: {

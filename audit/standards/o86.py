@@ -430,6 +430,7 @@ class _O86:
         "KD",
         "Fcp",
     )  # the JSON columns of the duration factor and the strength it modifies
+    force_symbols: tuple[str, str] = ("Qf", "Qr")  # CSA O86: factored force, factored resistance
     combination_formats: tuple[str, ...] = ("limit-states",)
     claim_headers: dict[str, str] = field(default_factory=dict)  # the default headers are O86's (Qf, Qr, KB)
 
