@@ -249,3 +249,19 @@ def test_the_framing_demo_expands_and_reads_back_with_its_hangers(tmp_path, run_
     assert "hanger: HG-1" in out.read_text(encoding="utf-8")
     again = review_model(out, (DEMO / "rules",))
     assert len(again.hangers) == 12
+
+
+def test_a_hanger_comments_place_rows_carry_the_reaction_and_the_listed_capacity(rules):
+    from audit.report.comment_log import comment_rows
+    from audit.review.comments import build_comments
+
+    review = review_with(hung("HG-1"), rules)
+    claims = claims_from([])
+    comments = build_comments(review, reconcile(review, claims), claims)
+    (comment,) = [c for c in comments if c.kind == "hanger-capacity"]
+    (place,) = comment.places
+    # by hand (above): 8.43 kN under 1.25D + 1.5L against the 6.0 kN the invented listing gives for standard term
+    numbers = {n.quantity: n.recomputed for n in place.compared}
+    assert numbers == pytest.approx({"Qf": QF_J1 / 1000, "capacity": 6.0}, rel=1e-3)
+    rows = [r for r in comment_rows(comments) if r[2] == "hanger-capacity"]
+    assert [(r[10], r[11]) for r in rows] == [("Qf", "kN"), ("capacity", "kN")]

@@ -98,7 +98,10 @@ def _place_lines(c: Comment) -> str:
             unit = f" {n.unit}" if n.unit else ""
             claimed = "not claimed" if n.claimed is None else f"{n.claimed:.2f}{unit}"
             recomputed = "" if n.recomputed is None else f"{n.recomputed:.2f}{unit}"
-            numbers.append(f"{n.quantity} claimed {claimed}, recomputed {recomputed}")
+            if n.quantity == "capacity":  # a hanger's listed capacity: the firm's listing, not a recomputed number
+                numbers.append(f"listed capacity {recomputed}")
+            else:
+                numbers.append(f"{n.quantity} claimed {claimed}, recomputed {recomputed}")
         lines.append(where + (": " + "; ".join(numbers) if numbers else ""))
     return "\n".join(lines)
 

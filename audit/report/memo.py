@@ -291,7 +291,7 @@ def _place_view(p) -> dict[str, Any]:
         (
             n.quantity,
             n.unit,
-            "not claimed" if n.claimed is None else f"{n.claimed:.2f}",
+            ("listed" if n.quantity == "capacity" else "not claimed") if n.claimed is None else f"{n.claimed:.2f}",
             "" if n.recomputed is None else f"{n.recomputed:.2f}",
         )
         for n in p.compared

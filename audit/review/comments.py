@@ -41,7 +41,7 @@ BY_MEMBER_FOR_RECORD = {"hanger-capacity", "hanger-side"}  # hangers and their s
 
 @dataclass(frozen=True)
 class Compared:
-    quantity: str  # Qf | Qr | Qf/Qr
+    quantity: str  # Qf | Qr | Qf/Qr | capacity (a hanger's listed capacity)
     unit: str  # kN, or "" for a ratio
     claimed: float | None  # in ``unit``; None where the calc gives none
     recomputed: float | None
@@ -126,6 +126,9 @@ def _place(findings: list[Finding], review: Review, units: dict[str, str] | None
         compared.append(Compared("Qf", unit, None, d.value(lead.numbers["qf"])))
         if "qr" in lead.numbers:
             compared.append(Compared("Qr", unit, None, d.value(lead.numbers["qr"])))
+    elif not compared and "capacity" in lead.numbers:  # a hanger: its reaction against the firm's listed capacity
+        compared.append(Compared("Qf", unit, None, d.value(lead.numbers["qf"])))
+        compared.append(Compared("capacity", unit, None, d.value(lead.numbers["capacity"])))
     return Place(
         check_id=lead.check_id,
         bearing=lead.bearing,
@@ -133,7 +136,7 @@ def _place(findings: list[Finding], review: Review, units: dict[str, str] | None
         member=lead.member,
         claim_id=claim_id,
         page=next((f.page for f in findings if f.page), ""),
-        compared=tuple(sorted(compared, key=lambda c: ("Qf", "Qr", "Qf/Qr").index(c.quantity))),
+        compared=tuple(sorted(compared, key=lambda c: ("Qf", "Qr", "Qf/Qr", "capacity").index(c.quantity))),
         points=tuple(f.message for f in sorted(findings, key=lambda f: severity_rank(f.severity))),
     )
 
